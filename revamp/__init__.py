@@ -1,0 +1,2 @@
+"""revamp: heat-exchanger revamp studies."""
+__version__ = "0.1.0"

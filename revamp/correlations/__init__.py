@@ -1,0 +1,1 @@
+"""Published heat-transfer and pressure-drop correlations as pure, array-native functions."""

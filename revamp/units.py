@@ -1,0 +1,218 @@
+"""Units: parse user inputs (SI numbers or strings with a unit) to SI floats or arrays, and convert for display.
+
+The core works in SI only: K, W, m, kg/s, Pa, m²·K/W, W/m²·K. Inputs may be a number (taken as SI), a numpy array
+(taken as SI), or a string with a unit such as ``"390 degF"``, ``"43800 lb/h"`` or ``"0.002 h*ft**2*degF/BTU"``.
+
+Examples
+--------
+>>> round(to_si("390 degF", "temperature", "t_in"), 2)
+472.04
+>>> round(to_si("43800 lb/h", "mass_flow", "flow"), 4)
+5.5187
+>>> to_si(300.0, "temperature", "t_in")
+300.0
+"""
+from __future__ import annotations
+
+import numbers
+from functools import lru_cache
+
+import numpy as np
+import pint
+
+from .errors import InputError
+
+__all__ = ["ureg", "to_si", "DIMENSIONS", "from_si", "DISPLAY_UNITS", "format_quantity"]
+
+ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+ureg.define("BTU = Btu")  # spelling used on data sheets
+
+# quantity kind -> (SI unit, pint dimensionality check unit, words for messages)
+DIMENSIONS: dict[str, tuple[str, str]] = {
+    "temperature": ("kelvin", "a temperature (K, or e.g. '390 degF', '30 degC')"),
+    "temperature_difference": ("delta_degC", "a temperature difference (K, or e.g. '10 delta_degF')"),
+    "length": ("meter", "a length (m, or e.g. '25.4 mm', '16 ft')"),
+    "area": ("meter**2", "an area (m², or e.g. '1200 ft**2')"),
+    "mass_flow": ("kilogram/second", "a mass flow (kg/s, or e.g. '43800 lb/h')"),
+    "pressure": ("pascal", "a pressure (Pa, or e.g. '10 psi', '0.7 bar')"),
+    "velocity": ("meter/second", "a velocity (m/s, or e.g. '6 ft/s')"),
+    "density": ("kilogram/meter**3", "a density (kg/m³)"),
+    "heat_capacity": ("joule/kilogram/kelvin", "a specific heat capacity (J/kg·K, or e.g. '0.5 BTU/lb/degF')"),
+    "viscosity": ("pascal*second", "a dynamic viscosity (Pa·s, or e.g. '1.2 cP')"),
+    "kinematic_viscosity": ("meter**2/second", "a kinematic viscosity (m²/s, or e.g. '5 cSt')"),
+    "conductivity": ("watt/meter/kelvin", "a thermal conductivity (W/m·K, or e.g. '26 BTU/h/ft/degF')"),
+    "htc": ("watt/meter**2/kelvin", "a heat-transfer coefficient (W/m²·K, or e.g. '100 BTU/h/ft**2/degF')"),
+    "fouling": ("meter**2*kelvin/watt", "a fouling resistance (m²·K/W, or e.g. '0.002 h*ft**2*degF/BTU')"),
+    "power": ("watt", "a heat duty (W, or e.g. '5 MW', '10e6 BTU/h')"),
+    "modulus": ("pascal", "an elastic modulus (Pa, or e.g. '200 GPa')"),
+    "time": ("second", "a duration (s, or e.g. '30 day', '8000 h')"),
+    "energy": ("joule", "an energy (J, or e.g. '1 GJ', '1 MMBTU')"),
+    "dimensionless": ("dimensionless", "a plain number"),
+}
+
+# the unit a delta temperature must be converted in: a difference, not an offset temperature
+_DELTA = {"degC": "delta_degC", "degF": "delta_degF", "degR": "delta_degF", "°C": "delta_degC", "°F": "delta_degF"}
+
+
+@lru_cache(maxsize=4096)
+def _parse_string(text: str, kind: str) -> float:
+    si_unit, words = DIMENSIONS[kind]
+    try:
+        if kind == "temperature_difference":
+            q = ureg.Quantity(text)
+            units = str(q.units)
+            if units in ("degree_Celsius", "degC"):
+                q = ureg.Quantity(q.magnitude, "delta_degC")
+            elif units in ("degree_Fahrenheit", "degF"):
+                q = ureg.Quantity(q.magnitude, "delta_degF")
+        else:
+            q = ureg.Quantity(text)
+    except Exception as exc:  # pint raises many types: undefined unit, syntax, ...
+        raise ValueError(f"cannot read {text!r} as a number with a unit ({exc.__class__.__name__})") from None
+    if not isinstance(q, pint.Quantity):
+        q = ureg.Quantity(q, "dimensionless")
+    if not isinstance(q.magnitude, numbers.Real):
+        raise ValueError(f"{text!r} is not a real number with a unit")
+    try:
+        return float(q.to(si_unit).magnitude)
+    except pint.DimensionalityError:
+        raise ValueError(f"{text!r} has dimension {q.dimensionality}, not {words}") from None
+
+
+def to_si(value, kind: str, field: str = "value"):
+    """Convert a user value to SI.
+
+    Parameters
+    ----------
+    value : float, int, array_like, str, or pint.Quantity
+        A number or array (taken as SI already), or a string with a unit, or a pint quantity.
+    kind : str
+        The quantity kind, a key of :data:`DIMENSIONS` (e.g. ``"temperature"``, ``"mass_flow"``).
+    field : str
+        The field name used in error messages.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The value in SI units [K, m, kg/s, Pa, ...].
+
+    Raises
+    ------
+    InputError
+        On an unknown unit, a wrong dimension, a non-number or a non-finite value.
+    """
+    if kind not in DIMENSIONS:
+        raise InputError("kind", kind, f"one of {sorted(DIMENSIONS)}")
+    si_unit, words = DIMENSIONS[kind]
+    if isinstance(value, bool) or value is None:
+        raise InputError(field, value, words)
+    if isinstance(value, str):
+        try:
+            out = _parse_string(value.strip(), kind)
+        except ValueError as exc:
+            raise InputError(field, value, f"{words}; {exc}") from None
+    elif isinstance(value, pint.Quantity):
+        try:
+            out = value.to(si_unit).magnitude
+        except pint.DimensionalityError:
+            raise InputError(field, str(value), words) from None
+        out = np.asarray(out, dtype=float) if not isinstance(out, numbers.Real) else float(out)
+    elif isinstance(value, numbers.Real):
+        out = float(value)
+    else:
+        try:
+            arr = np.asarray(value, dtype=float)
+        except (TypeError, ValueError):
+            raise InputError(field, value, words) from None
+        if arr.ndim == 0:
+            out = float(arr)
+        else:
+            out = arr
+    if not np.all(np.isfinite(out)):
+        raise InputError(field, value, f"{words}, finite (no NaN or infinity)")
+    return out
+
+
+def require(value, field: str, *, gt=None, ge=None, lt=None, le=None, what: str = ""):
+    """Check an SI value (scalar or array) against bounds; raise :class:`InputError` naming the field otherwise.
+
+    Returns the value unchanged so that it can be used inline.
+    """
+    arr = np.asarray(value)
+    conds = []
+    ok = np.ones(arr.shape, dtype=bool)
+    if gt is not None:
+        ok &= arr > gt
+        conds.append(f"> {gt:g}")
+    if ge is not None:
+        ok &= arr >= ge
+        conds.append(f">= {ge:g}")
+    if lt is not None:
+        ok &= arr < lt
+        conds.append(f"< {lt:g}")
+    if le is not None:
+        ok &= arr <= le
+        conds.append(f"<= {le:g}")
+    if not np.all(ok):
+        bad = arr if arr.ndim == 0 else arr[~ok].flat[0]
+        text = f"{float(bad):g}" if arr.ndim == 0 else f"{float(bad):g} (first bad element of an array)"
+        raise InputError(field, text, f"{what + ' ' if what else ''}{' and '.join(conds)}".strip())
+    return value
+
+
+# ----------------------------------------------------------------------------------------------------------- display
+DISPLAY_UNITS = {
+    "SI": {
+        "temperature": "degC", "temperature_difference": "delta_degC", "length": "mm", "area": "m**2",
+        "mass_flow": "kg/s", "pressure": "kPa", "velocity": "m/s", "htc": "W/m**2/K", "fouling": "m**2*K/W",
+        "power": "kW", "density": "kg/m**3", "heat_capacity": "kJ/kg/K", "viscosity": "mPa*s",
+        "conductivity": "W/m/K", "dimensionless": "dimensionless",
+    },
+    "US": {
+        "temperature": "degF", "temperature_difference": "delta_degF", "length": "inch", "area": "ft**2",
+        "mass_flow": "lb/h", "pressure": "psi", "velocity": "ft/s", "htc": "BTU/h/ft**2/degF",
+        "fouling": "h*ft**2*degF/BTU", "power": "BTU/h", "density": "lb/ft**3", "heat_capacity": "BTU/lb/degF",
+        "viscosity": "cP", "conductivity": "BTU/h/ft/degF", "dimensionless": "dimensionless",
+    },
+}
+
+_SYMBOLS = {"degC": "°C", "degF": "°F", "delta_degC": "K", "delta_degF": "°F", "m**2": "m²", "W/m**2/K": "W/m²·K",
+            "m**2*K/W": "m²·K/W", "ft**2": "ft²", "BTU/h/ft**2/degF": "BTU/h·ft²·°F", "h*ft**2*degF/BTU":
+            "h·ft²·°F/BTU", "kg/m**3": "kg/m³", "lb/ft**3": "lb/ft³", "kJ/kg/K": "kJ/kg·K", "BTU/lb/degF":
+            "BTU/lb·°F", "mPa*s": "mPa·s", "W/m/K": "W/m·K", "BTU/h/ft/degF": "BTU/h·ft·°F", "inch": "in",
+            "dimensionless": ""}
+
+
+def from_si(value, kind: str, system: str = "SI"):
+    """Convert an SI value (scalar or array) to the display unit of ``system`` ("SI" or "US").
+
+    Returns
+    -------
+    (value, unit_label) : tuple
+        The converted magnitude and a printable unit label.
+
+    Examples
+    --------
+    >>> v, u = from_si(373.15, "temperature", "US"); (round(v, 2), u)
+    (212.0, '°F')
+    """
+    if system not in DISPLAY_UNITS:
+        raise InputError("units", system, "'SI' or 'US'")
+    if kind not in DISPLAY_UNITS[system]:
+        raise InputError("kind", kind, f"one of {sorted(DISPLAY_UNITS[system])}")
+    target = DISPLAY_UNITS[system][kind]
+    si_unit = DIMENSIONS[kind][0]
+    mag = ureg.Quantity(np.asarray(value, dtype=float), si_unit).to(target).magnitude
+    if np.ndim(mag) == 0:
+        mag = float(mag)
+    return mag, _SYMBOLS.get(target, target)
+
+
+def format_quantity(value, kind: str, system: str = "SI", digits: int = 4) -> str:
+    """A printable string of an SI value in the display units of ``system``.
+
+    >>> format_quantity(0.0254, "length", "US")
+    '1 in'
+    """
+    mag, label = from_si(value, kind, system)
+    return f"{mag:.{digits}g} {label}".strip()
