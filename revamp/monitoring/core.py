@@ -1,0 +1,406 @@
+"""``monitor()``: plant data -> measured U, fouling resistance with its band, trend, projection and cleaning interval.
+
+The steps, each in its own module: read and flag the data (:mod:`.data`), keep steady windows (:mod:`.steady`),
+reconcile the heat balance (:mod:`.reconcile`), then
+
+- U_actual [W/m²K, outside area] from the reconciled duty through the exchanger's effectiveness-NTU relation
+  (ε = Q/(C_min·ΔT_inlets), NTU from :func:`revamp.thermal.ntu_from_effectiveness` with
+  :func:`revamp.rating.arrangement`, U = NTU·C_min/A);
+- U_clean from one vectorized :func:`revamp.rating.rate` call with no fouling at the reconciled flows and inlets;
+- Rf = 1/U_actual − 1/U_clean [m²K/W, outside area];
+- a Monte Carlo band: ``mc_draws`` copies of the measurements with Gaussian errors of the stated standard deviations
+  go through the same reconciliation, NTU inversion and clean rating (all draws × rows in vectorized calls, chunked
+  to bound memory); Rf_low/Rf_high are percentiles of the draws;
+- fouling trend models fitted to the steady, unflagged rows (:mod:`revamp.fouling.models`, chosen by AIC);
+- duty and cost lost to fouling to date; projection of Rf and duty; the optimal cleaning interval (:mod:`.cleaning`).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from ..errors import InputError
+from ..fouling.models import FoulingFit, film_temperature, fit_best
+from ..units import require, to_si
+from .cleaning import CleaningInterval, optimal_cleaning_interval
+from .data import COLUMNS, read_plant_data
+from .reconcile import reconcile_heat_balance
+from .steady import steady_state
+
+__all__ = ["monitor", "Monitoring", "DEFAULT_UNCERTAINTY"]
+
+#: Standard deviations (1σ) of the measurements: flows relative [-], temperatures absolute [K].
+DEFAULT_UNCERTAINTY = {"flow": 0.02, "temperature": 0.5}
+_X = list(COLUMNS[1:])  # shell_flow, shell_t_in, shell_t_out, tube_flow, tube_t_in, tube_t_out
+
+
+@dataclass(frozen=True)
+class Monitoring:
+    """What the plant data says about the exchanger.
+
+    Attributes
+    ----------
+    table : pandas.DataFrame
+        One row per data row: measurements (SI), ``duty_shell``, ``duty_tube``, ``balance_error`` [-], ``duty``
+        (reconciled) [W], ``U_actual``, ``U_clean`` [W/m²K], ``Rf``, ``Rf_low``, ``Rf_high`` [m²K/W, outside area],
+        ``effectiveness``, ``effectiveness_clean``, ``effectiveness_ratio`` [-], ``duty_clean``, ``duty_lost`` [W],
+        ``Re_tube``, ``Pr_tube``, ``T_film`` [K], ``shear_tube`` [Pa], ``run_time`` [s], ``steady``, ``flag``,
+        ``used`` (steady and unflagged: enters the fit).
+    summary : pandas.Series
+        Row counts by reason, current Rf with band, fouling rate, chosen model, projection, interval, losses.
+    trend : FoulingFit or None
+        The model chosen by AIC (None when too few rows are usable).
+    fits : dict
+        Every model tried: name -> FoulingFit or the reason it could not be fitted.
+    counts : dict
+        Rows per flag reason (nothing is dropped without a count).
+    reference : dict
+        The conditions used for projection (medians of the last tenth of the used rows): flows, inlets [SI].
+    cleaning : CleaningInterval or None
+    """
+
+    table: pd.DataFrame
+    summary: pd.Series
+    trend: FoulingFit | None
+    fits: dict
+    counts: dict
+    reference: dict
+    cleaning: CleaningInterval | None
+    exchanger: object = field(repr=False)
+    service: object = field(repr=False)
+    _duty_curve: tuple = field(repr=False, default=())
+
+    def duty_at(self, rf):
+        """Duty [W] at the reference conditions with a fouling resistance ``rf`` [m²K/W, outside area]."""
+        grid, duty = self._duty_curve
+        return np.interp(np.asarray(rf, dtype=float), grid, duty)
+
+    def project(self, run_time) -> pd.DataFrame:
+        """Projected Rf [m²K/W] and duty [W] at run times [s or strings such as ``"300 day"``] from the trend."""
+        if self.trend is None:
+            raise InputError("trend", None, "a fitted fouling model (too few steady, unflagged rows)")
+        t = np.atleast_1d(np.asarray([to_si(v, "time", "run_time") for v in np.atleast_1d(run_time)], dtype=float))
+        rf = np.asarray(self.trend(t), dtype=float)
+        return pd.DataFrame({"run_time": t, "Rf": rf, "duty": self.duty_at(rf)})
+
+
+# ------------------------------------------------------------------------------------------------------- helpers
+def _sigmas(uncertainty, x):
+    """Standard deviations per row and measurement, shape like x (n, 6)."""
+    spec = dict(DEFAULT_UNCERTAINTY)
+    for key, val in (uncertainty or {}).items():
+        if key not in ("flow", "temperature", *_X):
+            raise InputError(f"uncertainty.{key}", key, f"'flow', 'temperature' or one of {_X}")
+        spec[key] = val
+    sig = np.empty_like(x)
+    for j, col in enumerate(_X):
+        is_flow = col.endswith("flow")
+        val = spec.get(col, spec["flow" if is_flow else "temperature"])
+        if is_flow:
+            v = require(to_si(val, "dimensionless", f"uncertainty.{col}"), f"uncertainty.{col}", gt=0,
+                        what="a relative standard deviation")
+            sig[:, j] = v * np.abs(x[:, j])
+        else:
+            v = require(to_si(val, "temperature_difference", f"uncertainty.{col}"), f"uncertainty.{col}", gt=0,
+                        what="a standard deviation [K]")
+            sig[:, j] = v
+    return sig
+
+
+def _u_actual(xr, duty, cp_s, cp_t, area, arrangement, shells):
+    """U [W/m²K, outside area] and effectiveness from reconciled measurements (arrays of any shape)."""
+    from .. import thermal
+
+    C_s, C_t = xr[..., 0] * cp_s, xr[..., 3] * cp_t
+    c_min, c_max = np.minimum(C_s, C_t), np.maximum(C_s, C_t)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        cr = np.clip(c_min / c_max, 0.0, 1.0)
+        eps = duty / (c_min * np.abs(xr[..., 1] - xr[..., 4]))
+    ok = np.isfinite(eps) & np.isfinite(cr) & (eps > 0) & (eps < 1)
+    ntu = np.full(eps.shape, np.nan)
+    if ok.any():
+        e_max = np.asarray(thermal.max_effectiveness(cr[ok], arrangement, shells))
+        inside = eps[ok] < e_max
+        vals = np.asarray(thermal.ntu_from_effectiveness(np.where(inside, eps[ok], 0.5 * e_max), cr[ok],
+                                                         arrangement, shells), dtype=float)
+        ntu[ok] = np.where(inside, vals, np.nan)
+    return ntu * c_min / area, eps
+
+
+def _rate_clean(exchanger, service, xr, chunk):
+    """One clean rating of every case in xr (..., 6), in chunks of at most ``chunk`` cases."""
+    from ..rating import rate
+    from ..service import Service, Stream
+
+    flat = xr.reshape(-1, 6)
+    keys = ("U_clean", "duty", "effectiveness", "Re_tube", "Pr_tube", "t_wall_tube", "shear_tube")
+    out = {k: np.full(flat.shape[0], np.nan) for k in keys}
+    warnings: list = []
+    good = np.all(np.isfinite(flat), axis=1) & (flat[:, 0] > 0) & (flat[:, 3] > 0) & (flat[:, 1] != flat[:, 4])
+    idx = np.flatnonzero(good)
+    for start in range(0, idx.size, chunk):
+        sel = idx[start:start + chunk]
+        svc = Service(shell=Stream(service.shell.fluid, flat[sel, 0], flat[sel, 1]),
+                      tube=Stream(service.tube.fluid, flat[sel, 3], flat[sel, 4]), fouling_shell=0.0, fouling_tube=0.0)
+        r = rate(exchanger, svc)
+        for k in keys:
+            out[k][sel] = np.asarray(getattr(r, k), dtype=float).ravel()
+        warnings.extend(r.warnings)
+    return {k: v.reshape(xr.shape[:-1]) for k, v in out.items()}, list(dict.fromkeys(warnings))
+
+
+def _cp(fluid, T):
+    T = np.asarray(T, dtype=float)
+    out = np.full(T.shape, np.nan)
+    ok = np.isfinite(T)
+    if ok.any():
+        Tc = np.clip(T[ok], fluid.t_min, fluid.t_max - 1e-6 * max(fluid.t_max, 1.0))
+        out[ok] = np.asarray(fluid.props(Tc).heat_capacity, dtype=float) * np.ones(Tc.shape)
+    return out
+
+
+# --------------------------------------------------------------------------------------------------------- monitor
+def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=None, balance_tolerance=0.10,
+            mc_draws: int = 200, band=(5.0, 95.0), seed=0, run_start=None, run_length=None, models=None,
+            fouling_side: str = "tube", beta: float = -0.66, E=None, cleaning=None, duty_value=None,
+            sort: bool = False, flat_rows: int = 6, mc_chunk: int = 400_000) -> Monitoring:
+    """Measured U and fouling of an exchanger from plant data.
+
+    Parameters
+    ----------
+    exchanger : revamp.ShellAndTube
+        The exchanger as built.
+    service : revamp.Service
+        Supplies the two fluids; its flows, inlet temperatures and fouling are replaced by the measured ones.
+    data : str, path or pandas.DataFrame
+        Plant data (see :func:`revamp.monitoring.read_plant_data`).
+    columns : dict or None
+        Canonical column -> source name or (name, unit).
+    uncertainty : dict or None
+        Measurement standard deviations (1σ): ``flow`` relative [-] (default 0.02), ``temperature`` [K]
+        (default 0.5), or per column (``"tube_t_out": 1.0``).
+    steady : dict, False or None
+        Arguments of :func:`revamp.monitoring.steady_state` (``window``, ``flow_rsd``, ``t_range``, ``min_rows``);
+        ``False`` keeps every valid row.
+    balance_tolerance : float
+        Rows whose |balance_error| exceeds this are flagged ``heat balance does not close`` [-].
+    mc_draws : int
+        Monte Carlo draws for the band (0 for none).
+    band : (float, float)
+        Percentiles of the band [%].
+    seed : int
+        Seed of the random draws (reproducible bands).
+    run_start : str, timestamp or None
+        Start of the run (the last cleaning); default the first valid row.
+    run_length : float, str or None
+        Run length to project to [s or e.g. ``"365 day"``]; default twice the data span.
+    models : sequence of str or None
+        Fouling models to try (default all that apply).
+    fouling_side : {"tube", "shell"}
+        Where the deposit forms: sets the side the projected Rf is put on, and the threshold model (tube side only)
+        is fitted only for ``"tube"``.
+    beta, E : float
+        Threshold model: Reynolds exponent, and a fixed activation energy [J/mol] (None to fit it).
+    cleaning : dict or None
+        ``cost`` (one cleaning) [currency], ``downtime`` [s or str], optional ``downtime_cost_rate`` [currency/s,
+        default: the value of the whole clean duty] and ``t_max``; needs ``duty_value``.
+    duty_value : float or None
+        Value of heat [currency/J] (e.g. fuel price / furnace efficiency): prices the lost duty.
+    sort : bool
+        Re-order rows by time instead of flagging out-of-order ones.
+    flat_rows : int
+        Rows unchanged before a sensor counts as flat-lined.
+    mc_chunk : int
+        Largest number of cases per rating call in the Monte Carlo.
+
+    Returns
+    -------
+    Monitoring
+    """
+    from ..rating import arrangement as hx_arrangement
+
+    if fouling_side not in ("tube", "shell"):
+        raise InputError("fouling_side", fouling_side, "'tube' or 'shell'")
+    pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows)
+    tab = pdata.frame.copy()
+    n = len(tab)
+    valid = tab["valid"].to_numpy().copy()
+    x = tab[_X].to_numpy(dtype=float)
+    sig = _sigmas(uncertainty, x)
+    arr_name, shells = hx_arrangement(exchanger)
+
+    # heat balance and reconciliation (valid rows)
+    cp_s = _cp(service.shell.fluid, 0.5 * (x[:, 1] + x[:, 2]))
+    cp_t = _cp(service.tube.fluid, 0.5 * (x[:, 4] + x[:, 5]))
+    xv = np.where(valid[:, None], x, np.nan)
+    hb = reconcile_heat_balance(xv, sig, cp_s, cp_t)
+    tab["duty_shell"], tab["duty_tube"], tab["balance_error"] = hb.duty_shell, hb.duty_tube, hb.balance_error
+    tab["duty"] = hb.duty
+    for j, col in enumerate(_X):
+        tab[col + "_rec"] = hb.x[:, j]
+    open_balance = valid & (np.abs(hb.balance_error) > balance_tolerance)
+    flags = tab["flag"].to_numpy(dtype=object)
+    text = f"heat balance does not close (|error| > {balance_tolerance:.0%})"
+    for i in np.flatnonzero(open_balance):
+        flags[i] = text
+    tab["flag"] = flags
+    counts = dict(pdata.counts)
+    counts[text] = int(open_balance.sum())
+
+    # U actual, clean rating
+    clean, warnings = _rate_clean(exchanger, service, hb.x, max(mc_chunk, 1))
+    area = float(exchanger.area_outside)
+    U_act, eps = _u_actual(hb.x, hb.duty, cp_s, cp_t, area, arr_name, shells)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rf = 1.0 / U_act - 1.0 / clean["U_clean"]
+    tab["U_actual"], tab["U_clean"], tab["Rf"] = U_act, clean["U_clean"], rf
+    tab["effectiveness"], tab["effectiveness_clean"] = eps, clean["effectiveness"]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        tab["effectiveness_ratio"] = eps / clean["effectiveness"]
+    tab["duty_clean"] = clean["duty"]
+    tab["duty_lost"] = clean["duty"] - hb.duty
+    tab["Re_tube"], tab["Pr_tube"], tab["shear_tube"] = clean["Re_tube"], clean["Pr_tube"], clean["shear_tube"]
+    tab["T_film"] = film_temperature(0.5 * (hb.x[:, 4] + hb.x[:, 5]), clean["t_wall_tube"])
+    no_u = valid & ~open_balance & ~np.isfinite(rf)
+    text_u = "no U: effectiveness outside what the arrangement can reach"
+    flags = tab["flag"].to_numpy(dtype=object)
+    for i in np.flatnonzero(no_u):
+        flags[i] = text_u
+    tab["flag"] = flags
+    counts[text_u] = int(no_u.sum())
+
+    # Monte Carlo band
+    rf_low = rf_high = np.full(n, np.nan)
+    u_low = u_high = np.full(n, np.nan)
+    rows = np.flatnonzero(np.isfinite(rf))
+    if mc_draws and rows.size:
+        rng = np.random.default_rng(seed)
+        xs = x[rows][None] + rng.standard_normal((int(mc_draws), rows.size, 6)) * sig[rows][None]
+        hb_d = reconcile_heat_balance(xs, sig[rows][None], cp_s[rows], cp_t[rows])
+        u_d, _ = _u_actual(hb_d.x, hb_d.duty, cp_s[rows], cp_t[rows], area, arr_name, shells)
+        clean_d, _ = _rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            rf_d = 1.0 / u_d - 1.0 / clean_d["U_clean"]
+        lo, hi = band
+        rf_low, rf_high = np.full(n, np.nan), np.full(n, np.nan)
+        u_low, u_high = np.full(n, np.nan), np.full(n, np.nan)
+        import warnings as _w
+        with _w.catch_warnings():
+            _w.simplefilter("ignore", RuntimeWarning)  # all-NaN columns
+            rf_low[rows], rf_high[rows] = np.nanpercentile(rf_d, [lo, hi], axis=0)
+            u_low[rows], u_high[rows] = np.nanpercentile(u_d, [lo, hi], axis=0)
+    tab["Rf_low"], tab["Rf_high"], tab["U_low"], tab["U_high"] = rf_low, rf_high, u_low, u_high
+
+    # steady filter and the rows used
+    ok = valid & ~open_balance & np.isfinite(rf)
+    if steady is False:
+        st = ok.copy()
+    else:
+        st = steady_state(tab, valid=valid, **(steady or {}))
+    tab["steady"] = st
+    tab["used"] = ok & st
+    counts["not steady"] = int((ok & ~st).sum())
+    counts["used"] = int(tab["used"].sum())
+
+    ts = tab["timestamp"]
+    t0 = pd.Timestamp(run_start) if run_start is not None else (ts[valid].min() if valid.any() else pd.NaT)
+    tab["run_time"] = (ts - t0).dt.total_seconds().to_numpy() if pd.notna(t0) else np.nan
+
+    used = tab["used"].to_numpy()
+    trend, fits = None, {}
+    if used.sum() >= 4:
+        cond = None
+        if fouling_side == "tube":
+            cond = {"Re": tab["Re_tube"].to_numpy()[used], "Pr": tab["Pr_tube"].to_numpy()[used],
+                    "T_film": tab["T_film"].to_numpy()[used], "shear": tab["shear_tube"].to_numpy()[used],
+                    "beta": beta, "E": E}
+        names = tuple(models) if models else ("linear", "asymptotic", "threshold")
+        try:
+            trend, fits = fit_best(tab["run_time"].to_numpy()[used], rf[used], conditions=cond, models=names)
+        except InputError as exc:
+            fits = {"error": str(exc)}
+
+    # reference conditions and duty vs Rf there
+    reference, duty_curve = {}, ()
+    if used.any():
+        tail = np.flatnonzero(used)
+        tail = tail[int(0.9 * tail.size):]
+        reference = {col: float(np.median(hb.x[tail, j])) for j, col in enumerate(_X)}
+        rf_top = max(float(np.nanmax(rf[used])) * 3.0, 1e-3)
+        grid = np.linspace(0.0, rf_top, 61)
+        duty_curve = (grid, _duty_vs_rf(exchanger, service, reference, grid, fouling_side))
+
+    # losses to date (valid rows; each row stands for the time to the next, capped at 3 median steps)
+    tnum = tab["run_time"].to_numpy()
+    lost = tab["duty_lost"].to_numpy()
+    have = np.isfinite(lost) & np.isfinite(tnum) & valid & ~open_balance
+    energy = 0.0
+    if have.sum() >= 2:
+        tt, ll = tnum[have], lost[have]
+        dt = np.diff(tt)
+        dt = np.minimum(dt, 3.0 * np.median(dt))
+        energy = float(np.sum(ll[:-1] * dt))
+
+    # projection and cleaning
+    span = float(np.nanmax(tnum[used]) - np.nanmin(tnum[used])) if used.any() else 0.0
+    t_end = to_si(run_length, "time", "run_length") if run_length is not None else 2.0 * max(span, 1.0)
+    clean_res = None
+    if cleaning is not None and trend is not None and duty_curve:
+        if duty_value is None:
+            raise InputError("duty_value", None, "a value of heat [currency/J] to price the lost duty for cleaning")
+        c = dict(cleaning)
+        q0 = float(np.interp(0.0, *duty_curve))
+
+        def loss_rate(t):
+            return duty_value * (q0 - np.interp(trend(np.asarray(t, dtype=float)), *duty_curve))
+
+        clean_res = optimal_cleaning_interval(
+            loss_rate, c.pop("cost"), downtime=c.pop("downtime", 0.0),
+            downtime_cost_rate=c.pop("downtime_cost_rate", duty_value * q0), **c)
+
+    summary = _summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings)
+    return Monitoring(table=tab, summary=summary, trend=trend, fits=fits, counts=counts, reference=reference,
+                      cleaning=clean_res, exchanger=exchanger, service=service, _duty_curve=duty_curve)
+
+
+def _duty_vs_rf(exchanger, service, ref, grid, side):
+    from ..rating import rate
+    from ..service import Service, Stream
+
+    do, di = exchanger.tube_od, exchanger.tube_id
+    svc = Service(shell=Stream(service.shell.fluid, ref["shell_flow"], ref["shell_t_in"]),
+                  tube=Stream(service.tube.fluid, ref["tube_flow"], ref["tube_t_in"]),
+                  fouling_shell=grid if side == "shell" else 0.0,
+                  fouling_tube=grid * di / do if side == "tube" else 0.0)
+    return np.asarray(rate(exchanger, svc).duty, dtype=float)
+
+
+def _summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings):
+    used = tab["used"].to_numpy()
+    s: dict = {f"rows: {k}": v for k, v in counts.items()}
+    if used.any():
+        last = np.flatnonzero(used)[-24:]  # the last day of hourly data
+        s["Rf now [m2K/W]"] = float(np.median(tab["Rf"].to_numpy()[last]))
+        s["Rf now low [m2K/W]"] = float(np.median(tab["Rf_low"].to_numpy()[last]))
+        s["Rf now high [m2K/W]"] = float(np.median(tab["Rf_high"].to_numpy()[last]))
+        s["U_actual now [W/m2K]"] = float(np.median(tab["U_actual"].to_numpy()[last]))
+        s["U_clean now [W/m2K]"] = float(np.median(tab["U_clean"].to_numpy()[last]))
+        s["heat balance error median [-]"] = float(np.median(tab["balance_error"].to_numpy()[used]))
+    if trend is not None:
+        s["model (lowest AIC)"] = trend.model
+        s["model fit"] = trend.describe()
+        s["fouling rate now [m2K/W per day]"] = float(trend.rate(trend.t_end)) * 86400.0
+        s["projection run time [day]"] = t_end / 86400.0
+        s["Rf at end of run [m2K/W]"] = float(trend(t_end))
+        if duty_curve:
+            s["duty at end of run [W]"] = float(np.interp(trend(t_end), *duty_curve))
+    s["energy lost to fouling to date [J]"] = energy
+    if duty_value is not None:
+        s["cost lost to fouling to date"] = energy * duty_value
+    if clean_res is not None:
+        s["optimal cleaning interval [day]"] = clean_res.interval / 86400.0
+        s["cleaning: mean cost rate [per day]"] = clean_res.cost_rate * 86400.0
+    s["warnings"] = "; ".join(warnings[:5])
+    return pd.Series(s, dtype=object)
