@@ -34,7 +34,7 @@ from .errors import InputError
 from .units import to_si, ureg
 
 __all__ = ["Problem", "UnitFileError", "Unit", "ExchangerCase", "PlantData", "UnitEconomics", "check", "load",
-           "schema", "STANDARD_COLUMNS"]
+           "schema", "STANDARD_COLUMNS", "load_partial"]
 
 SCHEMA_PATH = Path(__file__).with_name("unit_schema.json")
 #: the plant-data columns :func:`revamp.monitor` reads, and the quantity kind of each
@@ -487,12 +487,13 @@ def _guard(problems: list, prefix: str, func, *args):
 
 
 def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list) -> ExchangerCase | None:
-    from . import geometry, rating
+    from . import geometry
+    from . import service as rating
 
     start, pre = len(problems), f"exchangers[{i}]"
     g = dict(si["geometry"])
     g.pop("tema_type", None)
-    exchanger = _guard(problems, f"{pre}.geometry", lambda: geometry.ShellAndTube(**g))
+    exchanger = _guard(problems, f"{pre}.geometry", lambda: geometry.ShellAndTube(**g, tag=x["tag"]))
     streams = {}
     for side in ("shell", "tube"):
         s = si[f"{side}_side"]
@@ -591,12 +592,12 @@ def _validate(path, build: bool):
         return None, _sorted(problems)
     built = []
     for i, x in enumerate(exchangers):
-        prefix = f"exchangers[{i}]"
-        if any(p.path == prefix or p.path.startswith(prefix + ".") or p.path.startswith(prefix + "[")
-               for p in problems) or not isinstance(x, dict):
+        if _owned(problems, i) or not isinstance(x, dict):
             continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
-        built.append(_build_exchanger(i, x, si["exchangers"][i], base, problems))
-    if problems:
+        case = _build_exchanger(i, x, si["exchangers"][i], base, problems)
+        if case is not None:
+            built.append(case)
+    if any(not _owned([p], None) for p in problems):  # a problem outside the exchangers: no unit
         return None, _sorted(problems)
     e = si.get("economics") or {}
     econ = UnitEconomics(
@@ -607,7 +608,34 @@ def _validate(path, build: bool):
         capacity_value=e.get("capacity_value"), cleaning_cost=e.get("cleaning_cost"))
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc)
-    return unit, []
+    return unit, _sorted(problems)
+
+
+def _owned(problems, i) -> bool:
+    """Whether any problem lies inside ``exchangers[i]`` (any exchanger when ``i`` is None)."""
+    pattern = re.compile(r"^exchangers\[\d+\]" if i is None else rf"^exchangers\[{i}\](?:$|[.\[])")
+    return any(pattern.match(p.path) for p in problems)
+
+
+def _entries(unit_or_doc) -> list[tuple[str, int]]:
+    exchangers = unit_or_doc.get("exchangers") if isinstance(unit_or_doc, dict) else None
+    out = []
+    for i, x in enumerate(exchangers if isinstance(exchangers, list) else []):
+        tag = x.get("tag") if isinstance(x, dict) else None
+        out.append((tag if isinstance(tag, str) and tag else f"exchangers[{i}]", i))
+    return out
+
+
+def load_partial(path):
+    """Load what is valid: ``(unit, problems, entries)``.
+
+    ``unit`` holds the exchangers without problems (``None`` when the file has problems outside its exchangers,
+    e.g. bad YAML or economics); ``problems`` lists every problem; ``entries`` is ``(tag, index)`` for every exchanger
+    of the file in order (an exchanger without a usable tag is named ``exchangers[i]``). The batch uses this so that
+    one broken exchanger never stops the others.
+    """
+    unit, problems = _validate(path, build=True)
+    return unit, problems, _entries(unit.raw if unit is not None else {})
 
 
 def check(path) -> list[Problem]:

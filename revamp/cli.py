@@ -1,0 +1,165 @@
+"""The ``revamp`` command: check a unit file, rate one exchanger, write the reports of a unit.
+
+Usage::
+
+    revamp check FILE
+    revamp rate FILE --tag TAG [--units SI|US] [--revamp]
+    revamp batch FILE --out DIR [--jobs N] [--only TAG ...]
+    revamp demo [--out DIR] [--jobs N]
+
+Errors are printed one per line, without a traceback unless ``--debug`` is given; the exit code is 1 when there is
+any problem.
+"""
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+from .errors import InputError
+
+__all__ = ["main", "demo_unit_path", "format_rating"]
+
+
+def demo_unit_path() -> Path:
+    """The demo unit file shipped in the repository (``data/demo/unit.yaml``)."""
+    here = Path(__file__).resolve().parent
+    for candidate in (here.parent / "data" / "demo" / "unit.yaml", here / "data" / "demo" / "unit.yaml"):
+        if candidate.is_file():
+            return candidate
+    raise InputError("demo", str(here.parent / "data" / "demo" / "unit.yaml"),
+                     "present: the demo unit ships with the source tree (clone the repository)")
+
+
+# rows of the rating printout: (label, Rating attribute, quantity kind)
+RATING_ROWS = [
+    ("duty", "duty", "power"), ("shell outlet", "t_out_shell", "temperature"),
+    ("tube outlet", "t_out_tube", "temperature"), ("U clean", "U_clean", "htc"),
+    ("U in service", "U_service", "htc"), ("area (outside)", "area", "area"),
+    ("h shell", "h_shell", "htc"), ("h tube", "h_tube", "htc"), ("effectiveness", "effectiveness", "dimensionless"),
+    ("F", "F", "dimensionless"), ("LMTD", "lmtd", "temperature_difference"),
+    ("dp shell", "dp_shell", "pressure"), ("dp tube", "dp_tube", "pressure"),
+    ("velocity tube", "velocity_tube", "velocity"), ("velocity shell (crossflow)", "velocity_shell", "velocity"),
+    ("Re tube", "Re_tube", "dimensionless"), ("Re shell", "Re_shell", "dimensionless"),
+]
+
+
+def format_rating(rating, system: str = "SI", title: str = "") -> str:
+    """A plain-text rating: the main results and the resistance breakdown, in SI or US display units."""
+    from .units import format_quantity, from_si
+
+    lines = [title] if title else []
+    width = max(len(r[0]) for r in RATING_ROWS)
+    for label, attr, kind in RATING_ROWS:
+        value = getattr(rating, attr, None)
+        if value is None:
+            continue
+        text = f"{float(value):.4g}" if kind == "dimensionless" else format_quantity(value, kind, system)
+        lines.append(f"  {label:<{width}}  {text}")
+    lines.append("")
+    lines.append("  resistance breakdown (outside-area basis):")
+    unit_label = from_si(1.0, "fouling", system)[1]
+    total = float(sum(rating.resistances.values))
+    for name, r in rating.resistances.items():
+        mag = from_si(float(r), "fouling", system)[0]
+        share = float(r) / total if total > 0 else float("nan")
+        lines.append(f"    {name:<14} {mag:10.4g} {unit_label:<14} {share:6.1%}")
+    if rating.warnings:
+        lines.append("")
+        lines.append("  warnings:")
+        lines.extend(f"    - {w}" for w in rating.warnings)
+    return "\n".join(lines)
+
+
+def _cmd_check(args) -> int:
+    from .unitfile import check
+
+    problems = check(args.file)
+    for p in problems:
+        print(p, file=sys.stderr)
+    if problems:
+        print(f"{args.file}: {len(problems)} problem(s)", file=sys.stderr)
+        return 1
+    print(f"{args.file}: OK")
+    return 0
+
+
+def _cmd_rate(args) -> int:
+    from . import rating as rating_mod
+    from .unitfile import load
+
+    unit = load(args.file)
+    case = unit.exchanger(args.tag)
+    service = case.revamp_service if args.revamp else case.service
+    result = rating_mod.rate(case.exchanger, service)
+    when = f"revamp conditions (throughput x{case.throughput:g})" if args.revamp else "today's conditions"
+    print(format_rating(result, args.units, f"{case.tag}: {case.description} - {when}"))
+    return 0
+
+
+def _cmd_batch(args) -> int:
+    from .batch import run_batch
+
+    result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet)
+    print(result.index_path)
+    for tag, reason in result.failures.items():
+        print(f"{tag}: FAILED: {reason}", file=sys.stderr)
+    return 1 if result.failures else 0
+
+
+def _cmd_demo(args) -> int:
+    args.file = demo_unit_path()
+    args.only = None
+    return _cmd_batch(args)
+
+
+def _parser() -> argparse.ArgumentParser:
+    top = argparse.ArgumentParser(prog="revamp", description="Heat-exchanger revamp studies from a unit file.")
+    top.add_argument("--debug", action="store_true", help="show the full traceback of an error")
+    sub = top.add_subparsers(dest="command", required=True)
+    p = sub.add_parser("check", help="validate a unit file and list every problem")
+    p.add_argument("file")
+    p.set_defaults(func=_cmd_check)
+    p = sub.add_parser("rate", help="rate one exchanger and print the resistance breakdown")
+    p.add_argument("file")
+    p.add_argument("--tag", required=True)
+    p.add_argument("--units", choices=["SI", "US"], default="SI")
+    p.add_argument("--revamp", action="store_true", help="rate at the revamp conditions instead of today's")
+    p.set_defaults(func=_cmd_rate)
+    for name, helptext in (("batch", "write one comparison report per exchanger and an index"),
+                           ("demo", "batch on the demo unit into ./reports")):
+        p = sub.add_parser(name, help=helptext)
+        if name == "batch":
+            p.add_argument("file")
+            p.add_argument("--out", required=True, help="output folder")
+            p.add_argument("--only", nargs="+", metavar="TAG", help="only these exchangers")
+        else:
+            p.add_argument("--out", default="reports", help="output folder (default: reports)")
+        p.add_argument("--jobs", type=int, default=2, help="notebooks run in parallel (default 2)")
+        p.add_argument("--quiet", action="store_true", help="no progress bar")
+        p.set_defaults(func=_cmd_batch if name == "batch" else _cmd_demo)
+    return top
+
+
+def main(argv=None) -> int:
+    """Entry point of the ``revamp`` command; returns the exit code."""
+    args = _parser().parse_args(argv)
+    try:
+        return args.func(args)
+    except Exception as exc:  # one clear line per error; the traceback only on request
+        if args.debug:
+            raise
+        problems = getattr(exc, "problems", None)
+        if problems:
+            for p in problems:
+                print(p, file=sys.stderr)
+            print(f"{len(problems)} problem(s); run 'revamp check' for the list", file=sys.stderr)
+        elif isinstance(exc, InputError):
+            print(f"error: {exc}", file=sys.stderr)
+        else:
+            print(f"error: {exc.__class__.__name__}: {exc} (use --debug for the traceback)", file=sys.stderr)
+        return 1
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())
