@@ -639,25 +639,16 @@ class ShellAndTube:
     @classmethod
     def _parse_material(cls, value):
         materials = cls._materials_module()
-        if materials is not None and isinstance(value, getattr(materials, "Material", ())):
-            return value
-        if isinstance(value, str):
-            if materials is not None:
-                try:
-                    return materials.material(value)
-                except InputError:
-                    pass
+        if materials is not None:
+            return materials.material(value)  # raises InputError("tube_material", ...) on a bad name or k
+        if isinstance(value, str):  # materials module absent: keep the name, or parse a conductivity
             try:
-                k = float(to_si(value, "conductivity", "tube_material"))
+                return float(to_si(value, "conductivity", "tube_material"))
             except InputError:
-                if materials is None:
-                    return value
-                raise InputError("tube_material", value, "a metallurgy name known to revamp.materials or a "
-                                 "conductivity in W/m/K") from None
-            value = k
+                return value
         if isinstance(value, bool) or not isinstance(value, (int, float)) or not value > 0:
             raise InputError("tube_material", value, "a metallurgy name or a conductivity > 0 (W/m/K)")
-        return materials.material(float(value)) if materials is not None else float(value)
+        return float(value)
 
     # ------------------------------------------------------------------------------------------------ derived
     def replace(self, **changes) -> "ShellAndTube":

@@ -252,3 +252,16 @@ def test_geometry_invariants(ds, ratio, cut, spacing, layout, head):
     assert 0 < b.Sw <= b.Swg and b.Sm > 0 and 0 < b.Fsbp < 1
     assert b.Dotl < b.Ds and b.Dctl < b.Dotl
     assert b.Lbi + (b.Nb - 1) * b.Lbc + b.Lbo == pytest.approx(6.0, abs=0.01 * b.Lbc + 1e-9) or hx.notes
+
+
+def test_material_is_parsed_through_revamp_materials():
+    hx = make(tube_material="carbon steel")
+    assert hx.tube_material.name == "carbon steel"
+    assert hx.tube_roughness == pytest.approx(45e-6)  # commercial steel, 0.045 mm (Moody 1944 table; common practice)
+    alloy = hx.replace(tube_material="316 stainless steel")
+    assert alloy.tube_roughness == pytest.approx(1.5e-6)  # drawn tubing, 1.5 µm (common practice)
+    assert alloy.replace(shells=2).tube_roughness == pytest.approx(1.5e-6)
+    assert make(tube_material=50.0).tube_material.conductivity(350.0) == pytest.approx(50.0)
+    with pytest.raises(InputError) as err:
+        make(tube_material="unobtainium")
+    assert err.value.field == "tube_material"
