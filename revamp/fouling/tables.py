@@ -299,7 +299,7 @@ def design_fouling(service: str, temperature=None, velocity=None, salt=None) -> 
         if temperature is None:
             raise InputError("temperature", None, f"a stream temperature: TEMA bands {key} by temperature")
         t_k = to_si(temperature, "temperature", "temperature")
-        t_f = (float(t_k) - 273.15) * 1.8 + 32.0
+        t_f = round((float(t_k) - 273.15) * 1.8 + 32.0, 9)  # round off the K round trip (125 °F stays 125)
         # waters: "125 °F" belongs to the lower band (TEMA: "125° [or less]" / "more than 125°"); crude: [low, high)
         rows = [r for r in rows if (r["t_low_F"] < t_f <= r["t_high_F"] if r["group"] == "waters"
                                     else r["t_low_F"] <= t_f < r["t_high_F"])]
