@@ -171,12 +171,16 @@ def fit_linear(t, rf) -> FoulingFit:
     t, rf = t[ok], rf[ok]
     _need(t.size, 2, "linear")
     x, y = t / _DAY, rf / _RF_SCALE
-    popt, pcov = optimize.curve_fit(lambda x, a, b: a + b * x, x, y, p0=[y[0], 0.0])
+    M = np.column_stack([np.ones_like(x), x])  # ordinary least squares in closed form
+    popt, *_ = np.linalg.lstsq(M, y, rcond=None)
+    dof = max(x.size - 2, 1)
+    pcov = np.linalg.inv(M.T @ M) * float(np.sum((y - M @ popt) ** 2)) / dof
     se = _stderr(pcov)
-    a, b = popt[0] * _RF_SCALE, popt[1] * _RF_SCALE / _DAY
+    a, b = float(popt[0] * _RF_SCALE), float(popt[1] * _RF_SCALE / _DAY)
     curve = lambda tt: a + b * tt  # noqa: E731
     r2, rmse, aic = _stats(rf, curve(t), 2)
-    return FoulingFit("linear", {"a": a, "b": b}, {"a": se[0] * _RF_SCALE, "b": se[1] * _RF_SCALE / _DAY},
+    stderr = {"a": float(se[0] * _RF_SCALE), "b": float(se[1] * _RF_SCALE / _DAY)}
+    return FoulingFit("linear", {"a": a, "b": b}, stderr,
                       r2, rmse, aic, int(t.size), float(t.max()), {}, curve)
 
 
