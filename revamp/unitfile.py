@@ -80,7 +80,7 @@ class UnitEconomics:
     hours_per_year: float | None = None     #: [h/yr]
     discount_rate: float | None = None      #: [-/yr]
     horizon_years: float | None = None      #: [yr]
-    capacity_value: float | None = None     #: [currency/yr]
+    capacity_margin: float | None = None    #: [currency/kg]
     cleaning_cost: float | None = None      #: [currency]
 
 
@@ -100,7 +100,8 @@ class ExchangerCase:
     ``service`` is today's service; ``revamp_service`` the service at the revamp conditions (today's if the file gives
     none); ``target`` a dict with one of ``duty`` [W], ``t_out_shell``/``t_out_tube`` [K], ``UA`` [W/K] (empty if
     none); ``limits`` the allowed pressure drops ``{"dp_shell": Pa, "dp_tube": Pa}`` given in the file; ``options``
-    the option objects in file order, ``capex`` a dict option label -> capex [currency].
+    the option objects in file order, ``capex`` a dict option label -> capex [currency]; ``economics`` the
+    :class:`revamp.economics.Economics` of its study (None when the file gives no energy price).
     """
 
     index: int
@@ -115,6 +116,7 @@ class ExchangerCase:
     options: tuple
     capex: dict
     plant_data: PlantData | None
+    economics: Any = None
     raw: dict = field(repr=False, default_factory=dict)
 
 
@@ -283,6 +285,17 @@ def _convert(value, kind: str, where: str, currency: str):
             raise InputError(where, value, f"a price per energy, e.g. '8 {currency}/GJ' or '9 /MMBTU'")
         joules = to_si("1 " + m.group(3), "energy", where)
         return float(m.group(1)) / joules
+    if kind == "money_per_mass":
+        if isinstance(value, (int, float)):
+            return float(value)
+        m = re.fullmatch(rf"\s*({_NUMBER})\s*([A-Za-z]{{3}})?\s*/\s*(.+?)\s*", value)
+        if not m or (m.group(2) and m.group(2).upper() != currency):
+            raise InputError(where, value, f"a price per mass, e.g. '5 {currency}/t' or '2 {currency}/kg'")
+        try:
+            kg = float(ureg.Quantity(1.0, m.group(3)).to("kg").magnitude)
+        except Exception:
+            raise InputError(where, value, f"a price per mass, e.g. '5 {currency}/t' or '2 {currency}/kg'") from None
+        return float(m.group(1)) / kg
     if kind == "thermal_conductance":
         if isinstance(value, (int, float)):
             return float(value)
@@ -448,10 +461,7 @@ def _build_option(spec: dict):
     params = {k: v for k, v in spec.items() if k not in _META}
     if spec["type"] == "combined":
         children = [_build_option(c) for c in params.pop("options")]
-        try:
-            return _call(cls, {"options": tuple(children), **({"label": spec["label"]} if "label" in spec else {})})
-        except TypeError:
-            return cls(*children)
+        return cls(*children, label=spec.get("label"))
     if "label" in spec:
         params["label"] = spec["label"]
     return _call(cls, params)
@@ -486,7 +496,29 @@ def _guard(problems: list, prefix: str, func, *args):
     return None
 
 
-def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list) -> ExchangerCase | None:
+def _economics(econ: UnitEconomics, capex: dict, capacity_flow):
+    """The study's Economics for one exchanger (None when the file gives no energy price)."""
+    if econ.energy_price is None:
+        return None
+    from .economics import Economics
+
+    fields = {"energy_price": econ.energy_price * 1e9, "price_per": "GJ", "currency": econ.currency,
+              "capex": {k: v for k, v in capex.items() if v is not None}}
+    if econ.heater_efficiency is not None:
+        fields["efficiency"] = econ.heater_efficiency
+    if econ.hours_per_year is not None:
+        fields["operating_time"] = econ.hours_per_year * 3600.0
+    if econ.discount_rate is not None:
+        fields["discount_rate"] = econ.discount_rate
+    if econ.horizon_years is not None:
+        fields["horizon"] = econ.horizon_years
+    if capacity_flow is not None and econ.capacity_margin is not None:
+        fields.update(capacity_flow=capacity_flow, capacity_margin=econ.capacity_margin)
+    return Economics(**fields)
+
+
+def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
+                     econ: UnitEconomics) -> ExchangerCase | None:
     from . import geometry
     from . import service as rating
 
@@ -541,6 +573,7 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list) -> E
             spec = (pd.get("columns") or {}).get(std, std)
             cols[std] = (spec, None) if isinstance(spec, str) else (spec["column"], spec.get("unit"))
         plant = PlantData(file=full, columns=cols, uncertainty=dict(pd.get("uncertainty") or {}))
+    economics = _guard(problems, f"{pre}.options", _economics, econ, capex, rv.get("capacity_flow"))
     if len(problems) > start:
         return None
     limits = {f"dp_{side}": si[f"{side}_side"]["dp_allowed"] for side in ("shell", "tube")
@@ -548,7 +581,7 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list) -> E
     return ExchangerCase(index=i, tag=x["tag"], description=x.get("description", ""), exchanger=exchanger,
                          service=service, revamp_service=revamp_service, throughput=throughput,
                          target=dict(rv.get("target") or {}), limits=limits, options=tuple(opts), capex=capex,
-                         plant_data=plant, raw=x)
+                         plant_data=plant, economics=economics, raw=x)
 
 
 # -------------------------------------------------------------------------------------------------------- entry points
@@ -588,16 +621,7 @@ def _validate(path, build: bool):
     for i, x in enumerate(exchangers):
         if isinstance(x, dict):
             problems += _exchanger_rules(x, ["exchangers", i], base, tags)
-    if not build:
-        return None, _sorted(problems)
-    built = []
-    for i, x in enumerate(exchangers):
-        if _owned(problems, i) or not isinstance(x, dict):
-            continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
-        case = _build_exchanger(i, x, si["exchangers"][i], base, problems)
-        if case is not None:
-            built.append(case)
-    if any(not _owned([p], None) for p in problems):  # a problem outside the exchangers: no unit
+    if not build or any(not _owned([p], None) for p in problems):  # the unit as a whole is wrong: build nothing
         return None, _sorted(problems)
     e = si.get("economics") or {}
     econ = UnitEconomics(
@@ -605,7 +629,14 @@ def _validate(path, build: bool):
         hours_per_year=e["hours_per_year"] / 3600.0 if "hours_per_year" in e else None,
         discount_rate=e.get("discount_rate"),
         horizon_years=e["horizon"] / (365.25 * 86400.0) if "horizon" in e else None,
-        capacity_value=e.get("capacity_value"), cleaning_cost=e.get("cleaning_cost"))
+        capacity_margin=e.get("capacity_margin"), cleaning_cost=e.get("cleaning_cost"))
+    built = []
+    for i, x in enumerate(exchangers):
+        if _owned(problems, i) or not isinstance(x, dict):
+            continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
+        case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ)
+        if case is not None:
+            built.append(case)
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc)
     return unit, _sorted(problems)
