@@ -1,0 +1,437 @@
+"""Duty and temperatures: LMTD, the F correction, effectiveness-NTU.
+
+Arrangements (keys of :data:`ARRANGEMENTS`):
+
+- ``"counterflow"``, ``"parallel"``: pure counter- and parallel flow;
+- ``"E"``: TEMA E shell, one shell pass and an even number of tube passes (1-2N exchanger).
+
+``shells`` = N identical units in series, connected in overall counterflow. All functions broadcast over numpy
+arrays; scalars in give floats out.
+
+References
+----------
+.. [1] Bowman, R. A., Mueller, A. C., Nagle, W. M. (1940). Mean temperature difference in design.
+   Trans. ASME 62, 283-294.
+.. [2] Kays, W. M., London, A. L. (1984). Compact Heat Exchangers, 3rd ed. McGraw-Hill, ch. 2.
+.. [3] Shah, R. K., Sekulić, D. P. (2003). Fundamentals of Heat Exchanger Design. Wiley, ch. 3
+   (P-NTU of 1-2N shells, shells in series).
+.. [4] Kern, D. Q. (1950). Process Heat Transfer. McGraw-Hill, ch. 7 (1-2 exchanger, shells in series).
+"""
+from __future__ import annotations
+
+import numpy as np
+
+from .errors import InputError
+
+__all__ = ["lmtd", "F_1_2N", "F_series", "effectiveness", "ntu_from_effectiveness", "max_effectiveness",
+           "outlets", "ARRANGEMENTS"]
+
+ARRANGEMENTS = ("counterflow", "parallel", "E")
+
+
+def _out(x):
+    return float(x) if np.ndim(x) == 0 else x
+
+
+def _arr(x, field):
+    try:
+        a = np.asarray(x, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(field, x, "a number or an array of numbers") from None
+    if not np.all(np.isfinite(a)):
+        raise InputError(field, x, "finite (no NaN or infinity)")
+    return a
+
+
+def _check_cr(Cr):
+    Cr = _arr(Cr, "Cr")
+    if np.any((Cr < 0) | (Cr > 1)):
+        raise InputError("Cr", Cr, "a heat capacity rate ratio Cmin/Cmax with 0 <= Cr <= 1")
+    return Cr
+
+
+def _check_shells(shells):
+    if isinstance(shells, bool) or not isinstance(shells, (int, np.integer)) or shells < 1:
+        raise InputError("shells", shells, "a whole number of shells in series >= 1")
+    return int(shells)
+
+
+def _check_arrangement(arrangement):
+    if arrangement not in ARRANGEMENTS:
+        raise InputError("arrangement", arrangement, f"one of {list(ARRANGEMENTS)}")
+    return arrangement
+
+
+# ---------------------------------------------------------------------------------------------------------- LMTD
+def lmtd(dt1, dt2):
+    """Logarithmic mean of the two terminal temperature differences.
+
+    LMTD = (dt1 - dt2) / ln(dt1/dt2), equal to dt1 when dt1 == dt2 (computed in a form that stays accurate near
+    equality). For counterflow dt1 = Th,in - Tc,out and dt2 = Th,out - Tc,in.
+
+    Parameters
+    ----------
+    dt1, dt2 : float or array_like
+        Terminal temperature differences [K], both > 0.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Log-mean temperature difference [K].
+
+    Raises
+    ------
+    InputError
+        When a difference is zero or negative: the temperatures cross (or touch) at that end, there is no driving
+        force and no finite area can do the duty.
+
+    Examples
+    --------
+    >>> round(lmtd(20.0, 10.0), 4)   # 10 / ln 2
+    14.427
+    >>> lmtd(10.0, 10.0)
+    10.0
+    """
+    a = _arr(dt1, "terminal temperature difference")
+    b = _arr(dt2, "terminal temperature difference")
+    bad = (a <= 0) | (b <= 0)
+    if np.any(bad):
+        shown = a if np.any(a <= 0) else b
+        raise InputError("terminal temperature difference", shown,
+                         "> 0 K at both ends: a zero or negative difference means the temperatures cross (or "
+                         "touch), there is no driving force and no finite area meets the duty")
+    hi, lo = np.maximum(a, b), np.minimum(a, b)  # symmetric by construction
+    x = hi / lo - 1.0  # >= 0
+    small = x < 1e-4
+    xs = np.where(small, 1.0, x)
+    general = lo * xs / np.log1p(xs)
+    series = lo * (1.0 + x / 2.0 - x * x / 12.0)
+    return _out(np.where(small, series, general))
+
+
+# ------------------------------------------------------------------------------------------------------ F factor
+def F_1_2N(R, P):
+    """LMTD correction F of a 1-2N exchanger (one shell pass, even tube passes), Bowman, Mueller & Nagle (1940).
+
+    F = S ln[(1 - P)/(1 - P R)] / ((R - 1) ln{[2 - P (R + 1 - S)] / [2 - P (R + 1 + S)]}), S = sqrt(R² + 1);
+    at R = 1: F = [P sqrt(2)/(1 - P)] / ln{[2 - P (2 - sqrt 2)] / [2 - P (2 + sqrt 2)]}.
+
+    Parameters
+    ----------
+    R : float or array_like
+        Heat capacity rate ratio (T1,in - T1,out)/(t2,out - t2,in) [-], >= 0.
+    P : float or array_like
+        Thermal effectiveness of the stream with the R denominator, (t2,out - t2,in)/(T1,in - t2,in) [-].
+
+    Returns
+    -------
+    float or numpy.ndarray
+        F [-]; NaN where no 1-2N exchanger of any size reaches (R, P) (a logarithm argument <= 0). Detect with
+        ``numpy.isnan``.
+
+    References
+    ----------
+    Bowman, R. A., Mueller, A. C., Nagle, W. M. (1940). Trans. ASME 62, 283-294.
+
+    Examples
+    --------
+    >>> F_1_2N(0.0, 0.5)   # one stream isothermal: F = 1
+    1.0
+    """
+    R = _arr(R, "R")
+    P = _arr(P, "P")
+    if np.any(R < 0):
+        raise InputError("R", R, ">= 0")
+    R, P = np.broadcast_arrays(R, P)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        near1 = np.abs(R - 1.0) < 1e-6
+        Rg = np.where(near1, 2.0, R)
+        Sg = np.sqrt(Rg * Rg + 1.0)
+        a1 = (1.0 - P) / (1.0 - P * Rg)
+        a2 = (2.0 - P * (Rg + 1.0 - Sg)) / (2.0 - P * (Rg + 1.0 + Sg))
+        ok = (P > 0) & (P < 1) & (P * Rg < 1) & (a1 > 0) & (a2 > 0) & (a2 != 1.0)
+        general = Sg * np.log(np.where(ok, a1, 1.0)) / ((Rg - 1.0) * np.log(np.where(ok, a2, 2.0)))
+        general = np.where(ok, general, np.nan)
+        s2 = np.sqrt(2.0)
+        b = (2.0 - P * (2.0 - s2)) / (2.0 - P * (2.0 + s2))
+        ok1 = (P > 0) & (P < 1) & (b > 0) & (b != 1.0)
+        one = (P * s2 / (1.0 - P)) / np.log(np.where(ok1, b, 2.0))
+        one = np.where(ok1, one, np.nan)
+    F = np.where(near1, one, general)
+    F = np.where(P == 0, 1.0, F)  # no duty: the limit is 1
+    F = np.where((F > 0) & (F <= 1.0 + 1e-12), F, np.nan)
+    return _out(F)
+
+
+def _p_per_shell(R, P, shells):
+    """Per-shell P of N identical shells in series in overall counterflow (Bowman et al. 1940; Kern 1950)."""
+    if shells == 1:
+        return P
+    with np.errstate(divide="ignore", invalid="ignore"):
+        near1 = np.abs(R - 1.0) < 1e-9
+        Rg = np.where(near1, 0.5, R)
+        X = ((1.0 - P * Rg) / (1.0 - P)) ** (1.0 / shells)
+        general = (X - 1.0) / (X - Rg)
+        one = P / (shells - (shells - 1) * P)
+    return np.where(near1, one, general)
+
+
+def F_series(R, P, shells):
+    """LMTD correction F of N identical 1-2N shells in series (overall counterflow).
+
+    The overall P is turned into the P of one shell, P1 = (X - 1)/(X - R) with X = [(1 - P R)/(1 - P)]^(1/N)
+    (R = 1: P1 = P/(N - (N - 1) P)), and F = F_1_2N(R, P1): the counterflow NTU and the actual NTU both scale by N.
+
+    Parameters
+    ----------
+    R, P : float or array_like
+        As in :func:`F_1_2N`, for the whole train [-].
+    shells : int
+        Number of shells in series, >= 1.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        F [-]; NaN where infeasible.
+
+    References
+    ----------
+    Bowman, R. A., Mueller, A. C., Nagle, W. M. (1940). Trans. ASME 62, 283-294; Kern (1950), ch. 7.
+    """
+    shells = _check_shells(shells)
+    R = _arr(R, "R")
+    P = _arr(P, "P")
+    R, P = np.broadcast_arrays(R, P)
+    with np.errstate(invalid="ignore"):
+        bad = (P < 0) | (P >= 1) | (P * R >= 1)
+        P1 = _p_per_shell(R, np.where(bad, 0.5, P), shells)
+    F = _arr(F_1_2N(R, P1), "F")
+    return _out(np.where(bad, np.nan, F))
+
+
+# ----------------------------------------------------------------------------------------------- effectiveness
+def _eps_counterflow(ntu, cr):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        em = np.expm1(-ntu * (1.0 - cr))  # e^{-NTU(1-Cr)} - 1
+        general = -em / ((1.0 - cr) - cr * em)
+    one = ntu / (1.0 + ntu)
+    return np.where(cr >= 1.0, one, general)
+
+
+def _eps_parallel(ntu, cr):
+    return -np.expm1(-ntu * (1.0 + cr)) / (1.0 + cr)
+
+
+def _eps_E(ntu, cr):
+    s = np.sqrt(1.0 + cr * cr)
+    # (1 + e^{-x})/(1 - e^{-x}) = coth(x/2), x = NTU s
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        coth = 1.0 / np.tanh(ntu * s / 2.0)
+        eps = 2.0 / (1.0 + cr + s * coth)
+    return np.where(ntu == 0, 0.0, eps)
+
+
+_EPS = {"counterflow": _eps_counterflow, "parallel": _eps_parallel, "E": _eps_E}
+
+
+def _series(eps1, cr, n):
+    """Effectiveness of n identical units in series, overall counterflow, from the unit's eps1."""
+    if n == 1:
+        return eps1
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        lny = np.log1p(eps1 * (1.0 - cr) / (1.0 - eps1))  # ln[(1 - eps1 Cr)/(1 - eps1)]
+        top = np.expm1(n * lny)
+        general = top / (top + (1.0 - cr))
+        one = n * eps1 / (1.0 + (n - 1) * eps1)
+    general = np.where(eps1 >= 1.0, 1.0, general)
+    return np.where(cr >= 1.0, one, general)
+
+
+def effectiveness(NTU, Cr, arrangement="E", shells=1):
+    """Exchanger effectiveness from NTU, Kays & London (1984).
+
+    - counterflow: eps = (1 - e^{-NTU(1-Cr)})/(1 - Cr e^{-NTU(1-Cr)}); Cr = 1: NTU/(1 + NTU);
+    - parallel: eps = (1 - e^{-NTU(1+Cr)})/(1 + Cr);
+    - E (1 shell pass, even tube passes): eps1 = 2/{1 + Cr + S (1 + e^{-NTU1 S})/(1 - e^{-NTU1 S})}, S = sqrt(1 + Cr²);
+    - N shells in series (overall counterflow), NTU1 = NTU/N:
+      eps = {[(1 - eps1 Cr)/(1 - eps1)]^N - 1} / {[(1 - eps1 Cr)/(1 - eps1)]^N - Cr}; Cr = 1: N eps1/(1 + (N-1) eps1).
+
+    Cr = 0 gives 1 - e^{-NTU} for every arrangement.
+
+    Parameters
+    ----------
+    NTU : float or array_like
+        Number of transfer units UA/Cmin of the whole train [-], >= 0.
+    Cr : float or array_like
+        Cmin/Cmax [-], 0 <= Cr <= 1.
+    arrangement : str
+        "counterflow", "parallel" or "E".
+    shells : int
+        Identical units in series, >= 1.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Effectiveness Q/Qmax [-].
+
+    References
+    ----------
+    Kays, W. M., London, A. L. (1984). Compact Heat Exchangers, 3rd ed., McGraw-Hill.
+
+    Examples
+    --------
+    >>> round(effectiveness(1.0, 0.0), 6)   # 1 - e^-1
+    0.632121
+    >>> effectiveness(1.0, 1.0, "counterflow")
+    0.5
+    """
+    _check_arrangement(arrangement)
+    shells = _check_shells(shells)
+    ntu = _arr(NTU, "NTU")
+    if np.any(ntu < 0):
+        raise InputError("NTU", ntu, ">= 0")
+    cr = _check_cr(Cr)
+    ntu, cr = np.broadcast_arrays(ntu, cr)
+    eps1 = _EPS[arrangement](ntu / shells, cr)
+    return _out(_series(eps1, cr, shells))
+
+
+def max_effectiveness(Cr, arrangement="E", shells=1):
+    """The effectiveness reached as NTU -> infinity [-] (Cr [-], arrangement, shells as in :func:`effectiveness`).
+
+    Counterflow: 1. Parallel: 1/(1 + Cr) for one unit. E: 2/(1 + Cr + sqrt(1 + Cr²)) for one shell. N units in
+    series: the series formula applied to the one-unit maximum.
+
+    Examples
+    --------
+    >>> round(max_effectiveness(1.0, "E"), 6)   # 2/(2 + sqrt 2)
+    0.585786
+    """
+    _check_arrangement(arrangement)
+    shells = _check_shells(shells)
+    cr = _check_cr(Cr)
+    if arrangement == "counterflow":
+        e1 = np.ones_like(cr)
+    elif arrangement == "parallel":
+        e1 = 1.0 / (1.0 + cr)
+    else:
+        e1 = 2.0 / (1.0 + cr + np.sqrt(1.0 + cr * cr))
+    return _out(_series(e1, cr, shells))
+
+
+def _ntu_counterflow(eps, cr):
+    with np.errstate(divide="ignore", invalid="ignore"):
+        general = np.log1p(eps * (1.0 - cr) / (1.0 - eps)) / np.where(cr >= 1.0, 1.0, 1.0 - cr)
+        one = eps / (1.0 - eps)
+    return np.where(cr >= 1.0, one, general)
+
+
+def _ntu_parallel(eps, cr):
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return -np.log1p(-eps * (1.0 + cr)) / (1.0 + cr)
+
+
+def _ntu_E(eps, cr):
+    s = np.sqrt(1.0 + cr * cr)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        E = (2.0 / eps - (1.0 + cr)) / s  # = coth(NTU1 s / 2)
+        ntu = np.log((E + 1.0) / (E - 1.0)) / s
+    return np.where(eps == 0, 0.0, ntu)
+
+
+_NTU = {"counterflow": _ntu_counterflow, "parallel": _ntu_parallel, "E": _ntu_E}
+
+
+def ntu_from_effectiveness(eps, Cr, arrangement="E", shells=1):
+    """NTU of the whole train from its effectiveness: the inverse of :func:`effectiveness`, in closed form.
+
+    For N shells in series the per-unit effectiveness is recovered first,
+    eps1 = (Y - 1)/(Y - Cr), Y = [(1 - eps Cr)/(1 - eps)]^(1/N) (Cr = 1: eps1 = eps/(N - (N - 1) eps)), then
+    NTU = N NTU1(eps1). E shell: NTU1 = ln[(E + 1)/(E - 1)]/S with E = (2/eps1 - 1 - Cr)/S, S = sqrt(1 + Cr²).
+
+    Parameters
+    ----------
+    eps : float or array_like
+        Effectiveness [-], 0 <= eps <= 1.
+    Cr : float or array_like
+        Cmin/Cmax [-], 0 <= Cr <= 1.
+    arrangement : str
+        "counterflow", "parallel" or "E".
+    shells : int
+        Identical units in series, >= 1.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        NTU [-]; ``inf`` at exactly the arrangement's maximum effectiveness and NaN beyond it (see
+        :func:`max_effectiveness`).
+
+    Examples
+    --------
+    >>> round(ntu_from_effectiveness(0.5, 1.0, "counterflow"), 12)
+    1.0
+    """
+    _check_arrangement(arrangement)
+    shells = _check_shells(shells)
+    e = _arr(eps, "effectiveness")
+    if np.any((e < 0) | (e > 1)):
+        raise InputError("effectiveness", e, "0 <= effectiveness <= 1")
+    cr = _check_cr(Cr)
+    e, cr = np.broadcast_arrays(e, cr)
+    emax = _arr(max_effectiveness(cr, arrangement, shells), "max")
+    beyond = e > emax * (1.0 + 1e-12)
+    at_max = ~beyond & (e >= emax * (1.0 - 1e-12))
+    es = np.where(beyond | at_max, 0.5 * emax, e)
+    if shells > 1:
+        with np.errstate(divide="ignore", invalid="ignore"):
+            lny = np.log1p(es * (1.0 - cr) / (1.0 - es)) / shells
+            y1 = np.expm1(lny)  # Y - 1
+            general = y1 / (y1 + (1.0 - cr))
+            one = es / (shells - (shells - 1) * es)
+        e1 = np.where(cr >= 1.0, one, general)
+    else:
+        e1 = es
+    ntu = shells * _NTU[arrangement](e1, cr)
+    ntu = np.where(at_max, np.inf, ntu)
+    return _out(np.where(beyond, np.nan, ntu))
+
+
+def outlets(t_hot_in, t_cold_in, C_hot, C_cold, eps):
+    """Outlet temperatures and duty from the effectiveness.
+
+    Q = eps Cmin (Th,in - Tc,in); Th,out = Th,in - Q/C_hot; Tc,out = Tc,in + Q/C_cold.
+
+    Parameters
+    ----------
+    t_hot_in, t_cold_in : float or array_like
+        Inlet temperatures [K], t_hot_in >= t_cold_in.
+    C_hot, C_cold : float or array_like
+        Heat capacity rates m_dot cp [W/K], > 0.
+    eps : float or array_like
+        Effectiveness [-], 0 <= eps <= 1.
+
+    Returns
+    -------
+    (t_hot_out, t_cold_out, duty) : tuple
+        Outlet temperatures [K] and duty [W].
+
+    Examples
+    --------
+    >>> outlets(400.0, 300.0, 1000.0, 2000.0, 0.5)
+    (350.0, 325.0, 50000.0)
+    """
+    th = _arr(t_hot_in, "t_hot_in")
+    tc = _arr(t_cold_in, "t_cold_in")
+    ch = _arr(C_hot, "C_hot")
+    cc = _arr(C_cold, "C_cold")
+    e = _arr(eps, "effectiveness")
+    if np.any(ch <= 0):
+        raise InputError("C_hot", ch, "a heat capacity rate > 0 W/K")
+    if np.any(cc <= 0):
+        raise InputError("C_cold", cc, "a heat capacity rate > 0 W/K")
+    if np.any((e < 0) | (e > 1)):
+        raise InputError("effectiveness", e, "0 <= effectiveness <= 1")
+    if np.any(th < tc):
+        raise InputError("t_hot_in", th, "a hot inlet temperature >= the cold inlet temperature")
+    q = e * np.minimum(ch, cc) * (th - tc)
+    return _out(th - q / ch), _out(tc + q / cc), _out(q)
