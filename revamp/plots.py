@@ -1,0 +1,110 @@
+"""Plotly figures of a comparison study: options side by side, resistance breakdown, economics.
+
+Plain plotly (``plotly.graph_objects``), white background, large fonts and patterns that survive printing in grey.
+No physics here: every number comes from a :class:`~revamp.study.Study`. Saving (with the plotly.js bundle inline,
+no CDN) is the report's business.
+"""
+from __future__ import annotations
+
+import math
+
+import plotly.graph_objects as go
+from plotly.subplots import make_subplots
+
+from .screening import DEFAULT_DP_LIQUID
+from .units import from_si, to_si
+
+__all__ = ["option_comparison", "resistance_breakdown", "economics_chart"]
+
+_LAYOUT = dict(template="simple_white", font=dict(size=14), legend=dict(orientation="h", y=-0.25),
+               margin=dict(l=70, r=30, t=70, b=120))
+_STATUS_COLOUR = {"ok": "#4d7ea8", "warn": "#e0a030", "fail": "#b03030", "n/a": "#999999"}
+_PATTERN = {"ok": "", "warn": "/", "fail": "x", "n/a": "."}
+_RES_COLOUR = {"shell film": "#1b4f72", "shell fouling": "#a04000", "wall": "#7f8c8d", "tube fouling": "#e67e22",
+               "tube film": "#5dade2"}
+
+
+def _conv(values, kind, units):
+    mag, label = from_si(list(values), kind, units)
+    return list(mag) if hasattr(mag, "__len__") else [mag], label
+
+
+def _allowed(study, side):
+    value = getattr(study.limits, f"dp_{side}")
+    return DEFAULT_DP_LIQUID if value is None else float(to_si(value, "pressure", f"dp_{side}"))
+
+
+def option_comparison(study, units="SI") -> go.Figure:
+    """Duty of the base case and each option against the target, and both pressure drops against the allowed.
+
+    Bars are coloured and patterned by the worst screening status (ok / warn / fail).
+
+    Parameters
+    ----------
+    study : Study
+    units : {"SI", "US"}
+    """
+    t = study.table
+    labels = list(t.index)
+    fig = make_subplots(rows=1, cols=2, subplot_titles=("Duty", "Pressure drop"), horizontal_spacing=0.12)
+    duty, dlabel = _conv(t["duty"], "power", units)
+    status = list(t["screening"])
+    fig.add_trace(go.Bar(x=labels, y=duty, name="duty", showlegend=False,
+                         marker=dict(color=[_STATUS_COLOUR[s] for s in status],
+                                     pattern=dict(shape=[_PATTERN[s] for s in status])),
+                         text=[s for s in status], textposition="outside"), row=1, col=1)
+    if study.target is not None and study.target.kind == "duty":
+        tv, _ = _conv([study.target.value], "power", units)
+        fig.add_hline(y=tv[0], line=dict(dash="dash", color="black"), annotation_text="target", row=1, col=1)
+    for side, colour, pattern in (("shell", "#1b4f72", ""), ("tube", "#5dade2", "/")):
+        dp, plabel = _conv(t[f"dp_{side}"], "pressure", units)
+        fig.add_trace(go.Bar(x=labels, y=dp, name=f"ΔP {side}", marker=dict(color=colour, pattern_shape=pattern)),
+                      row=1, col=2)
+        allowed, _ = _conv([_allowed(study, side)], "pressure", units)
+        fig.add_hline(y=allowed[0], line=dict(dash="dot" if side == "shell" else "dash", color=colour),
+                      annotation_text=f"allowed {side}", row=1, col=2)
+    fig.update_yaxes(title_text=f"duty [{dlabel}]", row=1, col=1)
+    fig.update_yaxes(title_text=f"ΔP [{plabel}]", row=1, col=2)
+    fig.update_layout(title="Options at the revamp conditions", barmode="group", **_LAYOUT)
+    return fig
+
+
+def resistance_breakdown(study, share=False) -> go.Figure:
+    """Stacked bars of the five series resistances per case (outside basis): which resistance each option attacks.
+
+    Parameters
+    ----------
+    study : Study
+    share : bool
+        Plot each resistance's share of the total instead of its value [m²K/W].
+    """
+    r = study.resistances
+    if share:
+        r = r.div(r.sum(axis=1), axis=0)
+    fig = go.Figure()
+    for name in r.columns:
+        fig.add_trace(go.Bar(x=list(r.index), y=list(r[name]), name=name, marker_color=_RES_COLOUR.get(name)))
+    fig.update_layout(barmode="stack", title="Resistance breakdown (outside area basis)",
+                      yaxis_title="share of 1/U [-]" if share else "resistance [m²·K/W]", **_LAYOUT)
+    return fig
+
+
+def economics_chart(study) -> go.Figure:
+    """Simple payback and NPV of each option (needs a study with economics).
+
+    Options that never pay back are shown at zero height with the label "no payback".
+    """
+    t = study.table.drop(index="base")
+    cur = f" [{study.economics.currency}]" if study.economics is not None and study.economics.currency else ""
+    fig = make_subplots(rows=1, cols=2, subplot_titles=("Simple payback", "NPV"), horizontal_spacing=0.12)
+    pb = [p if math.isfinite(p) else 0.0 for p in t["payback"]]
+    txt = [f"{p:.2g} y" if math.isfinite(p) else "no payback" for p in t["payback"]]
+    fig.add_trace(go.Bar(x=list(t.index), y=pb, text=txt, textposition="outside", marker_color="#4d7ea8",
+                         showlegend=False), row=1, col=1)
+    fig.add_trace(go.Bar(x=list(t.index), y=list(t["npv"]), marker_color=["#4d7ea8" if v >= 0 else "#b03030"
+                                                                        for v in t["npv"].fillna(0)],
+                         showlegend=False), row=1, col=2)
+    fig.update_yaxes(title_text="payback [years]", row=1, col=1)
+    fig.update_yaxes(title_text=f"NPV{cur}", row=1, col=2)
+    fig.update_layout(title="Economics of the options", **_LAYOUT)
+    return fig
