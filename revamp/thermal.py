@@ -23,8 +23,16 @@ import numpy as np
 
 from .errors import InputError
 
-__all__ = ["lmtd", "F_1_2N", "F_series", "effectiveness", "ntu_from_effectiveness", "max_effectiveness",
-           "outlets", "ARRANGEMENTS"]
+__all__ = [
+    "ARRANGEMENTS",
+    "F_1_2N",
+    "F_series",
+    "effectiveness",
+    "lmtd",
+    "max_effectiveness",
+    "ntu_from_effectiveness",
+    "outlets",
+]
 
 ARRANGEMENTS = ("counterflow", "parallel", "E")
 

@@ -4,7 +4,11 @@ import math
 import numpy as np
 import pytest
 from fluids.friction import Clamond, Swamee_Jain_1976
-from ht.conv_internal import (laminar_entry_Seider_Tate, laminar_entry_thermal_Hausen, turbulent_Gnielinski)
+from ht.conv_internal import (
+    laminar_entry_Seider_Tate,
+    laminar_entry_thermal_Hausen,
+    turbulent_Gnielinski,
+)
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -113,7 +117,7 @@ def test_viscosity_correction_vs_ht():
 
 
 # ------------------------------------------------------------------------------------------------ tube_side
-WATER = dict(rho=995.0, cp=4180.0, mu=0.8e-3, k=0.615)  # invented round numbers near water at 30 °C
+WATER = {"rho": 995.0, "cp": 4180.0, "mu": 0.8e-3, "k": 0.615}  # invented round numbers near water at 30 °C
 
 
 def test_tube_side_turbulent_hand_check():
@@ -148,7 +152,7 @@ def test_tube_side_viscosity_ratio():
 def test_tube_side_warnings():
     r = T.tube_side([0.5, 10.0], 120, 0.0198, 6.0, 2, **WATER)
     assert any("transitional" in w for w in r.warnings)
-    oil = dict(rho=850.0, cp=2000.0, mu=2.0, k=0.12)  # Pr ~ 33000 laminar, above Sieder-Tate's tested range
+    oil = {"rho": 850.0, "cp": 2000.0, "mu": 2.0, "k": 0.12}  # Pr ~ 33000 laminar, above Sieder-Tate's tested range
     r = T.tube_side(1.0, 120, 0.0198, 6.0, 2, **oil)
     assert any("Sieder-Tate" in w and "Pr" in w for w in r.warnings)
 
@@ -181,8 +185,8 @@ def test_tube_side_units_strings():
     assert a.h == pytest.approx(b.h)
 
 
-@pytest.mark.parametrize("kw", [dict(m_dot=-1.0), dict(d_i=0.0), dict(passes=1.5), dict(n_tubes_per_pass=0),
-                                dict(mu=-1e-3), dict(rel_roughness=-0.1)])
+@pytest.mark.parametrize("kw", [{"m_dot": -1.0}, {"d_i": 0.0}, {"passes": 1.5}, {"n_tubes_per_pass": 0},
+                                {"mu": -1e-3}, {"rel_roughness": -0.1}])
 def test_tube_side_bad_input(kw):
     args = dict(m_dot=20.0, n_tubes_per_pass=120, d_i=0.0198, length=6.0, passes=2, **WATER)
     args.update(kw)

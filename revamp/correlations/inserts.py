@@ -21,7 +21,7 @@ from ..errors import InputError
 from ._validity import range_warning
 from .tube import RE_LAMINAR, RE_TURBULENT, friction_darcy, nu_laminar, nu_tube
 
-__all__ = ["TwistedTapeInsert", "WireCoilInsert", "FactorInsert"]
+__all__ = ["FactorInsert", "TwistedTapeInsert", "WireCoilInsert"]
 
 
 def _out(x):
@@ -288,9 +288,9 @@ class FactorInsert:
                 raise InputError(f"insert.{name}", getattr(self, name), "a non-empty list of positive numbers")
             arrays[name] = a
         if not (arrays["re"].size == arrays["nu_factor"].size == arrays["f_factor"].size):
-            raise InputError("insert.re", getattr(self, "re"), "the same length as nu_factor and f_factor")
+            raise InputError("insert.re", self.re, "the same length as nu_factor and f_factor")
         if np.any(np.diff(arrays["re"]) <= 0):
-            raise InputError("insert.re", getattr(self, "re"), "strictly increasing")
+            raise InputError("insert.re", self.re, "strictly increasing")
         for name, a in arrays.items():
             object.__setattr__(self, name, tuple(float(x) for x in a))
 

@@ -25,7 +25,7 @@ References
    Z. VDI Beiheft Verfahrenstechnik 4, 91-98.
 .. [6] Swamee, P. K., Jain, A. K. (1976). Explicit equations for pipe-flow problems.
    J. Hydraulics Division ASCE 102(HY5), 657-664.
-.. [7] Kern, D. Q. (1950). Process Heat Transfer. McGraw-Hill, eq. (7.44)-(7.45): return loss 4 velocity heads
+.. [7] Kern, D. Q. (1950). Process Heat Transfer. McGraw-Hill, ch. 7: return loss 4 velocity heads
    per pass.
 """
 from __future__ import annotations
@@ -39,9 +39,21 @@ from ..units import require, to_si
 from ._validity import range_warning
 
 __all__ = [
-    "friction_petukhov", "friction_darcy", "nu_gnielinski", "nu_sieder_tate", "nu_hausen", "nu_laminar",
-    "nu_tube", "viscosity_correction", "prandtl_correction", "tube_side", "TubeSideResult", "LAMINAR_METHODS",
-    "RE_LAMINAR", "RE_TURBULENT", "RE_FRICTION_TURBULENT",
+    "LAMINAR_METHODS",
+    "RE_FRICTION_TURBULENT",
+    "RE_LAMINAR",
+    "RE_TURBULENT",
+    "TubeSideResult",
+    "friction_darcy",
+    "friction_petukhov",
+    "nu_gnielinski",
+    "nu_hausen",
+    "nu_laminar",
+    "nu_sieder_tate",
+    "nu_tube",
+    "prandtl_correction",
+    "tube_side",
+    "viscosity_correction",
 ]
 
 RE_LAMINAR = 2300.0  #: upper end of laminar flow [-]
@@ -401,7 +413,7 @@ def tube_side(m_dot, n_tubes_per_pass, d_i, length, passes, rho, cp, mu, k, mu_w
 
     References
     ----------
-    Kern, D. Q. (1950). Process Heat Transfer, McGraw-Hill, eqs. (7.44)-(7.45).
+    Kern, D. Q. (1950). Process Heat Transfer, McGraw-Hill, ch. 7 (tube-side pressure drop).
 
     Examples
     --------
