@@ -122,7 +122,7 @@ def reconcile_heat_balance(x, sigma, cp_shell, cp_tube, tol: float = 1e-10, max_
     cp_shell, cp_tube : array_like, shape (...)
         Heat capacity of each side [J/kg/K].
     tol : float
-        Stop when the largest relative closure |f|/duty is below this.
+        Stop when the largest relative closure |f|/duty and the largest relative step are below this.
     max_iter : int
         Most linearisation steps.
 
@@ -155,11 +155,15 @@ def reconcile_heat_balance(x, sigma, cp_shell, cp_tube, tol: float = 1e-10, max_
         r = np.sum(a * (x - xh), axis=-1) + f
         s = np.sum(a * a * V, axis=-1)
         with np.errstate(divide="ignore", invalid="ignore"):
-            xh = x - V * a * (r / s)[..., None]
+            x_new = x - V * a * (r / s)[..., None]
+            step = np.max(np.abs(x_new - xh) / np.maximum(np.abs(x), 1e-300), axis=-1)
+        xh = x_new
         qs_new, qt_new = side_duties(xh, cps, cpt)
         with np.errstate(divide="ignore", invalid="ignore"):
             resid = np.abs(qs_new + qt_new) / np.maximum(np.abs(qs_new), 1e-300)
-        if not np.any(resid > tol):  # NaN rows do not hold the loop
+        # stop when the balance closes and the estimate has settled (the linearisation point then is the optimum);
+        # NaN rows do not hold the loop
+        if not np.any(resid > tol) and not np.any(step > tol):
             break
     duty = np.abs(side_duties(xh, cps, cpt)[0])
     return HeatBalance(duty_shell=duty_shell, duty_tube=duty_tube, balance_error=err, duty=duty, x=xh,

@@ -1,8 +1,8 @@
 """Steady-state filter for plant data.
 
 Rule (common practice, no single source; a formal statistical alternative is the R-test of Cao & Rhinehart 1995,
-J. Process Control 5, 363-374, not used here): a row is steady when, over the trailing time window ending at that row
-(``window``, default 4 h), each flow's relative standard deviation (std/mean) is at most ``flow_rsd`` (default 2 %)
+J. Process Control 5, 363-374, not used here): a row is steady when, over the trailing time window (t − ``window``, t]
+(default 4 h), each flow's relative standard deviation (std/mean) is at most ``flow_rsd`` (default 2 %)
 and each inlet temperature's range (max − min) is at most ``t_range`` (default 2 K), and the window holds at least
 ``min_rows`` valid readings. A trailing window is used because the outlets lag the inlets: a row is trusted when the
 exchanger has seen steady inlets for a while before it. Only valid rows (no flag) enter the windows.

@@ -1,0 +1,221 @@
+"""Tests for revamp.monitoring: data flags, steady filter, reconciliation, cleaning interval, and monitor() round trip.
+
+Sources: the reconciliation formula x̂ = x − V Aᵀ(A V Aᵀ)⁻¹(A x − b) (Kuehn & Davidson 1961; Narasimhan & Jordache
+2000), solved by hand for two- and three-measurement cases; the optimal cleaning interval for linear fouling from the
+Epstein (1979) / Ma & Epstein (1981) condition, solved by hand; unit factors from NIST SP 811 (1 lb = 0.45359237 kg
+exactly, T[K] = (T[°F] + 459.67)/1.8).
+"""
+import numpy as np
+import pandas as pd
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from revamp.errors import InputError
+from revamp.monitoring import (linear_closed_form, optimal_cleaning_interval, read_plant_data,
+                               reconcile_heat_balance, reconcile_linear, steady_state)
+from revamp.monitoring.reconcile import side_duties
+
+DAY = 86400.0
+
+
+# ------------------------------------------------------------------------------------------------- reconciliation
+def test_two_measurements_of_one_quantity_move_in_proportion_to_variance():
+    # Hand solution of x̂ = x − V Aᵀ(A V Aᵀ)⁻¹(A x − b), A = [1, −1], b = 0 (Narasimhan & Jordache 2000, ch. 3):
+    # A x = 100 − 110 = −10; A V Aᵀ = 1 + 4 = 5; λ = −2; x̂1 = 100 + 1·2 = 102; x̂2 = 110 − 4·2 = 102
+    out = reconcile_linear([100.0, 110.0], [1.0, 4.0], [[1.0, -1.0]])
+    assert out == pytest.approx([102.0, 102.0])
+    moves = out - np.array([100.0, 110.0])
+    assert moves[0] / 1.0 == pytest.approx(-moves[1] / 4.0)  # each moved ∝ its variance
+
+
+def test_splitter_three_flows_by_hand():
+    # F1 = F2 + F3 with readings 100, 60, 50 and variances 4, 1, 1: r = 100 − 110 = −10, A V Aᵀ = 6, λ = −10/6;
+    # x̂ = x − V Aᵀ λ  ->  F1 = 100 + 40/6, F2 = 60 − 10/6, F3 = 50 − 10/6 (by hand)
+    out = reconcile_linear([100.0, 60.0, 50.0], [4.0, 1.0, 1.0], [[1.0, -1.0, -1.0]])
+    assert out == pytest.approx([100 + 40 / 6, 60 - 10 / 6, 50 - 10 / 6])
+    assert out[0] == pytest.approx(out[1] + out[2])
+
+
+def test_reconcile_linear_broadcasts_over_rows():
+    x = np.array([[100.0, 110.0], [50.0, 40.0]])
+    out = reconcile_linear(x, np.array([[1.0, 4.0], [1.0, 1.0]]), [[1.0, -1.0]])
+    assert out == pytest.approx(np.array([[102.0, 102.0], [45.0, 45.0]]))
+
+
+def test_heat_balance_only_uncertain_measurement_moves():
+    # If only the tube outlet is uncertain, reconciliation puts the whole error there, and the hand balance gives
+    # Tt_out = Tt_in + Q_shell/(m_t cp_t) = 300 + 10·2500·50/(20·2000) = 331.25 K
+    x = np.array([10.0, 450.0, 400.0, 20.0, 300.0, 326.0])
+    sigma = np.array([1e-9, 1e-9, 1e-9, 1e-9, 1e-9, 1.0])
+    hb = reconcile_heat_balance(x, sigma, 2500.0, 2000.0)
+    assert hb.x[5] == pytest.approx(331.25, abs=1e-6)
+    assert hb.x[:5] == pytest.approx(x[:5], abs=1e-6)
+    assert hb.duty == pytest.approx(1.25e6, rel=1e-9)
+    # balance error before: (1.25e6 − 1.04e6)/mean = 0.21e6/1.145e6
+    assert hb.balance_error == pytest.approx(0.21 / 1.145, rel=1e-9)
+
+
+@settings(max_examples=40, deadline=None)
+@given(ms=st.floats(2, 50), mt=st.floats(2, 50), th=st.floats(400, 500), dth=st.floats(5, 60),
+       tc=st.floats(290, 350), err=st.floats(0.01, 0.2), sign=st.sampled_from([-1.0, 1.0]), s_flow=st.floats(0.005, 0.05), s_t=st.floats(0.1, 2.0))
+def test_heat_balance_closes_and_moves_follow_the_lagrange_condition(ms, mt, th, dth, tc, err, sign, s_flow, s_t):
+    err = sign * err  # a tube flow reading 1-20 % off, so the balance is open before reconciliation
+    cps, cpt = 2400.0, 4180.0
+    q = ms * cps * dth
+    x = np.array([ms, th, th - dth, mt * (1 + err), tc, tc + q / (mt * cpt)])
+    sigma = np.array([s_flow * ms, s_t, s_t, s_flow * mt, s_t, s_t])
+    hb = reconcile_heat_balance(x, sigma, cps, cpt)
+    qs, qt = side_duties(hb.x, cps, cpt)
+    assert abs(qs + qt) <= 1e-8 * abs(qs)  # the balance closes
+    # first-order optimality of weighted least squares: (x̂ − x)_i / σ_i² ∝ ∂f/∂x_i at x̂ (one multiplier)
+    xh = hb.x
+    grad = np.array([cps * (xh[1] - xh[2]), cps * xh[0], -cps * xh[0], cpt * (xh[4] - xh[5]), cpt * xh[3],
+                     -cpt * xh[3]])
+    lam = (xh - x) / sigma**2 / grad
+    assert np.allclose(lam, lam[0], rtol=1e-5, atol=0)
+
+
+# --------------------------------------------------------------------------------------------------------- cleaning
+def test_cleaning_interval_linear_closed_form_by_hand():
+    # c(t) = k t, no downtime: J = (k t²/2 + C)/t, minimum at t = sqrt(2C/k) (Epstein 1979 condition c(t) = J(t));
+    # k = 2e-6 $/s², C = 1e5 $  ->  t = sqrt(1e11) = 316227.766 s
+    assert linear_closed_form(2e-6, 1e5) == pytest.approx(316227.766, rel=1e-9)
+    r = optimal_cleaning_interval(lambda t: 2e-6 * t, 1e5)
+    assert r.interval == pytest.approx(316227.766, rel=1e-5)
+    # with downtime t_d = 3 days costing c_d = 0.01 $/s: k t² + 2 k t_d t − 2(C + c_d t_d) = 0 (by hand)
+    td, cd = 3 * DAY, 0.01
+    by_hand = -td + np.sqrt(td**2 + 2 * (1e5 + cd * td) / 2e-6)
+    r = optimal_cleaning_interval(lambda t: 2e-6 * t, 1e5, downtime=td, downtime_cost_rate=cd)
+    assert r.interval == pytest.approx(by_hand, rel=1e-5)
+    assert linear_closed_form(2e-6, 1e5, td, cd) == pytest.approx(by_hand, rel=1e-12)
+    # at the optimum the instantaneous loss rate equals the cycle-average cost rate (Ma & Epstein 1981)
+    assert r.loss_rate_at_interval == pytest.approx(r.cost_rate, rel=1e-5)
+
+
+def test_cleaning_interval_asymptotic_meets_optimality_condition():
+    r = optimal_cleaning_interval(lambda t: 1.0 - np.exp(-t / (60 * DAY)), 2e5, downtime="3 day")
+    assert not r.bounded
+    assert r.loss_rate_at_interval == pytest.approx(r.cost_rate, rel=1e-5)  # Ma & Epstein (1981)
+
+
+def test_cleaning_never_pays_is_bounded():
+    r = optimal_cleaning_interval(lambda t: np.zeros_like(t), 1e5, t_max="100 day")
+    assert r.bounded and r.interval == pytest.approx(100 * DAY)
+
+
+def test_cleaning_bad_inputs():
+    with pytest.raises(InputError, match="cleaning_cost"):
+        optimal_cleaning_interval(lambda t: t, -1.0)
+    with pytest.raises(InputError, match="loss_rate"):
+        optimal_cleaning_interval(3.0, 1.0)
+
+
+# ------------------------------------------------------------------------------------------------------- plant data
+def _frame(n=24):
+    ts = pd.date_range("2031-01-01", periods=n, freq="h")
+    rng = np.random.default_rng(0)
+    return pd.DataFrame({
+        "timestamp": ts.astype(str),
+        "shell_flow": 10 + rng.normal(0, 0.05, n), "shell_t_in": 450 + rng.normal(0, 0.1, n),
+        "shell_t_out": 400 + rng.normal(0, 0.1, n), "tube_flow": 20 + rng.normal(0, 0.05, n),
+        "tube_t_in": 300 + rng.normal(0, 0.1, n), "tube_t_out": 330 + rng.normal(0, 0.1, n)})
+
+
+def test_clean_data_has_no_flags():
+    pdata = read_plant_data(_frame())
+    assert pdata.frame["valid"].all()
+    assert pdata.counts == {"rows": 24, "valid": 24}
+
+
+def test_every_bad_data_reason_is_reported_and_counted():
+    df = _frame(40).astype(object)
+    df.loc[1, "shell_flow"] = np.nan                       # missing
+    df.loc[2, "tube_t_in"] = "bad"                        # non-numeric
+    df.loc[3, "timestamp"] = ""                           # missing timestamp
+    df.loc[4, "timestamp"] = "not a date"                 # bad timestamp
+    df.loc[6, "timestamp"] = df.loc[5, "timestamp"]       # duplicated
+    df.loc[8, "timestamp"] = "2030-12-31 00:00:00"        # earlier than the rows above: unsorted
+    df.loc[10:17, "tube_flow"] = 20.0                     # flat-lined for 8 rows
+    df.loc[20, "shell_flow"] = 0.0                        # flow <= 0
+    df.loc[22, "shell_t_out"] = 460.0                     # hot side heats up
+    df.loc[24, "tube_t_out"] = 290.0                      # cold side cools down
+    df.loc[26, "tube_t_out"] = 455.0                      # cold outlet above hot inlet
+    df.loc[28, "shell_t_out"] = 295.0                     # hot outlet below cold inlet
+    df.loc[30, "tube_t_in"] = df.loc[30, "shell_t_in"]    # equal inlets
+    pdata = read_plant_data(df)
+    f = pdata.frame
+    assert len(f) == 40  # nothing dropped
+    expect = {1: "missing shell_flow", 2: "non-numeric tube_t_in", 3: "missing timestamp", 4: "bad timestamp",
+              6: "duplicated timestamp", 8: "unsorted timestamp", 20: "flow <= 0 shell_flow",
+              22: "shell outlet above inlet on the hot side", 24: "tube outlet below inlet on the cold side",
+              26: "cold outlet above hot inlet", 28: "hot outlet below cold inlet",
+              30: "no driving force (equal inlets)"}
+    for row, reason in expect.items():
+        assert reason in f.loc[row, "flag"], (row, f.loc[row, "flag"])
+    for row in range(10, 18):
+        assert "flat-lined tube_flow" in f.loc[row, "flag"]
+    assert f.loc[9, "flag"] == "" and f.loc[18, "flag"] == ""
+    c = pdata.counts
+    assert c["flat-lined tube_flow"] == 8
+    # every row is either valid or flagged with at least one counted reason
+    assert c["rows"] == 40 and c["valid"] == int(f["valid"].sum()) == int((f["flag"] == "").sum())
+    reasons = [r for flag in f["flag"] for r in flag.split("; ") if r]
+    assert sum(v for k, v in c.items() if k not in ("rows", "valid")) == len(reasons)
+
+
+def test_sort_reorders_and_counts():
+    df = _frame(10).iloc[[0, 1, 2, 5, 3, 4, 6, 7, 8, 9]].reset_index(drop=True)
+    flagged = read_plant_data(df)
+    assert "unsorted timestamp" in flagged.frame.loc[4, "flag"]
+    pdata = read_plant_data(df, sort=True)
+    assert pdata.frame["timestamp"].is_monotonic_increasing
+    assert pdata.frame["valid"].all() and pdata.counts["re-ordered"] > 0
+
+
+def test_column_mapping_with_units():
+    df = pd.DataFrame({"Time": ["2031-01-01 00:00", "2031-01-01 01:00"], "FI101": [79365.0, 79365.0],
+                       "TI101": [350.0, 351.0], "TI102": [250.0, 251.0], "FI102": [20.0, 20.1],
+                       "TI103": [80.0, 80.5], "TI104": [100.0, 100.5]})
+    cols = {"timestamp": "Time", "shell_flow": ("FI101", "lb/h"), "shell_t_in": ("TI101", "degF"),
+            "shell_t_out": ("TI102", "degF"), "tube_flow": "FI102", "tube_t_in": ("TI103", "degF"),
+            "tube_t_out": ("TI104", "degF")}
+    f = read_plant_data(df, columns=cols).frame
+    # NIST SP 811: 1 lb = 0.45359237 kg; T[K] = (T[°F] + 459.67)/1.8
+    assert f.loc[0, "shell_flow"] == pytest.approx(79365.0 * 0.45359237 / 3600.0, rel=1e-12)
+    assert f.loc[0, "shell_t_in"] == pytest.approx((350.0 + 459.67) / 1.8, rel=1e-12)
+    assert f.loc[1, "tube_flow"] == 20.1  # bare name: already SI
+    with pytest.raises(InputError, match="columns.shell_flow"):
+        read_plant_data(df, columns={**cols, "shell_flow": ("FI101", "degF")})
+    with pytest.raises(InputError, match="FI999"):
+        read_plant_data(df, columns={**cols, "tube_flow": "FI999"})
+    with pytest.raises(InputError, match="columns.flow"):
+        read_plant_data(df, columns={"flow": "FI101"})
+
+
+def test_csv_path(tmp_path):
+    path = tmp_path / "plant.csv"
+    _frame(5).to_csv(path, index=False)
+    pdata = read_plant_data(str(path))
+    assert pdata.counts["valid"] == 5
+    with pytest.raises(InputError, match="data"):
+        read_plant_data(str(tmp_path / "missing.csv"))
+
+
+# ------------------------------------------------------------------------------------------------------ steady state
+def test_steady_filter_rejects_the_window_after_a_step():
+    df = read_plant_data(_frame(48)).frame
+    df.loc[20:, "shell_flow"] *= 1.3  # a 30 % step at row 20
+    st_mask = steady_state(df, window="4 h", flow_rsd=0.02, t_range=2.0)
+    assert st_mask[5:20].all()         # steady before the step (after the first rows fill the window)
+    # the window (t − 4 h, t] of hourly rows holds 4 rows: rows 20-22 see both levels, row 23 only the new one
+    assert not st_mask[20:23].any()
+    assert st_mask[23:].all()
+    assert not st_mask[:2].any()       # fewer than min_rows readings in the first window
+
+
+def test_steady_filter_inlet_temperature_range():
+    df = read_plant_data(_frame(24)).frame
+    df.loc[10, "tube_t_in"] += 5.0  # one 5 K excursion
+    st_mask = steady_state(df, window="3 h", t_range=2.0)
+    assert not st_mask[10:13].any() and st_mask[13:].all()  # windows (t − 3 h, t] that contain row 10
