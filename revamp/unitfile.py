@@ -99,7 +99,8 @@ class ExchangerCase:
 
     ``service`` is today's service; ``revamp_service`` the service at the revamp conditions (today's if the file gives
     none); ``target`` a dict with one of ``duty`` [W], ``t_out_shell``/``t_out_tube`` [K], ``UA`` [W/K] (empty if
-    none); ``limits`` the allowed pressure drops ``{"dp_shell": Pa, "dp_tube": Pa}`` given in the file; ``options``
+    none); ``limits`` the screening limits given in the file (``dp_shell``, ``dp_tube`` [Pa] from each side's
+    ``dp_allowed``, and the ``limits`` section's fields, as :class:`revamp.screening.Limits` takes them); ``options``
     the option objects in file order, ``capex`` a dict option label -> capex [currency]; ``economics`` the
     :class:`revamp.economics.Economics` of its study (None when the file gives no energy price).
     """
@@ -578,6 +579,7 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         return None
     limits = {f"dp_{side}": si[f"{side}_side"]["dp_allowed"] for side in ("shell", "tube")
               if "dp_allowed" in si[f"{side}_side"]}
+    limits.update(si.get("limits") or {})
     return ExchangerCase(index=i, tag=x["tag"], description=x.get("description", ""), exchanger=exchanger,
                          service=service, revamp_service=revamp_service, throughput=throughput,
                          target=dict(rv.get("target") or {}), limits=limits, options=tuple(opts), capex=capex,
