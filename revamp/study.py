@@ -28,7 +28,7 @@ RESISTANCE_NAMES = ("shell film", "shell fouling", "wall", "tube fouling", "tube
 _TARGET_KINDS = {"duty": "power", "t_out_shell": "temperature", "t_out_tube": "temperature", "UA": None}
 _RESERVED = {"base", "today", "today (clean)", "revamp", "revamp (clean)"}
 _STATUS_COLUMNS = {"dp_shell": "dp_shell_status", "dp_tube": "dp_tube_status", "velocity_tube": "velocity_status",
-                   "fluidelastic": "vibration_status", "vortex_shedding": "vibration_status",
+                   "fluidelastic": "vibration_status", "vortex_shedding": "vibration_status", "tube_span": "vibration_status",
                    "nozzle_shell": "nozzle_status"}
 
 

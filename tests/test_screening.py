@@ -214,9 +214,20 @@ def test_screen_on_a_rating_like_object():
                              service=SimpleNamespace(shell=SimpleNamespace(flow=30.0)))
     checks = screen(rating, {"dp_tube": 100e3})
     names = [c.name for c in checks]
-    assert names == ["dp_shell", "dp_tube", "velocity_tube", "fluidelastic", "vortex_shedding", "nozzle_shell"]
+    assert names == ["dp_shell", "dp_tube", "velocity_tube", "fluidelastic", "vortex_shedding", "tube_span",
+                     "nozzle_shell"]
     by = {c.name: c for c in checks}
     assert by["dp_tube"].status == "warn" and by["dp_shell"].limit == 70e3
     assert by["velocity_tube"].limit == 3.0  # the material's erosion maximum
     with pytest.raises(InputError, match="limits.dp"):
         Limits.of({"dp": 1})
+
+
+def test_span_against_tema_table():
+    # TEMA RCB-4.52, steel column: 60 in for 3/4 in tubes [mem]; 0.5 m spacing -> longest span 1.1 m < 1.524 m
+    ex = _exchanger(0.5)
+    c = vib.span_check(ex)
+    assert c.limit == pytest.approx(60 * 0.0254) and c.status == "ok" and c.value == pytest.approx(1.1)
+    assert vib.span_check(_exchanger(0.9)).status == "fail"  # 0.9·1.2 + 0.9 = 1.98 m > 1.524 m
+    brass = SimpleNamespace(name="admiralty brass", elastic_modulus=110e9, density=8530.0, erosion_velocity_max=2.4)
+    assert vib.span_check(_exchanger(0.5, material=brass)).status == "warn"

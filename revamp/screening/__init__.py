@@ -12,11 +12,11 @@ from ..errors import InputError
 from ._check import STATUSES, Check, worst
 from .limits import (DEFAULT_DP_LIQUID, DEFAULT_VELOCITY_MIN, DEFAULT_VELOCITY_MIN_CRUDE, RHO_V2_NO_IMPINGEMENT,
                      RHO_V2_OTHER, nozzle_check, pressure_drop_check, tube_velocity_check)
-from .vibration import BETA_DESIGN, LIFT_DEFAULT, STROUHAL_DEFAULT, vibration_checks
+from .vibration import BETA_DESIGN, LIFT_DEFAULT, STROUHAL_DEFAULT, span_check, vibration_checks
 
 __all__ = [
     "Check", "STATUSES", "worst", "Limits", "screen", "pressure_drop_check", "tube_velocity_check", "nozzle_check",
-    "vibration_checks", "DEFAULT_DP_LIQUID", "DEFAULT_VELOCITY_MIN", "DEFAULT_VELOCITY_MIN_CRUDE",
+    "vibration_checks", "span_check", "DEFAULT_DP_LIQUID", "DEFAULT_VELOCITY_MIN", "DEFAULT_VELOCITY_MIN_CRUDE",
     "RHO_V2_NO_IMPINGEMENT", "RHO_V2_OTHER",
 ]
 
@@ -84,7 +84,7 @@ def screen(rating, limits=None) -> tuple:
     -------
     tuple of Check
         ``dp_shell``, ``dp_tube``, ``velocity_tube``, then ``fluidelastic`` and ``vortex_shedding`` (unless
-        ``limits.vibration`` is False), then ``nozzle_shell`` when the exchanger has a shell nozzle diameter.
+        ``limits.vibration`` is False) and ``tube_span``, then ``nozzle_shell`` when the exchanger has a shell nozzle diameter.
     """
     lim = Limits.of(limits)
     ex = rating.exchanger
@@ -97,6 +97,7 @@ def screen(rating, limits=None) -> tuple:
     if lim.vibration:
         checks += vibration_checks(ex, float(rating.rho_tube), float(rating.rho_shell), float(rating.velocity_shell),
                                    damping=lim.damping, beta=lim.beta, strouhal=lim.strouhal, lift=lim.lift)
+        checks.append(span_check(ex))
     nozzle = getattr(ex, "nozzle_shell", None)
     if nozzle is not None:
         flow = float(rating.service.shell.flow) / int(getattr(ex, "shells_parallel", 1))

@@ -46,6 +46,7 @@ __all__ = [
     "SPAN_CONSTANTS", "BETA_DESIGN", "DAMPING_DEFAULT", "STROUHAL_DEFAULT", "LIFT_DEFAULT", "AMPLITUDE_LIMIT",
     "second_moment", "added_mass_coefficient", "mass_per_length", "natural_frequency",
     "connors_critical_velocity", "vortex_shedding_frequency", "vortex_amplitude", "spans", "vibration_checks",
+    "span_check",
 ]
 
 #: End-condition constant C = λ² of the first bending mode (TEMA V-5.3; Blevins 1979 Table 8-1).
@@ -310,3 +311,22 @@ def vibration_checks(exchanger, rho_tube, rho_shell, velocity_crossflow, *, damp
                f"shedding {fvs:.3g} Hz (St = {strouhal:g}) vs fn {fn:.3g} Hz; lock-in amplitude {amp * 1e3:.3g} mm "
                f"vs TEMA 0.02·do = {amp_lim * 1e3:.3g} mm (C_L = {lift:g}; {where}{extra}); screening only")
     return fe, vs
+
+
+def span_check(exchanger) -> Check:
+    """Longest unsupported span against the TEMA RCB-4.52 maximum (steel and high-alloy column).
+
+    TEMA gives shorter maxima for aluminium, copper and titanium alloys (a separate column); for those the steel
+    value is used and the message says so. The longest span is the largest of :func:`spans`.
+    """
+    from ..geometry import tema_max_unsupported_span
+
+    longest = max(length for length, _, _ in spans(exchanger))
+    limit = float(tema_max_unsupported_span(float(exchanger.tube_od)))
+    name = str(getattr(exchanger.tube_material, "name", "")).lower()
+    soft = any(w in name for w in ("copper", "cu-ni", "cuni", "brass", "titanium", "alumin", "admiralty"))
+    note = "; TEMA's shorter column for this metal not applied" if soft else ""
+    status = "fail" if longest > limit else ("warn" if soft else "ok")
+    return Check("tube_span", status, longest, limit, "m",
+                 f"longest unsupported span {longest:.3g} m vs TEMA RCB-4.52 maximum {limit:.3g} m (steel column"
+                 f"{note}); screening only")
