@@ -15,7 +15,7 @@ Taborek, J. (1983). Shell-and-tube heat exchangers: single-phase flow. In *Heat 
 Hemisphere. (Bell-Delaware geometry, notation, tube-count estimate.)
 Serth, R. W., Lestina, T. (2014). *Process Heat Transfer: Principles, Applications and Rules of Thumb*, 2nd ed.,
 Academic Press, ch. 6.
-Shah, R. K., Sekulić, D. P. (2003). *Fundamentals of Heat Exchanger Design*, Wiley, §8.5 and §9.5 (crossflow
+Shah, R. K., Sekulić, D. P. (2003). *Fundamentals of Heat Exchanger Design*, Wiley, ch. 9 (crossflow
 area for the 45° and 60° layouts).
 TEMA (2007). *Standards of the Tubular Exchanger Manufacturers Association*, 9th ed.: RCB-4.2 (tube holes in
 baffles), RCB-4.3 (baffle-to-shell clearance), RCB-4.52 (maximum unsupported straight tube span).
@@ -53,7 +53,7 @@ _REAR_ALIASES = {
 }
 _INCH = 0.0254
 
-# pitch parallel and normal to the flow, as fractions of the tube pitch (Taborek 1983, HEDH §3.3.5)
+# pitch parallel and normal to the flow, as fractions of the tube pitch (Taborek 1983, HEDH §3.3)
 _PITCH_PARALLEL = {30: math.sqrt(3) / 2, 45: math.sqrt(0.5), 60: 0.5, 90: 1.0}
 _PITCH_NORMAL = {30: 0.5, 45: math.sqrt(0.5), 60: math.sqrt(3) / 2, 90: 1.0}
 # effective pitch for the crossflow area: Pt for 30° and 90°, 0.707 Pt for 45° (Taborek 1983); 0.866 Pt for 60°
@@ -313,9 +313,17 @@ def bell_geometry(*, Ds, tube_od, pitch, layout, tubes, length, Lbc, Lbi, Lbo, N
     -------
     BellGeometry
 
+    Notes
+    -----
+    Written from the HEDH equations as recalled (checked in the tests against closed-form geometry, an explicit
+    tube lattice and the `ht` library where it codes the same quantity): Sm = Lbc [Lbb + Dctl/Ptef (Pt - do)];
+    Ssb = π Ds (Lsb/2)(1 - θds/2π); Stb = (π/4)((do + Ltb)² - do²) N (1 - Fw); Ncw = 0.8/Pp [Ds Bc - (Ds - Dctl)/2];
+    Dw = 4 Sw / (π do N Fw + Ds θds/2) (tubes plus shell arc in the window). Pass-partition lanes are not added
+    to the bypass area Sb.
+
     References
     ----------
-    Taborek (1983), HEDH §3.3.5-3.3.6, the equations of the geometry; Shah & Sekulić (2003) for the 60° Sm.
+    Taborek (1983), HEDH §3.3, the equations of the geometry; Shah & Sekulić (2003) for the 60° Sm.
     """
     Dotl = Ds - Lbb
     Dctl = Dotl - tube_od
@@ -347,7 +355,7 @@ def bell_geometry(*, Ds, tube_od, pitch, layout, tubes, length, Lbc, Lbi, Lbo, N
 def tube_count_estimate(Dctl: float, pitch: float, layout: int) -> float:
     """Tubes that fit in a one-pass bundle, Taborek's estimate ``0.78 Dctl² / (C1 Pt²)`` [-].
 
-    C1 = 0.866 for 30° and 60° layouts, 1.0 for 45° and 90° (Taborek 1983, HEDH §3.3.5).
+    C1 = 0.866 for 30° and 60° layouts, 1.0 for 45° and 90° (Taborek 1983, HEDH §3.3).
 
     Examples
     --------

@@ -76,7 +76,7 @@ def ideal_j(Re, pitch_ratio, layout):
 
     References
     ----------
-    Taborek (1983), HEDH §3.3.7; Serth & Lestina (2014) Table 6.1. Fitted for about 1 < Re < 1e5.
+    Taborek (1983), HEDH §3.3; Serth & Lestina (2014) Table 6.1. Fitted for about 1 < Re < 1e5.
 
     Examples
     --------
@@ -110,7 +110,7 @@ def ideal_f(Re, pitch_ratio, layout):
 
     References
     ----------
-    Taborek (1983), HEDH §3.3.7; Serth & Lestina (2014) Table 6.1.
+    Taborek (1983), HEDH §3.3; Serth & Lestina (2014) Table 6.1.
     """
     return _fit(Re, pitch_ratio, layout, "f")
 
@@ -166,7 +166,7 @@ def _geometry_factors(geom):
 
 
 def correction_factors(geom, Re):
-    """The Bell-Delaware correction factors at Reynolds number(s) ``Re`` (Taborek 1983, HEDH §3.3.8-3.3.9).
+    """The Bell-Delaware correction factors at Reynolds number(s) ``Re`` (Taborek 1983, HEDH §3.3).
 
     Parameters
     ----------
@@ -245,7 +245,8 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
     -----
     Validity: about 1 < Re < 1e5 (the ideal-bank fits), baffle cut 15-45 % of Ds, central spacing 0.2-1.0 Ds
     (Taborek 1983). Outside these the numbers are returned with a warning. Pass-partition lanes are not counted
-    in the bypass area.
+    in the bypass area. The laminar window form above is written from memory of HEDH and is checked only against
+    itself; nozzle pressure drops are left to the caller.
 
     References
     ----------

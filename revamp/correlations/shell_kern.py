@@ -5,8 +5,8 @@ row, ``As = Ds (Pt - do) B / Pt``; it ignores leakage and bypass streams, so it 
 
 References
 ----------
-Kern, D. Q. (1950). *Process Heat Transfer*, McGraw-Hill, ch. 7 (eq. 6.15b for h; eq. 7.44 for Δp; Fig. 28 for De).
-Kakaç, S., Liu, H. (2002). *Heat Exchangers: Selection, Rating and Thermal Design*, 2nd ed., CRC Press, §8.4:
+Kern, D. Q. (1950). *Process Heat Transfer*, McGraw-Hill, ch. 7 (h, Δp and the equivalent diameter; his Fig. 28 tabulates De).
+Kakaç, S., Liu, H. (2002). *Heat Exchangers: Selection, Rating and Thermal Design*, 2nd ed., CRC Press, ch. 8 (from memory):
 the fit f = exp(0.576 - 0.19 ln Re) of Kern's shell-side friction chart, 400 < Re <= 1e6, for the SI form
 Δp = f Gs² (Nb + 1) Ds / (2 ρ De (μ/μw)^0.14).
 """
@@ -27,7 +27,7 @@ def kern_equivalent_diameter(tube_od: float, pitch: float, layout: int) -> float
     """Kern's shell-side equivalent diameter De [m].
 
     Square (90°) and rotated square (45°): ``4 (Pt² - π do²/4) / (π do)``; triangular (30°, 60°):
-    ``4 (0.866 Pt²/2 - π do²/8) / (π do / 2)`` (Kern 1950, eq. 7.4-7.5 and Fig. 28).
+    ``4 (0.866 Pt²/2 - π do²/8) / (π do / 2)`` (Kern 1950, ch. 7).
 
     Examples
     --------
