@@ -105,8 +105,8 @@ MATERIALS: dict[str, Material] = {
                  f"UNS C70600: k 26 BTU/h·ft·°F = 45 W/m·K at 20 °C, modulus 18,000 ksi (Copper Development "
                  f"Association, from memory); 48 W/m·K near 100 °C (from memory, check against ASME II-D TCD); "
                  f"erosion velocity {_CP}"),
-        Material("70/30 copper-nickel", _c((20.0, 100.0)), (29.0, 31.0), 8940.0, 152e9, 3.7,
-                 f"UNS C71500: k 17 BTU/h·ft·°F = 29 W/m·K at 20 °C, modulus 22,000 ksi (Copper Development "
+        Material("70/30 copper-nickel", _c((20.0, 100.0)), (29.4, 31.0), 8940.0, 152e9, 3.7,
+                 f"UNS C71500: k 17 BTU/h·ft·°F = 29.4 W/m·K at 20 °C, modulus 22,000 ksi (Copper Development "
                  f"Association, from memory); 31 W/m·K near 100 °C (from memory, check against ASME II-D TCD); "
                  f"erosion velocity {_CP}"),
         Material("alloy 625", _c((21.0, 93.0, 204.0, 316.0, 427.0, 538.0)), (9.8, 10.8, 12.5, 14.1, 15.7, 17.5),

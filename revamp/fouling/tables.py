@@ -312,7 +312,7 @@ def design_fouling(service: str, temperature=None, velocity=None, salt=None) -> 
         v = to_si(velocity, "velocity", "velocity")
         if np.ndim(v) or v < 0:
             raise InputError("velocity", velocity, "one velocity >= 0 (m/s)")
-        v_fts = float(v) / 0.3048
+        v_fts = round(float(v) / 0.3048, 9)  # round off the unit round trip (3 ft/s stays 3)
         rows = [r for r in rows if r["v_low_fts"] <= v_fts < r["v_high_fts"]]
         notes.append(f"velocity {v_fts:.2f} ft/s in band "
                      f"{_band_text(rows[0]['v_low_fts'], rows[0]['v_high_fts'], 'ft/s')}")
