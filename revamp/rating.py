@@ -201,6 +201,11 @@ class Rating:
 
 
 # --------------------------------------------------------------------------------------------------- the engine
+def _below(t_max):
+    """A temperature just below an upper limit (the limit itself when it is infinite)."""
+    return t_max - 1e-6 * t_max if np.isfinite(t_max) else t_max
+
+
 def _props(fluid, T, side, what, bad):
     """Fluid properties at T; a temperature the fluid cannot take is clipped and marked in ``bad``."""
     T = np.asarray(T, dtype=float)
@@ -209,7 +214,7 @@ def _props(fluid, T, side, what, bad):
     except InputError:
         lo, hi = fluid.t_min, fluid.t_max
         out = (T < lo) | (T >= hi)
-        Tc = np.clip(T, lo, hi - 1e-6 * max(hi, 1.0))
+        Tc = np.clip(T, lo, _below(hi))
         bad = out if bad is None else (bad | out)
         return fluid.props(Tc), bad
 
@@ -219,7 +224,7 @@ def _wall_props(fluid, T):
 
     Returns the viscosity and which end was clipped: ``""``, ``"low"`` or ``"high"``.
     """
-    hi = fluid.t_max - 1e-6 * max(fluid.t_max, 1.0)
+    hi = _below(fluid.t_max)
     Tc = np.clip(T, fluid.t_min, hi)
     which = "high" if np.any(T > hi) else ("low" if np.any(T < fluid.t_min) else "")
     return fluid.props(Tc).viscosity, which

@@ -15,6 +15,7 @@ Examples
 from __future__ import annotations
 
 import numbers
+import re
 from functools import lru_cache
 
 import numpy as np
@@ -50,23 +51,23 @@ DIMENSIONS: dict[str, tuple[str, str]] = {
     "dimensionless": ("dimensionless", "a plain number"),
 }
 
-# the unit a delta temperature must be converted in: a difference, not an offset temperature
-_DELTA = {"degC": "delta_degC", "degF": "delta_degF", "degR": "delta_degF", "°C": "delta_degC", "°F": "delta_degF"}
+# Inside a compound unit (BTU/lb/degF, h*ft**2*degF/BTU) a temperature is a *difference*: pint would otherwise take
+# degF as an absolute temperature (with autoconvert_offset_to_baseunit, 1 degF -> 255.9 K), a silent wrong number.
+_DELTA_RE = re.compile(r"(?<![A-Za-z_])(degC|degF|°C|°F|celsius|fahrenheit|degree_Celsius|degree_Fahrenheit)(?![A-Za-z_])")
+_DELTA = {"degC": "delta_degC", "°C": "delta_degC", "celsius": "delta_degC", "degree_Celsius": "delta_degC",
+          "degF": "delta_degF", "°F": "delta_degF", "fahrenheit": "delta_degF", "degree_Fahrenheit": "delta_degF"}
+
+
+def _as_differences(text: str) -> str:
+    """Rewrite offset temperature units as differences (for every kind but an absolute temperature)."""
+    return _DELTA_RE.sub(lambda m: _DELTA[m.group(1)], text)
 
 
 @lru_cache(maxsize=4096)
 def _parse_string(text: str, kind: str) -> float:
     si_unit, words = DIMENSIONS[kind]
     try:
-        if kind == "temperature_difference":
-            q = ureg.Quantity(text)
-            units = str(q.units)
-            if units in ("degree_Celsius", "degC"):
-                q = ureg.Quantity(q.magnitude, "delta_degC")
-            elif units in ("degree_Fahrenheit", "degF"):
-                q = ureg.Quantity(q.magnitude, "delta_degF")
-        else:
-            q = ureg.Quantity(text)
+        q = ureg.Quantity(text if kind == "temperature" else _as_differences(text))
     except Exception as exc:  # pint raises many types: undefined unit, syntax, ...
         raise ValueError(f"cannot read {text!r} as a number with a unit ({exc.__class__.__name__})") from None
     if not isinstance(q, pint.Quantity):
@@ -170,16 +171,16 @@ DISPLAY_UNITS = {
     },
     "US": {
         "temperature": "degF", "temperature_difference": "delta_degF", "length": "inch", "area": "ft**2",
-        "mass_flow": "lb/h", "pressure": "psi", "velocity": "ft/s", "htc": "BTU/h/ft**2/degF",
-        "fouling": "h*ft**2*degF/BTU", "power": "BTU/h", "density": "lb/ft**3", "heat_capacity": "BTU/lb/degF",
-        "viscosity": "cP", "conductivity": "BTU/h/ft/degF", "dimensionless": "dimensionless",
+        "mass_flow": "lb/h", "pressure": "psi", "velocity": "ft/s", "htc": "BTU/h/ft**2/delta_degF",
+        "fouling": "h*ft**2*delta_degF/BTU", "power": "BTU/h", "density": "lb/ft**3", "heat_capacity": "BTU/lb/delta_degF",
+        "viscosity": "cP", "conductivity": "BTU/h/ft/delta_degF", "dimensionless": "dimensionless",
     },
 }
 
 _SYMBOLS = {"degC": "°C", "degF": "°F", "delta_degC": "K", "delta_degF": "°F", "m**2": "m²", "W/m**2/K": "W/m²·K",
-            "m**2*K/W": "m²·K/W", "ft**2": "ft²", "BTU/h/ft**2/degF": "BTU/h·ft²·°F", "h*ft**2*degF/BTU":
-            "h·ft²·°F/BTU", "kg/m**3": "kg/m³", "lb/ft**3": "lb/ft³", "kJ/kg/K": "kJ/kg·K", "BTU/lb/degF":
-            "BTU/lb·°F", "mPa*s": "mPa·s", "W/m/K": "W/m·K", "BTU/h/ft/degF": "BTU/h·ft·°F", "inch": "in",
+            "m**2*K/W": "m²·K/W", "ft**2": "ft²", "BTU/h/ft**2/delta_degF": "BTU/h·ft²·°F", "h*ft**2*delta_degF/BTU":
+            "h·ft²·°F/BTU", "kg/m**3": "kg/m³", "lb/ft**3": "lb/ft³", "kJ/kg/K": "kJ/kg·K", "BTU/lb/delta_degF":
+            "BTU/lb·°F", "mPa*s": "mPa·s", "W/m/K": "W/m·K", "BTU/h/ft/delta_degF": "BTU/h·ft·°F", "inch": "in",
             "dimensionless": ""}
 
 
