@@ -20,7 +20,7 @@ from .economics import Economics, cycle_average, simple_payback
 from .errors import InputError
 from .options import option_label
 from .screening import Limits, screen, worst
-from .units import require, to_si
+from .units import require, to_si, ureg
 
 __all__ = ["Target", "Study", "compare", "RESISTANCE_NAMES"]
 
@@ -52,7 +52,15 @@ class Target:
         if self.kind not in _TARGET_KINDS:
             raise InputError("target", self.kind, f"one of {sorted(_TARGET_KINDS)}")
         unit = _TARGET_KINDS[self.kind]
-        v = float(self.value) if unit is None else to_si(self.value, unit, f"target.{self.kind}")
+        if unit is not None:
+            v = to_si(self.value, unit, f"target.{self.kind}")
+        elif isinstance(self.value, str):  # a U·A with its unit, e.g. "20 kW/K"
+            try:
+                v = ureg.Quantity(self.value).to("W/K").magnitude
+            except Exception:
+                raise InputError("target.UA", self.value, "a conductance U·A (W/K, or e.g. '20 kW/K')") from None
+        else:
+            v = float(self.value)
         object.__setattr__(self, "value", float(require(v, f"target.{self.kind}", gt=0)))
 
     @classmethod
@@ -224,8 +232,8 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
     tgt = Target.of(target)
     lim = Limits.of(limits)
     eco = Economics.of(economics)
-    if revamp is None:
-        rev = service
+    if revamp is None or revamp is service:
+        revamp, rev = None, service
     elif isinstance(revamp, Service):
         rev = revamp
     else:

@@ -61,7 +61,10 @@ def test_money_by_hand(study):
         value = gain * 8000 * 3600 / 1e9 * 8.0 / 0.85
         assert row["annual_value"] == pytest.approx(value, rel=1e-9)
         assert row["capex"] == ECON["capex"][o.label]
-        assert row["payback"] == (row["capex"] / value if value > 0 else math.inf)
+        if value > 0:
+            assert row["payback"] == pytest.approx(row["capex"] / value, rel=1e-9)
+        else:
+            assert row["payback"] == math.inf
         # NPV: -capex + value × annuity factor (10 %, 10 years = 6.1446, PV tables [from memory])
         assert row["npv"] == pytest.approx(-row["capex"] + value * 6.1446, abs=1e-4 * abs(value) + 1e-6)
 
