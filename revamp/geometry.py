@@ -317,7 +317,8 @@ def bell_geometry(*, Ds, tube_od, pitch, layout, tubes, length, Lbc, Lbi, Lbo, N
     -----
     Written from the HEDH equations as recalled (checked in the tests against closed-form geometry, an explicit
     tube lattice and the `ht` library where it codes the same quantity): Sm = Lbc [Lbb + Dctl/Ptef (Pt - do)];
-    Ssb = π Ds (Lsb/2)(1 - θds/2π); Stb = (π/4)((do + Ltb)² - do²) N (1 - Fw); Ncw = 0.8/Pp [Ds Bc - (Ds - Dctl)/2];
+    Ssb = π Ds (Lsb/2)(1 - θds/2π); Stb = (π/4)((do + Ltb)² - do²) N (1 - Fw);
+    Ncw = 0.8/Pp [Ds Bc - (Ds - Dctl)/2];
     Dw = 4 Sw / (π do N Fw + Ds θds/2) (tubes plus shell arc in the window). Pass-partition lanes are not added
     to the bypass area Sb.
 

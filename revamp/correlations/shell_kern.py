@@ -5,8 +5,10 @@ row, ``As = Ds (Pt - do) B / Pt``; it ignores leakage and bypass streams, so it 
 
 References
 ----------
-Kern, D. Q. (1950). *Process Heat Transfer*, McGraw-Hill, ch. 7 (h, Δp and the equivalent diameter; his Fig. 28 tabulates De).
-Kakaç, S., Liu, H. (2002). *Heat Exchangers: Selection, Rating and Thermal Design*, 2nd ed., CRC Press, ch. 8 (from memory):
+Kern, D. Q. (1950). *Process Heat Transfer*, McGraw-Hill, ch. 7 (h, Δp and the equivalent diameter;
+his Fig. 28 tabulates De).
+Kakaç, S., Liu, H. (2002). *Heat Exchangers: Selection, Rating and Thermal Design*, 2nd ed., CRC Press,
+ch. 8 (from memory):
 the fit f = exp(0.576 - 0.19 ln Re) of Kern's shell-side friction chart, 400 < Re <= 1e6, for the SI form
 Δp = f Gs² (Nb + 1) Ds / (2 ρ De (μ/μw)^0.14).
 """
