@@ -75,6 +75,10 @@ def _run_one(job: dict) -> dict:
     import papermill as pm
 
     start = time.perf_counter()
+    if job.get("quiet_kernel", True):  # the kernels' start-up chatter would garble the progress bar
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, 2)
+        os.close(devnull)
     tag, out = job["tag"], Path(job["out"])
     work = Path(tempfile.mkdtemp(prefix=".run-", dir=out))
     summary_path, executed = work / "summary.json", work / "executed.ipynb"
@@ -228,12 +232,8 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
 
     bar = tqdm(total=len(jobs_list), desc="reports", unit="exchanger", disable=not progress)
     results = []
-    if int(jobs) == 1 or len(jobs_list) <= 1:
-        for job in jobs_list:
-            results.append(_run_one(job))
-            bar.update(1)
-    else:
-        with ProcessPoolExecutor(max_workers=int(jobs), mp_context=get_context("spawn")) as pool:
+    if jobs_list:  # always in worker processes: a worker silences its own stderr, never ours
+        with ProcessPoolExecutor(max_workers=min(int(jobs), len(jobs_list)), mp_context=get_context("spawn")) as pool:
             futures = {pool.submit(_run_one, job): job for job in jobs_list}
             for fut in as_completed(futures):
                 job = futures[fut]

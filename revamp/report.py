@@ -95,8 +95,15 @@ def copy_plotly_js(out_dir) -> Path:
     fd, tmp = tempfile.mkstemp(dir=dest.parent, prefix=".plotly-", suffix=".tmp")
     os.close(fd)
     shutil.copyfile(src, tmp)
+    os.chmod(tmp, 0o666 & ~_umask())
     os.replace(tmp, dest)
     return dest
+
+
+def _umask() -> int:
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
 
 
 def write_atomic(path, text: str) -> Path:
@@ -107,6 +114,7 @@ def write_atomic(path, text: str) -> Path:
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(text)
+        os.chmod(tmp, 0o666 & ~_umask())
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)

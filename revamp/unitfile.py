@@ -593,7 +593,7 @@ def _sorted(problems):
     return sorted(problems, key=key)
 
 
-def _validate(path, build: bool):
+def _validate(path, build: bool, only=None):
     path = Path(path)
     try:
         data = path.read_bytes()
@@ -634,7 +634,7 @@ def _validate(path, build: bool):
         capacity_margin=e.get("capacity_margin"), cleaning_cost=e.get("cleaning_cost"))
     built = []
     for i, x in enumerate(exchangers):
-        if _owned(problems, i) or not isinstance(x, dict):
+        if _owned(problems, i) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):
             continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
         case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ)
         if case is not None:
@@ -659,15 +659,15 @@ def _entries(unit_or_doc) -> list[tuple[str, int]]:
     return out
 
 
-def load_partial(path):
+def load_partial(path, only=None):
     """Load what is valid: ``(unit, problems, entries)``.
 
     ``unit`` holds the exchangers without problems (``None`` when the file has problems outside its exchangers,
     e.g. bad YAML or economics); ``problems`` lists every problem; ``entries`` is ``(tag, index)`` for every exchanger
     of the file in order (an exchanger without a usable tag is named ``exchangers[i]``). The batch uses this so that
-    one broken exchanger never stops the others.
+    one broken exchanger never stops the others. ``only``: tags to build (the others are still checked, not built).
     """
-    unit, problems = _validate(path, build=True)
+    unit, problems = _validate(path, build=True, only=set(only) if only is not None else None)
     return unit, problems, _entries(unit.raw if unit is not None else {})
 
 
