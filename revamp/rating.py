@@ -348,7 +348,8 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     else:  # pragma: no cover - the iteration is a contraction in practice
         raise InputError("service", "property iteration", f"to converge within {_MAX_ITER} passes")
 
-    warnings = list(ts_res.warnings) + list(ss_res.warnings)
+    warnings = [f"geometry: {note}" for note in getattr(hx, "notes", ())]
+    warnings += list(ts_res.warnings) + list(ss_res.warnings)
     for side, fluid, temps in (("shell", s_fluid, (ts_in, to_s)), ("tube", t_fluid, (tt_in, to_t))):
         for T in temps:
             warnings += [f"{side} side: {w}" for w in fluid.check(T)]
