@@ -229,5 +229,9 @@ def test_span_against_tema_table():
     c = vib.span_check(ex)
     assert c.limit == pytest.approx(60 * 0.0254) and c.status == "ok" and c.value == pytest.approx(1.1)
     assert vib.span_check(_exchanger(0.9)).status == "fail"  # 0.9·1.2 + 0.9 = 1.98 m > 1.524 m
+    # 0.63 m spacing -> 1.386 m: within 10 % of the 1.524 m steel limit (warn); copper alloys: TEMA's shorter column,
+    # 52 in = 1.32 m for 3/4 in tubes [mem] -> fail
     brass = SimpleNamespace(name="admiralty brass", elastic_modulus=110e9, density=8530.0, erosion_velocity_max=2.4)
-    assert vib.span_check(_exchanger(0.5, material=brass)).status == "warn"
+    assert vib.span_check(_exchanger(0.63)).status == "warn"
+    c = vib.span_check(_exchanger(0.63, material=brass))
+    assert c.limit == pytest.approx(52 * 0.0254, rel=0.01) and c.status == "fail"
