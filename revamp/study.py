@@ -212,7 +212,8 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
         Screening limits (:class:`revamp.screening.Limits`).
     economics : None, dict or Economics
         Prices and costs (:class:`revamp.economics.Economics`); the value of an option is that of its extra duty
-        over the base case, plus the capacity value when it meets the target without failing a limit.
+        over the base case, plus the capacity value when it meets the target without failing a limit while the base
+        case does not (the exchanger was the bottleneck).
     revamp : None, float or Service
         The revamp conditions: a throughput factor on both flows (``1.2``) or a Service; ``None``: today's.
     cycle : dict, optional
@@ -259,6 +260,8 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
         if cycle is not None:
             rows[label]["duty_cycle_avg"] = _cycle(cycle, ex, svc, rate, shell_method)
     base_duty = rows["base"]["duty_cycle_avg" if cycle is not None else "duty"]
+    # capacity is gained only when the base case is the bottleneck (misses the target or fails a limit)
+    base_ok = tgt is None or (rows["base"]["meets_target"] and rows["base"]["screening"] != "fail")
     for label, row in rows.items():
         row["duty_gain"] = row["duty"] - rows["base"]["duty"]
         ok = row["meets_target"] and row["screening"] != "fail"
@@ -268,7 +271,7 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
         else:
             gain = row["duty_cycle_avg" if cycle is not None else "duty"] - base_duty
             row["capex"] = eco.cost(label)
-            row["annual_value"] = eco.value(gain, meets_target=ok and tgt is not None)
+            row["annual_value"] = eco.value(gain, meets_target=ok and not base_ok)
             row["payback"] = float(simple_payback(row["capex"], row["annual_value"]))
             row["npv"] = eco.npv(label, row["annual_value"])
     order = sorted(labels, key=lambda k: (not (rows[k]["meets_target"] and rows[k]["screening"] != "fail"),

@@ -133,3 +133,35 @@ def test_bad_inputs():
         Target.of({"pressure": 1.0})
     with pytest.raises(InputError, match="limits"):
         rv.compare(EX, SVC, [], limits={"dp": 1.0})
+
+
+def test_capacity_value_only_when_the_option_removes_the_bottleneck():
+    base = float(rv.rate(EX, SVC).duty)
+    econ = dict(energy_price=8.0, capex={"clean both sides": 1e4, "add 1 shell in series": 5e5},
+                capacity_flow=0.5, capacity_margin=0.02)
+    capacity = 0.5 * 8000 * 3600 * 0.02  # kg/s × s/year × per kg (hand calculation)
+    s = rv.compare(EX, SVC, [op.Clean(), op.AddShells(1)], target=1.02 * base, economics=econ,
+                   limits={"vibration": False, "dp_tube": 1e6, "dp_shell": 1e6})
+    for label in ("clean both sides", "add 1 shell in series"):
+        row = s.table.loc[label]
+        energy = ec.annual_duty_value(row["duty"] - base, 8.0, "GJ", "8000 h")
+        assert row["annual_value"] == pytest.approx(energy + (capacity if row["meets_target"] else 0.0), rel=1e-9)
+    # the base case already meets a lower target: no capacity credit for anyone
+    s2 = rv.compare(EX, SVC, [op.AddShells(1)], target=0.5 * base, economics=econ,
+                    limits={"vibration": False, "dp_tube": 1e6, "dp_shell": 1e6})
+    row = s2.table.loc["add 1 shell in series"]
+    assert row["annual_value"] == pytest.approx(ec.annual_duty_value(row["duty"] - base, 8.0, "GJ", "8000 h"))
+
+
+def test_cycle_fouling_for_sees_each_option_clean():
+    seen = []
+
+    def fouling_for(rating):
+        seen.append((float(rating.service.fouling_tube), float(rating.velocity_tube)))
+        return lambda t: 1e-11 * np.asarray(t) / float(rating.velocity_tube)  # slower at higher velocity
+
+    s = rv.compare(EX, SVC, [op.AddShells(1, "parallel")],
+                   cycle={"fouling_for": fouling_for, "run_length": "200 day", "points": 3})
+    assert [f for f, _ in seen] == [0.0, 0.0]
+    assert seen[1][1] == pytest.approx(seen[0][1] / 2, rel=1e-6)  # half the flow per train
+    assert np.isfinite(s.table["duty_cycle_avg"]).all()
