@@ -16,8 +16,9 @@ from .units import from_si, to_si
 
 __all__ = ["option_comparison", "resistance_breakdown", "economics_chart"]
 
-_LAYOUT = dict(template="simple_white", font=dict(size=14), legend=dict(orientation="h", y=-0.25),
-               margin=dict(l=70, r=30, t=70, b=120))
+_LAYOUT = dict(template="simple_white", font=dict(size=14),
+               legend=dict(orientation="h", yanchor="bottom", y=1.08, xanchor="right", x=1.0),
+               margin=dict(l=70, r=30, t=110, b=40))
 _STATUS_COLOUR = {"ok": "#4d7ea8", "warn": "#e0a030", "fail": "#b03030", "n/a": "#999999"}
 _PATTERN = {"ok": "", "warn": "/", "fail": "x", "n/a": "."}
 _RES_COLOUR = {"shell film": "#1b4f72", "shell fouling": "#a04000", "wall": "#7f8c8d", "tube fouling": "#e67e22",
@@ -65,7 +66,11 @@ def option_comparison(study, units="SI") -> go.Figure:
                       annotation_text=f"allowed {side}", row=1, col=2)
     fig.update_yaxes(title_text=f"duty [{dlabel}]", row=1, col=1)
     fig.update_yaxes(title_text=f"ΔP [{plabel}]", row=1, col=2)
-    fig.update_layout(title="Options at the revamp conditions", barmode="group", **_LAYOUT)
+    title = "Options at the revamp conditions"
+    if study.target is not None:
+        title += f" (target {study.target.kind} {study.target.describe()})"
+    fig.update_layout(title=title, barmode="group", **_LAYOUT)
+    fig.update_xaxes(tickangle=-30, automargin=True)
     return fig
 
 
@@ -86,14 +91,22 @@ def resistance_breakdown(study, share=False) -> go.Figure:
         fig.add_trace(go.Bar(x=list(r.index), y=list(r[name]), name=name, marker_color=_RES_COLOUR.get(name)))
     fig.update_layout(barmode="stack", title="Resistance breakdown (outside area basis)",
                       yaxis_title="share of 1/U [-]" if share else "resistance [m²·K/W]", **_LAYOUT)
+    fig.update_xaxes(tickangle=-30, automargin=True)
     return fig
 
 
 def economics_chart(study) -> go.Figure:
-    """Simple payback and NPV of each option (needs a study with economics).
+    """Simple payback and NPV of each option.
 
-    Options that never pay back are shown at zero height with the label "no payback".
+    Options that never pay back are shown at zero height with the label "no payback". A study without economics
+    gives an empty chart that says so.
     """
+    if study.economics is None:  # an empty chart that says why, so that a report can always show the section
+        fig = go.Figure()
+        fig.add_annotation(text="No economics given: no cost, value or payback.", showarrow=False, x=0.5, y=0.5,
+                           xref="paper", yref="paper", font=dict(size=16))
+        fig.update_layout(title="Economics of the options", xaxis_visible=False, yaxis_visible=False, **_LAYOUT)
+        return fig
     t = study.table.drop(index="base")
     cur = f" [{study.economics.currency}]" if study.economics is not None and study.economics.currency else ""
     fig = make_subplots(rows=1, cols=2, subplot_titles=("Simple payback", "NPV"), horizontal_spacing=0.12)
@@ -107,4 +120,5 @@ def economics_chart(study) -> go.Figure:
     fig.update_yaxes(title_text="payback [years]", row=1, col=1)
     fig.update_yaxes(title_text=f"NPV{cur}", row=1, col=2)
     fig.update_layout(title="Economics of the options", **_LAYOUT)
+    fig.update_xaxes(tickangle=-30, automargin=True)
     return fig

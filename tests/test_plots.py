@@ -60,6 +60,13 @@ def test_economics_chart(study):
     assert list(npv.y) == pytest.approx(list(t["npv"]))
 
 
+def test_economics_chart_without_economics_says_so():
+    s = rv.compare(EX, SVC, [op.Clean()])
+    fig = plots.economics_chart(s)
+    assert len(fig.data) == 0 and "No economics" in fig.layout.annotations[0].text
+    assert len(plots.option_comparison(s).data) == 3  # duty, ΔP shell, ΔP tube
+
+
 def test_figures_are_self_contained(study):
     # no CDN: with the bundle inline, the HTML loads no script from elsewhere
     import re
