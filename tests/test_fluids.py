@@ -324,3 +324,25 @@ def test_liquid_viscosity_falls_toluene_and_table(t1, dt):
     assert tol.props(t2).viscosity < tol.props(t1).viscosity
     sheet = _sheet()
     assert sheet.props(t2 + 100.0).viscosity < sheet.props(t1 + 100.0).viscosity
+
+
+def test_scalar_and_array_paths_agree():
+    # the scalar fast paths (plain Python floats) and the array paths must give the same numbers
+    T = np.array([300.0, 333.3, 401.7])
+    for f in (water("10 bar"), _sheet(), petroleum(**GAS_OIL), constant(900.0, 2000.0, 1e-3, 0.13)):
+        arr = f.props(T)
+        for j, t in enumerate(T):
+            for one in (f.props(float(t)), f.props(np.float64(t)), f.props(f"{t} K")):
+                assert one.density == pytest.approx(arr.density[j], rel=1e-12)
+                assert one.viscosity == pytest.approx(arr.viscosity[j], rel=1e-12)
+                assert one.heat_capacity == pytest.approx(arr.heat_capacity[j], rel=1e-12)
+                assert one.conductivity == pytest.approx(arr.conductivity[j], rel=1e-12)
+    assert water("10 bar").props(300).density == pytest.approx(water("10 bar").props(300.0).density)
+
+
+@pytest.mark.parametrize("bad", [float("nan"), np.array([300.0, np.nan]), -5.0, "hot"])
+def test_bad_temperatures_raise_input_error(bad):
+    for f in (water("10 bar"), _sheet(), petroleum(**GAS_OIL)):
+        with pytest.raises(InputError) as exc:
+            f.props(bad)
+        assert exc.value.field == "T"

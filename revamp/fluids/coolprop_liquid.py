@@ -39,6 +39,10 @@ class _Grid:
     value: np.ndarray  # (4, n): density, heat capacity, viscosity, conductivity at the nodes
     slope: np.ndarray  # (4, n): per grid step, slope[:, i] = value[:, i+1] - value[:, i] (last copied)
     error: float  # largest relative error at the cell midpoints against CoolProp, measured when built
+    value_rows: tuple = ()  # the rows of value and slope as contiguous 1-D arrays (fast take)
+    slope_rows: tuple = ()
+    value_list: tuple = ()  # and as lists of Python floats (fast scalar path)
+    slope_list: tuple = ()
 
 
 def _coolprop():
@@ -76,7 +80,9 @@ def _build_grid(fluid: str, pressure: float, t_low: float, t_sat: float) -> _Gri
     value.setflags(write=False)
     slope.setflags(write=False)
     return _Grid(t0=float(T[0]), inv_dt=float((n - 1) / (t_sat - t_low)), n=n, value=value, slope=slope,
-                 error=error)
+                 error=error, value_rows=tuple(np.ascontiguousarray(r) for r in value),
+                 slope_rows=tuple(np.ascontiguousarray(r) for r in slope),
+                 value_list=tuple(r.tolist() for r in value), slope_list=tuple(r.tolist() for r in slope))
 
 
 @dataclass(frozen=True)
@@ -112,27 +118,42 @@ class CoolPropLiquid:
         InputError
             When any temperature is at or above saturation (not a liquid) or below ``t_min``.
         """
-        arr, scalar = as_temperature(T)
-        if arr.size:
-            hi, lo = float(arr.max()), float(arr.min())
-            if hi >= self.t_max:
-                raise InputError("T", f"{hi:.6g} K", f"below saturation {self.t_max:.2f} K at "
-                                 f"{self.pressure:.6g} Pa (the {self.fluid} provider is liquid only)")
-            if lo < self.t_min:
-                raise InputError("T", f"{lo:.6g} K", f"at least {self.t_min:.2f} K (lower limit of the "
-                                 f"{self.fluid} liquid table)")
         g = self._grid
+        if isinstance(T, float) or type(T) is int:  # scalar fast path (rating iterations): plain Python floats
+            x = (T - g.t0) * g.inv_dt
+            if not 0.0 <= x < g.n - 1:
+                self._raise_out_of_range(T)
+            i = int(x)
+            f = x - i
+            v, s = g.value_list, g.slope_list
+            return Props(v[0][i] + s[0][i] * f, v[1][i] + s[1][i] * f, v[2][i] + s[2][i] * f, v[3][i] + s[3][i] * f)
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim:
+            arr = T  # array fast path: no unit parsing, no copy
+        else:
+            arr, scalar = as_temperature(T)
+            if scalar:
+                return self.props(float(arr))
         x = (arr.reshape(-1) - g.t0) * g.inv_dt
+        if x.size and not (x.min() >= 0.0 and x.max() < g.n - 1):  # also false for NaN
+            self._raise_out_of_range(arr)
         i = x.astype(np.intp)
-        np.minimum(i, g.n - 2, out=i)
         frac = x - i
-        out = np.take(g.slope, i, axis=1)
-        out *= frac
-        out += np.take(g.value, i, axis=1)
-        if scalar:
-            return Props(float(out[0, 0]), float(out[1, 0]), float(out[2, 0]), float(out[3, 0]))
-        out = out.reshape((4,) + arr.shape)
-        return Props(out[0], out[1], out[2], out[3])
+        out = []
+        for k in range(4):
+            o = g.slope_rows[k].take(i)
+            o *= frac
+            o += g.value_rows[k].take(i)
+            out.append(o.reshape(arr.shape))
+        return Props(*out)
+
+    def _raise_out_of_range(self, T):
+        arr, _ = as_temperature(T)  # raises for NaN, infinity, non-positive
+        hi, lo = float(arr.max()), float(arr.min())
+        if hi >= self.t_max:
+            raise InputError("T", f"{hi:.6g} K", f"below saturation {self.t_max:.2f} K at "
+                             f"{self.pressure:.6g} Pa (the {self.fluid} provider is liquid only)")
+        raise InputError("T", f"{lo:.6g} K", f"at least {self.t_min:.2f} K (lower limit of the "
+                         f"{self.fluid} liquid table)")
 
     def check(self, T) -> list[str]:
         """Warnings for temperatures outside [t_min, t_max) (props raises for those)."""

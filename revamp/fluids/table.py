@@ -1,6 +1,8 @@
 """User property tables (as on an exchanger data sheet) and constant-property fluids."""
 from __future__ import annotations
 
+import math
+from bisect import bisect_right
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -43,26 +45,42 @@ class TableFluid:
     T: np.ndarray = field(repr=False)
     columns: np.ndarray = field(repr=False)  # (4, n): density, cp, ln(viscosity), conductivity
     slopes: np.ndarray = field(repr=False)  # (4, n-1): per K
+    lists: tuple = field(repr=False, default=())  # (T, columns, slopes) as Python lists, for the scalar path
 
     def props(self, T) -> Props:
         """Density [kg/m³], heat capacity [J/kg/K], viscosity [Pa s], conductivity [W/m/K] at ``T`` [K]."""
-        arr, scalar = as_temperature(T)
+        if (isinstance(T, float) or type(T) is int) and self.lists and T > 0.0:  # scalar fast path
+            t_list, cols, slopes = self.lists
+            j = min(max(bisect_right(t_list, T) - 1, 0), len(t_list) - 2)
+            dt = T - t_list[j]
+            d, c, m, k = (cols[q][j] + slopes[q][j] * dt for q in range(4))
+            if d > 0.0 and c > 0.0 and k > 0.0 and math.isfinite(m):
+                return Props(float(d), float(c), math.exp(m), float(k))
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim:
+            arr, scalar = T, False  # array fast path: no unit parsing, no copy
+        else:
+            arr, scalar = as_temperature(T)
         flat = arr.reshape(-1)
         i = np.searchsorted(self.T, flat, side="right") - 1
         np.clip(i, 0, self.T.size - 2, out=i)
-        dt = flat - self.T[i]
-        out = np.take(self.slopes, i, axis=1)
-        out *= dt
-        out += np.take(self.columns, i, axis=1)
+        dt = flat - self.T.take(i)
+        out = []
+        for k in range(4):
+            o = self.slopes[k].take(i)
+            o *= dt
+            o += self.columns[k].take(i)
+            out.append(o)
         np.exp(out[2], out=out[2])
-        if flat.size and not (out > 0.0).all():
-            bad = flat[~(out > 0.0).all(axis=0)][0]
-            raise InputError("T", f"{bad:.6g} K", f"a temperature where the extrapolated table of {self.name} "
-                             f"stays positive (table spans {self.t_min:.2f} to {self.t_max:.2f} K)")
+        for k in (0, 1, 3):
+            if flat.size and not out[k].min() > 0.0:  # also catches NaN temperatures
+                if not np.isfinite(flat).all():
+                    as_temperature(flat)  # raises the non-finite error
+                bad = flat[~(out[k] > 0.0)][0]
+                raise InputError("T", f"{bad:.6g} K", f"a temperature where the extrapolated table of "
+                                 f"{self.name} stays positive (table spans {self.t_min:.2f} to {self.t_max:.2f} K)")
         if scalar:
-            return Props(float(out[0, 0]), float(out[1, 0]), float(out[2, 0]), float(out[3, 0]))
-        out = out.reshape((4,) + arr.shape)
-        return Props(out[0], out[1], out[2], out[3])
+            return Props(float(out[0][0]), float(out[1][0]), float(out[2][0]), float(out[3][0]))
+        return Props(*(o.reshape(arr.shape) for o in out))
 
     def check(self, T) -> list[str]:
         """A warning ("extrapolated") when any temperature lies outside the tabulated range."""
@@ -122,8 +140,9 @@ def table(T, density, heat_capacity, viscosity, conductivity, name: str = "table
     slopes = np.diff(columns, axis=1) / np.diff(Tk)
     for a in (Tk, columns, slopes):
         a.setflags(write=False)
+    lists = (Tk.tolist(), tuple(r.tolist() for r in columns), tuple(r.tolist() for r in slopes))
     return TableFluid(name=str(name), t_min=float(Tk[0]), t_max=float(Tk[-1]), T=Tk, columns=columns,
-                      slopes=slopes)
+                      slopes=slopes, lists=lists)
 
 
 @dataclass(frozen=True)
@@ -140,7 +159,10 @@ class ConstantFluid:
 
     def props(self, T) -> Props:
         """The constant properties, as floats for scalar ``T`` or arrays of ``T``'s shape."""
-        arr, scalar = as_temperature(T)
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim:
+            arr, scalar = T, False  # array fast path (NaN gives NaN-free constants: nothing depends on T)
+        else:
+            arr, scalar = as_temperature(T)
         if scalar:
             return Props(self.density, self.heat_capacity, self.viscosity, self.conductivity)
         return Props(np.full(arr.shape, self.density), np.full(arr.shape, self.heat_capacity),
