@@ -87,6 +87,8 @@ def screen(rating, limits=None) -> tuple:
         ``limits.vibration`` is False) and ``tube_span``, then ``nozzle_shell`` when the exchanger has a shell nozzle diameter.
     """
     lim = Limits.of(limits)
+    if getattr(rating, "shape", ()) != ():
+        raise InputError("rating", f"array of shape {rating.shape}", "a single case for screen() (rate one case)")
     ex = rating.exchanger
     vmax = lim.velocity_tube_max if lim.velocity_tube_max is not None else ex.tube_material
     checks = [
