@@ -20,6 +20,8 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 
+import numpy as np
+
 from .errors import InputError
 from .units import require, to_si
 
@@ -68,7 +70,9 @@ class Clean:
         if self.side not in _SIDES:
             raise InputError("Clean.side", self.side, f"one of {_SIDES}")
         r = to_si(self.residual, "fouling", "Clean.residual")
-        object.__setattr__(self, "residual", require(r, "Clean.residual", ge=0))
+        if np.ndim(r) != 0:
+            raise InputError("Clean.residual", self.residual, "one fouling resistance (m²K/W), not an array")
+        object.__setattr__(self, "residual", float(require(r, "Clean.residual", ge=0)))
         where = "both sides" if self.side == "both" else f"{self.side} side"
         extra = f" to {self.residual:.3g} m²K/W" if self.residual else ""
         _set_label(self, f"clean {where}{extra}")
@@ -78,8 +82,6 @@ class Clean:
 
         Cleaning never raises fouling: a side already below the residual keeps its fouling.
         """
-        import numpy as np
-
         changes = {}
         for side in ("shell", "tube"):
             if self.side in ("both", side):
