@@ -39,6 +39,7 @@ class _Grid:
     value: np.ndarray  # (4, n): density, heat capacity, viscosity, conductivity at the nodes
     slope: np.ndarray  # (4, n): per grid step, slope[:, i] = value[:, i+1] - value[:, i] (last copied)
     error: float  # largest relative error at the cell midpoints against CoolProp, measured when built
+    x_max: float = 0.0  # grid coordinate of saturation, computed as props computes x: T < t_sat <=> x < x_max
     value_rows: tuple = ()  # the rows of value and slope as contiguous 1-D arrays (fast take)
     slope_rows: tuple = ()
     value_list: tuple = ()  # and as lists of Python floats (fast scalar path)
@@ -79,8 +80,10 @@ def _build_grid(fluid: str, pressure: float, t_low: float, t_sat: float) -> _Gri
     slope[:, -1] = slope[:, -2]
     value.setflags(write=False)
     slope.setflags(write=False)
-    return _Grid(t0=float(T[0]), inv_dt=float((n - 1) / (t_sat - t_low)), n=n, value=value, slope=slope,
-                 error=error, value_rows=tuple(np.ascontiguousarray(r) for r in value),
+    inv_dt = float((n - 1) / (t_sat - t_low))
+    return _Grid(t0=float(T[0]), inv_dt=inv_dt, n=n, value=value, slope=slope, error=error,
+                 x_max=(t_sat - float(T[0])) * inv_dt,
+                 value_rows=tuple(np.ascontiguousarray(r) for r in value),
                  slope_rows=tuple(np.ascontiguousarray(r) for r in slope),
                  value_list=tuple(r.tolist() for r in value), slope_list=tuple(r.tolist() for r in slope))
 
@@ -121,7 +124,7 @@ class CoolPropLiquid:
         g = self._grid
         if isinstance(T, float) or type(T) is int:  # scalar fast path (rating iterations): plain Python floats
             x = (T - g.t0) * g.inv_dt
-            if not 0.0 <= x < g.n - 1:
+            if not 0.0 <= x < g.x_max:
                 self._raise_out_of_range(T)
             i = int(x)
             f = x - i
@@ -134,9 +137,9 @@ class CoolPropLiquid:
             if scalar:
                 return self.props(float(arr))
         x = (arr.reshape(-1) - g.t0) * g.inv_dt
-        if x.size and not (x.min() >= 0.0 and x.max() < g.n - 1):  # also false for NaN
+        if x.size and not (x.min() >= 0.0 and x.max() < g.x_max):  # also false for NaN
             self._raise_out_of_range(arr)
-        i = x.astype(np.intp)
+        i = x.astype(np.intp)  # at most n - 1 (the last slope is a copy), even if x_max rounds above n - 1
         frac = x - i
         out = []
         for k in range(4):
