@@ -162,8 +162,8 @@ def _row(rating, checks):
 def _reason(row, checks, target, economics):
     parts = []
     if target is not None:
-        got = row["t_out_shell"] if target.kind == "t_out_shell" else row["t_out_tube"] if \
-            target.kind == "t_out_tube" else row["duty"] if target.kind == "duty" else row["U_service"] * row["area"]
+        got = {"duty": row["duty"], "t_out_shell": row["t_out_shell"], "t_out_tube": row["t_out_tube"],
+               "UA": row["U_service"] * row["area"]}[target.kind]
         verb = "meets" if row["meets_target"] else "misses"
         parts.append(f"{verb} target ({target.describe(got)} vs {target.describe()})")
     flagged = [c for c in checks if c.status != "ok"]
@@ -179,6 +179,8 @@ def _reason(row, checks, target, economics):
 
 def _cycle(cycle, ex, svc, rate, shell_method):
     side = cycle.get("side", "tube")
+    if "run_length" not in cycle:
+        raise InputError("cycle.run_length", None, "a run length between cleanings, e.g. '365 day'")
     if side not in ("shell", "tube"):
         raise InputError("cycle.side", side, "'shell' or 'tube'")
     model = cycle.get("fouling")
