@@ -1,0 +1,141 @@
+"""Batch: reports per exchanger and an index, offline, escaped, atomic, one failure never stopping the others."""
+from __future__ import annotations
+
+import hashlib
+import re
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from revamp import report
+from test_unitfile import make_unit, write_unit
+
+NASTY = "E<1> & \"q\" '../x"
+
+
+@pytest.fixture(scope="module")
+def batch_run(tmp_path_factory):
+    """One batch on three exchangers: a good one with a nasty tag, one invalid in the file, one that fails to rate."""
+    root = tmp_path_factory.mktemp("batch")
+    doc = make_unit(NASTY, "E-2", "E-3")
+    doc["unit"]["name"] = "Unit <b>bold</b> & co"
+    doc["exchangers"][1]["tube_side"]["flow"] = "-5 kg/s"            # refused by the file check
+    doc["exchangers"][2]["tube_side"]["t_in"] = "150 degC"           # equal inlets: the rating refuses it
+    unit_path = write_unit(root / "unit.yaml", doc)
+    out = root / "out"
+    proc = subprocess.run([sys.executable, "-m", "revamp.cli", "batch", unit_path, "--out", str(out),
+                           "--jobs", "2", "--quiet"], capture_output=True, text=True, timeout=600)
+    return {"root": root, "out": out, "proc": proc, "unit": Path(unit_path)}
+
+
+def _html_files(out):
+    return sorted(out.glob("*.html"))
+
+
+def test_exit_code_and_index_path(batch_run):
+    proc = batch_run["proc"]
+    assert proc.returncode == 1, proc.stderr
+    assert proc.stdout.strip() == str((batch_run["out"] / "index.html").resolve())
+    assert "E-2: FAILED: exchangers[1].tube_side.flow: -5 kg/s: must be > 0" in proc.stderr
+    assert "E-3: FAILED: InputError" in proc.stderr
+    assert "Traceback" not in proc.stderr
+
+
+def test_files_written_and_named_safely(batch_run):
+    out = batch_run["out"]
+    names = sorted(p.name for p in out.iterdir())
+    assert "index.html" in names and "plotly.min.js" in names
+    safe = report.safe_name(NASTY)
+    assert f"{safe}.html" in names and "E-3.html" in names and "E-2.html" not in names
+    assert all(re.fullmatch(r"[A-Za-z0-9][A-Za-z0-9._-]*", n) for n in names), names
+    # nothing left half-written or outside DIR
+    assert not [n for n in names if n.endswith(".tmp") or n.startswith(".")]
+    assert sorted(p.name for p in batch_run["root"].iterdir()) == ["out", "unit.yaml"]
+
+
+def test_user_text_is_escaped(batch_run):
+    out = batch_run["out"]
+    escaped = report.esc(NASTY)
+    for page in _html_files(out):
+        text = page.read_text(encoding="utf-8")
+        assert NASTY not in text, page.name
+        assert "<b>bold</b>" not in text, page.name
+    index = (out / "index.html").read_text(encoding="utf-8")
+    assert escaped in index and "Unit &lt;b&gt;bold&lt;/b&gt; &amp; co" in index
+    good = (out / f"{report.safe_name(NASTY)}.html").read_text(encoding="utf-8")
+    assert escaped in good
+
+
+def test_offline_no_cdn(batch_run):
+    for page in _html_files(batch_run["out"]):
+        text = page.read_text(encoding="utf-8")
+        assert not re.search(r"""(?:src|href)\s*=\s*["']?(?:https?:)?//""", text, re.I), page.name
+        assert not re.search(r"cdn\.|cdnjs|jsdelivr|unpkg|require\.js|mathjax", text, re.I), page.name
+        assert '<script src="plotly.min.js"' in text
+    js = batch_run["out"] / "plotly.min.js"
+    assert js.stat().st_size > 1_000_000
+
+
+def test_report_sections_and_provenance(batch_run):
+    text = (batch_run["out"] / f"{report.safe_name(NASTY)}.html").read_text(encoding="utf-8")
+    for heading in ("The base case today and at the revamp conditions", "Which resistance controls U",
+                    "What the plant data says", "The options side by side", "Recommendation", "Cautions",
+                    "What produced this report"):
+        assert heading in text, heading
+    assert "licensed engineers" in text and "Screening-level results" in text
+    assert hashlib.sha256(batch_run["unit"].read_bytes()).hexdigest() in text
+    assert "numpy" in text and "plotly" in text and " UTC" in text
+    assert text.count("Plotly.newPlot") >= 2
+    assert "import revamp" not in text and "load_partial" not in text  # no code cells
+    assert len(text) < 400_000  # plotly.js is not inlined in each report
+
+
+def test_failures_recorded_in_index_and_others_go_on(batch_run):
+    index = (batch_run["out"] / "index.html").read_text(encoding="utf-8")
+    summary = re.search(r'<section id="summary">(.*?)</section>', index, re.S).group(1)
+    rows = re.findall(r"<tr>(.*?)</tr>", summary, re.S)
+    body = [r for r in rows if "<td>" in r]
+    assert len(body) == 3
+    good, file_bad, run_bad = body
+    assert "rv-status-ok" in good and f'href="{report.safe_name(NASTY)}.html"' in good
+    assert "rv-status-failed" in file_bad and "must be &gt; 0" in file_bad and "href=" not in file_bad
+    assert "rv-status-failed" in run_bad and "inlet" in run_bad and 'href="E-3.html"' in run_bad
+    failed_report = (batch_run["out"] / "E-3.html").read_text(encoding="utf-8")
+    assert "stopped with an error" in failed_report
+
+
+def test_only_and_unknown_tag(tmp_path):
+    from revamp.batch import run_batch
+    from revamp.errors import InputError
+
+    path = write_unit(tmp_path / "u.yaml", make_unit("E-1", "E-2"))
+    with pytest.raises(InputError, match="E-7"):
+        run_batch(path, tmp_path / "out", only=["E-7"], progress=False)
+
+
+def test_write_atomic_leaves_no_partial_file(tmp_path, monkeypatch):
+    target = tmp_path / "r.html"
+    target.write_text("old")
+
+    class Boom(Exception):
+        pass
+
+    def broken_replace(src, dst):
+        raise Boom()
+
+    monkeypatch.setattr(report.os, "replace", broken_replace)
+    with pytest.raises(Boom):
+        report.write_atomic(target, "new")
+    assert target.read_text() == "old"
+    assert [p.name for p in tmp_path.iterdir()] == ["r.html"]
+
+
+def test_safe_names_are_unique_and_tame():
+    taken = []
+    for tag in ["E-1", "e-1", "../../etc/passwd", "index", "", "A/B", "A:B"]:
+        name = report.safe_name(tag, taken)
+        assert re.fullmatch(r"[A-Za-z0-9][A-Za-z0-9._-]*", name) and name.lower() not in {t.lower() for t in taken}
+        assert name.lower() != "index"
+        taken.append(name)

@@ -1,0 +1,89 @@
+"""The ``revamp`` command: exit codes, one line per error, no traceback unless --debug."""
+from __future__ import annotations
+
+import subprocess
+import sys
+
+import pytest
+
+from revamp.cli import main
+from test_unitfile import make_unit, write_unit
+
+
+@pytest.fixture
+def good(tmp_path):
+    return write_unit(tmp_path / "unit.yaml", make_unit("E-1", "E-2"))
+
+
+def test_check_ok(good, capsys):
+    assert main(["check", good]) == 0
+    assert "OK" in capsys.readouterr().out
+
+
+def test_check_lists_every_problem_one_per_line(tmp_path, capsys):
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][1]["tube_side"]["flow"] = "-5 kg/s"
+    doc["exchangers"][0]["geometry"]["layout"] = 12
+    path = write_unit(tmp_path / "bad.yaml", doc)
+    assert main(["check", path]) == 1
+    err = capsys.readouterr().err.strip().splitlines()
+    assert err[0].startswith("exchangers[0].geometry.layout: 12: must be one of")
+    assert err[1] == "exchangers[1].tube_side.flow: -5 kg/s: must be > 0 kg/s"
+    assert err[2].endswith("2 problem(s)")
+    assert "Traceback" not in "\n".join(err)
+
+
+def test_check_unsafe_yaml_without_traceback(tmp_path):
+    path = tmp_path / "evil.yaml"
+    path.write_text("unit: !!python/object/apply:os.system ['echo owned']\n")
+    proc = subprocess.run([sys.executable, "-m", "revamp.cli", "check", str(path)], capture_output=True, text=True)
+    assert proc.returncode == 1
+    assert "owned" not in proc.stdout
+    assert "tags are refused" in proc.stderr and "Traceback" not in proc.stderr
+
+
+def test_rate_prints_rating_and_breakdown(good, capsys):
+    assert main(["rate", good, "--tag", "E-2"]) == 0
+    out = capsys.readouterr().out
+    for name in ("duty", "U in service", "dp tube", "shell film", "shell fouling", "wall", "tube fouling",
+                 "tube film"):
+        assert name in out
+    assert "°C" in out and "kPa" in out
+
+
+def test_rate_us_units(good, capsys):
+    assert main(["rate", good, "--tag", "E-1", "--units", "US", "--revamp"]) == 0
+    out = capsys.readouterr().out
+    assert "°F" in out and "psi" in out and "BTU/h" in out and "throughput x1.2" in out
+
+
+def test_unknown_tag_is_one_line(good, capsys):
+    assert main(["rate", good, "--tag", "E-9"]) == 1
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "E-9" in err[0] and "E-1, E-2" in err[0]
+
+
+def test_rate_on_broken_file_lists_problems(tmp_path, capsys):
+    doc = make_unit()
+    doc["exchangers"][0]["shell_side"]["flow"] = "many"
+    assert main(["rate", write_unit(tmp_path / "b.yaml", doc), "--tag", "E-1"]) == 1
+    err = capsys.readouterr().err
+    assert "exchangers[0].shell_side.flow: many" in err and "Traceback" not in err
+
+
+def test_debug_shows_the_traceback(good):
+    with pytest.raises(Exception):
+        main(["--debug", "rate", good, "--tag", "E-9"])
+
+
+def test_infeasible_rating_is_one_line(tmp_path, capsys):
+    doc = make_unit()
+    doc["exchangers"][0]["tube_side"]["t_in"] = "150 degC"  # equal inlets: no driving force
+    assert main(["rate", write_unit(tmp_path / "x.yaml", doc), "--tag", "E-1"]) == 1
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and err[0].startswith("error: ") and "inlet" in err[0]
+
+
+def test_missing_file(tmp_path, capsys):
+    assert main(["check", str(tmp_path / "nope.yaml")]) == 1
+    assert "readable file" in capsys.readouterr().err

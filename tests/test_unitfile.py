@@ -1,0 +1,292 @@
+"""The unit file: every problem listed with its path, nothing computed on invalid input, safe YAML, safe paths.
+
+Unit conversions checked here use exact definitions (1 lb = 0.45359237 kg, NIST SP 811 appendix B; T[K] =
+(T[°F] + 459.67)/1.8, NIST SP 811 §B.8), not our own outputs.
+"""
+from __future__ import annotations
+
+import copy
+import json
+import os
+
+import jsonschema
+import pytest
+import yaml
+
+from revamp import unitfile
+from revamp.units import DIMENSIONS
+
+# ----------------------------------------------------------------------------------------------- shared small units
+# (test_cli, test_batch and test_browser import these builders: constant-property fluids, fast, no CoolProp)
+OIL = {"kind": "constant", "name": "test oil", "density": "850 kg/m**3", "heat_capacity": "2.2 kJ/kg/K",
+       "viscosity": "2 cP", "conductivity": "0.12 W/m/K"}
+WATER = {"kind": "constant", "name": "test water", "density": 995, "heat_capacity": 4180, "viscosity": 8e-4,
+         "conductivity": 0.6}
+
+
+def make_exchanger(tag="E-1"):
+    return {
+        "tag": tag,
+        "description": "test exchanger",
+        "geometry": {"shell_id": "0.5 m", "tube_od": "19.05 mm", "tube_wall": "2.11 mm", "tube_length": "5 m",
+                     "tube_count": 200, "tube_passes": 2, "tube_pitch": "25.4 mm", "layout": 90,
+                     "baffle_spacing": "0.3 m", "baffle_cut": "25 %"},
+        "shell_side": {"fluid": copy.deepcopy(OIL), "flow": "10 kg/s", "t_in": "150 degC",
+                       "fouling": "0.0003 m**2*K/W", "dp_allowed": "70 kPa"},
+        "tube_side": {"fluid": copy.deepcopy(WATER), "flow": "12 kg/s", "t_in": "30 degC",
+                      "fouling": "0.0002 m**2*K/W", "dp_allowed": "70 kPa"},
+        "revamp": {"throughput": 1.2, "target": {"duty": "2 MW"}},
+        "options": [{"type": "clean", "label": "clean", "side": "both", "capex": 20000},
+                    {"type": "add_shells", "label": "one more shell", "n": 1, "capex": "300000 USD"}],
+    }
+
+
+def make_unit(*tags):
+    return {
+        "version": 1,
+        "unit": {"name": "Test unit", "description": "invented for the tests"},
+        "economics": {"currency": "USD", "energy_price": "9 USD/GJ", "heater_efficiency": "85 %",
+                      "hours_per_year": "8400 h", "discount_rate": 0.1, "horizon": "10 yr"},
+        "exchangers": [make_exchanger(t) for t in (tags or ("E-1",))],
+    }
+
+
+def write_unit(path, doc) -> str:
+    path.write_text(yaml.safe_dump(doc, sort_keys=False, allow_unicode=True), encoding="utf-8")
+    return str(path)
+
+
+CSV_HEADER = "timestamp,shell_flow,shell_t_in,shell_t_out,tube_flow,tube_t_in,tube_t_out\n"
+
+
+# ------------------------------------------------------------------------------------------------------ valid file
+def test_valid_unit_loads_with_si_values(tmp_path):
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][1]["shell_side"]["flow"] = "43800 lb/h"
+    doc["exchangers"][1]["shell_side"]["t_in"] = "390 degF"
+    path = write_unit(tmp_path / "unit.yaml", doc)
+    assert unitfile.check(path) == []
+    unit = unitfile.load(path)
+    assert unit.tags == ["E-1", "E-2"]
+    case = unit.exchanger("E-2")
+    # 43800 lb/h × 0.45359237 kg/lb / 3600 s/h (exact definition of the pound)
+    assert case.service.shell.flow == pytest.approx(43800 * 0.45359237 / 3600, rel=1e-12)
+    # (390 + 459.67) / 1.8 K (definition of the Rankine and Fahrenheit scales)
+    assert case.service.shell.t_in == pytest.approx((390 + 459.67) / 1.8, rel=1e-12)
+    # revamp flows are today's × 1.2
+    assert case.revamp_service.tube.flow == pytest.approx(1.2 * 12.0)
+    assert case.target == {"duty": pytest.approx(2e6)}
+    assert case.limits == {"dp_shell": pytest.approx(70e3), "dp_tube": pytest.approx(70e3)}
+    assert case.capex == {"clean": 20000.0, "one more shell": 300000.0}
+    assert [o.label for o in case.options] == ["clean", "one more shell"]
+    # 9 USD/GJ, 85 %, 8400 h, 10 yr
+    assert case.economics.energy_price == pytest.approx(9.0)
+    assert case.economics.efficiency == pytest.approx(0.85)
+    assert unit.economics.hours_per_year == pytest.approx(8400)
+    assert unit.economics.horizon_years == pytest.approx(10.0)
+    assert len(unit.sha256) == 64
+
+
+def test_schema_is_valid_and_every_kind_is_known():
+    schema = unitfile.schema()
+    jsonschema.Draft202012Validator.check_schema(schema)
+    kinds = set()
+
+    def walk(node):
+        if isinstance(node, dict):
+            if "x-kind" in node:
+                kinds.add(node["x-kind"])
+            for v in node.values():
+                walk(v)
+        elif isinstance(node, list):
+            for v in node:
+                walk(v)
+
+    walk(schema)
+    assert kinds, "the schema annotates its quantities"
+    assert kinds <= set(DIMENSIONS) | {"money", "energy_price", "money_per_mass", "thermal_conductance"}
+
+
+def test_demo_unit_is_valid():
+    from revamp.cli import demo_unit_path
+
+    path = demo_unit_path()
+    jsonschema.validate(yaml.safe_load(path.read_text()), unitfile.schema())
+    assert unitfile.check(path) == []
+
+
+# ---------------------------------------------------------------------------------------------------- broken files
+def _set(doc, dotted, value):
+    parts = dotted.split(".")
+    node = doc
+    for p in parts[:-1]:
+        node = node[int(p)] if p.isdigit() else node[p]
+    last = parts[-1]
+    if value is _DELETE:
+        del node[int(last) if last.isdigit() else last]
+    else:
+        node[int(last) if last.isdigit() else last] = value
+
+
+_DELETE = object()
+
+# (change to make on a two-exchanger unit, the path the problem must name, words the message must contain)
+BROKEN = [
+    ("exchangers.1.tube_side.flow", "-5 kg/s", "exchangers[1].tube_side.flow: -5 kg/s: must be > 0", ""),
+    ("exchangers.0.tube_side.flow", _DELETE, "exchangers[0].tube_side.flow", "must be given"),
+    ("exchangers.0.tube_side.flow", "5 m", "exchangers[0].tube_side.flow: 5 m", "mass flow"),
+    ("exchangers.0.tube_side.t_in", "30 degX", "exchangers[0].tube_side.t_in", "temperature"),
+    ("exchangers.0.geometry.tube_count", "many", "exchangers[0].geometry.tube_count", "integer"),
+    ("exchangers.0.geometry.tube_count", 0, "exchangers[0].geometry.tube_count", ">= 1"),
+    ("exchangers.0.geometry.layout", 33, "exchangers[0].geometry.layout", "one of"),
+    ("exchangers.0.geometry.shell_id", [1, 2], "exchangers[0].geometry.shell_id", "number"),
+    ("exchangers.0.geometry.colour", "red", "exchangers[0].geometry.colour", "not a known field"),
+    ("exchangers.0.geometry.baffle_cut", "70 %", "exchangers[0].geometry.baffle_cut", "< 0.5"),
+    ("exchangers.0.geometry.tube_wall", "12 mm", "exchangers[0].geometry.tube_wall", ""),
+    ("exchangers.0.shell_side.fouling", "-0.001 m**2*K/W", "exchangers[0].shell_side.fouling", ">= 0"),
+    ("exchangers.0.shell_side.fluid.kind", "plasma", "exchangers[0].shell_side.fluid.kind", "one of"),
+    ("exchangers.0.shell_side.fluid", {"kind": "petroleum", "api": 30,
+                                       "viscosity": [["40 degC", "5 cSt"], ["100 degC", "2 cSt"]]},
+     "exchangers[0].shell_side.fluid.watson_k", "must be given"),
+    ("exchangers.0.shell_side.fluid", {"kind": "petroleum", "api": 30, "watson_k": 11.8,
+                                       "viscosity": [["40 degC", "5 cSt"], ["100 degC", "2 cP"]]},
+     "exchangers[0].shell_side.fluid.viscosity[1][1]", "kinematic viscosity"),
+    ("exchangers.0.revamp.target", {"duty": "2 MW", "t_out_tube": "80 degC"}, "exchangers[0].revamp.target",
+     "exactly one"),
+    ("exchangers.0.revamp.flows", {"shell": "12 kg/s"}, "exchangers[0].revamp", "not both"),
+    ("exchangers.0.options.0", {"type": "twisted_tape", "twist_ratio": 0.5}, "exchangers[0].options[0].twist_ratio",
+     "> 1"),
+    ("exchangers.0.options.0", {"type": "magic"}, "exchangers[0].options[0].type", "one of"),
+    ("exchangers.0.options.1.n", _DELETE, "exchangers[0].options[1].n", "must be given"),
+    ("exchangers.0.options.0.capex", "20000 EUR", "exchangers[0].options[0].capex", "USD"),
+    ("exchangers.1.tag", "E-1", "exchangers[1].tag", "unique"),
+    ("economics.energy_price", "9 EUR/GJ", "economics.energy_price", "price per energy"),
+    ("economics.heater_efficiency", 1.5, "economics.heater_efficiency", "<= 1"),
+    ("economics.currency", "dollars", "economics.currency", "currency code"),
+    ("unit", _DELETE, "unit", "must be given"),
+    ("exchangers.0.plant_data", {"file": "../outside.csv"}, "exchangers[0].plant_data.file", "inside"),
+    ("exchangers.0.plant_data", {"file": "/etc/passwd"}, "exchangers[0].plant_data.file", "relative"),
+    ("exchangers.0.plant_data", {"file": "nope.csv"}, "exchangers[0].plant_data.file", "existing file"),
+    ("exchangers.0.plant_data", {"file": "plant.csv", "columns": {"shell_flow": "FI-101"}},
+     "exchangers[0].plant_data.columns.shell_flow", "column of plant.csv"),
+    ("exchangers.0.plant_data", {"file": "plant.csv", "columns": {"shell_flow": {"column": "shell_flow",
+                                                                                   "unit": "degC"}}},
+     "exchangers[0].plant_data.columns.shell_flow.unit", "mass flow"),
+]
+
+
+@pytest.mark.parametrize("where, value, path, words", BROKEN, ids=[b[2] + " " + b[3] for b in BROKEN])
+def test_each_problem_names_its_path(tmp_path, where, value, path, words):
+    (tmp_path / "plant.csv").write_text(CSV_HEADER + "2030-01-01,1,400,350,1,300,320\n")
+    (tmp_path.parent / "outside.csv").write_text(CSV_HEADER)
+    doc = make_unit("E-1", "E-2")
+    _set(doc, where, value)
+    problems = unitfile.check(write_unit(tmp_path / "unit.yaml", doc))
+    hits = [str(p) for p in problems if str(p).startswith(path)]
+    assert hits, f"no problem at {path}; got {[str(p) for p in problems]}"
+    assert any(words in h for h in hits), hits
+    with pytest.raises(unitfile.UnitFileError) as info:
+        unitfile.load(tmp_path / "unit.yaml")
+    assert info.value.problems == problems
+
+
+def test_every_problem_is_listed_at_once(tmp_path):
+    doc = make_unit("E-1", "E-2", "E-3")
+    doc["exchangers"][0]["tube_side"]["flow"] = "-1 kg/s"
+    doc["exchangers"][1]["geometry"]["layout"] = 12
+    doc["exchangers"][2]["shell_side"]["t_in"] = "hot"
+    doc["economics"]["discount_rate"] = 2
+    paths = [p.path for p in unitfile.check(write_unit(tmp_path / "u.yaml", doc))]
+    assert paths == ["economics.discount_rate", "exchangers[0].tube_side.flow", "exchangers[1].geometry.layout",
+                     "exchangers[2].shell_side.t_in"]
+
+
+def test_link_out_of_the_folder_is_refused(tmp_path):
+    inside = tmp_path / "unit"
+    inside.mkdir()
+    (tmp_path / "secret.csv").write_text(CSV_HEADER)
+    os.symlink(tmp_path / "secret.csv", inside / "plant.csv")
+    doc = make_unit()
+    doc["exchangers"][0]["plant_data"] = {"file": "plant.csv"}
+    problems = unitfile.check(write_unit(inside / "unit.yaml", doc))
+    assert [p.path for p in problems] == ["exchangers[0].plant_data.file"]
+    assert "inside" in problems[0].message
+
+
+def test_plant_data_mapping_is_built(tmp_path):
+    (tmp_path / "plant").mkdir()
+    (tmp_path / "plant" / "e1.csv").write_text("time,F1,T1,T2,F2,T3,T4\n")
+    doc = make_unit()
+    doc["exchangers"][0]["plant_data"] = {
+        "file": "plant/e1.csv",
+        "columns": {"timestamp": "time", "shell_flow": {"column": "F1", "unit": "t/h"},
+                    "shell_t_in": {"column": "T1", "unit": "degC"}, "shell_t_out": {"column": "T2", "unit": "degC"},
+                    "tube_flow": {"column": "F2", "unit": "kg/s"}, "tube_t_in": "T3", "tube_t_out": "T4"},
+        "uncertainty": {"flow": "2 %", "temperature": "0.5 delta_degC"}}
+    case = unitfile.load(write_unit(tmp_path / "unit.yaml", doc)).exchanger("E-1")
+    assert case.plant_data.file == (tmp_path / "plant" / "e1.csv").resolve()
+    assert case.plant_data.columns["shell_flow"] == ("F1", "t/h")
+    assert case.plant_data.columns["tube_t_in"] == ("T3", None)
+    assert case.plant_data.uncertainty == {"flow": pytest.approx(0.02), "temperature": pytest.approx(0.5)}
+
+
+UNSAFE = [
+    "unit: !!python/object/apply:os.system ['echo owned']\nexchangers: []\n",
+    "unit: !!python/name:os.system\nexchangers: []\n",
+    "unit: !custom {name: x}\nexchangers: []\n",
+]
+
+
+@pytest.mark.parametrize("text", UNSAFE)
+def test_object_tags_are_refused(tmp_path, text):
+    path = tmp_path / "evil.yaml"
+    path.write_text(text)
+    problems = unitfile.check(path)
+    assert len(problems) == 1
+    assert problems[0].path == "(line 1)"
+    assert "tags are refused" in str(problems[0])
+
+
+@pytest.mark.parametrize("text, words", [
+    ("unit: {name: x\n", "valid YAML"),
+    ("", "must hold a unit"),
+    ("- just\n- a list\n", "mapping"),
+    ("unit: {name: a}\nunit: {name: b}\nexchangers: []\n", "repeat a key"),
+])
+def test_malformed_yaml(tmp_path, text, words):
+    path = tmp_path / "bad.yaml"
+    path.write_text(text)
+    problems = unitfile.check(path)
+    assert problems and any(words in str(p) for p in problems), [str(p) for p in problems]
+
+
+def test_missing_file_is_one_problem(tmp_path):
+    problems = unitfile.check(tmp_path / "none.yaml")
+    assert len(problems) == 1 and "readable file" in str(problems[0])
+
+
+def test_check_never_rates(tmp_path, monkeypatch):
+    import revamp.rating
+
+    def boom(*args, **kwargs):  # pragma: no cover - must not be called
+        raise AssertionError("check() ran a rating")
+
+    monkeypatch.setattr(revamp.rating, "rate", boom)
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][1]["tube_side"]["flow"] = "-5 kg/s"
+    assert unitfile.check(write_unit(tmp_path / "u.yaml", doc))
+    assert unitfile.check(write_unit(tmp_path / "v.yaml", make_unit())) == []
+
+
+def test_partial_load_keeps_the_valid_exchangers(tmp_path):
+    doc = make_unit("E-1", "E-2", "E-3")
+    doc["exchangers"][1]["geometry"]["tube_count"] = -3
+    unit, problems, entries = unitfile.load_partial(write_unit(tmp_path / "u.yaml", doc))
+    assert unit.tags == ["E-1", "E-3"]
+    assert [p.path for p in problems] == ["exchangers[1].geometry.tube_count"]
+    assert entries == [("E-1", 0), ("E-2", 1), ("E-3", 2)]
+
+
+def test_schema_and_json_agree_on_the_demo():
+    schema_text = unitfile.SCHEMA_PATH.read_text()
+    assert json.loads(schema_text) == unitfile.schema()
