@@ -346,3 +346,13 @@ def test_bad_temperatures_raise_input_error(bad):
         with pytest.raises(InputError) as exc:
             f.props(bad)
         assert exc.value.field == "T"
+
+
+def test_every_provider_meets_the_protocol():
+    from revamp.fluids import Fluid
+
+    for f in (water("10 bar"), pure("Toluene", "2 bar"), _sheet(), petroleum(**GAS_OIL),
+              constant(900.0, 2000.0, 1e-3, 0.13)):
+        assert isinstance(f, Fluid)
+        assert isinstance(f.name, str) and f.t_min < f.t_max
+        assert isinstance(f.check(350.0), list)
