@@ -20,8 +20,17 @@ from .errors import InputError
 from .units import require, to_si, ureg
 
 __all__ = [
-    "ENERGY_BASES", "price_per_joule", "annual_duty_value", "annual_capacity_value", "simple_payback",
-    "annuity_factor", "npv", "project_npv", "CycleAverage", "cycle_average", "Economics",
+    "ENERGY_BASES",
+    "CycleAverage",
+    "Economics",
+    "annual_capacity_value",
+    "annual_duty_value",
+    "annuity_factor",
+    "cycle_average",
+    "npv",
+    "price_per_joule",
+    "project_npv",
+    "simple_payback",
 ]
 
 _YEAR_H = 8766.0  # hours in a mean (Julian) year

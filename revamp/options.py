@@ -25,8 +25,18 @@ import numpy as np
 from .errors import InputError
 from .units import require, to_si
 
-__all__ = ["Clean", "TwistedTape", "WireCoil", "InsertFactors", "AddShells", "NewBundle", "Retube", "BaffleChange",
-           "Combined", "option_label"]
+__all__ = [
+    "AddShells",
+    "BaffleChange",
+    "Clean",
+    "Combined",
+    "InsertFactors",
+    "NewBundle",
+    "Retube",
+    "TwistedTape",
+    "WireCoil",
+    "option_label",
+]
 
 _SIDES = ("both", "shell", "tube")
 
@@ -247,9 +257,9 @@ class NewBundle:
         if not changes:
             raise InputError("NewBundle", changes, "at least one geometry change, e.g. tube_count=600")
         known = _geometry_fields()
-        for name in changes:
+        for name, value in changes.items():
             if name not in known:
-                raise InputError(f"NewBundle.{name}", changes[name], f"a ShellAndTube field among {sorted(known)}")
+                raise InputError(f"NewBundle.{name}", value, f"a ShellAndTube field among {sorted(known)}")
         object.__setattr__(self, "changes", tuple(sorted(changes.items())))
         object.__setattr__(self, "label", label)
         _set_label(self, "new bundle (" + ", ".join(f"{k}={v!r}" for k, v in self.changes) + ")")

@@ -14,11 +14,11 @@ from plotly.subplots import make_subplots
 from .screening import DEFAULT_DP_LIQUID
 from .units import from_si, to_si
 
-__all__ = ["option_comparison", "resistance_breakdown", "economics_chart"]
+__all__ = ["economics_chart", "option_comparison", "resistance_breakdown"]
 
-_LAYOUT = dict(template="simple_white", font=dict(size=14),
-               legend=dict(orientation="h", yanchor="bottom", y=1.08, xanchor="right", x=1.0),
-               margin=dict(l=70, r=30, t=110, b=40))
+_LAYOUT = {"template": "simple_white", "font": {"size": 14},
+               "legend": {"orientation": "h", "yanchor": "bottom", "y": 1.08, "xanchor": "right", "x": 1.0},
+               "margin": {"l": 70, "r": 30, "t": 110, "b": 40}}
 _STATUS_COLOUR = {"ok": "#4d7ea8", "warn": "#e0a030", "fail": "#b03030", "n/a": "#999999"}
 _PATTERN = {"ok": "", "warn": "/", "fail": "x", "n/a": "."}
 _RES_COLOUR = {"shell film": "#1b4f72", "shell fouling": "#a04000", "wall": "#7f8c8d", "tube fouling": "#e67e22",
@@ -51,18 +51,18 @@ def option_comparison(study, units="SI") -> go.Figure:
     duty, dlabel = _conv(t["duty"], "power", units)
     status = list(t["screening"])
     fig.add_trace(go.Bar(x=labels, y=duty, name="duty", showlegend=False,
-                         marker=dict(color=[_STATUS_COLOUR[s] for s in status],
-                                     pattern=dict(shape=[_PATTERN[s] for s in status])),
+                         marker={"color": [_STATUS_COLOUR[s] for s in status],
+                                     "pattern": {"shape": [_PATTERN[s] for s in status]}},
                          text=[s for s in status], textposition="outside"), row=1, col=1)
     if study.target is not None and study.target.kind == "duty":
         tv, _ = _conv([study.target.value], "power", units)
-        fig.add_hline(y=tv[0], line=dict(dash="dash", color="black"), annotation_text="target", row=1, col=1)
+        fig.add_hline(y=tv[0], line={"dash": "dash", "color": "black"}, annotation_text="target", row=1, col=1)
     for side, colour, pattern in (("shell", "#1b4f72", ""), ("tube", "#5dade2", "/")):
         dp, plabel = _conv(t[f"dp_{side}"], "pressure", units)
-        fig.add_trace(go.Bar(x=labels, y=dp, name=f"ΔP {side}", marker=dict(color=colour, pattern_shape=pattern)),
+        fig.add_trace(go.Bar(x=labels, y=dp, name=f"ΔP {side}", marker={"color": colour, "pattern_shape": pattern}),
                       row=1, col=2)
         allowed, _ = _conv([_allowed(study, side)], "pressure", units)
-        fig.add_hline(y=allowed[0], line=dict(dash="dot" if side == "shell" else "dash", color=colour),
+        fig.add_hline(y=allowed[0], line={"dash": "dot" if side == "shell" else "dash", "color": colour},
                       annotation_text=f"allowed {side}", row=1, col=2)
     fig.update_yaxes(title_text=f"duty [{dlabel}]", row=1, col=1)
     fig.update_yaxes(title_text=f"ΔP [{plabel}]", row=1, col=2)
@@ -104,7 +104,7 @@ def economics_chart(study) -> go.Figure:
     if study.economics is None:  # an empty chart that says why, so that a report can always show the section
         fig = go.Figure()
         fig.add_annotation(text="No economics given: no cost, value or payback.", showarrow=False, x=0.5, y=0.5,
-                           xref="paper", yref="paper", font=dict(size=16))
+                           xref="paper", yref="paper", font={"size": 16})
         fig.update_layout(title="Economics of the options", xaxis_visible=False, yaxis_visible=False, **_LAYOUT)
         return fig
     t = study.table.drop(index="base")

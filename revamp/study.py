@@ -15,6 +15,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
+import pint
 
 from .economics import Economics, cycle_average, simple_payback
 from .errors import InputError
@@ -22,7 +23,7 @@ from .options import option_label
 from .screening import Limits, screen, worst
 from .units import require, to_si, ureg
 
-__all__ = ["Target", "Study", "compare", "RESISTANCE_NAMES"]
+__all__ = ["RESISTANCE_NAMES", "Study", "Target", "compare"]
 
 RESISTANCE_NAMES = ("shell film", "shell fouling", "wall", "tube fouling", "tube film")
 _TARGET_KINDS = {"duty": "power", "t_out_shell": "temperature", "t_out_tube": "temperature", "UA": None}
@@ -57,7 +58,7 @@ class Target:
         elif isinstance(self.value, str):  # a U·A with its unit, e.g. "20 kW/K"
             try:
                 v = ureg.Quantity(self.value).to("W/K").magnitude
-            except Exception:
+            except (pint.errors.PintError, ValueError, TypeError, AttributeError):
                 raise InputError("target.UA", self.value, "a conductance U·A (W/K, or e.g. '20 kW/K')") from None
         else:
             v = float(self.value)

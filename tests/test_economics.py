@@ -4,7 +4,8 @@ from types import SimpleNamespace
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from revamp import economics as ec
 from revamp.errors import InputError
@@ -131,7 +132,7 @@ def test_cycle_average_accepts_objects_with_Rf_and_strings():
 @given(st.floats(1e-12, 1e-9), st.floats(1e-12, 1e-9))
 def test_slower_fouling_never_lowers_the_cycle_average(b1, b2):
     slow, fast = min(b1, b2), max(b1, b2)
-    duty = lambda rf: 4e6 / (1 + 1.5e3 * rf)  # noqa: E731
+    duty = lambda rf: 4e6 / (1 + 1.5e3 * rf)
     a = ec.cycle_average(duty, lambda t: slow * t, 3e7).duty_mean
     b = ec.cycle_average(duty, lambda t: fast * t, 3e7).duty_mean
     assert a >= b - 1e-6

@@ -20,8 +20,8 @@ SVC = rv.Service(shell=rv.Stream(OIL, "43800 lb/h", "390 degF"), tube=rv.Stream(
 def study():
     opts = [op.Clean(), op.AddShells(1)]
     return rv.compare(EX, SVC, opts, target="1.6 MW", limits={"dp_tube": "1 bar"},
-                      economics=dict(energy_price=6.0, price_per="MMBTU", discount_rate=0.08,
-                                     capex={"clean both sides": 30e3, "add 1 shell in series": 600e3}))
+                      economics={"energy_price": 6.0, "price_per": "MMBTU", "discount_rate": 0.08,
+                                     "capex": {"clean both sides": 30e3, "add 1 shell in series": 600e3}})
 
 
 def test_option_comparison(study):

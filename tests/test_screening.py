@@ -1,11 +1,10 @@
 """Tests of revamp.screening: limits, nozzle ρv², flow-induced vibration screen."""
+import math
 from types import SimpleNamespace
 
-import math
-
-import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from scipy import integrate, optimize
 
 from revamp.errors import InputError

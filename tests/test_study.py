@@ -21,9 +21,9 @@ EX = rv.ShellAndTube(shell_id="21.25 in", tube_od="1 in", tube_wall="0.095 in", 
 SVC = rv.Service(shell=rv.Stream(OIL, "43800 lb/h", "390 degF"), tube=rv.Stream(CRUDE, "149000 lb/h", "100 degF"),
                  fouling_shell=2e-4, fouling_tube=5e-4)
 OPTIONS = (op.Clean(), op.TwistedTape(4.0, "0.8 mm"), op.AddShells(1), op.AddShells(1, "parallel"))
-ECON = dict(energy_price=8.0, price_per="GJ", efficiency=0.85, operating_time="8000 h", discount_rate=0.1,
-            horizon=10, capex={"clean both sides": 40e3, "twisted tape y=4, 0.8 mm": 120e3,
-                               "add 1 shell in series": 900e3, "add 1 parallel train": 900e3})
+ECON = {"energy_price": 8.0, "price_per": "GJ", "efficiency": 0.85, "operating_time": "8000 h", "discount_rate": 0.1,
+            "horizon": 10, "capex": {"clean both sides": 40e3, "twisted tape y=4, 0.8 mm": 120e3,
+                               "add 1 shell in series": 900e3, "add 1 parallel train": 900e3}}
 
 
 @pytest.fixture(scope="module")
@@ -114,7 +114,7 @@ def test_outlet_temperature_target():
 
 def test_cycle_average_column():
     # linear tube-side fouling from clean; the base case's cycle-averaged duty lies between clean and end-of-run
-    model = lambda t: 5e-4 * np.asarray(t) / 3.15e7  # noqa: E731  (5e-4 m²K/W after a year)
+    model = lambda t: 5e-4 * np.asarray(t) / 3.15e7
     s = rv.compare(EX, SVC, [op.TwistedTape(4.0)], cycle={"fouling": model, "run_length": "365 day", "points": 5})
     avg = s.table.loc["base", "duty_cycle_avg"]
     clean = float(rv.rate(EX, SVC.replace(fouling_tube=0.0)).duty)
@@ -137,8 +137,8 @@ def test_bad_inputs():
 
 def test_capacity_value_only_when_the_option_removes_the_bottleneck():
     base = float(rv.rate(EX, SVC).duty)
-    econ = dict(energy_price=8.0, capex={"clean both sides": 1e4, "add 1 shell in series": 5e5},
-                capacity_flow=0.5, capacity_margin=0.02)
+    econ = {"energy_price": 8.0, "capex": {"clean both sides": 1e4, "add 1 shell in series": 5e5},
+                "capacity_flow": 0.5, "capacity_margin": 0.02}
     capacity = 0.5 * 8000 * 3600 * 0.02  # kg/s × s/year × per kg (hand calculation)
     s = rv.compare(EX, SVC, [op.Clean(), op.AddShells(1)], target=1.02 * base, economics=econ,
                    limits={"vibration": False, "dp_tube": 1e6, "dp_shell": 1e6})

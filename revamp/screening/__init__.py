@@ -10,14 +10,40 @@ from dataclasses import dataclass, fields
 
 from ..errors import InputError
 from ._check import STATUSES, Check, worst
-from .limits import (DEFAULT_DP_LIQUID, DEFAULT_VELOCITY_MIN, DEFAULT_VELOCITY_MIN_CRUDE, RHO_V2_NO_IMPINGEMENT,
-                     RHO_V2_OTHER, nozzle_check, pressure_drop_check, tube_velocity_check)
-from .vibration import BETA_DESIGN, LIFT_DEFAULT, STROUHAL_DEFAULT, span_check, vibration_checks
+from .limits import (
+    DEFAULT_DP_LIQUID,
+    DEFAULT_VELOCITY_MIN,
+    DEFAULT_VELOCITY_MIN_CRUDE,
+    RHO_V2_NO_IMPINGEMENT,
+    RHO_V2_OTHER,
+    nozzle_check,
+    pressure_drop_check,
+    tube_velocity_check,
+)
+from .vibration import (
+    BETA_DESIGN,
+    LIFT_DEFAULT,
+    STROUHAL_DEFAULT,
+    span_check,
+    vibration_checks,
+)
 
 __all__ = [
-    "Check", "STATUSES", "worst", "Limits", "screen", "pressure_drop_check", "tube_velocity_check", "nozzle_check",
-    "vibration_checks", "span_check", "DEFAULT_DP_LIQUID", "DEFAULT_VELOCITY_MIN", "DEFAULT_VELOCITY_MIN_CRUDE",
-    "RHO_V2_NO_IMPINGEMENT", "RHO_V2_OTHER",
+    "DEFAULT_DP_LIQUID",
+    "DEFAULT_VELOCITY_MIN",
+    "DEFAULT_VELOCITY_MIN_CRUDE",
+    "RHO_V2_NO_IMPINGEMENT",
+    "RHO_V2_OTHER",
+    "STATUSES",
+    "Check",
+    "Limits",
+    "nozzle_check",
+    "pressure_drop_check",
+    "screen",
+    "span_check",
+    "tube_velocity_check",
+    "vibration_checks",
+    "worst",
 ]
 
 
@@ -55,7 +81,7 @@ class Limits:
     vibration: bool = True
 
     @classmethod
-    def of(cls, value) -> "Limits":
+    def of(cls, value) -> Limits:
         """A Limits from ``None``, a dict of its fields or a Limits."""
         if value is None:
             return cls()

@@ -5,7 +5,7 @@ from dataclasses import dataclass
 
 from ..errors import InputError
 
-__all__ = ["Check", "STATUSES", "worst"]
+__all__ = ["STATUSES", "Check", "worst"]
 
 STATUSES = ("ok", "warn", "fail")
 

@@ -19,8 +19,15 @@ from ..units import require, to_si
 from ._check import Check
 
 __all__ = [
-    "DEFAULT_DP_LIQUID", "DEFAULT_VELOCITY_MIN", "DEFAULT_VELOCITY_MIN_CRUDE", "LB_FT_S2",
-    "RHO_V2_NO_IMPINGEMENT", "RHO_V2_OTHER", "pressure_drop_check", "tube_velocity_check", "nozzle_check",
+    "DEFAULT_DP_LIQUID",
+    "DEFAULT_VELOCITY_MIN",
+    "DEFAULT_VELOCITY_MIN_CRUDE",
+    "LB_FT_S2",
+    "RHO_V2_NO_IMPINGEMENT",
+    "RHO_V2_OTHER",
+    "nozzle_check",
+    "pressure_drop_check",
+    "tube_velocity_check",
 ]
 
 #: Allowed pressure drop per side when the user gives none [Pa]: the top of the 35-70 kPa liquid range (Sinnott 2005).

@@ -43,10 +43,22 @@ from ..units import require
 from ._check import Check
 
 __all__ = [
-    "SPAN_CONSTANTS", "BETA_DESIGN", "DAMPING_DEFAULT", "STROUHAL_DEFAULT", "LIFT_DEFAULT", "AMPLITUDE_LIMIT",
-    "second_moment", "added_mass_coefficient", "mass_per_length", "natural_frequency",
-    "connors_critical_velocity", "vortex_shedding_frequency", "vortex_amplitude", "spans", "vibration_checks",
+    "AMPLITUDE_LIMIT",
+    "BETA_DESIGN",
+    "DAMPING_DEFAULT",
+    "LIFT_DEFAULT",
+    "SPAN_CONSTANTS",
+    "STROUHAL_DEFAULT",
+    "added_mass_coefficient",
+    "connors_critical_velocity",
+    "mass_per_length",
+    "natural_frequency",
+    "second_moment",
     "span_check",
+    "spans",
+    "vibration_checks",
+    "vortex_amplitude",
+    "vortex_shedding_frequency",
 ]
 
 #: End-condition constant C = λ² of the first bending mode (TEMA V-5.3; Blevins 1979 Table 8-1).
