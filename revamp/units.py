@@ -27,6 +27,7 @@ __all__ = ["ureg", "to_si", "DIMENSIONS", "from_si", "DISPLAY_UNITS", "format_qu
 
 ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 ureg.define("BTU = Btu")  # spelling used on data sheets
+ureg.define("MMBTU = 1e6 * BTU = MMBtu")  # million BTU, the usual unit of fuel prices
 
 # quantity kind -> (SI unit, pint dimensionality check unit, words for messages)
 DIMENSIONS: dict[str, tuple[str, str]] = {

@@ -78,3 +78,8 @@ def test_display_labels():
     assert from_si(1.0, "fouling", "US")[0] == pytest.approx(1 / 0.1761102, rel=1e-6)  # NIST SP 811
     with pytest.raises(InputError):
         from_si(1.0, "length", "imperial")
+
+
+def test_fuel_price_units():
+    # 1 MMBTU = 1e6 BTU_IT = 1.055056 GJ (NIST SP 811; pint rounds BTU to 1055.056 J)
+    assert to_si("1 MMBTU", "energy") == pytest.approx(1.05505585e9, rel=1e-6)
