@@ -28,6 +28,7 @@ API MPMS Chapter 11.1 / ASTM D1250-80, "Volume correction factors" (generalized 
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -46,6 +47,7 @@ BTU_LB_F = 4186.8
 #: 1 BTU·in/(h·ft²·°F) in W/(m·K).
 BTU_IN_H_FT2_F = 0.1442279
 _K0_CRUDE, _K1_CRUDE = 341.0957, 0.0
+_LN10 = math.log(10.0)
 
 # validity ranges [K]
 _F = lambda t_f: (t_f - 32.0) / 1.8 + 273.15  # noqa: E731 - °F to K for the constants below
@@ -110,17 +112,42 @@ class PetroleumFluid:
 
     def kinematic_viscosity(self, T):
         """Kinematic viscosity [m²/s] at ``T`` [K] (ASTM D341 Walther line)."""
-        z = 10.0 ** (10.0 ** (self.walther_a - self.walther_b * np.log10(T)))
-        return (z - 0.7) * 1e-6
+        # 10**(10**(A - B log10 T)) written with exp and log (faster than power on arrays)
+        y = np.exp(_LN10 * self.walther_a - self.walther_b * np.log(T))
+        return (np.exp(_LN10 * y) - 0.7) * 1e-6
 
     def props(self, T) -> Props:
         """Density [kg/m³], heat capacity [J/kg/K], viscosity [Pa s], conductivity [W/m/K] at ``T`` [K]."""
-        arr, scalar = as_temperature(T)
+        if (isinstance(T, float) or type(T) is int) and T > 0.0 and math.isfinite(T):  # scalar fast path
+            return self._props_scalar(float(T))
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim and np.isfinite(T).all() and T.min() > 0:
+            arr, scalar = T, False
+        else:
+            arr, scalar = as_temperature(T)
+            if scalar:
+                return self._props_scalar(float(arr))
         rho = self.density(arr)
-        out = Props(rho, self.heat_capacity(arr), self.kinematic_viscosity(arr) * rho, self.conductivity(arr))
-        if scalar:
-            return Props(*(float(v) for v in (out.density, out.heat_capacity, out.viscosity, out.conductivity)))
-        return out
+        mu = self.kinematic_viscosity(arr)
+        mu *= rho
+        return Props(rho, self.heat_capacity(arr), mu, self.conductivity(arr))
+
+    def _props_scalar(self, T: float) -> Props:
+        # the same formulas as the array methods, on Python floats
+        rho60 = self.rho60
+        alpha = _K0_CRUDE / rho60**2 + _K1_CRUDE / rho60
+        dt = (T - 273.15) * 1.8 - 28.0
+        rho = rho60 * math.exp(-alpha * dt * (1.0 + 0.8 * alpha * dt))
+        sg, k = self.sg, self.watson_k
+        a1 = -1.17126 + (0.023722 + 0.024907 * sg) * k + (1.14982 - 0.046535 * k) / sg
+        a2 = 1e-4 * (1.0 + 0.82463 * k) * (1.12172 - 0.27634 / sg)
+        a3 = -1e-8 * (1.0 + 0.82463 * k) * (2.9027 - 0.70958 / sg)
+        t_r = T * 1.8
+        cp = (a1 + (a2 + a3 * t_r) * t_r) * BTU_LB_F
+        y = math.exp(_LN10 * self.walther_a - self.walther_b * math.log(T))
+        nu = (math.exp(_LN10 * y) - 0.7) * 1e-6
+        t_f = (T - 273.15) * 1.8 + 32.0
+        kc = 0.813 / self.sg * (1.0 - 0.0003 * (t_f - 32.0)) * BTU_IN_H_FT2_F
+        return Props(rho, cp, nu * rho, kc)
 
     def check(self, T) -> list[str]:
         """Warnings for every correlation used outside its stated range at these temperatures."""

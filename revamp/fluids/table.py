@@ -159,6 +159,8 @@ class ConstantFluid:
 
     def props(self, T) -> Props:
         """The constant properties, as floats for scalar ``T`` or arrays of ``T``'s shape."""
+        if (isinstance(T, float) or type(T) is int) and T > 0.0 and math.isfinite(T):  # scalar fast path
+            return Props(self.density, self.heat_capacity, self.viscosity, self.conductivity)
         if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim:
             arr, scalar = T, False  # array fast path (NaN gives NaN-free constants: nothing depends on T)
         else:
