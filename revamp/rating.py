@@ -38,8 +38,8 @@ from .service import Service, Stream
 
 __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"]
 
-#: Shell-side methods by name (one registry, dispatched in one place).
-SHELL_METHODS = {"bell-delaware": "bell_delaware", "kern": "kern"}
+#: Shell-side methods by name: the one registry, defined beside the correlations and dispatched here only.
+SHELL_METHODS = shell_corr.SHELL_METHODS
 
 _MAX_ITER = 25
 _TOL_K = 1e-6  # outlet temperature change at which the property iteration stops [K]
@@ -268,6 +268,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         raise InputError("shell_method", shell_method, f"one of {sorted(SHELL_METHODS)}")
     if not isinstance(service, Service):
         raise InputError("service", service, "a revamp.Service(shell=Stream(...), tube=Stream(...))")
+    shell_fn = SHELL_METHODS[shell_method]
     hx = exchanger
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
@@ -316,12 +317,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             mu_wall=mu_wt, rel_roughness=rel_rough, insert=insert,
             d_nozzle=getattr(hx, "nozzle_tube", None), rho_nozzle=pt.density,
         )
-        if shell_method == "kern":
-            ss_res = shell_corr.kern(geom, m_s, ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity,
-                                     mu_wall=mu_ws)
-        else:
-            ss_res = shell_corr.bell_delaware(geom, m_s, ps.density, ps.heat_capacity, ps.viscosity,
-                                              ps.conductivity, mu_wall=mu_ws)
+        ss_res = shell_fn(geom, m_s, ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity, mu_wall=mu_ws)
         h_s, h_t = ss_res.h, ts_res.h
         t_metal = 0.5 * (tw_s + tw_t)
         k_w = material.conductivity(t_metal)

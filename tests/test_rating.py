@@ -243,3 +243,15 @@ def test_water_above_saturation_is_an_error_in_a_single_case():
     with pytest.raises(InputError):
         rv.rate(kern_exchanger(), rv.Service(shell=hot, tube=water))
     assert math.isfinite(rv.rate(kern_exchanger(), rv.Service(shell=hot.replace(t_in=380.0), tube=water)).duty)
+
+
+def test_shell_method_registry_maps_names_to_the_intended_functions():
+    # one registry per choice: each name must dispatch to the function of that name (DESIGN.md, "registry")
+    from revamp.correlations import shell_bell, shell_kern
+    from revamp.rating import SHELL_METHODS
+
+    assert SHELL_METHODS == {"bell-delaware": shell_bell.bell_delaware, "kern": shell_kern.kern}
+    r = rv.rate(kern_exchanger(), kern_service(), shell_method="kern")
+    assert r.shell_side.method.lower().startswith("kern")
+    r = rv.rate(kern_exchanger(), kern_service(), shell_method="bell-delaware")
+    assert "bell" in r.shell_side.method.lower()
