@@ -90,7 +90,3 @@ def range_check(name: str, T, t_min: float, t_max: float, what: str = "valid ran
     count = f" ({n} of {arr.size} temperatures)" if arr.size > 1 else ""
     return [f"{name}: T = {shown:.2f} K is outside its {what} {t_min:.2f} to {t_max:.2f} K{count}"]
 
-
-def scalar_or_array(value, scalar: bool):
-    """Return a Python float for scalar input, the array otherwise."""
-    return float(value) if scalar else value
