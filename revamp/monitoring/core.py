@@ -9,8 +9,9 @@ reconcile the heat balance (:mod:`.reconcile`), then
 - U_clean from one vectorized :func:`revamp.rating.rate` call with no fouling at the reconciled flows and inlets;
 - Rf = 1/U_actual − 1/U_clean [m²K/W, outside area];
 - a Monte Carlo band: ``mc_draws`` copies of the measurements with Gaussian errors of the stated standard deviations
-  go through the same reconciliation, NTU inversion and clean rating (all draws × rows in vectorized calls, chunked
-  to bound memory); Rf_low/Rf_high are percentiles of the draws;
+  go through the same reconciliation and NTU inversion (all draws × rows in one array) and the clean U (first-order
+  sensitivities from one stacked rating by default, or every draw rated, stacked in chunks); Rf_low/Rf_high are
+  percentiles of the draws;
 - fouling trend models fitted to the steady, unflagged rows (:mod:`revamp.fouling.models`, chosen by AIC);
 - duty and cost lost to fouling to date; projection of Rf and duty; the optimal cleaning interval (:mod:`.cleaning`).
 """
@@ -140,15 +141,67 @@ def _rate_clean(exchanger, service, xr, chunk):
     warnings: list = []
     good = np.all(np.isfinite(flat), axis=1) & (flat[:, 0] > 0) & (flat[:, 3] > 0) & (flat[:, 1] != flat[:, 4])
     idx = np.flatnonzero(good)
-    for start in range(0, idx.size, chunk):
-        sel = idx[start:start + chunk]
+    failed = []
+
+    def run(sel):
         svc = Service(shell=Stream(service.shell.fluid, flat[sel, 0], flat[sel, 1]),
                       tube=Stream(service.tube.fluid, flat[sel, 3], flat[sel, 4]), fouling_shell=0.0, fouling_tube=0.0)
-        r = rate(exchanger, svc)
+        try:
+            r = rate(exchanger, svc)
+        except InputError as exc:
+            # a case the rating cannot settle (e.g. its outlet iteration cycles) fails the whole call: split the
+            # cases in halves until the failing ones are found, and leave those NaN
+            if sel.size == 1:
+                failed.append((int(sel[0]), str(exc)))
+                return
+            run(sel[: sel.size // 2])
+            run(sel[sel.size // 2:])
+            return
         for k in keys:
             out[k][sel] = np.asarray(getattr(r, k), dtype=float).ravel()
         warnings.extend(r.warnings)
+
+    for start in range(0, idx.size, chunk):
+        run(idx[start:start + chunk])
+    if failed:
+        warnings.append(f"clean rating failed for {len(failed)} case(s), left NaN: {failed[0][1]}")
     return {k: v.reshape(xr.shape[:-1]) for k, v in out.items()}, list(dict.fromkeys(warnings))
+
+
+def _clean_linearized(exchanger, service, x0, u0, xd):
+    """Clean U of the Monte Carlo draws from its first-order sensitivities at the reconciled rows.
+
+    One stacked rating of the rows with each of the four rating inputs (shell flow, shell inlet, tube flow, tube
+    inlet) nudged in turn (0.1 % of a flow, 0.05 K) gives dU/dx by forward differences; a draw's clean U is
+    U0 + Σ dU/dx_j·(x_j − x0_j). For measurement errors of a few per cent the neglected second-order term is below
+    1e-4 of U (h ∝ m^0.8: ½·0.8·0.2·0.02² = 3e-5).
+    """
+    cols = (0, 1, 3, 4)
+    steps = np.array([1e-3 * x0[:, 0], np.full(len(x0), 0.05), 1e-3 * x0[:, 3], np.full(len(x0), 0.05)])
+    stack = np.repeat(x0[None], 4, axis=0)
+    for k, j in enumerate(cols):
+        stack[k, :, j] += steps[k]
+    u_p = _rate_clean(exchanger, service, stack, stack.shape[0] * stack.shape[1])[0]["U_clean"]
+    grad = (u_p - u0[None]) / steps  # (4, rows)
+    out = np.broadcast_to(u0, xd.shape[:-1]).copy()
+    for k, j in enumerate(cols):
+        out += grad[k] * (xd[..., j] - x0[:, j])
+    return out
+
+
+def _nan_percentiles(a, qs):
+    """Percentiles along axis 0 ignoring NaN (numpy's 'linear' method), vectorized over the columns."""
+    srt = np.sort(a, axis=0)  # NaN sort last
+    k = np.sum(np.isfinite(a), axis=0)
+    out = []
+    for q in qs:
+        pos = q / 100.0 * np.maximum(k - 1, 0)
+        lo = np.floor(pos).astype(int)
+        hi = np.minimum(lo + 1, np.maximum(k - 1, 0))
+        w = pos - lo
+        v = np.take_along_axis(srt, lo[None], 0)[0] * (1 - w) + np.take_along_axis(srt, hi[None], 0)[0] * w
+        out.append(np.where(k > 0, v, np.nan))
+    return out
 
 
 def _cp(fluid, T):
@@ -165,7 +218,7 @@ def _cp(fluid, T):
 def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=None, balance_tolerance=0.10,
             mc_draws: int = 200, band=(5.0, 95.0), seed=0, run_start=None, run_length=None, models=None,
             fouling_side: str = "tube", beta: float = -0.66, E=None, cleaning=None, duty_value=None,
-            sort: bool = False, flat_rows: int = 6, mc_chunk: int = 400_000) -> Monitoring:
+            sort: bool = False, flat_rows: int = 6, mc_clean: str = "linear", mc_chunk: int = 400_000) -> Monitoring:
     """Measured U and fouling of an exchanger from plant data.
 
     Parameters
@@ -212,8 +265,11 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         Re-order rows by time instead of flagging out-of-order ones.
     flat_rows : int
         Rows unchanged before a sensor counts as flat-lined.
+    mc_clean : {"linear", "full"}
+        How the draws' clean U is found: ``"linear"`` from first-order sensitivities (one stacked rating of the rows
+        with each input nudged; fast), ``"full"`` by rating every draw × row (stacked, in chunks; ~20 µs a case).
     mc_chunk : int
-        Largest number of cases per rating call in the Monte Carlo.
+        Largest number of cases per rating call.
 
     Returns
     -------
@@ -223,6 +279,8 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
 
     if fouling_side not in ("tube", "shell"):
         raise InputError("fouling_side", fouling_side, "'tube' or 'shell'")
+    if mc_clean not in ("linear", "full"):
+        raise InputError("mc_clean", mc_clean, "'linear' or 'full'")
     pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows)
     tab = pdata.frame.copy()
     n = len(tab)
@@ -278,19 +336,20 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     if mc_draws and rows.size:
         rng = np.random.default_rng(seed)
         xs = x[rows][None] + rng.standard_normal((int(mc_draws), rows.size, 6)) * sig[rows][None]
-        hb_d = reconcile_heat_balance(xs, sig[rows][None], cp_s[rows], cp_t[rows])
+        # closure to 1e-7 of the duty is ample for a band; start from the reconciled rows (fewer steps)
+        hb_d = reconcile_heat_balance(xs, sig[rows][None], cp_s[rows], cp_t[rows], tol=1e-7, start=hb.x[rows][None])
         u_d, _ = _u_actual(hb_d.x, hb_d.duty, cp_s[rows], cp_t[rows], area, arr_name, shells)
-        clean_d, _ = _rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1))
+        if mc_clean == "full":
+            uc_d = _rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1))[0]["U_clean"]
+        else:
+            uc_d = _clean_linearized(exchanger, service, hb.x[rows], clean["U_clean"][rows], hb_d.x)
         with np.errstate(divide="ignore", invalid="ignore"):
-            rf_d = 1.0 / u_d - 1.0 / clean_d["U_clean"]
+            rf_d = 1.0 / u_d - 1.0 / uc_d
         lo, hi = band
         rf_low, rf_high = np.full(n, np.nan), np.full(n, np.nan)
         u_low, u_high = np.full(n, np.nan), np.full(n, np.nan)
-        import warnings as _w
-        with _w.catch_warnings():
-            _w.simplefilter("ignore", RuntimeWarning)  # all-NaN columns
-            rf_low[rows], rf_high[rows] = np.nanpercentile(rf_d, [lo, hi], axis=0)
-            u_low[rows], u_high[rows] = np.nanpercentile(u_d, [lo, hi], axis=0)
+        rf_low[rows], rf_high[rows] = _nan_percentiles(rf_d, (lo, hi))
+        u_low[rows], u_high[rows] = _nan_percentiles(u_d, (lo, hi))
     tab["Rf_low"], tab["Rf_high"], tab["U_low"], tab["U_high"] = rf_low, rf_high, u_low, u_high
 
     # steady filter and the rows used

@@ -110,7 +110,8 @@ class HeatBalance:
     iterations: int
 
 
-def reconcile_heat_balance(x, sigma, cp_shell, cp_tube, tol: float = 1e-10, max_iter: int = 20) -> HeatBalance:
+def reconcile_heat_balance(x, sigma, cp_shell, cp_tube, tol: float = 1e-10, max_iter: int = 20,
+                           start=None) -> HeatBalance:
     """Reconcile flows and temperatures of each row so that the shell-side and tube-side duties agree.
 
     Parameters
@@ -122,9 +123,11 @@ def reconcile_heat_balance(x, sigma, cp_shell, cp_tube, tol: float = 1e-10, max_
     cp_shell, cp_tube : array_like, shape (...)
         Heat capacity of each side [J/kg/K].
     tol : float
-        Stop when the largest relative closure |f|/duty and the largest relative step are below this.
+        Stop when the largest relative closure |f|/duty and the relative change of the multiplier are below this.
     max_iter : int
         Most linearisation steps.
+    start : array_like, shape like x, or None
+        First linearisation point (default the readings); a nearby solution saves steps (Monte Carlo draws).
 
     Returns
     -------
@@ -145,26 +148,35 @@ def reconcile_heat_balance(x, sigma, cp_shell, cp_tube, tol: float = 1e-10, max_
     cold = np.where(shell_hot, duty_tube, duty_shell)
     with np.errstate(divide="ignore", invalid="ignore"):
         err = (hot - cold) / (0.5 * (hot + cold))
-    xh = x.copy()
+    # one constraint per row: the closed form reduces to scalars; work on the six components separately
+    xs = [x[..., j] for j in range(6)]
+    vs = [V[..., j] for j in range(6)]
+    h = list(xs) if start is None else [np.broadcast_to(np.asarray(start, dtype=float)[..., j], xs[j].shape)
+                                        for j in range(6)]
     it = 0
+    resid = np.zeros(x.shape[:-1])
+    lam_old = np.zeros(x.shape[:-1])
     for it in range(1, max_iter + 1):
-        a = np.stack([cps * (xh[..., 1] - xh[..., 2]), cps * xh[..., 0], -cps * xh[..., 0],
-                      cpt * (xh[..., 4] - xh[..., 5]), cpt * xh[..., 3], -cpt * xh[..., 3]], axis=-1)
-        f = np.sum(side_duties(xh, cps, cpt), axis=0)
-        # linearised: f(xh) + a·(x_new − xh) = 0  ->  a·x_new = a·xh − f(xh); the closed form with one constraint
-        r = np.sum(a * (x - xh), axis=-1) + f
-        s = np.sum(a * a * V, axis=-1)
+        a = [cps * (h[1] - h[2]), cps * h[0], -cps * h[0], cpt * (h[4] - h[5]), cpt * h[3], -cpt * h[3]]
+        f = a[0] * h[0] + a[3] * h[3]  # m_s·cp_s·ΔT_s + m_t·cp_t·ΔT_t
+        # linearised: f(h) + a·(x_new − h) = 0  ->  the closed form with one constraint, applied to the readings
+        r = f
+        s = 0.0
+        for j in range(6):
+            r = r + a[j] * (xs[j] - h[j])
+            s = s + a[j] * a[j] * vs[j]
         with np.errstate(divide="ignore", invalid="ignore"):
-            x_new = x - V * a * (r / s)[..., None]
-            step = np.max(np.abs(x_new - xh) / np.maximum(np.abs(x), 1e-300), axis=-1)
-        xh = x_new
-        qs_new, qt_new = side_duties(xh, cps, cpt)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            resid = np.abs(qs_new + qt_new) / np.maximum(np.abs(qs_new), 1e-300)
-        # stop when the balance closes and the estimate has settled (the linearisation point then is the optimum);
+            lam = r / s
+            h = [xs[j] - vs[j] * a[j] * lam for j in range(6)]
+            settled = np.abs(lam - lam_old) <= tol * np.abs(lam)
+            qs_new = h[0] * cps * (h[1] - h[2])
+            resid = np.abs(qs_new + h[3] * cpt * (h[4] - h[5])) / np.abs(qs_new)
+        lam_old = lam
+        # stop when the balance closes and the multiplier has settled (the linearisation point is then the optimum);
         # NaN rows do not hold the loop
-        if not np.any(resid > tol) and not np.any(step > tol):
+        if not np.any(resid > tol) and not np.any(~settled & np.isfinite(lam)):
             break
+    xh = np.stack(h, axis=-1)
     duty = np.abs(side_duties(xh, cps, cpt)[0])
     return HeatBalance(duty_shell=duty_shell, duty_tube=duty_tube, balance_error=err, duty=duty, x=xh,
                        residual=resid, iterations=it)
