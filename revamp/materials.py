@@ -22,7 +22,7 @@ import numpy as np
 from .errors import InputError
 from .units import to_si
 
-__all__ = ["Material", "MATERIALS", "ALIASES", "material"]
+__all__ = ["ALIASES", "MATERIALS", "Material", "material"]
 
 
 @dataclass(frozen=True)

@@ -19,30 +19,30 @@ def test_conversion_factor_with_pint():
 
 @pytest.mark.parametrize("kwargs, value_us", [
     # crude oil, read: 0-250 °F and 250-350 °F bands
-    (dict(service="crude oil", temperature="200 degF", velocity="1 ft/s", salt=False), 0.003),
-    (dict(service="crude oil", temperature="200 degF", velocity="3 ft/s", salt=True), 0.002),
-    (dict(service="crude oil", temperature="300 degF", velocity="1.5 ft/s", salt=True), 0.005),
-    (dict(service="crude oil", temperature="300 degF", velocity="5 ft/s", salt=True), 0.004),
-    (dict(service="crude", temperature="300 degF", velocity="5 ft/s", salt=False), 0.002),
+    ({"service": "crude oil", "temperature": "200 degF", "velocity": "1 ft/s", "salt": False}, 0.003),
+    ({"service": "crude oil", "temperature": "200 degF", "velocity": "3 ft/s", "salt": True}, 0.002),
+    ({"service": "crude oil", "temperature": "300 degF", "velocity": "1.5 ft/s", "salt": True}, 0.005),
+    ({"service": "crude oil", "temperature": "300 degF", "velocity": "5 ft/s", "salt": True}, 0.004),
+    ({"service": "crude", "temperature": "300 degF", "velocity": "5 ft/s", "salt": False}, 0.002),
     # crude oil above 350 °F: from memory
-    (dict(service="crude oil", temperature="400 degF", velocity="1 ft/s", salt=False), 0.004),
-    (dict(service="crude oil", temperature="500 degF", velocity="3 ft/s", salt=True), 0.006),
+    ({"service": "crude oil", "temperature": "400 degF", "velocity": "1 ft/s", "salt": False}, 0.004),
+    ({"service": "crude oil", "temperature": "500 degF", "velocity": "3 ft/s", "salt": True}, 0.006),
     # waters, read: sea water 0.0005 (water up to 125 °F), 0.001 above; treated cooling tower 0.001 / 0.002;
     # river water (average) 0.003 below 3 ft/s, 0.002 above, at up to 125 °F
-    (dict(service="sea water", temperature="30 degC", velocity="1 m/s"), 0.0005),
-    (dict(service="seawater", temperature="60 degC", velocity="0.5 m/s"), 0.001),
-    (dict(service="cooling tower water", temperature="35 degC", velocity="2 m/s"), 0.001),
-    (dict(service="cooling tower water", temperature="60 degC", velocity="2 m/s"), 0.002),
-    (dict(service="river water", temperature="20 degC", velocity="0.5 m/s"), 0.003),
-    (dict(service="river water", temperature="20 degC", velocity="1.5 m/s"), 0.002),
+    ({"service": "sea water", "temperature": "30 degC", "velocity": "1 m/s"}, 0.0005),
+    ({"service": "seawater", "temperature": "60 degC", "velocity": "0.5 m/s"}, 0.001),
+    ({"service": "cooling tower water", "temperature": "35 degC", "velocity": "2 m/s"}, 0.001),
+    ({"service": "cooling tower water", "temperature": "60 degC", "velocity": "2 m/s"}, 0.002),
+    ({"service": "river water", "temperature": "20 degC", "velocity": "0.5 m/s"}, 0.003),
+    ({"service": "river water", "temperature": "20 degC", "velocity": "1.5 m/s"}, 0.002),
     # industrial fluids, read
-    (dict(service="fuel oil no. 6"), 0.005),
-    (dict(service="steam"), 0.0005),
-    (dict(service="refrigerant liquids"), 0.001),
+    ({"service": "fuel oil no. 6"}, 0.005),
+    ({"service": "steam"}, 0.0005),
+    ({"service": "refrigerant liquids"}, 0.001),
     # refinery streams: kerosene 0.002-0.003 (from memory): the upper end; vacuum tower bottoms 0.010 (from memory)
-    (dict(service="kerosene"), 0.003),
-    (dict(service="vacuum residue"), 0.010),
-    (dict(service="heavy gas oil", temperature=500.0), 0.005),
+    ({"service": "kerosene"}, 0.003),
+    ({"service": "vacuum residue"}, 0.010),
+    ({"service": "heavy gas oil", "temperature": 500.0}, 0.005),
 ])
 def test_lookups_against_tema(kwargs, value_us):
     r = design_fouling(**kwargs)

@@ -1,4 +1,6 @@
 """Tests for revamp.materials. Expected values name their source; recalled ones say "from memory"."""
+import dataclasses
+
 import numpy as np
 import pytest
 from pint import UnitRegistry
@@ -102,5 +104,5 @@ def test_unknown_and_bad():
 
 
 def test_frozen():
-    with pytest.raises(Exception):
+    with pytest.raises(dataclasses.FrozenInstanceError):
         MATERIALS["carbon steel"].density = 1.0

@@ -9,5 +9,16 @@ from .coolprop_liquid import CoolPropLiquid, pure, water
 from .petroleum import PetroleumFluid, petroleum
 from .table import ConstantFluid, TableFluid, constant, table
 
-__all__ = ["Props", "Fluid", "water", "pure", "petroleum", "table", "constant", "CoolPropLiquid",
-           "PetroleumFluid", "TableFluid", "ConstantFluid"]
+__all__ = [
+           "ConstantFluid",
+           "CoolPropLiquid",
+           "Fluid",
+           "PetroleumFluid",
+           "Props",
+           "TableFluid",
+           "constant",
+           "petroleum",
+           "pure",
+           "table",
+           "water",
+]

@@ -13,7 +13,7 @@ import numpy as np
 from ..errors import InputError
 from ..units import to_si
 
-__all__ = ["Props", "Fluid", "as_temperature", "range_check"]
+__all__ = ["Fluid", "Props", "as_temperature", "range_check"]
 
 
 @dataclass(frozen=True)

@@ -23,7 +23,7 @@ from ..errors import InputError
 from ..units import require, to_si
 from .base import Props, as_temperature, range_check
 
-__all__ = ["water", "pure", "CoolPropLiquid", "GRID_STEP", "INTERPOLATION_ERROR"]
+__all__ = ["GRID_STEP", "INTERPOLATION_ERROR", "CoolPropLiquid", "pure", "water"]
 
 #: Starting grid spacing of the cached tables [K] (halved where a fluid's properties curve more).
 GRID_STEP = 0.25

@@ -38,7 +38,7 @@ from ..errors import InputError
 from ..units import to_si
 from .base import Props, as_temperature, range_check
 
-__all__ = ["petroleum", "PetroleumFluid", "RHO_WATER_60F", "BTU_LB_F"]
+__all__ = ["BTU_LB_F", "RHO_WATER_60F", "PetroleumFluid", "petroleum"]
 
 #: Density of water at 60 °F [kg/m³] (API MPMS 11.1 reference, from memory).
 RHO_WATER_60F = 999.016
@@ -50,7 +50,7 @@ _K0_CRUDE, _K1_CRUDE = 341.0957, 0.0
 _LN10 = math.log(10.0)
 
 # validity ranges [K]
-_F = lambda t_f: (t_f - 32.0) / 1.8 + 273.15  # noqa: E731 - °F to K for the constants below
+_F = lambda t_f: (t_f - 32.0) / 1.8 + 273.15
 T_MIN, T_MAX = _F(0.0), _F(700.0)
 _DENSITY_RANGE = (_F(0.0), _F(300.0))
 _CRAGOE_RANGE = (_F(32.0), _F(400.0))

@@ -11,7 +11,7 @@ from ..errors import InputError
 from ..units import to_si
 from .base import Props, as_temperature, range_check
 
-__all__ = ["table", "constant", "TableFluid", "ConstantFluid"]
+__all__ = ["ConstantFluid", "TableFluid", "constant", "table"]
 
 _KINDS = (("density", "density"), ("heat_capacity", "heat_capacity"), ("viscosity", "viscosity"),
           ("conductivity", "conductivity"))
@@ -128,7 +128,7 @@ def table(T, density, heat_capacity, viscosity, conductivity, name: str = "table
     if (Tk <= 0).any():
         raise InputError("table.T", T, "temperatures > 0 K")
     cols = []
-    given = dict(density=density, heat_capacity=heat_capacity, viscosity=viscosity, conductivity=conductivity)
+    given = {"density": density, "heat_capacity": heat_capacity, "viscosity": viscosity, "conductivity": conductivity}
     for key, kind in _KINDS:
         c = _column(given[key], kind, f"table.{key}")
         if c.size != n:
@@ -195,7 +195,7 @@ def constant(density, heat_capacity, viscosity, conductivity, name: str = "const
     0.001
     """
     vals = {}
-    given = dict(density=density, heat_capacity=heat_capacity, viscosity=viscosity, conductivity=conductivity)
+    given = {"density": density, "heat_capacity": heat_capacity, "viscosity": viscosity, "conductivity": conductivity}
     for key, kind in _KINDS:
         v = to_si(given[key], kind, f"constant.{key}")
         if np.ndim(v) != 0 or not v > 0:

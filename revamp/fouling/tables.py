@@ -27,7 +27,7 @@ import numpy as np
 from ..errors import InputError
 from ..units import to_si
 
-__all__ = ["FoulingLookup", "design_fouling", "fouling_table", "services", "US_TO_SI", "SERVICE_ALIASES"]
+__all__ = ["SERVICE_ALIASES", "US_TO_SI", "FoulingLookup", "design_fouling", "fouling_table", "services"]
 
 #: 1 h·ft²·°F/BTU (International Table BTU) in m²·K/W.
 US_TO_SI = 3600.0 * 0.3048**2 * (5.0 / 9.0) / 1055.05585262
@@ -205,18 +205,18 @@ def _rows():
     rows = []
     for (ti, salt), (vals, src) in _CRUDE.items():
         for vi, v in enumerate(vals):
-            rows.append(dict(service="crude oil", group="refinery: crude and vacuum unit", t_low_F=_CRUDE_T[ti][0],
-                             t_high_F=_CRUDE_T[ti][1], v_low_fts=_CRUDE_V[vi][0], v_high_fts=_CRUDE_V[vi][1],
-                             salt=salt, value_us_low=v, value_us=v, source=src))
+            rows.append({"service": "crude oil", "group": "refinery: crude and vacuum unit", "t_low_F": _CRUDE_T[ti][0],
+                         "t_high_F": _CRUDE_T[ti][1], "v_low_fts": _CRUDE_V[vi][0], "v_high_fts": _CRUDE_V[vi][1],
+                         "salt": salt, "value_us_low": v, "value_us": v, "source": src})
     for svc, (vals, src) in _WATER.items():
         for j, v in enumerate(vals):
             ti, vi = divmod(j, 2)
-            rows.append(dict(service=svc, group="waters", t_low_F=_WATER_T[ti][0], t_high_F=_WATER_T[ti][1],
-                             v_low_fts=_WATER_V[vi][0], v_high_fts=_WATER_V[vi][1], salt=None, value_us_low=v,
-                             value_us=v, source=src))
+            rows.append({"service": svc, "group": "waters", "t_low_F": _WATER_T[ti][0],
+                         "t_high_F": _WATER_T[ti][1], "v_low_fts": _WATER_V[vi][0], "v_high_fts": _WATER_V[vi][1],
+                         "salt": None, "value_us_low": v, "value_us": v, "source": src})
     for svc, (group, lo, hi, src) in _SINGLE.items():
-        rows.append(dict(service=svc, group=group, t_low_F=-INF, t_high_F=INF, v_low_fts=0.0, v_high_fts=INF,
-                         salt=None, value_us_low=lo, value_us=hi, source=src))
+        rows.append({"service": svc, "group": group, "t_low_F": -INF, "t_high_F": INF, "v_low_fts": 0.0,
+                     "v_high_fts": INF, "salt": None, "value_us_low": lo, "value_us": hi, "source": src})
     return rows
 
 
