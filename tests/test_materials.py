@@ -90,6 +90,7 @@ def test_number_is_a_conductivity():
     # a string with a unit: 26 BTU/(h·ft·°F) in W/m·K by pint
     expected = ureg.Quantity(26, "Btu/(hour*foot*delta_degF)").to("W/m/K").magnitude
     assert material("26 BTU/h/ft/delta_degF").conductivity(300.0) == pytest.approx(expected, rel=1e-5)
+    assert material("26 BTU/h/ft/degF").conductivity(300.0) == pytest.approx(expected, rel=1e-5)  # as on data sheets
     assert material("16 W/m/K").conductivity(300.0) == pytest.approx(16.0)
 
 

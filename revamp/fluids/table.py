@@ -97,7 +97,7 @@ def table(T, density, heat_capacity, viscosity, conductivity, name: str = "table
     density : list
         Density at each temperature [kg/m³], > 0.
     heat_capacity : list
-        Isobaric heat capacity [J/kg/K], > 0 (strings such as ``"0.55 BTU/lb/delta_degF"`` accepted).
+        Isobaric heat capacity [J/kg/K], > 0 (strings such as ``"0.55 BTU/lb/degF"`` accepted).
     viscosity : list
         Dynamic viscosity [Pa s], > 0 (strings such as ``"1.2 cP"`` accepted).
     conductivity : list
