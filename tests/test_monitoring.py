@@ -219,3 +219,87 @@ def test_steady_filter_inlet_temperature_range():
     df.loc[10, "tube_t_in"] += 5.0  # one 5 K excursion
     st_mask = steady_state(df, window="3 h", t_range=2.0)
     assert not st_mask[10:13].any() and st_mask[13:].all()  # windows (t − 3 h, t] that contain row 10
+
+
+# --------------------------------------------------------------------------------------------- monitor() round trip
+import revamp as rv  # noqa: E402
+from revamp import fluids  # noqa: E402
+from revamp.geometry import ShellAndTube  # noqa: E402
+
+HX = ShellAndTube(shell_id="0.54 m", tube_od="25.4 mm", tube_wall="2.41 mm", tube_length="4.88 m", tube_count=158,
+                  tube_passes=2, tube_pitch="31.75 mm", layout=90, baffle_spacing="250 mm", baffle_cut=0.25,
+                  shells=1, tube_material=50.0)
+OIL = fluids.constant(density=820.0, heat_capacity=2300.0, viscosity=1.2e-3, conductivity=0.12)
+WATER = fluids.constant(density=995.0, heat_capacity=4180.0, viscosity=7.5e-4, conductivity=0.62)
+SERVICE = rv.Service(shell=rv.Stream(OIL, 20.0, 420.0), tube=rv.Stream(WATER, 25.0, 305.0))
+
+
+def _plant(rf_outside, n=300, seed=0, flow_noise=0.0, t_noise=0.0):
+    """A series rated by rv.rate at a known fouling (tube side, given on the outside basis), plus noise."""
+    rng = np.random.default_rng(seed)
+    t = np.arange(n) * 3600.0
+    m_s = 20.0 * (1 + 0.05 * np.sin(t / 40000.0))
+    m_t = 25.0 * (1 + 0.04 * np.cos(t / 55000.0))
+    ts_in = 420.0 + 3 * np.sin(t / 90000.0)
+    tt_in = 305.0 + 1.5 * np.sin(t / 30000.0)
+    rf = np.broadcast_to(rf_outside, (n,))
+    svc = rv.Service(shell=rv.Stream(OIL, m_s, ts_in), tube=rv.Stream(WATER, m_t, tt_in),
+                     fouling_tube=rf * HX.tube_id / HX.tube_od)
+    r = rv.rate(HX, svc)
+    return pd.DataFrame({
+        "timestamp": pd.date_range("2031-03-01", periods=n, freq="h"),
+        "shell_flow": m_s * (1 + rng.normal(0, flow_noise, n)) if flow_noise else m_s,
+        "shell_t_in": ts_in + rng.normal(0, t_noise, n), "shell_t_out": r.t_out_shell + rng.normal(0, t_noise, n),
+        "tube_flow": m_t * (1 + rng.normal(0, flow_noise, n)) if flow_noise else m_t,
+        "tube_t_in": tt_in + rng.normal(0, t_noise, n), "tube_t_out": r.t_out_tube + rng.normal(0, t_noise, n)})
+
+
+def test_round_trip_exact_without_noise():
+    # data made by the rating engine at a known Rf (set by this test) give that Rf back: the e-NTU inversion undoes
+    # the rating (Kays & London 1984 relations are exact inverses) and the clean U is the same engine's
+    df = _plant(4e-4, n=60)
+    m = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False)
+    assert m.table["Rf"].to_numpy() == pytest.approx(np.full(60, 4e-4), rel=1e-6)
+    assert m.table["balance_error"].abs().max() < 1e-9  # the engine's data close the balance exactly
+    for col in ("duty", "balance_error", "U_actual", "U_clean", "Rf", "Rf_low", "Rf_high", "steady", "flag"):
+        assert col in m.table.columns
+
+
+def test_round_trip_with_noise_inside_band():
+    df = _plant(4e-4, n=300, seed=4, flow_noise=0.01, t_noise=0.2)
+    m = rv.monitor(HX, SERVICE, df, uncertainty={"flow": 0.01, "temperature": 0.2}, steady=False, mc_draws=200)
+    tab = m.table
+    inside = ((tab["Rf_low"] <= 4e-4) & (4e-4 <= tab["Rf_high"])).mean()
+    assert 0.8 <= inside <= 0.99  # a 5-95 % band should hold the truth about 90 % of the time
+    assert np.median(tab["Rf"]) == pytest.approx(4e-4, rel=0.1)
+    assert m.summary["Rf now low [m2K/W]"] < 4e-4 < m.summary["Rf now high [m2K/W]"]
+
+
+def test_fitted_model_recovers_known_linear_law():
+    t = np.arange(400) * 3600.0
+    law = 1e-4 + 3e-4 * t / t[-1]  # Rf = a + b t with a = 1e-4, b = 3e-4 per 399 h (set by the test)
+    df = _plant(law, n=400, seed=5, flow_noise=0.005, t_noise=0.1)
+    m = rv.monitor(HX, SERVICE, df, uncertainty={"flow": 0.005, "temperature": 0.1}, steady=False, mc_draws=20,
+                   models=("linear",))
+    f = m.trend
+    assert f.model == "linear"
+    assert f.params["b"] == pytest.approx(3e-4 / t[-1], rel=0.1)
+    assert abs(f.params["b"] - 3e-4 / t[-1]) < 4 * f.stderr["b"] + 1e-3 * 3e-4 / t[-1]
+    assert f.params["a"] == pytest.approx(1e-4, abs=2e-5)
+    proj = m.project(["10 day", "30 day"])
+    assert proj["Rf"].is_monotonic_increasing and proj["duty"].is_monotonic_decreasing  # fouling lowers duty
+
+
+def test_monitor_keeps_and_counts_bad_rows():
+    df = _plant(3e-4, n=80, seed=6, flow_noise=0.005, t_noise=0.1).astype(object)
+    df.loc[10, "tube_flow"] = None
+    df.loc[20, "shell_t_out"] = "Bad Input"
+    df.loc[30, "tube_t_out"] = 300.0  # the cold side cooled: impossible
+    m = rv.monitor(HX, SERVICE, df, uncertainty={"flow": 0.005, "temperature": 0.1}, mc_draws=10, steady=False)
+    assert len(m.table) == 80  # nothing dropped
+    assert m.counts["missing tube_flow"] == 1 and m.counts["non-numeric shell_t_out"] == 1
+    assert m.counts["tube outlet below inlet on the cold side"] == 1
+    assert np.isnan(m.table.loc[[10, 20, 30], "Rf"]).all()
+    assert m.counts["used"] == int(m.table["used"].sum()) == 77
+    with pytest.raises(InputError, match="fouling_side"):
+        rv.monitor(HX, SERVICE, df, fouling_side="both")

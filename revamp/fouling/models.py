@@ -311,8 +311,9 @@ def fit_threshold(t, rf, Re, Pr, T_film, shear, beta: float = -0.66, E: float | 
     The model is integrated along the data: Rf(t) = Rf0 + ∫ dRf/dt dt (trapezoid rule over the rows, in time
     order; across gaps in the data the rate is interpolated linearly). For a given activation energy E the model is
     linear in (Rf0, alpha_ref, γ), so E is found by a bounded one-dimensional search with the other three solved
-    by linear least squares at each step (variable projection); the standard errors come from the Jacobian of all
-    four parameters at the optimum. When the film temperature barely varies, E is not identifiable from the data:
+    by linear least squares at each step (variable projection), with alpha_ref >= 0 and γ >= 0 (a deposition and a
+    removal term cannot change sign); the standard errors come from the Jacobian of all four parameters at the
+    optimum (not meaningful for a coefficient that sits at its bound of 0). When the film temperature barely varies, E is not identifiable from the data:
     its standard error says so; pass ``E`` to fix it (e.g. from a published parameter set, Wilson et al. 2017).
 
     Parameters
@@ -363,8 +364,9 @@ def fit_threshold(t, rf, Re, Pr, T_film, shear, beta: float = -0.66, E: float | 
     y = rf / _RF_SCALE
 
     def solve(e):
+        # deposition and removal coefficients are physically >= 0: bounded linear least squares
         M = design(e)
-        coef, *_ = np.linalg.lstsq(M, y, rcond=None)
+        coef = optimize.lsq_linear(M, y, bounds=([-np.inf, 0.0, 0.0], [np.inf, np.inf, np.inf]), method="bvls").x
         return coef, float(np.sum((y - M @ coef) ** 2))
 
     if E is None:
