@@ -478,23 +478,27 @@ def monitoring_items(result: dict) -> list:
 
 
 def rf_figure(mon):
-    """Fouling resistance from plant data against time, with its band and the fitted trend (plotly)."""
+    """Fouling resistance from plant data against time: daily medians of the used rows with their band, and the
+    fitted trend (plotly; daily points keep the report small)."""
+    import pandas as pd
     import plotly.graph_objects as go
 
     t = mon.table
     used = t[t["used"]] if "used" in t else t
-    x = used["timestamp"] if "timestamp" in used else used.index
+    daily = used.set_index(pd.to_datetime(used["timestamp"]))[["Rf", "Rf_low", "Rf_high", "run_time"]]
+    daily = daily.resample("1D").median().dropna()
+    x = list(daily.index)
     fig = go.Figure()
-    fig.add_scatter(x=x, y=used["Rf_high"] * 1e4, mode="lines", line={"width": 0}, showlegend=False,
+    fig.add_scatter(x=x, y=daily["Rf_high"] * 1e4, mode="lines", line={"width": 0}, showlegend=False,
                     hoverinfo="skip")
-    fig.add_scatter(x=x, y=used["Rf_low"] * 1e4, mode="lines", line={"width": 0}, fill="tonexty",
-                    fillcolor="rgba(77,126,168,0.25)", name="uncertainty band")
-    fig.add_scatter(x=x, y=used["Rf"] * 1e4, mode="markers", marker={"size": 3}, name="measured Rf")
+    fig.add_scatter(x=x, y=daily["Rf_low"] * 1e4, mode="lines", line={"width": 0}, fill="tonexty",
+                    fillcolor="rgba(77,126,168,0.25)", name="5-95 % band")
+    fig.add_scatter(x=x, y=daily["Rf"] * 1e4, mode="markers", marker={"size": 4}, name="measured Rf (daily median)")
     trend = getattr(mon, "trend", None)
-    if trend is not None and hasattr(trend, "predict") and "run_time" in used:
+    if callable(trend):
         try:
-            fig.add_scatter(x=x, y=trend.predict(used["run_time"].to_numpy()) * 1e4, mode="lines",
-                            name=f"fitted: {esc(getattr(trend, 'name', 'model'))}")
+            fig.add_scatter(x=x, y=trend(daily["run_time"].to_numpy()) * 1e4, mode="lines",
+                            name=f"fitted trend: {esc(getattr(trend, 'model', 'model'))}")
         except Exception:  # a trend that cannot be drawn must not hide the data
             pass
     fig.update_layout(title="Fouling resistance from plant data", yaxis_title="Rf [10⁻⁴ m²·K/W, outside area]",
@@ -509,8 +513,8 @@ def study_items(result: dict, system: str = "SI") -> list:
         return ["The unit file lists no option for this exchanger."]
     from . import plots
 
-    return [study_table(study, system), plots.option_comparison(study, system), plots.resistance_breakdown(study),
-            plots.economics_chart(study)]
+    return [study_table(study, system), study_money_table(study), plots.option_comparison(study, system),
+            plots.resistance_breakdown(study), plots.economics_chart(study)]
 
 
 _STUDY_COLUMNS = [("duty", "power"), ("duty_gain", "power"), ("U_service", "htc"), ("t_out_shell", "temperature"),
@@ -530,10 +534,30 @@ def study_table(study, system: str = "SI"):
         if col in t:
             mag, unit = from_si(t[col].to_numpy(dtype=float), kind, system)
             out[f"{col} [{unit}]"] = [round(float(v), 3 if abs(v) < 100 else 1) for v in mag]
-    for col in ("controlling", "dp_shell_status", "dp_tube_status", "velocity_status", "vibration_status",
-                "meets_target", "capex", "annual_value", "payback", "npv", "rank", "reason"):
+    if "controlling" in t:
+        out["controlling resistance"] = t["controlling"].tolist()
+    return out
+
+
+def study_money_table(study):
+    """Screening statuses, target, money and rank of each row of the study, with the one-line reason."""
+    import pandas as pd
+
+    t = study.table
+    out = pd.DataFrame(index=[str(i) for i in t.index])
+    cur = getattr(study.economics, "currency", "") or ""
+    names = {"dp_shell_status": "dp shell", "dp_tube_status": "dp tube", "velocity_status": "tube velocity",
+             "vibration_status": "vibration", "nozzle_status": "nozzle", "meets_target": "meets target",
+             "capex": f"capex [{cur}]", "annual_value": f"value [{cur}/yr]", "payback": "payback [yr]",
+             "npv": f"NPV [{cur}]", "rank": "rank", "reason": "why"}
+    for col, name in names.items():
         if col in t:
-            out[col] = [round(v, 2) if isinstance(v, float) else v for v in t[col].tolist()]
+            values = t[col].tolist()
+            if col in ("capex", "annual_value", "npv"):
+                values = ["" if v is None or v != v else f"{v:,.0f}" for v in values]
+            elif col == "payback":
+                values = ["" if v is None or v != v else f"{v:.2f}" for v in values]
+            out[name] = values
     return out
 
 
