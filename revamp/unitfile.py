@@ -27,10 +27,28 @@ from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
-import jsonschema
 import yaml
 
 from .errors import InputError
+
+
+def _import_jsonschema():
+    """Import jsonschema without its optional IRI format checker: we use no ``format`` keyword, and that checker
+    builds a grammar at import that costs over a second in every notebook kernel and CLI call."""
+    import sys
+
+    blocked = "rfc3987_syntax" not in sys.modules
+    if blocked:
+        sys.modules["rfc3987_syntax"] = None  # makes its import fail, which jsonschema tolerates
+    try:
+        import jsonschema as module
+    finally:
+        if blocked and sys.modules.get("rfc3987_syntax", 0) is None:
+            del sys.modules["rfc3987_syntax"]
+    return module
+
+
+jsonschema = _import_jsonschema()
 from .units import to_si, ureg
 
 __all__ = ["Problem", "UnitFileError", "Unit", "ExchangerCase", "PlantData", "UnitEconomics", "check", "load",

@@ -1,0 +1,81 @@
+"""Benchmark of ``revamp batch`` on the demo unit with ``--jobs 2``: total time and per-notebook overhead.
+
+Run: ``make bench`` or ``python benchmarks/bench_batch.py [--jobs N]``. Prints figures; asserts nothing.
+
+The overhead of a notebook is what papermill and nbconvert add to the package's own work: a kernel start, the
+imports, the execution round trips and the HTML conversion. It is measured two ways: a notebook with one
+``import revamp`` cell run through the same path, and each exchanger's notebook time minus the same study computed
+in-process (unit file load + ``report.run_case``).
+"""
+from __future__ import annotations
+
+import argparse
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import nbformat
+from nbformat.v4 import new_code_cell, new_notebook
+
+from revamp import report, unitfile
+from revamp.batch import run_batch
+from revamp.cli import demo_unit_path
+
+
+def trivial_notebook_seconds(work: Path) -> float:
+    """Kernel start + ``import revamp`` + papermill + nbconvert for a one-cell notebook [s]."""
+    import papermill as pm
+
+    from revamp.batch import render_notebook
+
+    nb = new_notebook(cells=[new_code_cell("import revamp\nfrom revamp import report")],
+                      metadata={"kernelspec": {"name": "python3", "display_name": "Python 3", "language": "python"}})
+    src, dst = work / "trivial.ipynb", work / "trivial_out.ipynb"
+    nbformat.write(nb, src)
+    start = time.perf_counter()
+    pm.execute_notebook(str(src), str(dst), kernel_name="python3", progress_bar=False, log_output=False)
+    render_notebook(nbformat.read(dst, as_version=4))
+    return time.perf_counter() - start
+
+
+def in_process_seconds(path: Path, tag: str) -> float:
+    """The same study without a notebook: load the unit (this exchanger only) and run its case [s]."""
+    start = time.perf_counter()
+    unit, _, _ = unitfile.load_partial(path, only=[tag])
+    report.run_case(unit.exchanger(tag))
+    return time.perf_counter() - start
+
+
+def main(argv=None):
+    parser = argparse.ArgumentParser()
+    parser.add_argument("--jobs", type=int, default=2)
+    args = parser.parse_args(argv)
+    path = demo_unit_path()
+    with tempfile.TemporaryDirectory() as tmp:
+        work = Path(tmp)
+        # warm the disk cache and the CoolProp import the same way for every measurement
+        subprocess.run([sys.executable, "-c", "import revamp.fluids, CoolProp"], check=True)
+        start = time.perf_counter()
+        result = run_batch(path, work / "reports", jobs=args.jobs, progress=False)
+        total = time.perf_counter() - start
+        trivial = trivial_notebook_seconds(work)
+        print(f"revamp batch on the demo unit ({len(result.per_exchanger)} exchangers, --jobs {args.jobs}): "
+              f"{total:.1f} s total, {len(result.failures)} failed")
+        overheads = []
+        for tag, seconds in sorted(result.per_exchanger.items()):
+            inproc = in_process_seconds(path, tag)
+            overheads.append(seconds - inproc)
+            print(f"  {tag:<8} notebook {seconds:6.1f} s   same study in-process {inproc:5.1f} s   "
+                  f"overhead {seconds - inproc:5.1f} s")
+        print(f"per-notebook overhead: median {statistics.median(overheads):.1f} s (notebook minus in-process); "
+              f"a one-cell 'import revamp' notebook through papermill + nbconvert takes {trivial:.1f} s")
+        size = sum(p.stat().st_size for p in (work / "reports").glob("*.html"))
+        print(f"reports: {size / 1e3:.0f} kB of HTML in all, plus plotly.min.js once "
+              f"({(work / 'reports' / 'plotly.min.js').stat().st_size / 1e6:.1f} MB)")
+
+
+if __name__ == "__main__":
+    main()
