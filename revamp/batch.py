@@ -125,6 +125,7 @@ SUMMARY_FIELDS = [
     ("duty_revamp", "duty at revamp [kW]", lambda v: f"{v / 1e3:,.0f}"),
     ("target", "target", str),
     ("meets_target", "meets target as is", lambda v: "yes" if v else "no"),
+    ("screening_as_is", "limits as is", str),
     ("recommendation", "recommendation", str),
 ]
 
@@ -138,14 +139,18 @@ def _index_html(unit, rows: list[dict], prov: dict) -> str:
         link = f'<a href="{report.esc(r["file"])}">{tag}</a>' if r.get("file") else tag
         cls = "rv-status-ok" if r["status"] == "ok" else "rv-status-failed"
         cells = [link, report.esc(r.get("description", "")), f'<span class="{cls}">{report.esc(r["status"])}</span>']
+        numeric = set()
         for key, _, fmt in SUMMARY_FIELDS:
             value = r.get("summary", {}).get(key)
+            if isinstance(value, float):
+                numeric.add(len(cells))
             try:
                 cells.append(report.esc(fmt(value)) if value is not None else "")
             except (TypeError, ValueError):
                 cells.append(report.esc(value))
         cells.append(report.esc(r.get("reason", "")))
-        lines.append("<tr>" + "".join(f"<td>{c}</td>" for c in cells) + "</tr>")
+        lines.append("<tr>" + "".join(f'<td class="num">{c}</td>' if i in numeric else f"<td>{c}</td>"
+                                      for i, c in enumerate(cells)) + "</tr>")
     lines.append("</tbody></table></section>")
     chart = _index_chart(rows)
     failed = sum(r["status"] != "ok" for r in rows)
@@ -165,7 +170,8 @@ def _index_chart(rows) -> str:
     fig.add_bar(name="today", x=tags, y=[r["summary"].get("duty_today", 0) / 1e3 for r in done])
     fig.add_bar(name="at revamp, as is", x=tags, y=[r["summary"]["duty_revamp"] / 1e3 for r in done])
     if any(r["summary"].get("target_duty") for r in done):
-        fig.add_scatter(name="target duty", x=tags, y=[(r["summary"].get("target_duty") or 0) / 1e3 for r in done],
+        fig.add_scatter(name="target duty", x=tags, y=[r["summary"]["target_duty"] / 1e3
+                                                       if r["summary"].get("target_duty") else None for r in done],
                         mode="markers", marker={"symbol": "line-ew-open", "size": 28, "line": {"width": 3}})
     fig.update_layout(barmode="group", yaxis_title="duty [kW]", height=420, margin={"t": 40},
                       title="Duty of each exchanger today and at the revamp conditions")
@@ -203,7 +209,7 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         if unknown:
             raise InputError("--only", ", ".join(unknown), f"tags of the unit file: {', '.join(known)}")
         entries = [(t, i) for t, i in entries if t in only]
-    out = Path(out_dir)
+    out = Path(out_dir).resolve()  # the kernels run in their own folder: every path they get is absolute
     out.mkdir(parents=True, exist_ok=True)
     report.copy_plotly_js(out)
     nb_path = Path(notebook) if notebook else notebook_path()

@@ -187,7 +187,8 @@ body{font-family:system-ui,-apple-system,'Segoe UI',Roboto,sans-serif;margin:0 a
 color:#1b1f24;line-height:1.45}
 h1{font-size:1.6rem;border-bottom:2px solid #345;padding-bottom:.3rem}h2{font-size:1.25rem;margin-top:1.6rem}
 table{border-collapse:collapse;margin:.6rem 0;font-size:.9rem}th,td{border:1px solid #ccd;padding:.25rem .55rem;
-text-align:right}th{background:#eef1f5}td:first-child,th:first-child{text-align:left}
+text-align:left;vertical-align:top}th{background:#eef1f5}td.num{text-align:right;font-variant-numeric:tabular-nums}
+table.dataframe td{text-align:right}table.dataframe th{text-align:left}
 .rv-cautions{background:#fff7e0;border-left:4px solid #d90;padding:.4rem 1rem;margin:1rem 0}
 .rv-provenance{font-size:.8rem;color:#444}.rv-status-ok{color:#161}.rv-status-failed{color:#a11;font-weight:600}
 .jp-InputPrompt,.jp-OutputPrompt,.prompt{display:none}pre{white-space:pre-wrap}
@@ -302,6 +303,8 @@ def summary(result: dict) -> dict:
         out["recommendation"] = str(study.recommendation or "")
         if "meets_target" in study.table and "base" in study.table.index and target:
             out["meets_target"] = bool(study.table.loc["base", "meets_target"])
+        if "screening" in study.table and "base" in study.table.index:
+            out["screening_as_is"] = str(study.table.loc["base", "screening"])
     return out
 
 
@@ -465,7 +468,7 @@ def unit_figure(table):
 
 
 def monitoring_items(result: dict) -> list:
-    """What the plant-data section shows: a summary table and the fouling-resistance figure (or a note why not)."""
+    """What the plant-data section shows: the findings, the row counts by reason, and the fouling figure."""
     import pandas as pd
 
     mon = result.get("monitoring")
@@ -473,8 +476,15 @@ def monitoring_items(result: dict) -> list:
         why = result.get("monitoring_error") or "the unit file gives no plant data for this exchanger"
         return [f"No plant-data analysis: {why}."]
     summ = mon.summary
-    frame = pd.DataFrame({"value": [str(v) for v in summ.values]}, index=[str(i) for i in summ.index])
-    return [frame, rf_figure(mon)]
+    rows = {str(k)[len("rows: "):]: v for k, v in summ.items() if str(k).startswith("rows: ")}
+    findings = {str(k): v for k, v in summ.items() if not str(k).startswith("rows: ") and str(k) != "warnings"}
+    fmt = lambda v: f"{v:.4g}" if isinstance(v, float) else str(v)  # noqa: E731
+    items = [pd.DataFrame({"value": [fmt(v) for v in findings.values()]}, index=list(findings)),
+             pd.DataFrame({"rows": [int(v) for v in rows.values()]}, index=list(rows)), rf_figure(mon)]
+    warnings = summ.get("warnings") if "warnings" in summ else None
+    if warnings:
+        items.append(f"Notes from the analysis: {warnings}")
+    return items
 
 
 def rf_figure(mon):
