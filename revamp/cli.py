@@ -64,6 +64,7 @@ def format_rating(rating, system: str = "SI", title: str = "") -> str:
         mag = from_si(float(r), "fouling", system)[0]
         share = float(r) / total if total > 0 else float("nan")
         lines.append(f"    {name:<14} {mag:10.4g} {unit_label:<14} {share:6.1%}")
+    lines.append(f"  controlling resistance: {rating.resistances.idxmax()}")
     if rating.warnings:
         lines.append("")
         lines.append("  warnings:")

@@ -139,3 +139,16 @@ def test_safe_names_are_unique_and_tame():
         assert re.fullmatch(r"[A-Za-z0-9][A-Za-z0-9._-]*", name) and name.lower() not in {t.lower() for t in taken}
         assert name.lower() != "index"
         taken.append(name)
+
+
+def test_relative_out_dir_and_summary(tmp_path, monkeypatch):
+    """A relative --out works (the kernels run elsewhere) and the index carries the exchanger's numbers."""
+    from revamp.cli import main
+
+    path = write_unit(tmp_path / "u.yaml", make_unit("E-1"))
+    monkeypatch.chdir(tmp_path)
+    assert main(["batch", path, "--out", "rel", "--jobs", "1", "--quiet"]) == 0
+    index = (tmp_path / "rel" / "index.html").read_text(encoding="utf-8")
+    summary = re.search(r'<section id="summary">(.*?)</section>', index, re.S).group(1)
+    assert 'href="E-1.html"' in summary and "rv-status-ok" in summary
+    assert re.search(r'<td class="num">[\d,]+</td>', summary), "duty figures missing from the index"

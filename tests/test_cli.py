@@ -48,7 +48,7 @@ def test_rate_prints_rating_and_breakdown(good, capsys):
     for name in ("duty", "U in service", "dp tube", "shell film", "shell fouling", "wall", "tube fouling",
                  "tube film"):
         assert name in out
-    assert "°C" in out and "kPa" in out
+    assert "°C" in out and "kPa" in out and "controlling resistance:" in out
 
 
 def test_rate_us_units(good, capsys):
