@@ -21,7 +21,7 @@ from pathlib import Path
 from . import report
 from .errors import InputError
 
-__all__ = ["run_batch", "BatchResult", "notebook_path", "render_notebook", "SUMMARY_FIELDS"]
+__all__ = ["SUMMARY_FIELDS", "BatchResult", "notebook_path", "render_notebook", "run_batch"]
 
 
 def notebook_path(name: str = "exchanger_study.ipynb") -> Path:

@@ -18,7 +18,7 @@ from pathlib import Path
 
 from .errors import InputError
 
-__all__ = ["main", "demo_unit_path", "format_rating"]
+__all__ = ["demo_unit_path", "format_rating", "main"]
 
 
 def demo_unit_path() -> Path:

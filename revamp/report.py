@@ -22,8 +22,22 @@ import tempfile
 from importlib import metadata
 from pathlib import Path
 
-__all__ = ["esc", "safe_name", "CAUTIONS", "cautions_html", "figure_html", "plotly_js_source", "copy_plotly_js",
-           "provenance", "provenance_html", "page", "write_atomic", "file_sha256", "PACKAGES", "table_html"]
+__all__ = [
+    "CAUTIONS",
+    "PACKAGES",
+    "cautions_html",
+    "copy_plotly_js",
+    "esc",
+    "figure_html",
+    "file_sha256",
+    "page",
+    "plotly_js_source",
+    "provenance",
+    "provenance_html",
+    "safe_name",
+    "table_html",
+    "write_atomic",
+]
 
 CAUTIONS = (
     "Screening-level results: every number comes from published correlations applied to the inputs shown, with their "
@@ -143,7 +157,7 @@ def provenance(unit_path=None, tag=None, extra_files=(), parameters=None) -> dic
         if p is not None and Path(p).is_file():
             files[Path(p).name] = file_sha256(p)
     return {
-        "date": _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M:%S UTC"),
+        "date": _dt.datetime.now(_dt.UTC).strftime("%Y-%m-%d %H:%M:%S UTC"),
         "unit_file": str(Path(unit_path).name) if unit_path else None,
         "tag": tag,
         "inputs_sha256": files,
@@ -344,6 +358,7 @@ def what_if(case, throughput=1.0, fouling_shell=None, fouling_tube=None, twist_r
     Returns ``{label: Rating}``; used by the notebooks' widgets (a few ratings: well under 100 ms on the demo).
     """
     import revamp as rv
+
     from .options import TwistedTape
 
     svc = case.service.scaled(throughput=throughput)
@@ -431,6 +446,7 @@ def unit_table(unit, system: str = "SI"):
     import pandas as pd
 
     import revamp as rv
+
     from .units import from_si
 
     rows = []
@@ -440,8 +456,8 @@ def unit_table(unit, system: str = "SI"):
         except Exception as exc:
             rows.append({"exchanger": case.tag, "error": f"{exc.__class__.__name__}: {exc}"})
             continue
-        p = lambda v: round(from_si(float(v), "pressure", system)[0], 1)  # noqa: E731
-        q = lambda v: round(from_si(float(v), "power", system)[0], 0)  # noqa: E731
+        p = lambda v: round(from_si(float(v), "pressure", system)[0], 1)
+        q = lambda v: round(from_si(float(v), "power", system)[0], 0)
         rows.append({"exchanger": case.tag, "description": case.description,
                      f"duty today [{from_si(1, 'power', system)[1]}]": q(today.duty),
                      f"duty at revamp [{from_si(1, 'power', system)[1]}]": q(rev.duty),
@@ -478,7 +494,7 @@ def monitoring_items(result: dict) -> list:
     summ = mon.summary
     rows = {str(k)[len("rows: "):]: v for k, v in summ.items() if str(k).startswith("rows: ")}
     findings = {str(k): v for k, v in summ.items() if not str(k).startswith("rows: ") and str(k) != "warnings"}
-    fmt = lambda v: f"{v:.4g}" if isinstance(v, float) else str(v)  # noqa: E731
+    fmt = lambda v: f"{v:.4g}" if isinstance(v, float) else str(v)
     items = [pd.DataFrame({"value": [fmt(v) for v in findings.values()]}, index=list(findings)),
              pd.DataFrame({"rows": [int(v) for v in rows.values()]}, index=list(rows)), rf_figure(mon)]
     warnings = summ.get("warnings") if "warnings" in summ else None
@@ -564,9 +580,9 @@ def study_money_table(study):
         if col in t:
             values = t[col].tolist()
             if col in ("capex", "annual_value", "npv"):
-                values = ["" if v is None or v != v else f"{v:,.0f}" for v in values]
+                values = ["" if pd.isna(v) else f"{v:,.0f}" for v in values]
             elif col == "payback":
-                values = ["" if v is None or v != v else f"{v:.2f}" for v in values]
+                values = ["" if pd.isna(v) else f"{v:.2f}" for v in values]
             out[name] = values
     return out
 

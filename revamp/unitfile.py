@@ -51,8 +51,19 @@ def _import_jsonschema():
 jsonschema = _import_jsonschema()
 from .units import to_si, ureg
 
-__all__ = ["Problem", "UnitFileError", "Unit", "ExchangerCase", "PlantData", "UnitEconomics", "check", "load",
-           "schema", "STANDARD_COLUMNS", "load_partial"]
+__all__ = [
+    "STANDARD_COLUMNS",
+    "ExchangerCase",
+    "PlantData",
+    "Problem",
+    "Unit",
+    "UnitEconomics",
+    "UnitFileError",
+    "check",
+    "load",
+    "load_partial",
+    "schema",
+]
 
 SCHEMA_PATH = Path(__file__).with_name("unit_schema.json")
 #: the plant-data columns :func:`revamp.monitor` reads, and the quantity kind of each
@@ -607,7 +618,7 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
 # -------------------------------------------------------------------------------------------------------- entry points
 def _sorted(problems):
     """File order: by path, numbers compared as numbers (exchangers[2] before exchangers[10])."""
-    key = lambda p: [int(t) if t.isdigit() else t for t in re.split(r"(\d+)", p.path)]  # noqa: E731
+    key = lambda p: [int(t) if t.isdigit() else t for t in re.split(r"(\d+)", p.path)]
     return sorted(problems, key=key)
 
 
