@@ -165,7 +165,7 @@ def _index_chart(rows) -> str:
     done = [r for r in rows if r.get("summary", {}).get("duty_revamp") is not None]
     if not done:
         return ""
-    tags = [report.esc(r["tag"]) for r in done]
+    tags = [report.plot_text(r["tag"]) for r in done]
     fig = go.Figure()
     fig.add_bar(name="today", x=tags, y=[r["summary"].get("duty_today", 0) / 1e3 for r in done])
     fig.add_bar(name="at revamp, as is", x=tags, y=[r["summary"]["duty_revamp"] / 1e3 for r in done])

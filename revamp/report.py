@@ -25,6 +25,7 @@ from pathlib import Path
 __all__ = [
     "CAUTIONS",
     "PACKAGES",
+    "plot_text",
     "cautions_html",
     "copy_plotly_js",
     "esc",
@@ -55,6 +56,17 @@ PACKAGES = ("revamp", "numpy", "scipy", "pandas", "plotly", "pint", "CoolProp", 
 def esc(text) -> str:
     """HTML-escape any user text (quotes included)."""
     return html.escape(str(text), quote=True)
+
+
+def plot_text(text) -> str:
+    """User text for a plotly label: ``<``, ``>`` and ``&`` escaped, which plotly decodes back for display, so the
+    text shows exactly as written and no tag in it is interpreted (quotes stay as they are: plotly would show
+    ``&quot;`` literally).
+
+    >>> plot_text('E<1> & "x"')
+    'E&lt;1&gt; &amp; "x"'
+    """
+    return html.escape(str(text), quote=False)
 
 
 def safe_name(tag: str, taken=()) -> str:
@@ -283,7 +295,7 @@ def breakdown_figure(ratings: dict, title: str = "Where the resistance to heat t
     """Stacked bars of the five series resistances (outside-area basis), one bar per named rating."""
     import plotly.graph_objects as go
 
-    labels = [esc(k) for k in ratings]
+    labels = [plot_text(k) for k in ratings]
     fig = go.Figure()
     names = list(next(iter(ratings.values())).resistances.index)
     for name in names:
@@ -477,7 +489,7 @@ def unit_figure(table):
     cols = [c for c in table.columns if c.startswith("duty")]
     fig = go.Figure()
     for c in cols:
-        fig.add_bar(name=c, x=[esc(t) for t in table.index], y=table[c])
+        fig.add_bar(name=c, x=[plot_text(t) for t in table.index], y=table[c])
     fig.update_layout(barmode="group", title="Duty of each exchanger today and at the revamp conditions",
                       yaxis_title=cols[0].split("[")[-1].rstrip("]") if cols else "", height=420)
     return fig
@@ -524,7 +536,7 @@ def rf_figure(mon):
     if callable(trend):
         try:
             fig.add_scatter(x=x, y=trend(daily["run_time"].to_numpy()) * 1e4, mode="lines",
-                            name=f"fitted trend: {esc(getattr(trend, 'model', 'model'))}")
+                            name=f"fitted trend: {plot_text(getattr(trend, 'model', 'model'))}")
         except Exception:  # a trend that cannot be drawn must not hide the data
             pass
     fig.update_layout(title="Fouling resistance from plant data", yaxis_title="Rf [10⁻⁴ m²·K/W, outside area]",
