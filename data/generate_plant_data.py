@@ -157,12 +157,14 @@ def generate(exchanger, service, start="2031-01-01", hours=8760, fouling_law=Non
             return failing(sel[: sel.size // 2], rf) + failing(sel[sel.size // 2:], rf)
 
     def rating(rf):
-        for _ in range(5):
+        for attempt in range(1, 11):
             try:
                 return rv.rate(exchanger, service_at(np.arange(n), rf))
             except rv.InputError:
                 bad = np.array(failing(np.arange(n), rf), dtype=int)
-                m_s[bad] *= 1.003  # nudge the few hours the rating cannot settle (invented data: no harm)
+                # nudge the few hours whose rating does not settle (invented data: no harm done)
+                m_s[bad] *= 1.0 + 0.005 * attempt
+                m_t[bad] *= 1.0 - 0.005 * attempt
         return rv.rate(exchanger, service_at(np.arange(n), rf))
 
     if fouling_law is None:

@@ -6,8 +6,12 @@ reconcile the heat balance (:mod:`.reconcile`), then
 - U_actual [W/m²K, outside area] from the reconciled duty through the exchanger's effectiveness-NTU relation
   (ε = Q/(C_min·ΔT_inlets), NTU from :func:`revamp.thermal.ntu_from_effectiveness` with
   :func:`revamp.rating.arrangement`, U = NTU·C_min/A);
-- U_clean from one vectorized :func:`revamp.rating.rate` call with no fouling at the reconciled flows and inlets;
-- Rf = 1/U_actual − 1/U_clean [m²K/W, outside area];
+- U_clean: the clean-surface U at the measured operating state. Film coefficients depend on the stream
+  temperatures, which fouling itself shifts (a fouled crude exchanger runs its crude colder, so more viscous), so
+  the rows are rated (one vectorized :func:`revamp.rating.rate` call) with the fouling found so far and that
+  rating's ``U_clean`` taken; Rf = 1/U_actual − 1/U_clean(Rf) [m²K/W, outside area] is solved per row by secant
+  steps (one vectorized call each, 3-5 in all). A rating with no fouling at the same flows and inlets gives the duty a clean
+  exchanger would have (``duty_clean``, and the duty lost to fouling);
 - a Monte Carlo band: ``mc_draws`` copies of the measurements with Gaussian errors of the stated standard deviations
   go through the same reconciliation and NTU inversion (all draws × rows in one array) and the clean U (first-order
   sensitivities from one stacked rating by default, or every draw rated, stacked in chunks); Rf_low/Rf_high are
@@ -130,32 +134,44 @@ def _u_actual(xr, duty, cp_s, cp_t, area, arrangement, shells):
     return ntu * c_min / area, eps
 
 
-def _rate_clean(exchanger, service, xr, chunk):
-    """One clean rating of every case in xr (..., 6), in chunks of at most ``chunk`` cases."""
+def _rate_clean(exchanger, service, xr, chunk, rf=None, side="tube", skip=None):
+    """One rating of every case in xr (..., 6), in chunks of at most ``chunk`` cases.
+
+    ``rf`` (shape xr.shape[:-1], outside basis [m²K/W], clipped at 0) puts that fouling on ``side``; None rates clean.
+    The rating's ``U_clean`` is then the clean-surface U at that (fouled) operating state. ``skip`` (a set of flat
+    case indices) holds the cases whose rating failed before: they are not tried again, and new failures are added.
+    """
     from ..rating import rate
     from ..service import Service, Stream
 
     flat = xr.reshape(-1, 6)
+    rf_flat = np.zeros(flat.shape[0]) if rf is None else np.clip(np.nan_to_num(np.asarray(rf, dtype=float).ravel()),
+                                                                   0.0, None)
+    ratio = exchanger.tube_id / exchanger.tube_od  # a tube-side resistance on its own surface = outside value · di/do
     keys = ("U_clean", "duty", "effectiveness", "Re_tube", "Pr_tube", "t_wall_tube", "shear_tube")
     out = {k: np.full(flat.shape[0], np.nan) for k in keys}
     warnings: list = []
     good = np.all(np.isfinite(flat), axis=1) & (flat[:, 0] > 0) & (flat[:, 3] > 0) & (flat[:, 1] != flat[:, 4])
+    if skip:
+        good[np.fromiter(skip, dtype=int)] = False
     idx = np.flatnonzero(good)
     failed = []
 
     def run(sel):
         svc = Service(shell=Stream(service.shell.fluid, flat[sel, 0], flat[sel, 1]),
-                      tube=Stream(service.tube.fluid, flat[sel, 3], flat[sel, 4]), fouling_shell=0.0, fouling_tube=0.0)
+                      tube=Stream(service.tube.fluid, flat[sel, 3], flat[sel, 4]),
+                      fouling_shell=rf_flat[sel] if side == "shell" else 0.0,
+                      fouling_tube=rf_flat[sel] * ratio if side == "tube" else 0.0)
         try:
             r = rate(exchanger, svc)
         except InputError as exc:
             # a case the rating cannot settle (e.g. its outlet iteration cycles) fails the whole call: split the
-            # cases in halves until the failing ones are found, and leave those NaN
+            # cases (16 parts, then halves) until the failing ones are found, and leave those NaN
             if sel.size == 1:
                 failed.append((int(sel[0]), str(exc)))
                 return
-            run(sel[: sel.size // 2])
-            run(sel[sel.size // 2:])
+            for part in np.array_split(sel, 16 if sel.size > 256 else 2):
+                run(part)
             return
         for k in keys:
             out[k][sel] = np.asarray(getattr(r, k), dtype=float).ravel()
@@ -164,11 +180,13 @@ def _rate_clean(exchanger, service, xr, chunk):
     for start in range(0, idx.size, chunk):
         run(idx[start:start + chunk])
     if failed:
-        warnings.append(f"clean rating failed for {len(failed)} case(s), left NaN: {failed[0][1]}")
+        warnings.append(f"rating failed for {len(failed)} case(s), left NaN: {failed[0][1]}")
+        if skip is not None:
+            skip.update(i for i, _ in failed)
     return {k: v.reshape(xr.shape[:-1]) for k, v in out.items()}, list(dict.fromkeys(warnings))
 
 
-def _clean_linearized(exchanger, service, x0, u0, xd):
+def _clean_linearized(exchanger, service, x0, u0, xd, rf0, side):
     """Clean U of the Monte Carlo draws from its first-order sensitivities at the reconciled rows.
 
     One stacked rating of the rows with each of the four rating inputs (shell flow, shell inlet, tube flow, tube
@@ -181,7 +199,8 @@ def _clean_linearized(exchanger, service, x0, u0, xd):
     stack = np.repeat(x0[None], 4, axis=0)
     for k, j in enumerate(cols):
         stack[k, :, j] += steps[k]
-    u_p = _rate_clean(exchanger, service, stack, stack.shape[0] * stack.shape[1])[0]["U_clean"]
+    u_p = _rate_clean(exchanger, service, stack, stack.shape[0] * stack.shape[1], np.repeat(rf0[None], 4, axis=0),
+                      side)[0]["U_clean"]
     grad = (u_p - u0[None]) / steps  # (4, rows)
     out = np.broadcast_to(u0, xd.shape[:-1]).copy()
     for k, j in enumerate(cols):
@@ -308,25 +327,53 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     counts[text] = int(open_balance.sum())
 
     # U actual, clean rating
-    clean, warnings = _rate_clean(exchanger, service, hb.x, max(mc_chunk, 1))
+    # clean rating at the same flows and inlets: the duty a clean exchanger would give (duty lost to fouling)
+    failed_rows: set = set()
+    clean, warnings = _rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), skip=failed_rows)
     area = float(exchanger.area_outside)
     U_act, eps = _u_actual(hb.x, hb.duty, cp_s, cp_t, area, arr_name, shells)
+    # the clean U at the measured operating state: film coefficients depend on the stream temperatures, which
+    # fouling changes, so rate at the fouling found and take that rating's clean-surface U; repeat until Rf settles
+    # Rf solves Rf = g(Rf) = 1/U_actual − 1/U_clean(Rf): secant steps per row, one vectorized rating each
+    def g(rf_try):
+        st, w = _rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), rf_try, fouling_side, failed_rows)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return 1.0 / U_act - 1.0 / st["U_clean"], st, w
+
     with np.errstate(divide="ignore", invalid="ignore"):
-        rf = 1.0 / U_act - 1.0 / clean["U_clean"]
-    tab["U_actual"], tab["U_clean"], tab["Rf"] = U_act, clean["U_clean"], rf
+        x0, g0 = np.zeros(n), 1.0 / U_act - 1.0 / clean["U_clean"]
+    x1 = g0
+    g1, state, warnings = g(x1)
+    for _ in range(6):
+        with np.errstate(divide="ignore", invalid="ignore"):
+            d = (g1 - x1) - (g0 - x0)
+            x2 = np.clip(np.where(np.abs(d) > 1e-14, x1 - (g1 - x1) * (x1 - x0) / d, g1), -0.01, 0.05)
+        done = np.nanmax(np.abs(x2 - x1), initial=0.0) < 1e-9
+        x0, g0 = x1, g1
+        x1 = x2
+        g1, state, warnings = g(x1)
+        if done:
+            break
+    rf = g1
+    tab["U_actual"], tab["U_clean"], tab["Rf"] = U_act, state["U_clean"], rf
     tab["effectiveness"], tab["effectiveness_clean"] = eps, clean["effectiveness"]
     with np.errstate(divide="ignore", invalid="ignore"):
         tab["effectiveness_ratio"] = eps / clean["effectiveness"]
     tab["duty_clean"] = clean["duty"]
     tab["duty_lost"] = clean["duty"] - hb.duty
-    tab["Re_tube"], tab["Pr_tube"], tab["shear_tube"] = clean["Re_tube"], clean["Pr_tube"], clean["shear_tube"]
-    tab["T_film"] = film_temperature(0.5 * (hb.x[:, 4] + hb.x[:, 5]), clean["t_wall_tube"])
-    no_u = valid & ~open_balance & ~np.isfinite(rf)
+    tab["Re_tube"], tab["Pr_tube"], tab["shear_tube"] = state["Re_tube"], state["Pr_tube"], state["shear_tube"]
+    tab["T_film"] = film_temperature(0.5 * (hb.x[:, 4] + hb.x[:, 5]), state["t_wall_tube"])
+    no_rating = np.zeros(n, dtype=bool)
+    no_rating[list(failed_rows)] = True
+    no_rating &= valid & ~open_balance
+    no_u = valid & ~open_balance & ~no_rating & ~np.isfinite(rf)
+    text_r = "no clean U: the rating did not settle at these conditions"
     text_u = "no U: effectiveness outside what the arrangement can reach"
     flags = tab["flag"].to_numpy(dtype=object)
-    for i in np.flatnonzero(no_u):
-        flags[i] = text_u
+    flags[no_rating] = text_r
+    flags[no_u] = text_u
     tab["flag"] = flags
+    counts[text_r] = int(no_rating.sum())
     counts[text_u] = int(no_u.sum())
 
     # Monte Carlo band
@@ -340,9 +387,11 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         hb_d = reconcile_heat_balance(xs, sig[rows][None], cp_s[rows], cp_t[rows], tol=1e-7, start=hb.x[rows][None])
         u_d, _ = _u_actual(hb_d.x, hb_d.duty, cp_s[rows], cp_t[rows], area, arr_name, shells)
         if mc_clean == "full":
-            uc_d = _rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1))[0]["U_clean"]
+            uc_d = _rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1), np.broadcast_to(rf[rows], hb_d.x.shape[:-1]),
+                               fouling_side)[0]["U_clean"]
         else:
-            uc_d = _clean_linearized(exchanger, service, hb.x[rows], clean["U_clean"][rows], hb_d.x)
+            uc_d = _clean_linearized(exchanger, service, hb.x[rows], state["U_clean"][rows], hb_d.x, rf[rows],
+                                     fouling_side)
         with np.errstate(divide="ignore", invalid="ignore"):
             rf_d = 1.0 / u_d - 1.0 / uc_d
         lo, hi = band
@@ -460,6 +509,8 @@ def _summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_re
         s["cost lost to fouling to date"] = energy * duty_value
     if clean_res is not None:
         s["optimal cleaning interval [day]"] = clean_res.interval / 86400.0
+        if clean_res.bounded:
+            s["optimal cleaning interval [day]"] = f">= {clean_res.interval / 86400.0:.0f} (cleaning does not pay sooner)"
         s["cleaning: mean cost rate [per day]"] = clean_res.cost_rate * 86400.0
     s["warnings"] = "; ".join(warnings[:5])
     return pd.Series(s, dtype=object)
