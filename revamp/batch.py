@@ -103,7 +103,8 @@ def _run_one(job: dict) -> dict:
         if executed.is_file():
             nb = nbformat.read(executed, as_version=4)
             prov = report.provenance(job["unit_file"], tag, extra_files=job.get("extra_files", ()),
-                                     parameters={"interactive": False, "units": job.get("units", "SI")})
+                                     parameters={"interactive": False, "units": job.get("units", "SI")},
+                                     inputs=job.get("inputs"))
             title = f"{tag} — {job.get('description') or 'revamp study'}"
             body = render_notebook(nb)
             if status == "failed":
@@ -232,7 +233,7 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         extra = [case.plant_data.file] if case.plant_data else []
         jobs_list.append({"tag": tag, "out": str(out), "notebook": str(nb_path), "unit_file": str(unit_file),
                           "file": fname, "description": desc, "timeout": timeout, "units": units,
-                          "extra_files": [str(e) for e in extra]})
+                          "extra_files": [str(e) for e in extra], "inputs": raw})
     by_tag = {r["tag"]: r for r in rows}
     from tqdm.auto import tqdm
 

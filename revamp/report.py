@@ -156,8 +156,10 @@ def file_sha256(path) -> str:
     return h.hexdigest()
 
 
-def provenance(unit_path=None, tag=None, extra_files=(), parameters=None) -> dict:
-    """What produced a report: inputs and their SHA-256, package versions, Python, platform, UTC date."""
+def provenance(unit_path=None, tag=None, extra_files=(), parameters=None, inputs=None) -> dict:
+    """What produced a report: inputs and their SHA-256, package versions, Python, platform, UTC date.
+
+    ``inputs`` (optional) is the exchanger's entry of the unit file, shown verbatim (as YAML) in the report."""
     versions = {}
     for name in PACKAGES:
         try:
@@ -174,6 +176,7 @@ def provenance(unit_path=None, tag=None, extra_files=(), parameters=None) -> dic
         "tag": tag,
         "inputs_sha256": files,
         "parameters": dict(parameters or {}),
+        "inputs": inputs,
         "versions": versions,
         "python": platform.python_version(),
         "platform": platform.platform(terse=True),
@@ -199,8 +202,14 @@ def provenance_html(prov: dict) -> str:
     rows += [[f"parameter {k}", v] for k, v in prov.get("parameters", {}).items()]
     rows += [[name, version] for name, version in prov.get("versions", {}).items()]
     rows += [["python", prov.get("python", "")], ["platform", prov.get("platform", "")]]
+    inputs = ""
+    if prov.get("inputs"):
+        import yaml
+
+        text = yaml.safe_dump(prov["inputs"], sort_keys=False, allow_unicode=True, width=110)
+        inputs = f"<details><summary>The inputs of this exchanger, as in the unit file</summary><pre>{esc(text)}</pre></details>"
     return ('<section class="rv-provenance" id="provenance"><h2>What produced this report</h2>'
-            + table_html(rows, ["item", "value"]) + "</section>")
+            + table_html(rows, ["item", "value"]) + inputs + "</section>")
 
 
 def cautions_html() -> str:

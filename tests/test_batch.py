@@ -87,6 +87,7 @@ def test_report_sections_and_provenance(batch_run):
     assert "licensed engineers" in text and "Screening-level results" in text
     assert hashlib.sha256(batch_run["unit"].read_bytes()).hexdigest() in text
     assert "numpy" in text and "plotly" in text and " UTC" in text
+    assert "The inputs of this exchanger" in text and "tube_count: 200" in text
     assert text.count("Plotly.newPlot") >= 2
     assert "import revamp" not in text and "load_partial" not in text  # no code cells
     assert len(text) < 400_000  # plotly.js is not inlined in each report
