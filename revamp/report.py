@@ -504,7 +504,7 @@ def unit_figure(table):
     return fig
 
 
-def monitoring_items(result: dict) -> list:
+def monitoring_items(result: dict, system: str = "SI") -> list:
     """What the plant-data section shows: the findings, the row counts by reason, and the fouling figure."""
     import pandas as pd
 
@@ -517,7 +517,13 @@ def monitoring_items(result: dict) -> list:
     findings = {str(k): v for k, v in summ.items() if not str(k).startswith("rows: ") and str(k) != "warnings"}
     fmt = lambda v: f"{v:.4g}" if isinstance(v, float) else str(v)
     items = [pd.DataFrame({"value": [fmt(v) for v in findings.values()]}, index=list(findings)),
-             pd.DataFrame({"rows": [int(v) for v in rows.values()]}, index=list(rows)), rf_figure(mon)]
+             pd.DataFrame({"rows": [int(v) for v in rows.values()]}, index=list(rows))]
+    try:
+        from . import plots_monitoring as pm
+    except ImportError:  # the plant-data figures module is optional here: fall back to the fouling chart alone
+        items.append(rf_figure(mon))
+    else:
+        items += [pm.fouling_trend(mon, system), pm.heat_balance(mon), pm.duty_lost(mon, system)]
     warnings = summ.get("warnings") if "warnings" in summ else None
     if warnings:
         items.append(f"Notes from the analysis: {warnings}")
