@@ -1,0 +1,135 @@
+"""Plotly figures of plant-data monitoring (no physics here: everything comes from a :class:`Monitoring`).
+
+- :func:`fouling_trend`: fouling resistance against time, the rows used, the Monte Carlo band (daily medians), the
+  fitted model and its projection to the end of the run;
+- :func:`heat_balance`: heat-balance closure per row against the tolerance, rows flagged shown apart;
+- :func:`duty_lost`: duty lost to fouling (daily mean) and the energy lost to date.
+
+Every function takes ``units="SI"`` or ``"US"`` for the axes.
+"""
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+import plotly.graph_objects as go
+from plotly.subplots import make_subplots
+
+from .errors import InputError
+from .units import from_si
+
+__all__ = ["fouling_trend", "heat_balance", "duty_lost"]
+
+
+def _check(mon):
+    if not hasattr(mon, "table") or "Rf" not in getattr(mon, "table", {}):
+        raise InputError("monitoring", type(mon).__name__, "a Monitoring from revamp.monitor()")
+
+
+def _daily(tab, cols):
+    t = tab.set_index("timestamp")[cols]
+    return t[t.index.notna()].resample("1D").median().dropna(how="all")
+
+
+def fouling_trend(mon, units: str = "SI", run_length=None) -> go.Figure:
+    """Fouling resistance vs time with the band, the fitted model and its projection.
+
+    Parameters
+    ----------
+    mon : Monitoring
+        The result of :func:`revamp.monitor`.
+    units : {"SI", "US"}
+        Display units.
+    run_length : float or None
+        Project the model to this run time [s]; default the summary's projection length.
+    """
+    _check(mon)
+    tab = mon.table
+    used = tab[tab["used"]]
+    conv = lambda v: from_si(np.asarray(v, dtype=float), "fouling", units)[0]  # noqa: E731
+    label = from_si(1.0, "fouling", units)[1]
+    fig = go.Figure()
+    day = _daily(used, ["Rf", "Rf_low", "Rf_high"])
+    if len(day):
+        fig.add_trace(go.Scatter(x=day.index, y=conv(day["Rf_high"]), mode="lines", line={"width": 0},
+                                 showlegend=False, hoverinfo="skip"))
+        fig.add_trace(go.Scatter(x=day.index, y=conv(day["Rf_low"]), mode="lines", line={"width": 0},
+                                 fill="tonexty", fillcolor="rgba(31,119,180,0.2)", name="band (daily median)"))
+    fig.add_trace(go.Scattergl(x=used["timestamp"], y=conv(used["Rf"]), mode="markers",
+                               marker={"size": 3, "color": "rgba(31,119,180,0.5)"}, name="Rf, steady rows"))
+    other = tab[~tab["used"] & np.isfinite(tab["Rf"])]
+    if len(other):
+        fig.add_trace(go.Scattergl(x=other["timestamp"], y=conv(other["Rf"]), mode="markers",
+                                   marker={"size": 3, "color": "rgba(150,150,150,0.6)", "symbol": "x"},
+                                   name="not steady or flagged"))
+    if mon.trend is not None and len(used):
+        t0 = used["timestamp"].iloc[0] - pd.to_timedelta(used["run_time"].iloc[0], unit="s")
+        t_end = run_length if run_length is not None else \
+            float(mon.summary.get("projection run time [day]", 0.0)) * 86400.0
+        t_end = max(t_end, float(used["run_time"].max()))
+        rt = np.linspace(0.0, float(used["run_time"].max()), 200)
+        fig.add_trace(go.Scatter(x=t0 + pd.to_timedelta(rt, unit="s"), y=conv(mon.trend(rt)), mode="lines",
+                                 line={"color": "black"}, name=f"fit: {mon.trend.model} (lowest AIC)"))
+        rp = np.linspace(float(used["run_time"].max()), t_end, 100)
+        fig.add_trace(go.Scatter(x=t0 + pd.to_timedelta(rp, unit="s"), y=conv(mon.trend(rp)), mode="lines",
+                                 line={"color": "black", "dash": "dash"}, name="projection"))
+    fig.update_layout(title="Fouling resistance from plant data", xaxis_title="time",
+                      yaxis_title=f"Rf, outside area [{label}]", legend={"orientation": "h", "y": -0.2})
+    return fig
+
+
+def heat_balance(mon, tolerance=None) -> go.Figure:
+    """Heat-balance closure (hot-side minus cold-side duty over their mean) per row, with the tolerance band.
+
+    Parameters
+    ----------
+    mon : Monitoring
+    tolerance : float or None
+        Drawn as ± lines [-]; default read from the flag text of the run (10 % if not found).
+    """
+    _check(mon)
+    tab = mon.table
+    tol = tolerance
+    if tol is None:
+        tol = 0.10
+        for key in mon.counts:
+            if key.startswith("heat balance does not close"):
+                try:
+                    tol = float(key.split(">")[1].split("%")[0]) / 100.0
+                except (IndexError, ValueError):
+                    pass
+    ok = tab["flag"] == ""
+    fig = go.Figure()
+    fig.add_trace(go.Scattergl(x=tab.loc[ok, "timestamp"], y=100 * tab.loc[ok, "balance_error"], mode="markers",
+                               marker={"size": 3}, name="rows kept"))
+    bad = ~ok & np.isfinite(tab["balance_error"])
+    if bad.any():
+        fig.add_trace(go.Scattergl(x=tab.loc[bad, "timestamp"], y=100 * tab.loc[bad, "balance_error"],
+                                   mode="markers", marker={"size": 5, "color": "firebrick", "symbol": "x"},
+                                   name="rows flagged"))
+    for sign in (1, -1):
+        fig.add_hline(y=sign * 100 * tol, line={"dash": "dash", "color": "gray"})
+    fig.update_layout(title="Heat balance closure (before reconciliation)", xaxis_title="time",
+                      yaxis_title="(Q_hot − Q_cold) / mean [%]")
+    return fig
+
+
+def duty_lost(mon, units: str = "SI") -> go.Figure:
+    """Duty lost to fouling (clean-exchanger duty minus reconciled duty), daily mean, and energy lost to date."""
+    _check(mon)
+    tab = mon.table
+    valid = tab[np.isfinite(tab["duty_lost"]) & (tab["flag"] == "")]
+    day = _daily(valid, ["duty_lost"])
+    p, plabel = from_si(day["duty_lost"].to_numpy(), "power", units)
+    fig = make_subplots(specs=[[{"secondary_y": True}]])
+    fig.add_trace(go.Bar(x=day.index, y=p, name=f"duty lost, daily median [{plabel}]"), secondary_y=False)
+    if len(valid) > 1:
+        t = valid["run_time"].to_numpy()
+        dt = np.diff(t, prepend=t[0])
+        dt = np.minimum(dt, 3 * np.median(dt[1:]) if len(dt) > 1 else dt)
+        energy = np.cumsum(valid["duty_lost"].to_numpy() * dt) / 1e9
+        fig.add_trace(go.Scatter(x=valid["timestamp"], y=energy, mode="lines", name="energy lost to date [GJ]"),
+                      secondary_y=True)
+    fig.update_layout(title="Duty lost to fouling", xaxis_title="time", legend={"orientation": "h", "y": -0.2})
+    fig.update_yaxes(title_text=f"duty lost [{plabel}]", secondary_y=False)
+    fig.update_yaxes(title_text="energy lost [GJ]", secondary_y=True)
+    return fig
