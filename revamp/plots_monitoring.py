@@ -17,7 +17,7 @@ from plotly.subplots import make_subplots
 from .errors import InputError
 from .units import from_si
 
-__all__ = ["fouling_trend", "heat_balance", "duty_lost"]
+__all__ = ["duty_lost", "fouling_trend", "heat_balance"]
 
 
 def _check(mon):
@@ -45,7 +45,7 @@ def fouling_trend(mon, units: str = "SI", run_length=None) -> go.Figure:
     _check(mon)
     tab = mon.table
     used = tab[tab["used"]]
-    conv = lambda v: from_si(np.asarray(v, dtype=float), "fouling", units)[0]  # noqa: E731
+    conv = lambda v: from_si(np.asarray(v, dtype=float), "fouling", units)[0]
     label = from_si(1.0, "fouling", units)[1]
     fig = go.Figure()
     day = _daily(used, ["Rf", "Rf_low", "Rf_high"])

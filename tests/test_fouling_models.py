@@ -11,8 +11,16 @@ from scipy import stats
 from scipy.integrate import cumulative_trapezoid
 
 from revamp.errors import InputError
-from revamp.fouling.models import (GAS_CONSTANT, MODELS, film_temperature, fit_asymptotic, fit_best, fit_linear,
-                                   fit_threshold, threshold_rate)
+from revamp.fouling.models import (
+    GAS_CONSTANT,
+    MODELS,
+    film_temperature,
+    fit_asymptotic,
+    fit_best,
+    fit_linear,
+    fit_threshold,
+    threshold_rate,
+)
 
 DAY = 86400.0
 T = np.arange(0.0, 200 * DAY, 6 * 3600.0)  # 200 days, every 6 h

@@ -11,9 +11,18 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+import revamp as rv
+from revamp import fluids
 from revamp.errors import InputError
-from revamp.monitoring import (linear_closed_form, optimal_cleaning_interval, read_plant_data,
-                               reconcile_heat_balance, reconcile_linear, steady_state)
+from revamp.geometry import ShellAndTube
+from revamp.monitoring import (
+    linear_closed_form,
+    optimal_cleaning_interval,
+    read_plant_data,
+    reconcile_heat_balance,
+    reconcile_linear,
+    steady_state,
+)
 from revamp.monitoring.reconcile import side_duties
 
 DAY = 86400.0
@@ -222,9 +231,6 @@ def test_steady_filter_inlet_temperature_range():
 
 
 # --------------------------------------------------------------------------------------------- monitor() round trip
-import revamp as rv  # noqa: E402
-from revamp import fluids  # noqa: E402
-from revamp.geometry import ShellAndTube  # noqa: E402
 
 HX = ShellAndTube(shell_id="0.54 m", tube_od="25.4 mm", tube_wall="2.41 mm", tube_length="4.88 m", tube_count=158,
                   tube_passes=2, tube_pitch="31.75 mm", layout=90, baffle_spacing="250 mm", baffle_cut=0.25,
@@ -303,3 +309,90 @@ def test_monitor_keeps_and_counts_bad_rows():
     assert m.counts["used"] == int(m.table["used"].sum()) == 77
     with pytest.raises(InputError, match="fouling_side"):
         rv.monitor(HX, SERVICE, df, fouling_side="both")
+
+
+def test_cleaning_projection_and_losses_in_monitor():
+    t = np.arange(300) * 3600.0
+    df = _plant(1e-4 + 4e-4 * t / t[-1], n=300, seed=9, flow_noise=0.005, t_noise=0.1)
+    m = rv.monitor(HX, SERVICE, df, uncertainty={"flow": 0.005, "temperature": 0.1}, steady=False, mc_draws=20,
+                   duty_value=1e-8, cleaning={"cost": 2000.0, "downtime": "1 day"}, models=("linear",))
+    # the loss rate the interval was found for meets the optimality condition of Ma & Epstein (1981)
+    assert m.cleaning is not None and not m.cleaning.bounded
+    assert m.cleaning.loss_rate_at_interval == pytest.approx(m.cleaning.cost_rate, rel=1e-4)
+    # energy lost to date: the duty lost (clean minus actual, > 0 when fouled) integrated over time
+    lost = m.table["duty_lost"].to_numpy()
+    assert np.all(lost[50:] > 0)
+    by_hand = np.sum(lost[:-1] * 3600.0)  # hourly rows
+    assert m.summary["energy lost to fouling to date [J]"] == pytest.approx(by_hand, rel=1e-9)
+    assert m.summary["cost lost to fouling to date"] == pytest.approx(by_hand * 1e-8, rel=1e-9)
+    # projection by run time and by date agree
+    by_time = m.project("20 day")
+    by_date = m.project(m.run_start + pd.Timedelta(days=20))
+    assert by_time["Rf"].iloc[0] == pytest.approx(by_date["Rf"].iloc[0], rel=1e-12)
+    with pytest.raises(InputError, match="when"):
+        m.project("next spring")
+
+
+def test_monte_carlo_linearized_clean_u_matches_full_rating():
+    df = _plant(3e-4, n=40, seed=10, flow_noise=0.01, t_noise=0.2)
+    kw = dict(uncertainty={"flow": 0.01, "temperature": 0.2}, steady=False, mc_draws=100, seed=3)
+    lin = rv.monitor(HX, SERVICE, df, mc_clean="linear", **kw).table
+    full = rv.monitor(HX, SERVICE, df, mc_clean="full", **kw).table
+    # same draws: first-order clean U differs from the full rating only at second order (a few 1e-4 of U)
+    width = (full["Rf_high"] - full["Rf_low"]).to_numpy()
+    assert np.abs(lin["Rf_low"] - full["Rf_low"]).max() < 0.02 * width.min()
+    assert np.abs(lin["Rf_high"] - full["Rf_high"]).max() < 0.02 * width.min()
+
+
+def test_threshold_model_fitted_with_engine_conditions():
+    df = _plant(2e-4, n=50, seed=11, flow_noise=0.005, t_noise=0.1)
+    m = rv.monitor(HX, SERVICE, df, uncertainty={"flow": 0.005, "temperature": 0.1}, steady=False, mc_draws=0)
+    tab = m.table
+    # the conditions the threshold model uses come from the engine at the operating state
+    assert (tab["Re_tube"] > 2300).all() and (tab["shear_tube"] > 0).all()
+    assert ((tab["T_film"] > tab["tube_t_in"]) & (tab["T_film"] < tab["shell_t_in"])).all()
+    assert "threshold" in m.fits
+    shell_side = rv.monitor(HX, SERVICE, df, steady=False, mc_draws=0, fouling_side="shell")
+    assert "threshold" not in shell_side.fits  # tube-side model only
+
+
+def test_figures_build():
+    from revamp import plots_monitoring as pm
+
+    t = np.arange(200) * 3600.0
+    df = _plant(1e-4 + 3e-4 * t / t[-1], n=200, seed=12, flow_noise=0.005, t_noise=0.1)
+    m = rv.monitor(HX, SERVICE, df, uncertainty={"flow": 0.005, "temperature": 0.1}, mc_draws=20)
+    fig = pm.fouling_trend(m)
+    names = [tr.name for tr in fig.data]
+    assert "Rf, steady rows" in names and any(n and n.startswith("fit:") for n in names) and "projection" in names
+    assert len(pm.heat_balance(m).data) >= 1
+    us = pm.duty_lost(m, units="US")
+    assert "BTU/h" in us.data[0].name
+    with pytest.raises(InputError, match="monitoring"):
+        pm.fouling_trend(object())
+
+
+def test_demo_generator_is_invented_reproducible_and_spoiled(monkeypatch):
+    import importlib.util
+    import pathlib
+    import sys
+
+    path = pathlib.Path(__file__).resolve().parents[1] / "data" / "generate_plant_data.py"
+    spec = importlib.util.spec_from_file_location("generate_plant_data", path)
+    gen = importlib.util.module_from_spec(spec)
+    monkeypatch.setitem(sys.modules, spec.name, gen)  # dataclasses look their module up while the file runs
+    spec.loader.exec_module(gen)
+    assert "INVENTED" in gen.__doc__
+    law = gen.Linear(a=1e-4, b_per_year=5e-4)
+    a = gen.generate(HX, SERVICE, hours=600, fouling_law=law, seed=1)
+    b = gen.generate(HX, SERVICE, hours=600, fouling_law=law, seed=1)
+    pd.testing.assert_frame_equal(a, b)
+    m = rv.monitor(HX, SERVICE, a, mc_draws=0)
+    c = m.counts
+    # the spoiled rows: 5 missing and 2 non-numeric cells, a duplicated row, a 12 h stuck sensor, a 3 h pump trip,
+    # one impossible cold-side reading: every one counted, none dropped
+    assert len(m.table) == 601
+    assert sum(v for k, v in c.items() if k.startswith("missing")) == 5
+    assert sum(v for k, v in c.items() if k.startswith("non-numeric")) == 2
+    assert c["duplicated timestamp"] == 1 and c["flat-lined shell_t_out"] >= 12 and c["flow <= 0 tube_flow"] == 3
+    assert c["tube outlet below inlet on the cold side"] >= 1

@@ -39,8 +39,17 @@ from scipy import optimize
 
 from ..errors import InputError
 
-__all__ = ["FoulingFit", "fit_linear", "fit_asymptotic", "fit_threshold", "fit_best", "MODELS",
-           "film_temperature", "threshold_rate", "GAS_CONSTANT"]
+__all__ = [
+    "GAS_CONSTANT",
+    "MODELS",
+    "FoulingFit",
+    "film_temperature",
+    "fit_asymptotic",
+    "fit_best",
+    "fit_linear",
+    "fit_threshold",
+    "threshold_rate",
+]
 
 GAS_CONSTANT = 8.314462618  # J/mol/K (CODATA 2018)
 _DAY = 86400.0
@@ -177,7 +186,7 @@ def fit_linear(t, rf) -> FoulingFit:
     pcov = np.linalg.inv(M.T @ M) * float(np.sum((y - M @ popt) ** 2)) / dof
     se = _stderr(pcov)
     a, b = float(popt[0] * _RF_SCALE), float(popt[1] * _RF_SCALE / _DAY)
-    curve = lambda tt: a + b * tt  # noqa: E731
+    curve = lambda tt: a + b * tt
     r2, rmse, aic = _stats(rf, curve(t), 2)
     stderr = {"a": float(se[0] * _RF_SCALE), "b": float(se[1] * _RF_SCALE / _DAY)}
     return FoulingFit("linear", {"a": a, "b": b}, stderr,
@@ -242,7 +251,7 @@ def fit_asymptotic(t, rf, offset: bool = True) -> FoulingFit:
     params = {n: float(v * s) for n, v, s in zip(names, popt, scale)}
     stderr = {n: float(v * s) for n, v, s in zip(names, se, scale)}
     r0, rinf, tau = params.get("Rf0", 0.0), params["Rf_inf"], params["tau"]
-    curve = lambda tt: r0 + rinf * (1.0 - np.exp(-tt / tau))  # noqa: E731
+    curve = lambda tt: r0 + rinf * (1.0 - np.exp(-tt / tau))
     r2, rmse, aic = _stats(rf, curve(t), k)
     return FoulingFit("asymptotic", params, stderr, r2, rmse, aic, int(t.size), float(t.max()), {}, curve)
 

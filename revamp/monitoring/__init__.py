@@ -12,6 +12,18 @@ from .data import COLUMNS, PlantData, read_plant_data
 from .reconcile import HeatBalance, reconcile_heat_balance, reconcile_linear
 from .steady import steady_state
 
-__all__ = ["monitor", "Monitoring", "DEFAULT_UNCERTAINTY", "read_plant_data", "PlantData", "COLUMNS",
-           "steady_state", "reconcile_linear", "reconcile_heat_balance", "HeatBalance",
-           "optimal_cleaning_interval", "linear_closed_form", "CleaningInterval"]
+__all__ = [
+           "COLUMNS",
+           "DEFAULT_UNCERTAINTY",
+           "CleaningInterval",
+           "HeatBalance",
+           "Monitoring",
+           "PlantData",
+           "linear_closed_form",
+           "monitor",
+           "optimal_cleaning_interval",
+           "read_plant_data",
+           "reconcile_heat_balance",
+           "reconcile_linear",
+           "steady_state",
+]

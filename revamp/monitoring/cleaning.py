@@ -26,7 +26,7 @@ from scipy import optimize
 from ..errors import InputError
 from ..units import require
 
-__all__ = ["CleaningInterval", "optimal_cleaning_interval", "linear_closed_form"]
+__all__ = ["CleaningInterval", "linear_closed_form", "optimal_cleaning_interval"]
 
 
 @dataclass(frozen=True)

@@ -34,7 +34,7 @@ from .data import COLUMNS, read_plant_data
 from .reconcile import reconcile_heat_balance
 from .steady import steady_state
 
-__all__ = ["monitor", "Monitoring", "DEFAULT_UNCERTAINTY"]
+__all__ = ["DEFAULT_UNCERTAINTY", "Monitoring", "monitor"]
 
 #: Standard deviations (1σ) of the measurements: flows relative [-], temperatures absolute [K].
 DEFAULT_UNCERTAINTY = {"flow": 0.02, "temperature": 0.5}
@@ -64,6 +64,8 @@ class Monitoring:
     reference : dict
         The conditions used for projection (medians of the last tenth of the used rows): flows, inlets [SI].
     cleaning : CleaningInterval or None
+    run_start : pandas.Timestamp
+        Time zero of the run (the last cleaning): ``run_time`` counts from it.
     """
 
     table: pd.DataFrame
@@ -75,6 +77,7 @@ class Monitoring:
     cleaning: CleaningInterval | None
     exchanger: object = field(repr=False)
     service: object = field(repr=False)
+    run_start: object = None
     _duty_curve: tuple = field(repr=False, default=())
 
     def duty_at(self, rf):
@@ -82,13 +85,36 @@ class Monitoring:
         grid, duty = self._duty_curve
         return np.interp(np.asarray(rf, dtype=float), grid, duty)
 
-    def project(self, run_time) -> pd.DataFrame:
-        """Projected Rf [m²K/W] and duty [W] at run times [s or strings such as ``"300 day"``] from the trend."""
+    def project(self, when) -> pd.DataFrame:
+        """Projected Rf [m²K/W, outside area] and duty [W] at the reference conditions, from the trend.
+
+        Parameters
+        ----------
+        when : float, str, timestamp or a list of them
+            Run times since the run start [s, or strings such as ``"300 day"``], or dates (``"2032-06-30"``,
+            ``pandas.Timestamp``).
+        """
         if self.trend is None:
             raise InputError("trend", None, "a fitted fouling model (too few steady, unflagged rows)")
-        t = np.atleast_1d(np.asarray([to_si(v, "time", "run_time") for v in np.atleast_1d(run_time)], dtype=float))
+        values = when if isinstance(when, (list, tuple, np.ndarray, pd.Index, pd.Series)) else [when]
+        t = np.array([self._run_time(v) for v in values], dtype=float)
         rf = np.asarray(self.trend(t), dtype=float)
-        return pd.DataFrame({"run_time": t, "Rf": rf, "duty": self.duty_at(rf)})
+        return pd.DataFrame({"run_time": t, "date": self.run_start + pd.to_timedelta(t, unit="s"), "Rf": rf,
+                             "duty": self.duty_at(rf)})
+
+    def _run_time(self, value) -> float:
+        if isinstance(value, (pd.Timestamp, np.datetime64)) or hasattr(value, "isoformat"):
+            return float((pd.Timestamp(value) - self.run_start).total_seconds())
+        try:
+            return float(to_si(value, "time", "when"))
+        except InputError:
+            if isinstance(value, str):
+                try:
+                    return float((pd.Timestamp(value) - self.run_start).total_seconds())
+                except (ValueError, TypeError):
+                    pass
+            raise InputError("when", value, "a run time (s or e.g. '300 day') or a date (e.g. '2032-06-30')") \
+                from None
 
 
 # ------------------------------------------------------------------------------------------------------- helpers
@@ -470,7 +496,8 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
 
     summary = _summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings)
     return Monitoring(table=tab, summary=summary, trend=trend, fits=fits, counts=counts, reference=reference,
-                      cleaning=clean_res, exchanger=exchanger, service=service, _duty_curve=duty_curve)
+                      cleaning=clean_res, exchanger=exchanger, service=service, run_start=t0,
+                      _duty_curve=duty_curve)
 
 
 def _duty_vs_rf(exchanger, service, ref, grid, side):

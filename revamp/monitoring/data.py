@@ -27,6 +27,7 @@ from dataclasses import dataclass
 
 import numpy as np
 import pandas as pd
+import pint
 
 from ..errors import InputError
 from ..units import DIMENSIONS, ureg
@@ -75,7 +76,7 @@ def _convert(values: np.ndarray, unit, kind: str, field: str) -> np.ndarray:
     si = DIMENSIONS[kind][0]
     try:
         return np.asarray(ureg.Quantity(values, unit).to(si).magnitude, dtype=float)
-    except Exception as exc:  # pint: undefined unit or wrong dimension
+    except (pint.errors.PintError, AttributeError, TypeError, ValueError) as exc:  # undefined unit, wrong dimension
         raise InputError(f"columns.{field}", unit, f"a unit of {DIMENSIONS[kind][1]} ({exc.__class__.__name__})") \
             from None
 

@@ -27,7 +27,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["reconcile_linear", "reconcile_heat_balance", "HeatBalance", "side_duties"]
+__all__ = ["HeatBalance", "reconcile_heat_balance", "reconcile_linear", "side_duties"]
 
 
 def reconcile_linear(x, variance, A, b=None):
