@@ -335,7 +335,7 @@ def test_cleaning_projection_and_losses_in_monitor():
 
 def test_monte_carlo_linearized_clean_u_matches_full_rating():
     df = _plant(3e-4, n=40, seed=10, flow_noise=0.01, t_noise=0.2)
-    kw = dict(uncertainty={"flow": 0.01, "temperature": 0.2}, steady=False, mc_draws=100, seed=3)
+    kw = {"uncertainty": {"flow": 0.01, "temperature": 0.2}, "steady": False, "mc_draws": 100, "seed": 3}
     lin = rv.monitor(HX, SERVICE, df, mc_clean="linear", **kw).table
     full = rv.monitor(HX, SERVICE, df, mc_clean="full", **kw).table
     # same draws: first-order clean U differs from the full rating only at second order (a few 1e-4 of U)
