@@ -10,14 +10,16 @@ reconcile the heat balance (:mod:`.reconcile`), then
   temperatures, which fouling itself shifts (a fouled crude exchanger runs its crude colder, so more viscous), so
   the rows are rated (one vectorized :func:`revamp.rating.rate` call) with the fouling found so far and that
   rating's ``U_clean`` taken; Rf = 1/U_actual − 1/U_clean(Rf) [m²K/W, outside area] is solved per row by secant
-  steps (one vectorized call each, 3-5 in all). A rating with no fouling at the same flows and inlets gives the duty a clean
-  exchanger would have (``duty_clean``, and the duty lost to fouling);
+  steps (one vectorized call each, 3-5 in all). A rating with no fouling at the same flows and inlets gives the
+  duty a clean exchanger would have (``duty_clean``, and the duty lost to fouling);
 - a Monte Carlo band: ``mc_draws`` copies of the measurements with Gaussian errors of the stated standard deviations
   go through the same reconciliation and NTU inversion (all draws × rows in one array) and the clean U (first-order
   sensitivities from one stacked rating by default, or every draw rated, stacked in chunks); Rf_low/Rf_high are
   percentiles of the draws;
 - fouling trend models fitted to the steady, unflagged rows (:mod:`revamp.fouling.models`, chosen by AIC);
 - duty and cost lost to fouling to date; projection of Rf and duty; the optimal cleaning interval (:mod:`.cleaning`).
+
+The vectorized helpers live in :mod:`.engine`.
 """
 from __future__ import annotations
 
@@ -28,17 +30,18 @@ import pandas as pd
 
 from ..errors import InputError
 from ..fouling.models import FoulingFit, film_temperature, fit_best
-from ..units import require, to_si
+from ..units import to_si
+from . import engine as _e
 from .cleaning import CleaningInterval, optimal_cleaning_interval
-from .data import COLUMNS, read_plant_data
+from .data import read_plant_data
 from .reconcile import reconcile_heat_balance
 from .steady import steady_state
 
 __all__ = ["DEFAULT_UNCERTAINTY", "Monitoring", "monitor"]
 
 #: Standard deviations (1σ) of the measurements: flows relative [-], temperatures absolute [K].
-DEFAULT_UNCERTAINTY = {"flow": 0.02, "temperature": 0.5}
-_X = list(COLUMNS[1:])  # shell_flow, shell_t_in, shell_t_out, tube_flow, tube_t_in, tube_t_out
+DEFAULT_UNCERTAINTY = _e.DEFAULT_UNCERTAINTY
+_X = _e._X
 
 
 @dataclass(frozen=True)
@@ -117,148 +120,6 @@ class Monitoring:
                 from None
 
 
-# ------------------------------------------------------------------------------------------------------- helpers
-def _sigmas(uncertainty, x):
-    """Standard deviations per row and measurement, shape like x (n, 6)."""
-    spec = dict(DEFAULT_UNCERTAINTY)
-    for key, val in (uncertainty or {}).items():
-        if key not in ("flow", "temperature", *_X):
-            raise InputError(f"uncertainty.{key}", key, f"'flow', 'temperature' or one of {_X}")
-        spec[key] = val
-    sig = np.empty_like(x)
-    for j, col in enumerate(_X):
-        is_flow = col.endswith("flow")
-        val = spec.get(col, spec["flow" if is_flow else "temperature"])
-        if is_flow:
-            v = require(to_si(val, "dimensionless", f"uncertainty.{col}"), f"uncertainty.{col}", gt=0,
-                        what="a relative standard deviation")
-            sig[:, j] = v * np.abs(x[:, j])
-        else:
-            v = require(to_si(val, "temperature_difference", f"uncertainty.{col}"), f"uncertainty.{col}", gt=0,
-                        what="a standard deviation [K]")
-            sig[:, j] = v
-    return sig
-
-
-def _u_actual(xr, duty, cp_s, cp_t, area, arrangement, shells):
-    """U [W/m²K, outside area] and effectiveness from reconciled measurements (arrays of any shape)."""
-    from .. import thermal
-
-    C_s, C_t = xr[..., 0] * cp_s, xr[..., 3] * cp_t
-    c_min, c_max = np.minimum(C_s, C_t), np.maximum(C_s, C_t)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        cr = np.clip(c_min / c_max, 0.0, 1.0)
-        eps = duty / (c_min * np.abs(xr[..., 1] - xr[..., 4]))
-    ok = np.isfinite(eps) & np.isfinite(cr) & (eps > 0) & (eps < 1)
-    ntu = np.full(eps.shape, np.nan)
-    if ok.any():
-        e_max = np.asarray(thermal.max_effectiveness(cr[ok], arrangement, shells))
-        inside = eps[ok] < e_max
-        vals = np.asarray(thermal.ntu_from_effectiveness(np.where(inside, eps[ok], 0.5 * e_max), cr[ok],
-                                                         arrangement, shells), dtype=float)
-        ntu[ok] = np.where(inside, vals, np.nan)
-    return ntu * c_min / area, eps
-
-
-def _rate_clean(exchanger, service, xr, chunk, rf=None, side="tube", skip=None):
-    """One rating of every case in xr (..., 6), in chunks of at most ``chunk`` cases.
-
-    ``rf`` (shape xr.shape[:-1], outside basis [m²K/W], clipped at 0) puts that fouling on ``side``; None rates clean.
-    The rating's ``U_clean`` is then the clean-surface U at that (fouled) operating state. ``skip`` (a set of flat
-    case indices) holds the cases whose rating failed before: they are not tried again, and new failures are added.
-    """
-    from ..rating import rate
-    from ..service import Service, Stream
-
-    flat = xr.reshape(-1, 6)
-    rf_flat = np.zeros(flat.shape[0]) if rf is None else np.clip(np.nan_to_num(np.asarray(rf, dtype=float).ravel()),
-                                                                   0.0, None)
-    ratio = exchanger.tube_id / exchanger.tube_od  # a tube-side resistance on its own surface = outside value · di/do
-    keys = ("U_clean", "duty", "effectiveness", "Re_tube", "Pr_tube", "t_wall_tube", "shear_tube")
-    out = {k: np.full(flat.shape[0], np.nan) for k in keys}
-    warnings: list = []
-    good = np.all(np.isfinite(flat), axis=1) & (flat[:, 0] > 0) & (flat[:, 3] > 0) & (flat[:, 1] != flat[:, 4])
-    if skip:
-        good[np.fromiter(skip, dtype=int)] = False
-    idx = np.flatnonzero(good)
-    failed = []
-
-    def run(sel):
-        svc = Service(shell=Stream(service.shell.fluid, flat[sel, 0], flat[sel, 1]),
-                      tube=Stream(service.tube.fluid, flat[sel, 3], flat[sel, 4]),
-                      fouling_shell=rf_flat[sel] if side == "shell" else 0.0,
-                      fouling_tube=rf_flat[sel] * ratio if side == "tube" else 0.0)
-        try:
-            r = rate(exchanger, svc)
-        except InputError as exc:
-            # a case the rating cannot settle (e.g. its outlet iteration cycles) fails the whole call: split the
-            # cases (16 parts, then halves) until the failing ones are found, and leave those NaN
-            if sel.size == 1:
-                failed.append((int(sel[0]), str(exc)))
-                return
-            for part in np.array_split(sel, 16 if sel.size > 256 else 2):
-                run(part)
-            return
-        for k in keys:
-            out[k][sel] = np.asarray(getattr(r, k), dtype=float).ravel()
-        warnings.extend(r.warnings)
-
-    for start in range(0, idx.size, chunk):
-        run(idx[start:start + chunk])
-    if failed:
-        warnings.append(f"rating failed for {len(failed)} case(s), left NaN: {failed[0][1]}")
-        if skip is not None:
-            skip.update(i for i, _ in failed)
-    return {k: v.reshape(xr.shape[:-1]) for k, v in out.items()}, list(dict.fromkeys(warnings))
-
-
-def _clean_linearized(exchanger, service, x0, u0, xd, rf0, side):
-    """Clean U of the Monte Carlo draws from its first-order sensitivities at the reconciled rows.
-
-    One stacked rating of the rows with each of the four rating inputs (shell flow, shell inlet, tube flow, tube
-    inlet) nudged in turn (0.1 % of a flow, 0.05 K) gives dU/dx by forward differences; a draw's clean U is
-    U0 + Σ dU/dx_j·(x_j − x0_j). For measurement errors of a few per cent the neglected second-order term is below
-    1e-4 of U (h ∝ m^0.8: ½·0.8·0.2·0.02² = 3e-5).
-    """
-    cols = (0, 1, 3, 4)
-    steps = np.array([1e-3 * x0[:, 0], np.full(len(x0), 0.05), 1e-3 * x0[:, 3], np.full(len(x0), 0.05)])
-    stack = np.repeat(x0[None], 4, axis=0)
-    for k, j in enumerate(cols):
-        stack[k, :, j] += steps[k]
-    u_p = _rate_clean(exchanger, service, stack, stack.shape[0] * stack.shape[1], np.repeat(rf0[None], 4, axis=0),
-                      side)[0]["U_clean"]
-    grad = (u_p - u0[None]) / steps  # (4, rows)
-    out = np.broadcast_to(u0, xd.shape[:-1]).copy()
-    for k, j in enumerate(cols):
-        out += grad[k] * (xd[..., j] - x0[:, j])
-    return out
-
-
-def _nan_percentiles(a, qs):
-    """Percentiles along axis 0 ignoring NaN (numpy's 'linear' method), vectorized over the columns."""
-    srt = np.sort(a, axis=0)  # NaN sort last
-    k = np.sum(np.isfinite(a), axis=0)
-    out = []
-    for q in qs:
-        pos = q / 100.0 * np.maximum(k - 1, 0)
-        lo = np.floor(pos).astype(int)
-        hi = np.minimum(lo + 1, np.maximum(k - 1, 0))
-        w = pos - lo
-        v = np.take_along_axis(srt, lo[None], 0)[0] * (1 - w) + np.take_along_axis(srt, hi[None], 0)[0] * w
-        out.append(np.where(k > 0, v, np.nan))
-    return out
-
-
-def _cp(fluid, T):
-    T = np.asarray(T, dtype=float)
-    out = np.full(T.shape, np.nan)
-    ok = np.isfinite(T)
-    if ok.any():
-        Tc = np.clip(T[ok], fluid.t_min, fluid.t_max - 1e-6 * max(fluid.t_max, 1.0))
-        out[ok] = np.asarray(fluid.props(Tc).heat_capacity, dtype=float) * np.ones(Tc.shape)
-    return out
-
-
 # --------------------------------------------------------------------------------------------------------- monitor
 def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=None, balance_tolerance=0.10,
             mc_draws: int = 200, band=(5.0, 95.0), seed=0, run_start=None, run_length=None, models=None,
@@ -319,6 +180,14 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     Returns
     -------
     Monitoring
+
+    Notes
+    -----
+    Besides the reasons of :func:`revamp.monitoring.read_plant_data`, a row can be flagged ``heat balance does not
+    close (|error| > 10%)``, ``no clean U: the rating did not settle at these conditions`` or ``no U: effectiveness
+    outside what the arrangement can reach``; valid rows that fail the steady-state rule are counted as
+    ``not steady``. Only unflagged steady rows (``used``) enter the trend fit; every row stays in the table.
+    Rows are taken as a time series of one run: pass ``run_start`` (the last cleaning) to count run time from it.
     """
     from ..rating import arrangement as hx_arrangement
 
@@ -331,12 +200,12 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     n = len(tab)
     valid = tab["valid"].to_numpy().copy()
     x = tab[_X].to_numpy(dtype=float)
-    sig = _sigmas(uncertainty, x)
+    sig = _e.sigmas(uncertainty, x)
     arr_name, shells = hx_arrangement(exchanger)
 
     # heat balance and reconciliation (valid rows)
-    cp_s = _cp(service.shell.fluid, 0.5 * (x[:, 1] + x[:, 2]))
-    cp_t = _cp(service.tube.fluid, 0.5 * (x[:, 4] + x[:, 5]))
+    cp_s = _e.cp(service.shell.fluid, 0.5 * (x[:, 1] + x[:, 2]))
+    cp_t = _e.cp(service.tube.fluid, 0.5 * (x[:, 4] + x[:, 5]))
     xv = np.where(valid[:, None], x, np.nan)
     hb = reconcile_heat_balance(xv, sig, cp_s, cp_t)
     tab["duty_shell"], tab["duty_tube"], tab["balance_error"] = hb.duty_shell, hb.duty_tube, hb.balance_error
@@ -355,14 +224,14 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     # U actual, clean rating
     # clean rating at the same flows and inlets: the duty a clean exchanger would give (duty lost to fouling)
     failed_rows: set = set()
-    clean, warnings = _rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), skip=failed_rows)
+    clean, warnings = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), skip=failed_rows)
     area = float(exchanger.area_outside)
-    U_act, eps = _u_actual(hb.x, hb.duty, cp_s, cp_t, area, arr_name, shells)
+    U_act, eps = _e.u_actual(hb.x, hb.duty, cp_s, cp_t, area, arr_name, shells)
     # the clean U at the measured operating state: film coefficients depend on the stream temperatures, which
     # fouling changes, so rate at the fouling found and take that rating's clean-surface U; repeat until Rf settles
     # Rf solves Rf = g(Rf) = 1/U_actual − 1/U_clean(Rf): secant steps per row, one vectorized rating each
     def g(rf_try):
-        st, w = _rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), rf_try, fouling_side, failed_rows)
+        st, w = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), rf_try, fouling_side, failed_rows)
         with np.errstate(divide="ignore", invalid="ignore"):
             return 1.0 / U_act - 1.0 / st["U_clean"], st, w
 
@@ -411,20 +280,20 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         xs = x[rows][None] + rng.standard_normal((int(mc_draws), rows.size, 6)) * sig[rows][None]
         # closure to 1e-7 of the duty is ample for a band; start from the reconciled rows (fewer steps)
         hb_d = reconcile_heat_balance(xs, sig[rows][None], cp_s[rows], cp_t[rows], tol=1e-7, start=hb.x[rows][None])
-        u_d, _ = _u_actual(hb_d.x, hb_d.duty, cp_s[rows], cp_t[rows], area, arr_name, shells)
+        u_d, _ = _e.u_actual(hb_d.x, hb_d.duty, cp_s[rows], cp_t[rows], area, arr_name, shells)
         if mc_clean == "full":
-            uc_d = _rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1), np.broadcast_to(rf[rows], hb_d.x.shape[:-1]),
+            uc_d = _e.rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1), np.broadcast_to(rf[rows], hb_d.x.shape[:-1]),
                                fouling_side)[0]["U_clean"]
         else:
-            uc_d = _clean_linearized(exchanger, service, hb.x[rows], state["U_clean"][rows], hb_d.x, rf[rows],
+            uc_d = _e.clean_linearized(exchanger, service, hb.x[rows], state["U_clean"][rows], hb_d.x, rf[rows],
                                      fouling_side)
         with np.errstate(divide="ignore", invalid="ignore"):
             rf_d = 1.0 / u_d - 1.0 / uc_d
         lo, hi = band
         rf_low, rf_high = np.full(n, np.nan), np.full(n, np.nan)
         u_low, u_high = np.full(n, np.nan), np.full(n, np.nan)
-        rf_low[rows], rf_high[rows] = _nan_percentiles(rf_d, (lo, hi))
-        u_low[rows], u_high[rows] = _nan_percentiles(u_d, (lo, hi))
+        rf_low[rows], rf_high[rows] = _e.nan_percentiles(rf_d, (lo, hi))
+        u_low[rows], u_high[rows] = _e.nan_percentiles(u_d, (lo, hi))
     tab["Rf_low"], tab["Rf_high"], tab["U_low"], tab["U_high"] = rf_low, rf_high, u_low, u_high
 
     # steady filter and the rows used
@@ -464,7 +333,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         reference = {col: float(np.median(hb.x[tail, j])) for j, col in enumerate(_X)}
         rf_top = max(float(np.nanmax(rf[used])) * 3.0, 1e-3)
         grid = np.linspace(0.0, rf_top, 61)
-        duty_curve = (grid, _duty_vs_rf(exchanger, service, reference, grid, fouling_side))
+        duty_curve = (grid, _e.duty_vs_rf(exchanger, service, reference, grid, fouling_side))
 
     # losses to date (valid rows; each row stands for the time to the next, capped at 3 median steps)
     tnum = tab["run_time"].to_numpy()
@@ -494,50 +363,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
             loss_rate, c.pop("cost"), downtime=c.pop("downtime", 0.0),
             downtime_cost_rate=c.pop("downtime_cost_rate", duty_value * q0), **c)
 
-    summary = _summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings)
+    summary = _e.summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings)
     return Monitoring(table=tab, summary=summary, trend=trend, fits=fits, counts=counts, reference=reference,
                       cleaning=clean_res, exchanger=exchanger, service=service, run_start=t0,
                       _duty_curve=duty_curve)
-
-
-def _duty_vs_rf(exchanger, service, ref, grid, side):
-    from ..rating import rate
-    from ..service import Service, Stream
-
-    do, di = exchanger.tube_od, exchanger.tube_id
-    svc = Service(shell=Stream(service.shell.fluid, ref["shell_flow"], ref["shell_t_in"]),
-                  tube=Stream(service.tube.fluid, ref["tube_flow"], ref["tube_t_in"]),
-                  fouling_shell=grid if side == "shell" else 0.0,
-                  fouling_tube=grid * di / do if side == "tube" else 0.0)
-    return np.asarray(rate(exchanger, svc).duty, dtype=float)
-
-
-def _summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings):
-    used = tab["used"].to_numpy()
-    s: dict = {f"rows: {k}": v for k, v in counts.items()}
-    if used.any():
-        last = np.flatnonzero(used)[-24:]  # the last day of hourly data
-        s["Rf now [m2K/W]"] = float(np.median(tab["Rf"].to_numpy()[last]))
-        s["Rf now low [m2K/W]"] = float(np.median(tab["Rf_low"].to_numpy()[last]))
-        s["Rf now high [m2K/W]"] = float(np.median(tab["Rf_high"].to_numpy()[last]))
-        s["U_actual now [W/m2K]"] = float(np.median(tab["U_actual"].to_numpy()[last]))
-        s["U_clean now [W/m2K]"] = float(np.median(tab["U_clean"].to_numpy()[last]))
-        s["heat balance error median [-]"] = float(np.median(tab["balance_error"].to_numpy()[used]))
-    if trend is not None:
-        s["model (lowest AIC)"] = trend.model
-        s["model fit"] = trend.describe()
-        s["fouling rate now [m2K/W per day]"] = float(trend.rate(trend.t_end)) * 86400.0
-        s["projection run time [day]"] = t_end / 86400.0
-        s["Rf at end of run [m2K/W]"] = float(trend(t_end))
-        if duty_curve:
-            s["duty at end of run [W]"] = float(np.interp(trend(t_end), *duty_curve))
-    s["energy lost to fouling to date [J]"] = energy
-    if duty_value is not None:
-        s["cost lost to fouling to date"] = energy * duty_value
-    if clean_res is not None:
-        s["optimal cleaning interval [day]"] = clean_res.interval / 86400.0
-        if clean_res.bounded:
-            s["optimal cleaning interval [day]"] = f">= {clean_res.interval / 86400.0:.0f} (cleaning does not pay sooner)"
-        s["cleaning: mean cost rate [per day]"] = clean_res.cost_rate * 86400.0
-    s["warnings"] = "; ".join(warnings[:5])
-    return pd.Series(s, dtype=object)
