@@ -4,7 +4,8 @@
 resistance with its uncertainty band, the fouling trend, a projection and the optimal cleaning interval. The steps live
 in their own modules: :mod:`.data` (reading, units, per-row flags), :mod:`.steady` (steady-state filter),
 :mod:`.reconcile` (heat balance, weighted least squares), :mod:`.cleaning` (Epstein cleaning interval),
-:mod:`.engine` (the vectorized calls) and :mod:`.core` (the orchestration). Fouling growth models live in :mod:`revamp.fouling.models`.
+:mod:`.engine` (the vectorized calls) and :mod:`.core` (the orchestration). Fouling growth models live in
+:mod:`revamp.fouling.models`.
 """
 from .cleaning import CleaningInterval, linear_closed_form, optimal_cleaning_interval
 from .core import DEFAULT_UNCERTAINTY, Monitoring, monitor
