@@ -512,14 +512,18 @@ def _build_fluid(spec: dict):
     return _call(getattr(fluids, spec["kind"]), params)
 
 
-def _guard(problems: list, prefix: str, func, *args):
-    """Run a model constructor; its InputError (or any error) becomes a Problem under ``prefix``."""
+def _guard(problems: list, prefix: str, func, *args, field_of=None):
+    """Run a model constructor; its InputError (or any error) becomes a Problem under ``prefix``.
+
+    ``field_of(field) -> str`` rewrites the error's own field name before the prefix is put in front (e.g. to drop
+    a provider's name, or to point at the prefix itself)."""
     try:
         return func(*args)
     except UnitFileError:
         raise
     except InputError as exc:
-        e = exc.with_prefix(prefix) if exc.field else exc
+        name = field_of(exc.field) if field_of else exc.field
+        e = InputError(f"{prefix}.{name}" if name else prefix, exc.value, exc.allowed)
         problems.append(Problem(e.field, e.value if isinstance(e.value, str) else _show(e.value), f"must be {e.allowed}"))
     except Exception as exc:  # a constructor that fails another way: still one line, never a traceback
         problems.append(Problem(prefix, "(as given)", f"could not be built: {exc.__class__.__name__}: {exc}"))
@@ -559,11 +563,13 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
     streams = {}
     for side in ("shell", "tube"):
         s = si[f"{side}_side"]
-        fluid = _guard(problems, f"{pre}.{side}_side.fluid", _build_fluid, s["fluid"])
+        kind = s["fluid"]["kind"]
+        fluid = _guard(problems, f"{pre}.{side}_side.fluid", _build_fluid, s["fluid"],
+                       field_of=lambda f, k=kind: f[len(k) + 1:] if f.startswith(k + ".") else f)
         if fluid is None:
             continue
         # evaluate the fluid once at its inlet: a liquid-only provider refuses a vapour here, with its reason
-        if _guard(problems, f"{pre}.{side}_side.t_in", fluid.props, s["t_in"]) is None:
+        if _guard(problems, f"{pre}.{side}_side.t_in", fluid.props, s["t_in"], field_of=lambda f: "") is None:
             continue
         streams[side] = _guard(problems, f"{pre}.{side}_side", rating.Stream, fluid, s["flow"], s["t_in"])
     if len(problems) > start or None in streams.values():

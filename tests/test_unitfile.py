@@ -190,6 +190,21 @@ def test_each_problem_names_its_path(tmp_path, where, value, path, words):
     assert info.value.problems == problems
 
 
+def test_model_constructor_errors_get_the_full_path(tmp_path):
+    """Errors raised by the geometry, fluid and stream constructors come back as problems under their path."""
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][0]["geometry"]["tube_wall"] = "12 mm"  # thicker than half a 19.05 mm tube
+    doc["exchangers"][1]["shell_side"]["fluid"] = {"kind": "petroleum", "api": 30, "watson_k": 11.8,
+                                                   "viscosity": [["40 degC", "5 cSt"], ["40 degC", "2 cSt"]]}
+    # water at 1 bar boils at 99.6 °C (IAPWS-IF97 saturation line, common steam-table value): 130 °C is vapour
+    doc["exchangers"][1]["tube_side"]["fluid"] = {"kind": "water", "pressure": "1 bar"}
+    doc["exchangers"][1]["tube_side"]["t_in"] = "130 degC"
+    problems = {p.path: p for p in unitfile.check(write_unit(tmp_path / "u.yaml", doc))}
+    assert set(problems) == {"exchangers[0].geometry.tube_wall", "exchangers[1].shell_side.fluid.viscosity",
+                             "exchangers[1].tube_side.t_in"}
+    assert "saturation" in problems["exchangers[1].tube_side.t_in"].message
+
+
 def test_every_problem_is_listed_at_once(tmp_path):
     doc = make_unit("E-1", "E-2", "E-3")
     doc["exchangers"][0]["tube_side"]["flow"] = "-1 kg/s"
