@@ -184,7 +184,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     Notes
     -----
     Besides the reasons of :func:`revamp.monitoring.read_plant_data`, a row can be flagged ``heat balance does not
-    close (|error| > 10%)``, ``no clean U: the rating did not settle at these conditions`` or ``no U: effectiveness
+    close (|error| > 10%)``, ``no clean U: the rating gave no result at these conditions`` or ``no U: effectiveness
     outside what the arrangement can reach``; valid rows that fail the steady-state rule are counted as
     ``not steady``. Only unflagged steady rows (``used``) enter the trend fit; every row stays in the table.
     Rows are taken as a time series of one run: pass ``run_start`` (the last cleaning) to count run time from it.
@@ -260,9 +260,10 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     tab["T_film"] = film_temperature(0.5 * (hb.x[:, 4] + hb.x[:, 5]), state["t_wall_tube"])
     no_rating = np.zeros(n, dtype=bool)
     no_rating[list(failed_rows)] = True
+    no_rating |= ~np.isfinite(state["U_clean"])  # the rating raised, or gave NaN, for these cases
     no_rating &= valid & ~open_balance
     no_u = valid & ~open_balance & ~no_rating & ~np.isfinite(rf)
-    text_r = "no clean U: the rating did not settle at these conditions"
+    text_r = "no clean U: the rating gave no result at these conditions"
     text_u = "no U: effectiveness outside what the arrangement can reach"
     flags = tab["flag"].to_numpy(dtype=object)
     flags[no_rating] = text_r
