@@ -674,9 +674,23 @@ def _validate(path, build: bool, only=None):
         case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ)
         if case is not None:
             built.append(case)
+    problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc)
     return unit, _sorted(problems)
+
+
+def _as_written(problem: Problem, doc) -> Problem:
+    """Show a model constructor's complaint with the value as the user wrote it (``12 mm``, not ``0.012``)."""
+    node = doc
+    for name, index in re.findall(r"([A-Za-z_][\w]*)|\[(\d+)\]", problem.path):
+        try:
+            node = node[int(index)] if index else node[name]
+        except (KeyError, IndexError, TypeError, ValueError):
+            return problem
+    if isinstance(node, (str, int, float)) and not isinstance(node, bool):
+        return Problem(problem.path, _show(node), problem.message)
+    return problem
 
 
 def _owned(problems, i) -> bool:
