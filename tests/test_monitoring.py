@@ -173,6 +173,22 @@ def test_every_bad_data_reason_is_reported_and_counted():
     assert sum(v for k, v in c.items() if k not in ("rows", "valid")) == len(reasons)
 
 
+@settings(max_examples=30, deadline=None)
+@given(cells=st.lists(st.tuples(st.integers(0, 29), st.integers(0, 6), st.sampled_from(["", "x", None, -1.0])),
+                      max_size=15))
+def test_nothing_dropped_and_every_reason_counted(cells):
+    # invariant (common practice, no source): any corruption keeps every row, and the counts add up to the reasons
+    df = _frame(30).astype(object)
+    for row, col, value in cells:
+        df.iloc[row, col] = value
+    pdata = read_plant_data(df)
+    f, c = pdata.frame, pdata.counts
+    assert len(f) == 30 and list(f["row"]) == list(range(30))
+    reasons = [r for flag in f["flag"] for r in flag.split("; ") if r]
+    assert sum(v for k, v in c.items() if k not in ("rows", "valid")) == len(reasons)
+    assert c["valid"] + int((f["flag"] != "").sum()) == 30
+
+
 def test_sort_reorders_and_counts():
     df = _frame(10).iloc[[0, 1, 2, 5, 3, 4, 6, 7, 8, 9]].reset_index(drop=True)
     flagged = read_plant_data(df)

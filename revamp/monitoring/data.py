@@ -140,6 +140,8 @@ def read_plant_data(data, columns=None, *, sort: bool = False, flat_rows: int = 
     out = pd.DataFrame({"row": np.arange(n)})
     src_t = raw[spec["timestamp"][0]]
     blank_t = src_t.isna().to_numpy() | (src_t.astype(str).str.strip() == "").to_numpy()
+    if not pd.api.types.is_datetime64_any_dtype(src_t):
+        src_t = src_t.astype(object).where(blank_t, src_t.astype(str))  # a bare number is not a time: parse text
     ts = pd.to_datetime(src_t.where(~blank_t), format=timestamp_format, errors="coerce")
     add(blank_t, "missing timestamp")
     add(ts.isna().to_numpy() & ~blank_t, "bad timestamp")
