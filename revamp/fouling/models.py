@@ -23,6 +23,8 @@ Models
 
 References
 ----------
+(Titles, books and pages recalled from memory except the journal references of Kern & Seaton and the AIC paper,
+which are standard; check before quoting.)
 Kern, D. Q., Seaton, R. E. (1959). A theoretical analysis of thermal surface fouling. Brit. Chem. Eng. 4, 258-262.
 Ebert, W., Panchal, C. B. (1995/1997). Analysis of Exxon crude-oil-slip-stream coking data. In: Fouling Mitigation of
     Industrial Heat-Exchange Equipment, Begell House, 451-460.

@@ -13,6 +13,7 @@ proportional to run time, c(t) = k·t, the optimum has the closed form t_c = √
 
 References
 ----------
+(Ma & Epstein's title and pages from memory; Epstein 1979 as cited in the project's methods list.)
 Epstein, N. (1979). Optimum evaporator cycles with scale formation. Can. J. Chem. Eng. 57, 659-661.
 Ma, R. S. T., Epstein, N. (1981). Optimum cycles for falling rate processes. Can. J. Chem. Eng. 59, 631-633.
 """

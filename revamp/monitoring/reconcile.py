@@ -2,21 +2,22 @@
 
 Measurements x with variances V are adjusted to x̂ that satisfy the constraints A·x̂ = b while minimising
 (x̂ − x)ᵀ V⁻¹ (x̂ − x). For linear constraints the answer is closed form (Kuehn & Davidson 1961; Narasimhan &
-Jordache 2000, ch. 3):
+Jordache 2000, the linear steady-state chapter):
 
     x̂ = x − V Aᵀ (A V Aᵀ)⁻¹ (A x − b)
 
 so that each measurement moves in proportion to its variance (and to its weight in the constraint).
 
 The exchanger's energy balance, m_s·cp_s·(Ts_in − Ts_out) + m_t·cp_t·(Tt_in − Tt_out) = 0, is bilinear in flow and
-temperature difference. It is reconciled by successive linearisation (Narasimhan & Jordache 2000, ch. 5; Knepper &
-Gorman 1980): the constraint is linearised at the current estimate, the linear formula applied to the original
+temperature difference. It is reconciled by successive linearisation (Narasimhan & Jordache 2000, the nonlinear
+steady-state chapter; Knepper & Gorman 1980): the constraint is linearised at the current estimate, the linear formula applied to the original
 measurements, and the step repeated until the balance closes. The six measurements per row are the two flows and
 four temperatures; cp of each side is held at its value at the measured mean temperature of that side (its change
 over the small temperature adjustments is neglected). All rows are reconciled at once (arrays, no loops over rows).
 
 References
 ----------
+(Journal details recalled from memory, not re-read; the method is the textbook weighted least-squares projection.)
 Kuehn, D. R., Davidson, H. (1961). Computer control II: mathematics of control. Chem. Eng. Prog. 57(6), 44-47.
 Narasimhan, S., Jordache, C. (2000). Data Reconciliation and Gross Error Detection. Gulf Publishing, Houston.
 Knepper, J. C., Gorman, J. W. (1980). Statistical analysis of constrained data sets. AIChE J. 26, 260-264.
