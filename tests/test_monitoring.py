@@ -412,3 +412,15 @@ def test_demo_generator_is_invented_reproducible_and_spoiled(monkeypatch):
     assert sum(v for k, v in c.items() if k.startswith("non-numeric")) == 2
     assert c["duplicated timestamp"] == 1 and c["flat-lined shell_t_out"] >= 12 and c["flow <= 0 tube_flow"] == 3
     assert c["tube outlet below inlet on the cold side"] >= 1
+
+
+def test_clean_u_choice():
+    df = _plant(4e-4, n=30)
+    op = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False)
+    cl = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False, clean_u="clean")
+    # same measured U; the clean-exchanger U differs from the clean-surface U at the operating state only through
+    # the film coefficients, which fouling changes via the temperatures (small for these constant-property fluids)
+    assert op.table["U_actual"].to_numpy() == pytest.approx(cl.table["U_actual"].to_numpy(), rel=1e-12)
+    assert cl.table["Rf"].to_numpy() == pytest.approx(np.full(30, 4e-4), rel=0.05)
+    with pytest.raises(InputError, match="clean_u"):
+        rv.monitor(HX, SERVICE, df, clean_u="design")

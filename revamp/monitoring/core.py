@@ -124,7 +124,8 @@ class Monitoring:
 def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=None, balance_tolerance=0.10,
             mc_draws: int = 200, band=(5.0, 95.0), seed=0, run_start=None, run_length=None, models=None,
             fouling_side: str = "tube", beta: float = -0.66, E=None, cleaning=None, duty_value=None,
-            sort: bool = False, flat_rows: int = 6, mc_clean: str = "linear", mc_chunk: int = 400_000) -> Monitoring:
+            sort: bool = False, flat_rows: int = 6, clean_u: str = "operating", mc_clean: str = "linear",
+            mc_chunk: int = 400_000) -> Monitoring:
     """Measured U and fouling of an exchanger from plant data.
 
     Parameters
@@ -171,6 +172,12 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         Re-order rows by time instead of flagging out-of-order ones.
     flat_rows : int
         Rows unchanged before a sensor counts as flat-lined.
+    clean_u : {"operating", "clean"}
+        Which clean U Rf is measured against: ``"operating"`` (default) the clean-surface U at the measured operating
+        state (film coefficients at the stream temperatures the fouled exchanger really has; a few rating calls);
+        ``"clean"`` the U of a clean exchanger at the same flows and inlets (one call; it carries the change in film
+        coefficients that fouling causes through the temperatures into Rf, e.g. +30 % of Rf for a crude in
+        transitional flow).
     mc_clean : {"linear", "full"}
         How the draws' clean U is found: ``"linear"`` from first-order sensitivities (one stacked rating of the rows
         with each input nudged; fast), ``"full"`` by rating every draw × row (stacked, in chunks; ~20 µs a case).
@@ -193,6 +200,8 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
 
     if fouling_side not in ("tube", "shell"):
         raise InputError("fouling_side", fouling_side, "'tube' or 'shell'")
+    if clean_u not in ("operating", "clean"):
+        raise InputError("clean_u", clean_u, "'operating' or 'clean'")
     if mc_clean not in ("linear", "full"):
         raise InputError("mc_clean", mc_clean, "'linear' or 'full'")
     pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows)
@@ -227,29 +236,34 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     clean, warnings = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), skip=failed_rows)
     area = float(exchanger.area_outside)
     U_act, eps = _e.u_actual(hb.x, hb.duty, cp_s, cp_t, area, arr_name, shells)
-    # the clean U at the measured operating state: film coefficients depend on the stream temperatures, which
-    # fouling changes, so rate at the fouling found and take that rating's clean-surface U; repeat until Rf settles
-    # Rf solves Rf = g(Rf) = 1/U_actual − 1/U_clean(Rf): secant steps per row, one vectorized rating each
-    def g(rf_try):
-        st, w = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), rf_try, fouling_side, failed_rows)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            return 1.0 / U_act - 1.0 / st["U_clean"], st, w
-
     with np.errstate(divide="ignore", invalid="ignore"):
-        x0, g0 = np.zeros(n), 1.0 / U_act - 1.0 / clean["U_clean"]
-    x1 = g0
-    g1, state, warnings = g(x1)
-    for _ in range(6):
+        rf = 1.0 / U_act - 1.0 / clean["U_clean"]
+    state = clean
+    if clean_u == "operating":
+        # the clean U at the measured operating state: film coefficients depend on the stream temperatures, which
+        # fouling changes, so rate at the fouling found and take that rating's clean-surface U. Rf solves
+        # Rf = g(Rf) = 1/U_actual − 1/U_clean(Rf): secant steps per row, one vectorized rating each
+        def g(rf_try):
+            st, w = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), rf_try, fouling_side, failed_rows)
+            with np.errstate(divide="ignore", invalid="ignore"):
+                return 1.0 / U_act - 1.0 / st["U_clean"], st, w
+
         with np.errstate(divide="ignore", invalid="ignore"):
-            d = (g1 - x1) - (g0 - x0)
-            x2 = np.clip(np.where(np.abs(d) > 1e-14, x1 - (g1 - x1) * (x1 - x0) / d, g1), -0.01, 0.05)
-        done = np.nanmax(np.abs(x2 - x1), initial=0.0) < 1e-9
-        x0, g0 = x1, g1
-        x1 = x2
+            x0, g0 = np.zeros(n), 1.0 / U_act - 1.0 / clean["U_clean"]
+        x1 = g0
         g1, state, warnings = g(x1)
-        if done:
-            break
-    rf = g1
+        for _ in range(6):
+            with np.errstate(divide="ignore", invalid="ignore"):
+                d = (g1 - x1) - (g0 - x0)
+                x2 = np.clip(np.where(np.abs(d) > 1e-14, x1 - (g1 - x1) * (x1 - x0) / d, g1), -0.01, 0.05)
+            done = np.nanmax(np.abs(x2 - x1), initial=0.0) < 1e-9
+            x0, g0 = x1, g1
+            x1 = x2
+            g1, state, warnings = g(x1)
+            if done:
+                break
+        rf = g1
+    rf_rated = rf if clean_u == "operating" else np.zeros(n)  # the fouling the clean U was rated at
     tab["U_actual"], tab["U_clean"], tab["Rf"] = U_act, state["U_clean"], rf
     tab["effectiveness"], tab["effectiveness_clean"] = eps, clean["effectiveness"]
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -283,10 +297,11 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         hb_d = reconcile_heat_balance(xs, sig[rows][None], cp_s[rows], cp_t[rows], tol=1e-7, start=hb.x[rows][None])
         u_d, _ = _e.u_actual(hb_d.x, hb_d.duty, cp_s[rows], cp_t[rows], area, arr_name, shells)
         if mc_clean == "full":
-            uc_d = _e.rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1), np.broadcast_to(rf[rows], hb_d.x.shape[:-1]),
+            rf_d0 = np.broadcast_to(rf_rated[rows], hb_d.x.shape[:-1])
+            uc_d = _e.rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1), rf_d0,
                                fouling_side)[0]["U_clean"]
         else:
-            uc_d = _e.clean_linearized(exchanger, service, hb.x[rows], state["U_clean"][rows], hb_d.x, rf[rows],
+            uc_d = _e.clean_linearized(exchanger, service, hb.x[rows], state["U_clean"][rows], hb_d.x, rf_rated[rows],
                                      fouling_side)
         with np.errstate(divide="ignore", invalid="ignore"):
             rf_d = 1.0 / u_d - 1.0 / uc_d
