@@ -305,3 +305,64 @@ def test_partial_load_keeps_the_valid_exchangers(tmp_path):
 def test_schema_and_json_agree_on_the_demo():
     schema_text = unitfile.SCHEMA_PATH.read_text()
     assert json.loads(schema_text) == unitfile.schema()
+
+
+# ------------------------------------------------------------------------------------------ never a traceback (fuzz)
+from hypothesis import HealthCheck, given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+
+def _paths(node, prefix=()):
+    """Every (path) to a value inside a parsed unit document."""
+    yield prefix
+    if isinstance(node, dict):
+        for k, v in node.items():
+            yield from _paths(v, (*prefix, k))
+    elif isinstance(node, list):
+        for i, v in enumerate(node):
+            yield from _paths(v, (*prefix, i))
+
+
+_ALL_PATHS = [p for p in _paths(make_unit("E-1", "E-2")) if p]
+_JUNK = st.one_of(st.none(), st.booleans(), st.integers(-10**6, 10**6), st.floats(allow_nan=True),
+                  st.text(max_size=12), st.sampled_from(["-5 kg/s", "1e400 m", "nan", "12 parsecs", "0 K", "../x"]),
+                  st.lists(st.integers(), max_size=3), st.dictionaries(st.text(max_size=4), st.integers(), max_size=2))
+
+
+@settings(max_examples=50, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(where=st.sampled_from(_ALL_PATHS), junk=_JUNK)
+def test_any_junk_anywhere_gives_problems_not_a_traceback(tmp_path, where, junk):
+    """Invariant: whatever value sits wherever, check() returns a list of Problems (each naming a path) and
+    never raises; load() raises only UnitFileError."""
+    doc = make_unit("E-1", "E-2")
+    node = doc
+    for p in where[:-1]:
+        node = node[p]
+    node[where[-1]] = junk
+    path = tmp_path / "fuzz.yaml"
+    path.write_text(yaml.safe_dump(doc, allow_unicode=True), encoding="utf-8")
+    problems = unitfile.check(path)
+    assert isinstance(problems, list)
+    assert all(isinstance(p, unitfile.Problem) and p.path for p in problems)
+    if problems:
+        with pytest.raises(unitfile.UnitFileError):
+            unitfile.load(path)
+
+
+def test_docs_name_every_field_of_the_schema():
+    """docs/unit-file.md stays in step with the schema: every field name the schema knows is documented."""
+    doc = (unitfile.SCHEMA_PATH.parent.parent / "docs" / "unit-file.md").read_text(encoding="utf-8")
+    names = set()
+
+    def walk(node):
+        if isinstance(node, dict):
+            names.update(k for k in node.get("properties", {}) if isinstance(k, str))
+            for v in node.values():
+                walk(v)
+        elif isinstance(node, list):
+            for v in node:
+                walk(v)
+
+    walk(unitfile.schema())
+    missing = sorted(n for n in names if f"`{n}`" not in doc)
+    assert not missing, f"fields not in docs/unit-file.md: {missing}"
