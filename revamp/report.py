@@ -23,6 +23,7 @@ from importlib import metadata
 from pathlib import Path
 
 __all__ = [
+    "option_breakdown_figure",
     "CAUTIONS",
     "PACKAGES",
     "plot_text",
@@ -312,6 +313,12 @@ def breakdown_figure(ratings: dict, title: str = "Where the resistance to heat t
     fig.update_layout(barmode="stack", title=title, yaxis_title="resistance [10⁻⁴ m²·K/W, outside area]",
                       height=420, margin={"t": 50}, legend={"orientation": "h", "y": -0.2})
     return fig
+
+
+def option_breakdown_figure(study):
+    """The five resistances of the base case and of each option at the revamp conditions (rows of study.table)."""
+    ratings = {str(k): study.ratings[k] for k in study.table.index if k in study.ratings}
+    return breakdown_figure(ratings, "Resistances of each option at the revamp conditions")
 
 
 def summary(result: dict) -> dict:
