@@ -153,3 +153,16 @@ def test_relative_out_dir_and_summary(tmp_path, monkeypatch):
     summary = re.search(r'<section id="summary">(.*?)</section>', index, re.DOTALL).group(1)
     assert 'href="E-1.html"' in summary and "rv-status-ok" in summary
     assert re.search(r'<td class="num">[\d,]+</td>', summary), "duty figures missing from the index"
+
+
+def test_unit_level_problem_stops_the_batch_before_any_run(tmp_path, capsys):
+    """A problem outside the exchangers (here the economics) leaves nothing to run: problems listed, exit 1."""
+    from revamp.cli import main
+
+    doc = make_unit("E-1")
+    doc["economics"]["energy_price"] = "cheap"
+    path = write_unit(tmp_path / "u.yaml", doc)
+    assert main(["batch", path, "--out", str(tmp_path / "out"), "--quiet"]) == 1
+    err = capsys.readouterr().err
+    assert "economics.energy_price: cheap: must be a price per energy" in err and "Traceback" not in err
+    assert not (tmp_path / "out").exists()
