@@ -1,0 +1,172 @@
+"""The unit file: a YAML description of a process unit's exchangers, validated before anything is computed.
+
+The format is documented in ``docs/unit-file.md``; its machine-readable form is ``revamp/unit_schema.json``
+(JSON Schema 2020-12, with ``x-kind`` annotations naming the quantity kind of every field that carries a unit).
+
+Two entry points:
+
+* :func:`check` lists **every** problem in a file, each with its path (``exchangers[2].tube_side.flow: -5 kg/s:
+  must be > 0``). It never raises on a bad file and never runs a rating.
+* :func:`load` returns a :class:`Unit` (model objects ready for :func:`revamp.rate` and :func:`revamp.compare`), or
+  raises :class:`UnitFileError` carrying the same list of problems.
+
+Validation runs in four passes: YAML (safe loader only: object tags are refused, duplicate keys reported),
+structure (the JSON schema), quantities (every ``x-kind`` field converted with :func:`revamp.units.to_si` and
+checked against its bounds), then cross-field rules, file paths and the model constructors, whose
+:class:`~revamp.errors.InputError` are turned into problems with the full path in front.
+"""
+from __future__ import annotations
+
+import hashlib
+import re
+from pathlib import Path
+
+from ._building import _build_exchanger, _exchanger_rules
+from ._model import (
+    SCHEMA_PATH,
+    STANDARD_COLUMNS,
+    ExchangerCase,
+    PlantData,
+    Problem,
+    Unit,
+    UnitEconomics,
+    UnitFileError,
+)
+from ._reading import _read_yaml, _schema_problems, _show, _walk, schema
+
+__all__ = [
+    "SCHEMA_PATH",
+    "STANDARD_COLUMNS",
+    "ExchangerCase",
+    "PlantData",
+    "Problem",
+    "Unit",
+    "UnitEconomics",
+    "UnitFileError",
+    "check",
+    "load",
+    "load_partial",
+    "schema",
+]
+
+
+# -------------------------------------------------------------------------------------------------------- entry points
+def _sorted(problems):
+    """File order: by path, numbers compared as numbers (exchangers[2] before exchangers[10])."""
+    key = lambda p: [int(t) if t.isdigit() else t for t in re.split(r"(\d+)", p.path)]
+    return sorted(problems, key=key)
+
+
+def _validate(path, build: bool, only=None):
+    path = Path(path)
+    try:
+        data = path.read_bytes()
+    except OSError as exc:
+        return None, [Problem(str(path), "(file)", f"must be a readable file ({exc.strerror or exc})")]
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError:
+        return None, [Problem(str(path), "(file)", "must be UTF-8 text")]
+    doc, problems = _read_yaml(text)
+    if doc is None and not problems:
+        problems = [Problem("(file)", "(empty)", "must hold a unit: a mapping with 'unit' and 'exchangers'")]
+    if problems and doc is None:
+        return None, problems
+    problems += _schema_problems(doc)
+    if not isinstance(doc, dict):
+        return None, _sorted(problems)
+    econ = doc.get("economics") if isinstance(doc.get("economics"), dict) else {}
+    currency = econ.get("currency") if isinstance(econ.get("currency"), str) else "USD"
+    quantity_problems = []
+    si = _walk(doc, schema(), [], currency, quantity_problems)
+    # one line per place: a field the schema already refused is not reported twice
+    seen = {p.path for p in problems}
+    problems += [p for p in quantity_problems if p.path not in seen]
+    base, tags = path.resolve().parent, {}
+    exchangers = doc.get("exchangers") if isinstance(doc.get("exchangers"), list) else []
+    for i, x in enumerate(exchangers):
+        if isinstance(x, dict):
+            problems += _exchanger_rules(x, ["exchangers", i], base, tags)
+    if not build or any(not _owned([p], None) for p in problems):  # the unit as a whole is wrong: build nothing
+        return None, _sorted(problems)
+    e = si.get("economics") or {}
+    econ = UnitEconomics(
+        currency=currency, energy_price=e.get("energy_price"), heater_efficiency=e.get("heater_efficiency"),
+        hours_per_year=e["hours_per_year"] / 3600.0 if "hours_per_year" in e else None,
+        discount_rate=e.get("discount_rate"),
+        horizon_years=e["horizon"] / (365.25 * 86400.0) if "horizon" in e else None,
+        capacity_margin=e.get("capacity_margin"), cleaning_cost=e.get("cleaning_cost"))
+    built = []
+    for i, x in enumerate(exchangers):
+        if _owned(problems, i) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):
+            continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
+        case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ)
+        if case is not None:
+            built.append(case)
+    problems = [_as_written(p, doc) for p in problems]
+    unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
+                sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc)
+    return unit, _sorted(problems)
+
+
+def _as_written(problem: Problem, doc) -> Problem:
+    """Show a model constructor's complaint with the value as the user wrote it (``12 mm``, not ``0.012``)."""
+    node = doc
+    for name, index in re.findall(r"([A-Za-z_][\w]*)|\[(\d+)\]", problem.path):
+        try:
+            node = node[int(index)] if index else node[name]
+        except (KeyError, IndexError, TypeError, ValueError):
+            return problem
+    if isinstance(node, (str, int, float)) and not isinstance(node, bool):
+        return Problem(problem.path, _show(node), problem.message)
+    return problem
+
+
+def _owned(problems, i) -> bool:
+    """Whether any problem lies inside ``exchangers[i]`` (any exchanger when ``i`` is None)."""
+    pattern = re.compile(r"^exchangers\[\d+\]" if i is None else rf"^exchangers\[{i}\](?:$|[.\[])")
+    return any(pattern.match(p.path) for p in problems)
+
+
+def _entries(unit_or_doc) -> list[tuple[str, int]]:
+    exchangers = unit_or_doc.get("exchangers") if isinstance(unit_or_doc, dict) else None
+    out = []
+    for i, x in enumerate(exchangers if isinstance(exchangers, list) else []):
+        tag = x.get("tag") if isinstance(x, dict) else None
+        out.append((tag if isinstance(tag, str) and tag else f"exchangers[{i}]", i))
+    return out
+
+
+def load_partial(path, only=None):
+    """Load what is valid: ``(unit, problems, entries)``.
+
+    ``unit`` holds the exchangers without problems (``None`` when the file has problems outside its exchangers,
+    e.g. bad YAML or economics); ``problems`` lists every problem; ``entries`` is ``(tag, index)`` for every exchanger
+    of the file in order (an exchanger without a usable tag is named ``exchangers[i]``). The batch uses this so that
+    one broken exchanger never stops the others. ``only``: tags to build (the others are still checked, not built).
+    """
+    unit, problems = _validate(path, build=True, only=set(only) if only is not None else None)
+    return unit, problems, _entries(unit.raw if unit is not None else {})
+
+
+def check(path) -> list[Problem]:
+    """Every problem in the unit file at ``path`` (an empty list when it is valid).
+
+    Builds the model objects (geometry, fluids, streams, options) to let their own checks speak, but never rates.
+    Never raises on a bad file.
+    """
+    return _validate(path, build=True)[1]
+
+
+def load(path) -> Unit:
+    """Load and validate a unit file.
+
+    Raises
+    ------
+    UnitFileError
+        With every problem (``.problems``), when the file is not valid.
+    """
+    unit, problems = _validate(path, build=True)
+    if problems:
+        raise UnitFileError(path, problems)
+    return unit

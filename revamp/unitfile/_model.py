@@ -1,0 +1,118 @@
+"""The objects a loaded unit file is made of, and the problems a bad one has."""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from ..errors import InputError
+
+SCHEMA_PATH = Path(__file__).resolve().parent.parent / "unit_schema.json"
+#: the plant-data columns :func:`revamp.monitor` reads, and the quantity kind of each
+STANDARD_COLUMNS = {"timestamp": None, "shell_flow": "mass_flow", "shell_t_in": "temperature",
+                    "shell_t_out": "temperature", "tube_flow": "mass_flow", "tube_t_in": "temperature",
+                    "tube_t_out": "temperature"}
+
+
+# ------------------------------------------------------------------------------------------------------------ results
+@dataclass(frozen=True)
+class Problem:
+    """One thing wrong with a unit file: where (``path``), what was given (``value``) and what is allowed.
+
+    >>> str(Problem("exchangers[2].tube_side.flow", "-5 kg/s", "must be > 0"))
+    'exchangers[2].tube_side.flow: -5 kg/s: must be > 0'
+    """
+
+    path: str
+    value: str
+    message: str
+
+    def __str__(self) -> str:
+        return f"{self.path}: {self.value}: {self.message}"
+
+
+class UnitFileError(InputError):
+    """A unit file with problems; ``problems`` lists them all, ``str()`` shows them one per line."""
+
+    def __init__(self, path, problems):
+        self.problems = list(problems)
+        text = "\n".join(str(p) for p in self.problems)
+        ValueError.__init__(self, f"{path}: {len(self.problems)} problem(s)\n{text}")
+        self.field, self.value, self.allowed = str(path), None, "a valid unit file"
+
+
+@dataclass(frozen=True)
+class UnitEconomics:
+    """The unit's economic inputs in plain numbers (money in ``currency``)."""
+
+    currency: str = "USD"
+    energy_price: float | None = None      #: [currency/J] fired-heater fuel
+    heater_efficiency: float | None = None  #: [-]
+    hours_per_year: float | None = None     #: [h/yr]
+    discount_rate: float | None = None      #: [-/yr]
+    horizon_years: float | None = None      #: [yr]
+    capacity_margin: float | None = None    #: [currency/kg]
+    cleaning_cost: float | None = None      #: [currency]
+
+
+@dataclass(frozen=True)
+class PlantData:
+    """Where an exchanger's plant data is and how its columns map onto the standard names."""
+
+    file: Path
+    columns: dict           #: standard name -> (CSV column, unit or None)
+    uncertainty: dict       #: {"flow": relative [-], "temperature": absolute [K]} (keys present if given)
+
+
+@dataclass(frozen=True)
+class ExchangerCase:
+    """One exchanger of a unit file, with its model objects built.
+
+    ``service`` is today's service; ``revamp_service`` the service at the revamp conditions (today's if the file gives
+    none); ``target`` a dict with one of ``duty`` [W], ``t_out_shell``/``t_out_tube`` [K], ``UA`` [W/K] (empty if
+    none); ``limits`` the screening limits given in the file (``dp_shell``, ``dp_tube`` [Pa] from each side's
+    ``dp_allowed``, and the ``limits`` section's fields, as :class:`revamp.screening.Limits` takes them); ``options``
+    the option objects in file order, ``capex`` a dict option label -> capex [currency]; ``economics`` the
+    :class:`revamp.economics.Economics` of its study (None when the file gives no energy price).
+    """
+
+    index: int
+    tag: str
+    description: str
+    exchanger: Any
+    service: Any
+    revamp_service: Any
+    throughput: float
+    target: dict
+    limits: dict
+    options: tuple
+    capex: dict
+    plant_data: PlantData | None
+    economics: Any = None
+    raw: dict = field(repr=False, default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Unit:
+    """A loaded unit file: name, economics and exchangers; ``sha256`` is the hash of the file's bytes."""
+
+    name: str
+    description: str
+    path: Path
+    sha256: str
+    economics: UnitEconomics
+    exchangers: tuple
+    raw: dict = field(repr=False, default_factory=dict)
+
+    @property
+    def tags(self) -> list[str]:
+        return [x.tag for x in self.exchangers]
+
+    def exchanger(self, tag: str) -> ExchangerCase:
+        """The exchanger with this tag (InputError listing the tags otherwise)."""
+        for x in self.exchangers:
+            if x.tag == tag:
+                return x
+        raise InputError("tag", tag, f"one of the unit's tags: {', '.join(self.tags)}")
+
+
