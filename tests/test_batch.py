@@ -126,7 +126,7 @@ def test_write_atomic_leaves_no_partial_file(tmp_path, monkeypatch):
     def broken_replace(src, dst):
         raise Boom()
 
-    monkeypatch.setattr(report.os, "replace", broken_replace)
+    monkeypatch.setattr(report.pages.os, "replace", broken_replace)
     with pytest.raises(Boom):
         report.write_atomic(target, "new")
     assert target.read_text() == "old"

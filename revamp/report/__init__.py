@@ -1,0 +1,56 @@
+"""Reports: HTML pages (:mod:`.pages`), one exchanger's study as displayed (:mod:`.case`) and the notebooks'
+interactive controls (:mod:`.widgets`). No physics here.
+"""
+from .case import (
+                   RATING_COLUMNS,
+                   breakdown_figure,
+                   case_header_html,
+                   monitoring_items,
+                   option_breakdown_figure,
+                   ratings_table,
+                   recommendation_html,
+                   rf_figure,
+                   run_case,
+                   show,
+                   study_items,
+                   study_money_table,
+                   study_table,
+                   summary,
+                   unit_figure,
+                   unit_table,
+                   write_summary,
+)
+from .pages import (
+                   CAUTIONS,
+                   PACKAGES,
+                   cautions_html,
+                   copy_plotly_js,
+                   esc,
+                   figure_html,
+                   file_sha256,
+                   page,
+                   plot_text,
+                   plotly_js_source,
+                   provenance,
+                   provenance_html,
+                   safe_name,
+                   table_html,
+                   write_atomic,
+)
+from .widgets import (
+                   primer_sweep,
+                   primer_table,
+                   primer_widget,
+                   what_if,
+                   what_if_widget,
+                   widgets_available,
+)
+
+__all__ = [
+    "CAUTIONS", "PACKAGES", "RATING_COLUMNS", "breakdown_figure", "case_header_html", "cautions_html",
+    "copy_plotly_js", "esc", "figure_html", "file_sha256", "monitoring_items", "option_breakdown_figure", "page",
+    "plot_text", "plotly_js_source", "primer_sweep", "primer_table", "primer_widget", "provenance",
+    "provenance_html", "ratings_table", "recommendation_html", "rf_figure", "run_case", "safe_name", "show",
+    "study_items", "study_money_table", "study_table", "summary", "table_html", "unit_figure", "unit_table",
+    "what_if", "what_if_widget", "widgets_available", "write_atomic", "write_summary",
+]
