@@ -9,6 +9,7 @@ import os
 import re
 import shutil
 import subprocess
+import tempfile
 
 import pytest
 from test_unitfile import make_unit, write_unit
@@ -35,8 +36,11 @@ def _browser():
 
 
 def _run(browser, *args):
+    # the background-networking flags keep a closed-network machine from refusing Chromium's own connections
+    profile = tempfile.mkdtemp(prefix="revamp-chromium-")
     cmd = [browser, "--headless", "--no-sandbox", "--disable-gpu", "--disable-dev-shm-usage", "--hide-scrollbars",
-           "--virtual-time-budget=20000", *args]
+           "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update",
+           "--disable-sync", f"--user-data-dir={profile}", "--virtual-time-budget=20000", *args]
     return subprocess.run(cmd, capture_output=True, text=True, check=False, timeout=180)
 
 
