@@ -6,6 +6,7 @@ no CDN) is the report's business.
 """
 from __future__ import annotations
 
+import html
 import math
 
 import plotly.graph_objects as go
@@ -23,6 +24,16 @@ _STATUS_COLOUR = {"ok": "#4d7ea8", "warn": "#e0a030", "fail": "#b03030", "n/a": 
 _PATTERN = {"ok": "", "warn": "/", "fail": "x", "n/a": "."}
 _RES_COLOUR = {"shell film": "#1b4f72", "shell fouling": "#a04000", "wall": "#7f8c8d", "tube fouling": "#e67e22",
                "tube film": "#5dade2"}
+
+
+def _text(label) -> str:
+    """User text (an option label, a currency) for plotly: ``<``, ``>``, ``&`` escaped so that plotly shows it as
+    written instead of reading tags in it (plotly decodes the entities back for display)."""
+    return html.escape(str(label), quote=False)
+
+
+def _labels(index) -> list:
+    return [_text(k) for k in index]
 
 
 def _conv(values, kind, units):
@@ -46,7 +57,7 @@ def option_comparison(study, units="SI") -> go.Figure:
     units : {"SI", "US"}
     """
     t = study.table
-    labels = list(t.index)
+    labels = _labels(t.index)
     fig = make_subplots(rows=1, cols=2, subplot_titles=("Duty", "Pressure drop"), horizontal_spacing=0.12)
     duty, dlabel = _conv(t["duty"], "power", units)
     status = list(t["screening"])
@@ -88,7 +99,7 @@ def resistance_breakdown(study, share=False) -> go.Figure:
         r = r.div(r.sum(axis=1), axis=0)
     fig = go.Figure()
     for name in r.columns:
-        fig.add_trace(go.Bar(x=list(r.index), y=list(r[name]), name=name, marker_color=_RES_COLOUR.get(name)))
+        fig.add_trace(go.Bar(x=_labels(r.index), y=list(r[name]), name=name, marker_color=_RES_COLOUR.get(name)))
     fig.update_layout(barmode="stack", title="Resistance breakdown (outside area basis)",
                       yaxis_title="share of 1/U [-]" if share else "resistance [m²·K/W]", **_LAYOUT)
     fig.update_xaxes(tickangle=-30, automargin=True)
@@ -108,13 +119,14 @@ def economics_chart(study) -> go.Figure:
         fig.update_layout(title="Economics of the options", xaxis_visible=False, yaxis_visible=False, **_LAYOUT)
         return fig
     t = study.table.drop(index="base")
-    cur = f" [{study.economics.currency}]" if study.economics is not None and study.economics.currency else ""
+    cur = f" [{_text(study.economics.currency)}]" if study.economics.currency else ""
+    labels = _labels(t.index)
     fig = make_subplots(rows=1, cols=2, subplot_titles=("Simple payback", "NPV"), horizontal_spacing=0.12)
     pb = [p if math.isfinite(p) else 0.0 for p in t["payback"]]
     txt = [f"{p:.2g} y" if math.isfinite(p) else "no payback" for p in t["payback"]]
-    fig.add_trace(go.Bar(x=list(t.index), y=pb, text=txt, textposition="outside", marker_color="#4d7ea8",
+    fig.add_trace(go.Bar(x=labels, y=pb, text=txt, textposition="outside", marker_color="#4d7ea8",
                          showlegend=False), row=1, col=1)
-    fig.add_trace(go.Bar(x=list(t.index), y=list(t["npv"]), marker_color=["#4d7ea8" if v >= 0 else "#b03030"
+    fig.add_trace(go.Bar(x=labels, y=list(t["npv"]), marker_color=["#4d7ea8" if v >= 0 else "#b03030"
                                                                         for v in t["npv"].fillna(0)],
                          showlegend=False), row=1, col=2)
     fig.update_yaxes(title_text="payback [years]", row=1, col=1)

@@ -73,3 +73,24 @@ def test_figures_are_self_contained(study):
 
     html = plots.option_comparison(study).to_html(include_plotlyjs=True, full_html=False)
     assert not re.search(r"<script[^>]*\bsrc=", html)
+
+
+def test_user_labels_are_escaped_for_plotly():
+    # plotly reads <b>, <br> ... in axis, legend and hover text as tags; a user's label must show as written, so it
+    # goes in with <, > and & escaped (html.escape(label, quote=False): Python standard library)
+    import html
+    import json
+
+    label = "<b>bold</b> & co"
+    s = rv.compare(EX, SVC, [op.Clean(label=label)],
+                   economics={"energy_price": 6.0, "price_per": "MMBTU", "discount_rate": 0.08,
+                              "currency": "<i>USD</i>", "capex": {label: 30e3}})
+    want = html.escape(label, quote=False)
+    assert want == "&lt;b&gt;bold&lt;/b&gt; &amp; co"
+    figs = [plots.option_comparison(s), plots.resistance_breakdown(s), plots.economics_chart(s)]
+    for fig in figs:
+        xs = [x for tr in fig.data for x in (tr.x or ())]
+        assert want in xs and label not in xs
+        text = json.dumps(fig.to_dict(), default=str)  # plain json: "<" is not escaped (fig.to_json() would)
+        assert "<b>" not in text and "<i>" not in text
+    assert figs[2].layout.yaxis2.title.text == "NPV [&lt;i&gt;USD&lt;/i&gt;]"
