@@ -2,12 +2,16 @@
 
 - :func:`fouling_trend`: fouling resistance against time, the rows used, the Monte Carlo band (daily medians), the
   fitted model and its projection to the end of the run;
-- :func:`heat_balance`: heat-balance closure per row against the tolerance, rows flagged shown apart;
-- :func:`duty_lost`: duty lost to fouling (daily mean) and the energy lost to date.
+- :func:`heat_balance`: heat-balance closure against the tolerance, rows flagged shown apart;
+- :func:`duty_lost`: duty lost to fouling (daily median) and the energy lost to date.
 
-Every function takes ``units="SI"`` or ``"US"`` for the axes.
+:func:`fouling_trend` and :func:`duty_lost` take ``units="SI"`` or ``"US"`` for the axes. Every function takes
+``resample``: ``"D"`` (the default, for static reports: a year of hourly rows drawn as 365 daily points keeps a
+report small) or ``None`` to draw every row (interactive use; WebGL markers).
 """
 from __future__ import annotations
+
+import html
 
 import numpy as np
 import pandas as pd
@@ -25,12 +29,24 @@ def _check(mon):
         raise InputError("monitoring", type(mon).__name__, "a Monitoring from revamp.monitor()")
 
 
-def _daily(tab, cols):
+def _text(label) -> str:
+    """Text for a plotly label: ``<``, ``>``, ``&`` escaped so that plotly shows it as written."""
+    return html.escape(str(label), quote=False)
+
+
+def _per(tab, cols, rule, q=None):
+    """Rows of ``tab`` grouped into periods ``rule`` (a pandas offset alias, e.g. "D"): the median of ``cols`` per
+    period, or the ``q`` quantile; periods without data dropped."""
     t = tab.set_index("timestamp")[cols]
-    return t[t.index.notna()].resample("1D").median().dropna(how="all")
+    g = t[t.index.notna()].resample(rule)
+    return (g.median() if q is None else g.quantile(q)).dropna(how="all")
 
 
-def fouling_trend(mon, units: str = "SI", run_length=None) -> go.Figure:
+def _daily(tab, cols):
+    return _per(tab, cols, "1D")
+
+
+def fouling_trend(mon, units: str = "SI", run_length=None, resample="D") -> go.Figure:
     """Fouling resistance vs time with the band, the fitted model and its projection.
 
     Parameters
@@ -41,24 +57,34 @@ def fouling_trend(mon, units: str = "SI", run_length=None) -> go.Figure:
         Display units.
     run_length : float or None
         Project the model to this run time [s]; default the summary's projection length.
+    resample : str or None
+        Period of the points drawn (pandas offset alias): ``"D"`` (default) draws the median Rf and the median band
+        of each day, which keeps a static report small; ``None`` draws every row.
     """
     _check(mon)
     tab = mon.table
     used = tab[tab["used"]]
     conv = lambda v: from_si(np.asarray(v, dtype=float), "fouling", units)[0]
     label = from_si(1.0, "fouling", units)[1]
-    fig = go.Figure()
-    day = _daily(used, ["Rf", "Rf_low", "Rf_high"])
-    if len(day):
-        fig.add_trace(go.Scatter(x=day.index, y=conv(day["Rf_high"]), mode="lines", line={"width": 0},
-                                 showlegend=False, hoverinfo="skip"))
-        fig.add_trace(go.Scatter(x=day.index, y=conv(day["Rf_low"]), mode="lines", line={"width": 0},
-                                 fill="tonexty", fillcolor="rgba(31,119,180,0.2)", name="band (daily median)"))
-    fig.add_trace(go.Scattergl(x=used["timestamp"], y=conv(used["Rf"]), mode="markers",
-                               marker={"size": 3, "color": "rgba(31,119,180,0.5)"}, name="Rf, steady rows"))
     other = tab[~tab["used"] & np.isfinite(tab["Rf"])]
-    if len(other):
-        fig.add_trace(go.Scattergl(x=other["timestamp"], y=conv(other["Rf"]), mode="markers",
+    if resample:
+        pts, other_pts = _per(used, ["Rf", "Rf_low", "Rf_high"], resample), _per(other, ["Rf"], resample)
+        what = f" ({'daily' if resample in ('D', '1D') else resample} medians)"
+    else:
+        pts, other_pts, what = used.set_index("timestamp"), other.set_index("timestamp"), ""
+    scatter = go.Scatter if resample else go.Scattergl  # WebGL only for the many points of every row
+    fig = go.Figure()
+    if len(pts):
+        fig.add_trace(go.Scatter(x=pts.index, y=conv(pts["Rf_high"]), mode="lines", line={"width": 0},
+                                 showlegend=False, hoverinfo="skip"))
+        fig.add_trace(go.Scatter(x=pts.index, y=conv(pts["Rf_low"]), mode="lines", line={"width": 0},
+                                 fill="tonexty", fillcolor="rgba(31,119,180,0.2)",
+                                 name="band (daily median)" if resample else "band"))
+    fig.add_trace(scatter(x=pts.index, y=conv(pts["Rf"]), mode="markers",
+                               marker={"size": 4 if resample else 3, "color": "rgba(31,119,180,0.6)"},
+                               name="Rf, steady rows"))
+    if len(other_pts):
+        fig.add_trace(scatter(x=other_pts.index, y=conv(other_pts["Rf"]), mode="markers",
                                    marker={"size": 3, "color": "rgba(150,150,150,0.6)", "symbol": "x"},
                                    name="not steady or flagged"))
     if mon.trend is not None and len(used):
@@ -68,23 +94,26 @@ def fouling_trend(mon, units: str = "SI", run_length=None) -> go.Figure:
         t_end = max(t_end, float(used["run_time"].max()))
         rt = np.linspace(0.0, float(used["run_time"].max()), 200)
         fig.add_trace(go.Scatter(x=t0 + pd.to_timedelta(rt, unit="s"), y=conv(mon.trend(rt)), mode="lines",
-                                 line={"color": "black"}, name=f"fit: {mon.trend.model} (lowest AIC)"))
+                                 line={"color": "black"}, name=f"fit: {_text(mon.trend.model)} (lowest AIC)"))
         rp = np.linspace(float(used["run_time"].max()), t_end, 100)
         fig.add_trace(go.Scatter(x=t0 + pd.to_timedelta(rp, unit="s"), y=conv(mon.trend(rp)), mode="lines",
                                  line={"color": "black", "dash": "dash"}, name="projection"))
-    fig.update_layout(title="Fouling resistance from plant data", xaxis_title="time",
+    fig.update_layout(title="Fouling resistance from plant data" + what, xaxis_title="time",
                       yaxis_title=f"Rf, outside area [{label}]", legend={"orientation": "h", "y": -0.2})
     return fig
 
 
-def heat_balance(mon, tolerance=None) -> go.Figure:
-    """Heat-balance closure (hot-side minus cold-side duty over their mean) per row, with the tolerance band.
+def heat_balance(mon, tolerance=None, resample="D") -> go.Figure:
+    """Heat-balance closure (hot-side minus cold-side duty over their mean) against time, with the tolerance band.
 
     Parameters
     ----------
     mon : Monitoring
     tolerance : float or None
         Drawn as ± lines [-]; default read from the flag text of the run (10 % if not found).
+    resample : str or None
+        ``"D"`` (default): the daily median closure of the rows kept with its 5-95 % range of the day, and the daily
+        median of the rows flagged; ``None``: every row.
     """
     _check(mon)
     tab = mon.table
@@ -98,14 +127,32 @@ def heat_balance(mon, tolerance=None) -> go.Figure:
                 except (IndexError, ValueError):
                     pass
     ok = tab["flag"] == ""
-    fig = go.Figure()
-    fig.add_trace(go.Scattergl(x=tab.loc[ok, "timestamp"], y=100 * tab.loc[ok, "balance_error"], mode="markers",
-                               marker={"size": 3}, name="rows kept"))
     bad = ~ok & np.isfinite(tab["balance_error"])
-    if bad.any():
-        fig.add_trace(go.Scattergl(x=tab.loc[bad, "timestamp"], y=100 * tab.loc[bad, "balance_error"],
-                                   mode="markers", marker={"size": 5, "color": "firebrick", "symbol": "x"},
-                                   name="rows flagged"))
+    fig = go.Figure()
+    if resample:
+        kept = tab[ok]
+        med = _per(kept, ["balance_error"], resample)["balance_error"]
+        lo = _per(kept, ["balance_error"], resample, 0.05)["balance_error"].reindex(med.index)
+        hi = _per(kept, ["balance_error"], resample, 0.95)["balance_error"].reindex(med.index)
+        fig.add_trace(go.Scatter(x=med.index, y=100 * hi, mode="lines", line={"width": 0}, showlegend=False,
+                                 hoverinfo="skip"))
+        fig.add_trace(go.Scatter(x=med.index, y=100 * lo, mode="lines", line={"width": 0}, fill="tonexty",
+                                 fillcolor="rgba(31,119,180,0.2)", name="rows kept, 5-95 % of the day"))
+        fig.add_trace(go.Scatter(x=med.index, y=100 * med, mode="lines+markers", marker={"size": 3},
+                                 name="rows kept, daily median" if resample in ("D", "1D") else
+                                 f"rows kept, median per {resample}"))
+        if bad.any():
+            b = _per(tab[bad], ["balance_error"], resample)["balance_error"]
+            fig.add_trace(go.Scatter(x=b.index, y=100 * b, mode="markers",
+                                     marker={"size": 5, "color": "firebrick", "symbol": "x"},
+                                     name="rows flagged, daily median"))
+    else:
+        fig.add_trace(go.Scattergl(x=tab.loc[ok, "timestamp"], y=100 * tab.loc[ok, "balance_error"],
+                                   mode="markers", marker={"size": 3}, name="rows kept"))
+        if bad.any():
+            fig.add_trace(go.Scattergl(x=tab.loc[bad, "timestamp"], y=100 * tab.loc[bad, "balance_error"],
+                                       mode="markers", marker={"size": 5, "color": "firebrick", "symbol": "x"},
+                                       name="rows flagged"))
     for sign in (1, -1):
         fig.add_hline(y=sign * 100 * tol, line={"dash": "dash", "color": "gray"})
     fig.update_layout(title="Heat balance closure (before reconciliation)", xaxis_title="time",
@@ -113,8 +160,12 @@ def heat_balance(mon, tolerance=None) -> go.Figure:
     return fig
 
 
-def duty_lost(mon, units: str = "SI") -> go.Figure:
-    """Duty lost to fouling (clean-exchanger duty minus reconciled duty), daily mean, and energy lost to date."""
+def duty_lost(mon, units: str = "SI", resample="D") -> go.Figure:
+    """Duty lost to fouling (clean-exchanger duty minus reconciled duty), daily median, and energy lost to date.
+
+    ``resample="D"`` (default) draws the energy lost to date at the end of each day; ``None`` at every row. The
+    bars are daily medians either way.
+    """
     _check(mon)
     tab = mon.table
     valid = tab[np.isfinite(tab["duty_lost"]) & (tab["flag"] == "")]
@@ -126,8 +177,11 @@ def duty_lost(mon, units: str = "SI") -> go.Figure:
         t = valid["run_time"].to_numpy()
         dt = np.diff(t, prepend=t[0])
         dt = np.minimum(dt, 3 * np.median(dt[1:]) if len(dt) > 1 else dt)
-        energy = np.cumsum(valid["duty_lost"].to_numpy() * dt) / 1e9
-        fig.add_trace(go.Scatter(x=valid["timestamp"], y=energy, mode="lines", name="energy lost to date [GJ]"),
+        energy = pd.Series(np.cumsum(valid["duty_lost"].to_numpy() * dt) / 1e9,
+                           index=pd.DatetimeIndex(valid["timestamp"]))
+        if resample:
+            energy = energy[energy.index.notna()].resample(resample).last().dropna()
+        fig.add_trace(go.Scatter(x=energy.index, y=energy.to_numpy(), mode="lines", name="energy lost to date [GJ]"),
                       secondary_y=True)
     fig.update_layout(title="Duty lost to fouling", xaxis_title="time", legend={"orientation": "h", "y": -0.2})
     fig.update_yaxes(title_text=f"duty lost [{plabel}]", secondary_y=False)

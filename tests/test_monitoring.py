@@ -388,6 +388,57 @@ def test_figures_build():
         pm.fouling_trend(object())
 
 
+def test_figures_draw_daily_points_or_every_row():
+    # the static reports draw a year of hourly rows as daily points; the expected points are pandas' own resample
+    # of the same table (median per calendar day, quantiles of the day), computed here
+    from revamp import plots_monitoring as pm
+
+    t = np.arange(200) * 3600.0
+    df = _plant(1e-4 + 3e-4 * t / t[-1], n=200, seed=13, flow_noise=0.005, t_noise=0.1)
+    df.loc[[40, 41, 120], "tube_flow"] *= 1.5  # heat balance open by far more than 10 %: flagged rows
+    m = rv.monitor(HX, SERVICE, df, uncertainty={"flow": 0.005, "temperature": 0.1}, mc_draws=20)
+    tab = m.table
+    by_day = lambda rows: rows.set_index("timestamp").resample("D")
+    used = by_day(tab[tab["used"]])[["Rf", "Rf_low", "Rf_high"]].median().dropna(how="all")
+    assert 8 <= len(used) <= 10  # 200 hours: parts of 9 calendar days
+
+    fig = pm.fouling_trend(m)
+    tr = {x.name: x for x in fig.data}
+    assert fig.layout.title.text.endswith("(daily medians)")
+    rf = tr["Rf, steady rows"]
+    assert list(pd.to_datetime(rf.x)) == list(used.index)
+    assert np.asarray(rf.y, float) == pytest.approx(used["Rf"].to_numpy(), rel=1e-12)  # SI display: m²K/W
+    assert np.asarray(tr["band (daily median)"].y, float) == pytest.approx(used["Rf_low"].to_numpy(), rel=1e-12)
+    assert np.asarray(fig.data[0].y, float) == pytest.approx(used["Rf_high"].to_numpy(), rel=1e-12)
+    every = pm.fouling_trend(m, resample=None)
+    assert len(next(x for x in every.data if x.name == "Rf, steady rows").y) == int(tab["used"].sum())
+
+    hb = pm.heat_balance(m)
+    kept = by_day(tab[tab["flag"] == ""])["balance_error"]
+    med = kept.median().dropna()
+    tr = {x.name: x for x in hb.data}
+    assert np.asarray(tr["rows kept, daily median"].y, float) == pytest.approx(100 * med.to_numpy(), rel=1e-12)
+    assert np.asarray(tr["rows kept, 5-95 % of the day"].y, float) == pytest.approx(
+        100 * kept.quantile(0.05).reindex(med.index).to_numpy(), rel=1e-12)
+    assert np.asarray(hb.data[0].y, float) == pytest.approx(100 * kept.quantile(0.95).reindex(med.index).to_numpy(),
+                                                            rel=1e-12)
+    bad = tab[(tab["flag"] != "") & np.isfinite(tab["balance_error"])]
+    assert len(bad) >= 3
+    assert np.asarray(tr["rows flagged, daily median"].y, float) == pytest.approx(
+        100 * by_day(bad)["balance_error"].median().dropna().to_numpy(), rel=1e-12)
+    assert len(pm.heat_balance(m, resample=None).data[0].y) == int((tab["flag"] == "").sum())
+
+    dl = pm.duty_lost(m)
+    valid = tab[np.isfinite(tab["duty_lost"]) & (tab["flag"] == "")]
+    lost = by_day(valid)["duty_lost"].median().dropna()
+    assert np.asarray(dl.data[0].y, float) == pytest.approx(lost.to_numpy() / 1e3, rel=1e-12)  # kW
+    energy_daily, energy_all = dl.data[1], pm.duty_lost(m, resample=None).data[1]
+    assert len(energy_all.y) == len(valid) and len(energy_daily.y) == len(lost)
+    # the daily line is the running total at each day's last row
+    last = pd.Series(np.asarray(energy_all.y, float), index=pd.to_datetime(energy_all.x)).resample("D").last()
+    assert np.asarray(energy_daily.y, float) == pytest.approx(last.dropna().to_numpy(), rel=1e-12)
+
+
 def test_demo_generator_is_invented_reproducible_and_spoiled(monkeypatch):
     import importlib.util
     import pathlib
