@@ -166,3 +166,101 @@ def test_unit_level_problem_stops_the_batch_before_any_run(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "economics.energy_price: cheap: must be a price per energy" in err and "Traceback" not in err
     assert not (tmp_path / "out").exists()
+
+
+# ------------------------------------------------------------------------------- cycle-averaged money in the report
+@pytest.fixture(scope="module")
+def demo_cases():
+    from revamp import unitfile
+    from revamp.cli import demo_unit_path
+
+    unit = unitfile.load(demo_unit_path())
+    return {tag: report.run_case(unit.exchanger(tag), mc_draws=0) for tag in ("E-102", "E-103")}
+
+
+def _option_cases(case):
+    out = {"base": (case.exchanger, case.revamp_service)}
+    out.update({o.label: o.apply(case.exchanger, case.revamp_service) for o in case.options})
+    return out
+
+
+def _direct_cycle_average(ex, svc, model):
+    import revamp as rv
+    from revamp.economics import cycle_average
+
+    # a run of one year (the report's stated default) from clean, no downtime, the study's 21 Simpson points
+    return cycle_average(lambda rf: rv.rate(ex, svc.replace(fouling_tube=rf)).duty, model, "365 day",
+                         points=21).duty_mean
+
+
+def test_cycle_average_of_a_linear_trend_equals_direct_ratings(demo_cases):
+    import numpy as np
+
+    result = demo_cases["E-102"]
+    case, mon, table = result["case"], result["monitoring"], result["study"].table
+    assert mon.trend.model == "linear" and result["cycle"]["side"] == "tube"
+    # the trend is Rf on the outside area; on the tube's own surface the same deposit is Rf·di/do (the rating
+    # refers a tube-side resistance to the outside area by do/di: resistances in series, common practice)
+    ratio = case.exchanger.tube_id / case.exchanger.tube_od
+    model = lambda t: np.maximum(mon.trend(t), 0.0) * ratio
+    direct = {k: _direct_cycle_average(ex, svc, model) for k, (ex, svc) in _option_cases(case).items()}
+    assert table["duty_cycle_avg"].to_dict() == pytest.approx(direct, rel=1e-9)
+    # the money uses the cycle-averaged gain: heat × 8400 h/yr × 9 USD/GJ / 0.85 heater efficiency (the demo
+    # unit file's economics; fuel saved = heat / efficiency, common practice); no capacity flow in the file
+    gain = direct["wire-coil inserts"] - direct["base"]
+    assert table.loc["wire-coil inserts", "annual_value"] == pytest.approx(gain * 8400 * 3600 * 9e-9 / 0.85,
+                                                                           rel=1e-9)
+    text = " ".join(x for x in report.study_items(result) if isinstance(x, str))
+    assert "duty_cycle_avg" in text and "365 days" in text and "tube side" in text and "linear model" in text
+    assert any("duty_cycle_avg" in c for c in report.study_table(result["study"]).columns)
+
+
+def test_cycle_average_of_a_threshold_trend_is_rebuilt_per_option(demo_cases):
+    import numpy as np
+
+    import revamp as rv
+
+    result = demo_cases["E-103"]
+    case, mon, table = result["case"], result["monitoring"], result["study"].table
+    assert mon.trend.model == "threshold"
+    p, c = mon.trend.params, mon.trend.conditions
+    ratio = case.exchanger.tube_id / case.exchanger.tube_od
+    direct = {}
+    for label, (ex, svc) in _option_cases(case).items():
+        r = rv.rate(ex, svc.replace(fouling_tube=0.0))  # the option clean on the fouling side
+        t_bulk = 0.5 * (float(svc.tube.t_in) + float(r.t_out_tube))
+        t_film = t_bulk + 0.55 * (float(r.t_wall_tube) - t_bulk)  # Ebert & Panchal 1995 weighting, from memory
+        # dRf/dt = α_ref·Re^β·Pr^-0.33·exp(-E/R·(1/T_film - 1/T_ref)) - γ·τ_w (Ebert & Panchal 1995), R = 8.314462618
+        # J/mol/K (CODATA 2018); a net removal is taken as no growth (the report's stated rule)
+        rate = p["alpha_ref"] * float(r.Re_tube) ** c["beta"] * float(r.Pr_tube) ** -0.33 \
+            * np.exp(-p["E"] / 8.314462618 * (1 / t_film - 1 / c["T_ref"])) - p["gamma"] * float(r.shear_tube)
+        growth = max(rate, 0.0)
+        direct[label] = _direct_cycle_average(ex, svc, lambda t, g=growth: ratio * (max(p["Rf0"], 0.0) + g * t))
+    assert table["duty_cycle_avg"].to_dict() == pytest.approx(direct, rel=1e-9)
+    text = " ".join(x for x in report.study_items(result) if isinstance(x, str))
+    assert "threshold model rebuilt" in text
+
+
+def test_fouling_side_is_the_larger_design_resistance_on_the_outside_area():
+    import revamp as rv
+    from revamp.report.case import fouling_side
+
+    oil = rv.fluids.constant(density=850.0, heat_capacity=2200.0, viscosity=2e-3, conductivity=0.12)
+    ex = rv.ShellAndTube(shell_id="0.5 m", tube_od="19.05 mm", tube_wall="2.11 mm", tube_length="5 m",
+                         tube_count=200, tube_passes=2, tube_pitch="25.4 mm", layout=90, baffle_spacing="0.3 m",
+                         baffle_cut=0.25)
+    svc = rv.Service(shell=rv.Stream(oil, 10.0, 420.0), tube=rv.Stream(oil, 12.0, 300.0))
+    do, di = 19.05e-3, 19.05e-3 - 2 * 2.11e-3
+    # 3.5e-4 on the tube's own surface is 3.5e-4·do/di = 4.47e-4 on the outside area: more than 4e-4 on the shell
+    assert fouling_side(rv.rate(ex, svc.replace(fouling_shell=4e-4, fouling_tube=3.5e-4)))[0] == "tube"
+    assert 3.5e-4 * do / di > 4e-4
+    # 3e-4 inside is 3.83e-4 outside: less than 4e-4
+    side, why = fouling_side(rv.rate(ex, svc.replace(fouling_shell=4e-4, fouling_tube=3e-4)))
+    assert side == "shell" and 3e-4 * do / di < 4e-4 and "does not say" in why
+    assert fouling_side(rv.rate(ex, svc))[0] == "tube"  # no fouling at all: a tie, the tube side
+
+
+def test_no_plant_data_no_cycle(batch_run):
+    # the batch's units have no plant data: the report keeps the snapshot money and says nothing of a cycle
+    text = (batch_run["out"] / f"{report.safe_name(NASTY)}.html").read_text(encoding="utf-8")
+    assert "duty_cycle_avg" not in text and "The options side by side" in text

@@ -9,13 +9,89 @@ import json
 
 from .pages import esc, figure_html, plot_text, table_html, write_atomic
 
+#: Run length between cleanings taken for the cycle-averaged duty when the unit file gives none [day].
+DEFAULT_RUN_LENGTH_DAYS = 365.0
+
+
+def fouling_side(rating) -> tuple:
+    """Where the deposit is taken to form, and why, as ``(side, reason)``.
+
+    The unit file has no field for it, so the side with the larger design fouling resistance is taken, compared on
+    the outside-area basis of the resistance breakdown (``rating.resistances``); a tie goes to the tube side.
+    """
+    shell, tube = (float(rating.resistances[f"{s} fouling"]) for s in ("shell", "tube"))
+    side = "shell" if shell > tube else "tube"
+    values = f"{shell * 1e4:.2f} shell vs {tube * 1e4:.2f} tube, 10⁻⁴ m²·K/W on the outside area"
+    rule = "its design fouling resistance is the larger" if shell != tube else "the design fouling resistances are equal"
+    return side, f"the unit file does not say which side fouls, so the {side} side is taken: {rule} ({values})"
+
+
+def cycle_fouling(trend, side: str, ratio: float, rating=None):
+    """The fitted plant-data trend as a fouling model Rf(t) for a run from clean [m²K/W on the side's own surface].
+
+    ``ratio`` converts the trend's outside-area Rf to the side's own surface (tube side: di/do of the exchanger the
+    data come from, so the same deposit; shell side: 1). A linear or asymptotic trend is used as it was fitted,
+    whatever the option (it knows nothing of velocity). A threshold trend (Ebert & Panchal 1995) is rebuilt at the
+    clean ``rating`` of each option: its fitted Rf0, alpha_ref, E, gamma, with the rating's tube-side Re, Pr, wall
+    shear and film temperature (T_b + 0.55·(T_w − T_b)), held for the run; a net rate below zero (removal beats
+    deposition) is taken as no growth. Negative Rf from a fit is clipped to 0.
+
+    References
+    ----------
+    Ebert, W., Panchal, C. B. (1995). Analysis of Exxon crude-oil-slip-stream coking data.
+    """
+    import numpy as np
+
+    from ..fouling.models import film_temperature, threshold_rate
+
+    if trend.model == "threshold" and side == "tube" and rating is not None:
+        p, c = trend.params, trend.conditions
+        t_bulk = 0.5 * (float(rating.service.tube.t_in) + float(rating.t_out_tube))
+        growth = max(float(threshold_rate(float(rating.Re_tube), float(rating.Pr_tube),
+                                          film_temperature(t_bulk, float(rating.t_wall_tube)),
+                                          float(rating.shear_tube), p["alpha_ref"], p["E"], p["gamma"],
+                                          c["beta"], c["T_ref"])), 0.0)
+        rf0 = max(float(p["Rf0"]), 0.0)
+        return lambda t: ratio * (rf0 + growth * np.asarray(t, dtype=float))
+    return lambda t: ratio * np.maximum(np.asarray(trend(np.asarray(t, dtype=float)), dtype=float), 0.0)
+
+
+def cycle_settings(case, monitoring, side: str, why: str) -> dict | None:
+    """The ``cycle`` argument of :func:`revamp.compare` from the plant-data trend (None without a trend), with the
+    sentence the report shows about it under ``"text"``."""
+    trend = getattr(monitoring, "trend", None)
+    if trend is None:
+        return None
+    ex = case.exchanger
+    ratio = float(ex.tube_id) / float(ex.tube_od) if side == "tube" else 1.0
+    days = DEFAULT_RUN_LENGTH_DAYS
+    cycle = {"side": side, "run_length": days * 86400.0, "downtime": 0.0}
+    if trend.model == "threshold" and side == "tube":
+        cycle["fouling_for"] = lambda rating: cycle_fouling(trend, side, ratio, rating)
+        how = ("threshold model rebuilt at each option's own clean tube velocity, wall shear and film temperature, "
+               "so an option that raises velocity fouls more slowly; where removal beats deposition the deposit "
+               "is taken not to grow")
+    else:
+        cycle["fouling"] = cycle_fouling(trend, side, ratio)
+        how = (f"{trend.model} model used as fitted for every option (it does not depend on velocity, so it "
+               f"cannot credit an option that fouls more slowly)")
+    cycle["text"] = (f"duty_cycle_avg: the duty averaged over a run from clean to the next cleaning, with the "
+                     f"{side}-side fouling growing as the plant-data trend says; value, payback and NPV use it "
+                     f"instead of the snapshot duty. Run length {days:.0f} days (the unit file gives none, so one "
+                     f"year is taken), no cleaning downtime counted; the other side keeps its design fouling. "
+                     f"Fouling model: {how}. Side: {why}. Every run starts clean, so cleaning the {side} side earns "
+                     f"nothing here.")
+    return cycle
+
 
 def run_case(case, mc_draws: int = 100):
     """Everything a report on one exchanger shows, computed by the package (the notebooks only display it).
 
     Returns a dict: ``today``, ``today_clean``, ``revamp``, ``revamp_clean`` (Ratings), ``monitoring``
-    (:class:`revamp.Monitoring` or None, with ``monitoring_error`` when the plant data could not be used) and
-    ``study`` (:class:`revamp.Study` at the revamp conditions, or None when the file lists no option).
+    (:class:`revamp.Monitoring` or None, with ``monitoring_error`` when the plant data could not be used),
+    ``fouling_side`` (``(side, reason)``), ``cycle`` (the cycle settings of :func:`cycle_settings`, None without a
+    fitted trend; ``cycle_error`` when the cycle-averaged study failed and the snapshot study was kept) and ``study``
+    (:class:`revamp.Study` at the revamp conditions, or None when the file lists no option).
     """
     import revamp as rv
 
@@ -24,19 +100,31 @@ def run_case(case, mc_draws: int = 100):
     out["today_clean"] = rv.rate(case.exchanger, case.service.clean())
     out["revamp"] = rv.rate(case.exchanger, case.revamp_service)
     out["revamp_clean"] = rv.rate(case.exchanger, case.revamp_service.clean())
-    out["monitoring"], out["monitoring_error"] = None, None
+    out["fouling_side"] = side, why = fouling_side(out["today"])
+    out["monitoring"], out["monitoring_error"], out["cycle"], out["cycle_error"] = None, None, None, None
     if case.plant_data is not None:
         try:
             out["monitoring"] = rv.monitor(case.exchanger, case.service, case.plant_data.file,
                                            columns=case.plant_data.columns,
-                                           uncertainty=case.plant_data.uncertainty or None, mc_draws=mc_draws)
+                                           uncertainty=case.plant_data.uncertainty or None, mc_draws=mc_draws,
+                                           fouling_side=side)
         except Exception as exc:  # plant data is evidence, not a precondition: the study goes on without it
             out["monitoring_error"] = f"{exc.__class__.__name__}: {exc}"
+        else:
+            out["cycle"] = cycle_settings(case, out["monitoring"], side, why)
     out["study"] = None
     if case.options:
-        out["study"] = rv.compare(case.exchanger, case.service, list(case.options), target=case.target or None,
-                                  limits=case.limits or None, economics=case.economics,
-                                  revamp=case.revamp_service)
+        kwargs = {"target": case.target or None, "limits": case.limits or None, "economics": case.economics,
+                  "revamp": case.revamp_service}
+        cycle = {k: v for k, v in (out["cycle"] or {}).items() if k != "text"} or None
+        try:
+            out["study"] = rv.compare(case.exchanger, case.service, list(case.options), cycle=cycle, **kwargs)
+        except Exception as exc:
+            if cycle is None:
+                raise
+            # the cycle average is an extra: when a rating along the run fails, keep the snapshot comparison
+            out["cycle_error"] = f"{exc.__class__.__name__}: {exc}"
+            out["study"] = rv.compare(case.exchanger, case.service, list(case.options), **kwargs)
     return out
 
 
@@ -254,11 +342,20 @@ def study_items(result: dict, system: str = "SI") -> list:
         return ["The unit file lists no option for this exchanger."]
     from .. import plots
 
-    return [study_table(study, system), study_money_table(study), plots.option_comparison(study, system),
-            plots.resistance_breakdown(study), plots.economics_chart(study)]
+    items = [study_table(study, system), study_money_table(study)]
+    if "duty_cycle_avg" in study.table:
+        items.append((result.get("cycle") or {}).get("text") or
+                     "duty_cycle_avg: the duty averaged over a run between cleanings; value, payback and NPV use it.")
+    elif result.get("cycle_error"):
+        items.append(f"No cycle-averaged duty (snapshot duties used for the money): {result['cycle_error']}.")
+    elif result.get("monitoring") is not None:
+        items.append("No cycle-averaged duty: no fouling trend could be fitted to the plant data; value, payback "
+                     "and NPV use the snapshot duties.")
+    return items + [plots.option_comparison(study, system), plots.resistance_breakdown(study),
+                    plots.economics_chart(study)]
 
 
-_STUDY_COLUMNS = [("duty", "power"), ("duty_gain", "power"), ("U_service", "htc"), ("t_out_shell", "temperature"),
+_STUDY_COLUMNS = [("duty", "power"), ("duty_gain", "power"), ("duty_cycle_avg", "power"), ("U_service", "htc"), ("t_out_shell", "temperature"),
                   ("t_out_tube", "temperature"), ("dp_shell", "pressure"), ("dp_tube", "pressure"),
                   ("velocity_tube", "velocity"), ("velocity_shell", "velocity")]
 
