@@ -67,14 +67,16 @@ def option_comparison(study, units="SI") -> go.Figure:
                          text=[s for s in status], textposition="outside"), row=1, col=1)
     if study.target is not None and study.target.kind == "duty":
         tv, _ = _conv([study.target.value], "power", units)
-        fig.add_hline(y=tv[0], line={"dash": "dash", "color": "black"}, annotation_text="target", row=1, col=1)
+        fig.add_hline(y=tv[0], line={"dash": "dash", "color": "black", "width": 2}, opacity=1.0,
+                      annotation_text="target", row=1, col=1)
     for side, colour, pattern in (("shell", "#1b4f72", ""), ("tube", "#5dade2", "/")):
         dp, plabel = _conv(t[f"dp_{side}"], "pressure", units)
         fig.add_trace(go.Bar(x=labels, y=dp, name=f"ΔP {side}", marker={"color": colour, "pattern_shape": pattern}),
                       row=1, col=2)
         allowed, _ = _conv([_allowed(study, side)], "pressure", units)
-        fig.add_hline(y=allowed[0], line={"dash": "dot" if side == "shell" else "dash", "color": colour},
-                      annotation_text=f"allowed {side}", row=1, col=2)
+        # width and opacity given: the simple_white template draws shapes with no line (width 0) at 30 % opacity
+        fig.add_hline(y=allowed[0], line={"dash": "dot" if side == "shell" else "dash", "color": colour, "width": 2},
+                      opacity=1.0, annotation_text=f"allowed {side}", row=1, col=2)
     fig.update_yaxes(title_text=f"duty [{dlabel}]", row=1, col=1)
     fig.update_yaxes(title_text=f"ΔP [{plabel}]", row=1, col=2)
     title = "Options at the revamp conditions"

@@ -35,6 +35,9 @@ def test_option_comparison(study):
     lines = [s for s in fig.layout.shapes if s.type == "line"]
     assert any(s.y0 == pytest.approx(1600.0) for s in lines)  # the target, kW
     assert any(s.y0 == pytest.approx(100.0) for s in lines)   # allowed tube dp, kPa
+    # the simple_white template's shape default is a line of width 0 (plotly's template): each line must set its own
+    assert fig.layout.template.layout.shapedefaults.line.width == 0
+    assert all(s.line.width and s.line.width > 0 and s.opacity == 1.0 for s in lines)
     us = plots.option_comparison(study, units="US")
     assert list(us.data[0].y) == pytest.approx([ureg.Quantity(v, "W").to("BTU/h").magnitude
                                                 for v in study.table["duty"]])
