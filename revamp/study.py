@@ -178,7 +178,9 @@ def _reason(row, checks, target, economics):
     return "; ".join(parts)
 
 
-def _cycle(cycle, ex, svc, rate, shell_method):
+def _cycle(cycle, ex, svc, rate, shell_method, start=0.0):
+    """Duty averaged over a run; ``start`` [s] is how far into its run the exchanger already is (the base case
+    goes on fouling from where it stands; an option, installed at a shutdown, starts clean)."""
     side = cycle.get("side", "tube")
     if "run_length" not in cycle:
         raise InputError("cycle.run_length", None, "a run length between cleanings, e.g. '365 day'")
@@ -189,6 +191,11 @@ def _cycle(cycle, ex, svc, rate, shell_method):
         model = cycle["fouling_for"](rate(ex, svc.replace(**{f"fouling_{side}": 0.0}), shell_method=shell_method))
     if model is None:
         raise InputError("cycle.fouling", None, "a fouling model Rf(t) (or 'fouling_for': rating -> model)")
+    if start:
+        fitted = model if callable(model) else model.Rf
+
+        def model(t, _fitted=fitted, _start=float(start)):
+            return _fitted(np.asarray(t, dtype=float) + _start)
 
     def duty_at(rf):
         return rate(ex, svc.replace(**{f"fouling_{side}": np.asarray(rf, float)}), shell_method=shell_method).duty
@@ -222,7 +229,9 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
     cycle : dict, optional
         Cycle-averaged duty: ``{"fouling": model Rf(t), "run_length": "365 day", "downtime": "10 day",
         "side": "tube"}`` (or ``"fouling_for": rating -> model`` for a model that depends on each option's clean
-        velocity and wall shear). When given, the annual value uses the cycle-averaged duties.
+        velocity and wall shear). When given, the annual value uses the cycle-averaged duties. ``"base_age"``
+        (time since the last cleaning, e.g. from plant data) lets the base case go on fouling from where it stands,
+        while every option, installed at a shutdown, starts its run clean; without it the base also starts clean.
     shell_method : str
         Passed to :func:`revamp.rate`.
 
@@ -261,7 +270,8 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
         rows[label] = _row(rating, checks[label])
         rows[label]["meets_target"] = bool(tgt.met(rating)) if tgt is not None else True
         if cycle is not None:
-            rows[label]["duty_cycle_avg"] = _cycle(cycle, ex, svc, rate, shell_method)
+            start = to_si(cycle.get("base_age", 0.0), "time", "cycle.base_age") if label == "base" else 0.0
+            rows[label]["duty_cycle_avg"] = _cycle(cycle, ex, svc, rate, shell_method, start)
     base_duty = rows["base"]["duty_cycle_avg" if cycle is not None else "duty"]
     # capacity is gained only when the base case is the bottleneck (misses the target or fails a limit)
     base_ok = tgt is None or (rows["base"]["meets_target"] and rows["base"]["screening"] != "fail")

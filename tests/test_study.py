@@ -165,3 +165,25 @@ def test_cycle_fouling_for_sees_each_option_clean():
     assert [f for f, _ in seen] == [0.0, 0.0]
     assert seen[1][1] == pytest.approx(seen[0][1] / 2, rel=1e-6)  # half the flow per train
     assert np.isfinite(s.table["duty_cycle_avg"]).all()
+
+
+def test_base_goes_on_fouling_from_its_age_while_options_start_clean():
+    # with base_age, the base case's run is the fitted law from t = age on (no shutdown), and each option, installed
+    # at a shutdown, starts clean: check both against economics.cycle_average on direct ratings (Epstein 1979 mean)
+    def model(t):
+        return 2e-4 + 1e-11 * np.asarray(t, dtype=float)
+
+    age = 200 * 86400.0
+    s = rv.compare(EX, SVC, [op.Clean(side="tube")], cycle={"fouling": model, "run_length": "365 day", "points": 5,
+                                                              "base_age": "200 day"})
+
+    def duty_at(rf):
+        return rv.rate(EX, SVC.replace(fouling_tube=rf)).duty
+
+    base = ec.cycle_average(duty_at, lambda t: model(np.asarray(t) + age), "365 day", points=5).duty_mean
+    fresh = ec.cycle_average(duty_at, model, "365 day", points=5).duty_mean
+    assert s.table.loc["base", "duty_cycle_avg"] == pytest.approx(base, rel=1e-9)
+    clean_label = [lbl for lbl in s.table.index if lbl != "base"][0]
+    assert s.table.loc[clean_label, "duty_cycle_avg"] == pytest.approx(fresh, rel=1e-9)
+    # a fresh run beats one that starts 200 days fouled: cleaning earns something (monotonic in Rf)
+    assert fresh > base

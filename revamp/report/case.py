@@ -7,6 +7,8 @@ from __future__ import annotations
 
 import json
 
+import numpy as np
+
 from .pages import esc, figure_html, plot_text, table_html, write_atomic
 
 #: Run length between cleanings taken for the cycle-averaged duty when the unit file gives none [day].
@@ -66,6 +68,9 @@ def cycle_settings(case, monitoring, side: str, why: str) -> dict | None:
     ratio = float(ex.tube_id) / float(ex.tube_od) if side == "tube" else 1.0
     days = DEFAULT_RUN_LENGTH_DAYS
     cycle = {"side": side, "run_length": days * 86400.0, "downtime": 0.0}
+    run_time = monitoring.table["run_time"].to_numpy(dtype=float)
+    age = float(np.nanmax(run_time)) if np.isfinite(run_time).any() else 0.0
+    cycle["base_age"] = max(age, 0.0)
     if trend.model == "threshold" and side == "tube":
         cycle["fouling_for"] = lambda rating: cycle_fouling(trend, side, ratio, rating)
         how = ("threshold model rebuilt at each option's own clean tube velocity, wall shear and film temperature, "
@@ -79,8 +84,9 @@ def cycle_settings(case, monitoring, side: str, why: str) -> dict | None:
                      f"{side}-side fouling growing as the plant-data trend says; value, payback and NPV use it "
                      f"instead of the snapshot duty. Run length {days:.0f} days (the unit file gives none, so one "
                      f"year is taken), no cleaning downtime counted; the other side keeps its design fouling. "
-                     f"Fouling model: {how}. Side: {why}. Every run starts clean, so cleaning the {side} side earns "
-                     f"nothing here.")
+                     f"Fouling model: {how}. Side: {why}. Doing nothing, the base case goes on fouling from where "
+                     f"the plant data leave it ({age / 86400.0:.0f} days into its run); every option is installed at "
+                     f"a shutdown and starts its run clean.")
     return cycle
 
 
