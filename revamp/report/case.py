@@ -15,17 +15,26 @@ from .pages import esc, figure_html, plot_text, table_html, write_atomic
 DEFAULT_RUN_LENGTH_DAYS = 365.0
 
 
-def fouling_side(rating) -> tuple:
+def fouling_side(rating, given: str | None = None, where: str = "plant_data.fouling_side") -> tuple:
     """Where the deposit is taken to form, and why, as ``(side, reason)``.
 
-    The unit file has no field for it, so the side with the larger design fouling resistance is taken, compared on
-    the outside-area basis of the resistance breakdown (``rating.resistances``); a tie goes to the tube side.
+    ``given`` is the side the unit file names (``where`` says which field); the reason then starts "from the unit
+    file". Without it the side with the larger design fouling resistance is taken, compared on the outside-area
+    basis of the resistance breakdown (``rating.resistances``); a tie goes to the tube side, and the reason starts
+    "inferred:".
     """
+    if given is not None:
+        if given not in ("shell", "tube"):
+            from ..errors import InputError
+
+            raise InputError("fouling_side", given, "'shell' or 'tube'")
+        return given, f"from the unit file ({where}: {given})"
     shell, tube = (float(rating.resistances[f"{s} fouling"]) for s in ("shell", "tube"))
     side = "shell" if shell > tube else "tube"
     values = f"{shell * 1e4:.2f} shell vs {tube * 1e4:.2f} tube, 10⁻⁴ m²·K/W on the outside area"
     rule = "its design fouling resistance is the larger" if shell != tube else "the design fouling resistances are equal"
-    return side, f"the unit file does not say which side fouls, so the {side} side is taken: {rule} ({values})"
+    return side, (f"inferred: the unit file does not say which side fouls (plant_data.fouling_side), so the {side} "
+                  f"side is taken: {rule} ({values})")
 
 
 def cycle_fouling(trend, side: str, ratio: float, rating=None):
@@ -66,8 +75,12 @@ def cycle_settings(case, monitoring, side: str, why: str) -> dict | None:
         return None
     ex = case.exchanger
     ratio = float(ex.tube_id) / float(ex.tube_od) if side == "tube" else 1.0
-    days = DEFAULT_RUN_LENGTH_DAYS
-    cycle = {"side": side, "run_length": days * 86400.0, "downtime": 0.0}
+    given = getattr(case, "cycle_from", None) or {}
+    run_length = getattr(case, "run_length", None)
+    run_length = float(run_length) if run_length is not None else DEFAULT_RUN_LENGTH_DAYS * 86400.0
+    downtime = getattr(case, "cleaning_downtime", None)
+    downtime = float(downtime) if downtime is not None else 0.0
+    cycle = {"side": side, "run_length": run_length, "downtime": downtime}
     run_time = monitoring.table["run_time"].to_numpy(dtype=float)
     age = float(np.nanmax(run_time)) if np.isfinite(run_time).any() else 0.0
     cycle["base_age"] = max(age, 0.0)
@@ -82,12 +95,27 @@ def cycle_settings(case, monitoring, side: str, why: str) -> dict | None:
                f"cannot credit an option that fouls more slowly)")
     cycle["text"] = (f"duty_cycle_avg: the duty averaged over a run from clean to the next cleaning, with the "
                      f"{side}-side fouling growing as the plant-data trend says; value, payback and NPV use it "
-                     f"instead of the snapshot duty. Run length {days:.0f} days (the unit file gives none, so one "
-                     f"year is taken), no cleaning downtime counted; the other side keeps its design fouling. "
+                     f"instead of the snapshot duty. {_cycle_time_text(run_length, downtime, given)}; the other side "
+                     f"keeps its design fouling. "
                      f"Fouling model: {how}. Side: {why}. Doing nothing, the base case goes on fouling from where "
                      f"the plant data leave it ({age / 86400.0:.0f} days into its run); every option is installed at "
                      f"a shutdown and starts its run clean.")
     return cycle
+
+
+def _cycle_time_text(run_length: float, downtime: float, given: dict) -> str:
+    """The sentence on the run length and the cleaning downtime [s], saying where each came from."""
+    days = lambda s: f"{s / 86400.0:.4g} days"
+    if "run_length" in given:
+        run = f"Run length {days(run_length)} (from the unit file, {given['run_length']})"
+    else:
+        run = f"Run length {days(run_length)} (the unit file gives none, so one year is taken)"
+    if "cleaning_downtime" in given:
+        down = (f"cleaning downtime {days(downtime)} per run, counted with no duty (from the unit file, "
+                f"{given['cleaning_downtime']})")
+    else:
+        down = "no cleaning downtime counted (the unit file gives none)"
+    return f"{run}, {down}"
 
 
 def run_case(case, mc_draws: int = 100):
@@ -106,7 +134,8 @@ def run_case(case, mc_draws: int = 100):
     out["today_clean"] = rv.rate(case.exchanger, case.service.clean())
     out["revamp"] = rv.rate(case.exchanger, case.revamp_service)
     out["revamp_clean"] = rv.rate(case.exchanger, case.revamp_service.clean())
-    out["fouling_side"] = side, why = fouling_side(out["today"])
+    where = (getattr(case, "cycle_from", None) or {}).get("fouling_side", "plant_data.fouling_side")
+    out["fouling_side"] = side, why = fouling_side(out["today"], getattr(case, "fouling_side", None), where)
     out["monitoring"], out["monitoring_error"], out["cycle"], out["cycle_error"] = None, None, None, None
     if case.plant_data is not None:
         try:

@@ -95,7 +95,8 @@ def _validate(path, build: bool, only=None):
         hours_per_year=e["hours_per_year"] / 3600.0 if "hours_per_year" in e else None,
         discount_rate=e.get("discount_rate"),
         horizon_years=e["horizon"] / (365.25 * 86400.0) if "horizon" in e else None,
-        capacity_margin=e.get("capacity_margin"), cleaning_cost=e.get("cleaning_cost"))
+        capacity_margin=e.get("capacity_margin"), cleaning_cost=e.get("cleaning_cost"),
+        run_length=e.get("run_length"), cleaning_downtime=e.get("cleaning_downtime"))
     built = []
     for i, x in enumerate(exchangers):
         if _owned(problems, i) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):

@@ -235,16 +235,36 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         for std in STANDARD_COLUMNS:
             spec = (pd.get("columns") or {}).get(std, std)
             cols[std] = (spec, None) if isinstance(spec, str) else (spec["column"], spec.get("unit"))
-        plant = PlantData(file=full, columns=cols, uncertainty=dict(pd.get("uncertainty") or {}))
+        plant = PlantData(file=full, columns=cols, uncertainty=dict(pd.get("uncertainty") or {}),
+                          fouling_side=pd.get("fouling_side"), run_length=pd.get("run_length"),
+                          cleaning_downtime=pd.get("cleaning_downtime"))
     economics = _guard(problems, f"{pre}.options", _economics, econ, capex, rv.get("capacity_flow"))
     if len(problems) > start:
         return None
     limits = {f"dp_{side}": si[f"{side}_side"]["dp_allowed"] for side in ("shell", "tube")
               if "dp_allowed" in si[f"{side}_side"]}
     limits.update(si.get("limits") or {})
+    cycle, cycle_from = _cycle_fields(i, si, econ)
     return ExchangerCase(index=i, tag=x["tag"], description=x.get("description", ""), exchanger=exchanger,
                          service=service, revamp_service=revamp_service, throughput=throughput,
                          target=dict(rv.get("target") or {}), limits=limits, options=tuple(opts), capex=capex,
-                         plant_data=plant, economics=economics, raw=x)
+                         plant_data=plant, economics=economics, **cycle, cycle_from=cycle_from, raw=x)
+
+
+def _cycle_fields(i: int, si: dict, econ: UnitEconomics):
+    """The fouling side, run length and cleaning downtime the file gives this exchanger (its ``plant_data`` first,
+    then the unit's ``economics``), and the path each came from; None where the file says nothing."""
+    pd = si.get("plant_data") or {}
+    values, where = {"fouling_side": pd.get("fouling_side")}, {}
+    if values["fouling_side"] is not None:
+        where["fouling_side"] = f"exchangers[{i}].plant_data.fouling_side"
+    for name in ("run_length", "cleaning_downtime"):
+        if pd.get(name) is not None:
+            values[name], where[name] = float(pd[name]), f"exchangers[{i}].plant_data.{name}"
+        elif getattr(econ, name) is not None:
+            values[name], where[name] = float(getattr(econ, name)), f"economics.{name}"
+        else:
+            values[name] = None
+    return values, where
 
 

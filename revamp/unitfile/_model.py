@@ -53,6 +53,8 @@ class UnitEconomics:
     horizon_years: float | None = None      #: [yr]
     capacity_margin: float | None = None    #: [currency/kg]
     cleaning_cost: float | None = None      #: [currency]
+    run_length: float | None = None         #: [s] between cleanings, for the cycle-averaged duty
+    cleaning_downtime: float | None = None  #: [s] out of service per cleaning
 
 
 @dataclass(frozen=True)
@@ -62,6 +64,9 @@ class PlantData:
     file: Path
     columns: dict           #: standard name -> (CSV column, unit or None)
     uncertainty: dict       #: {"flow": relative [-], "temperature": absolute [K]} (keys present if given)
+    fouling_side: str | None = None        #: "shell" or "tube" as the file says; None: not given (inferred)
+    run_length: float | None = None        #: [s] this exchanger's own, overriding the unit's economics
+    cleaning_downtime: float | None = None  #: [s] this exchanger's own, overriding the unit's economics
 
 
 @dataclass(frozen=True)
@@ -74,6 +79,10 @@ class ExchangerCase:
     ``dp_allowed``, and the ``limits`` section's fields, as :class:`revamp.screening.Limits` takes them); ``options``
     the option objects in file order, ``capex`` a dict option label -> capex [currency]; ``economics`` the
     :class:`revamp.economics.Economics` of its study (None when the file gives no energy price).
+
+    ``fouling_side`` (``"shell"``/``"tube"``), ``run_length`` and ``cleaning_downtime`` [s] are what the file says
+    for this exchanger's fouling cycle (the exchanger's ``plant_data`` first, then the unit's ``economics``), None
+    where it says nothing; ``cycle_from`` names the file path each given value came from.
     """
 
     index: int
@@ -89,6 +98,10 @@ class ExchangerCase:
     capex: dict
     plant_data: PlantData | None
     economics: Any = None
+    fouling_side: str | None = None
+    run_length: float | None = None
+    cleaning_downtime: float | None = None
+    cycle_from: dict = field(default_factory=dict)
     raw: dict = field(repr=False, default_factory=dict)
 
 
