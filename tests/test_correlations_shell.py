@@ -302,3 +302,49 @@ def test_kern_h_by_hand():
     # Kern (1950): ho De/k = 0.36 Re^0.55 Pr^(1/3) (mu/mu_w)^0.14
     assert r.h == pytest.approx(0.36 * PROPS["k"] / de * re ** 0.55 * pr ** (1 / 3) * (0.4 / 0.6) ** 0.14)
     assert kern(g, 0.05, **PROPS).warnings  # Re below 2000
+
+
+# ---------------------------------------------------------------------------------------------- printed forms
+@pytest.mark.parametrize("changes", GEOMS)
+def test_geometry_matches_the_degree_forms_printed_in_data_book_iii(changes):
+    # Taborek (1983) as printed in Thome, Engineering Data Book III (Wolverine Tube), ch. 3, eqs. 3.4.4-3.4.12,
+    # 3.4.15-3.4.17, 3.4.21, 3.5.13-3.5.17, with angles in degrees (numbers checked against a public
+    # transcription of that chapter). A different algebraic form from ours (radians), so a slip in either shows.
+    h = hx(**changes)
+    g = h.bell()
+    Ds, do, Lbc, N = g.Ds, g.tube_od, g.Lbc, g.tubes
+    Bc = 100 * g.Bc
+    Dotl = Ds - h.clearance_bundle_shell
+    Dctl = Dotl - do
+    th_ds = 2 * math.degrees(math.acos(1 - 2 * Bc / 100))
+    th_ctl = 2 * math.degrees(math.acos(Ds / Dctl * (1 - 2 * Bc / 100)))
+    Fw = th_ctl / 360 - math.sin(math.radians(th_ctl)) / (2 * math.pi)
+    assert g.Fw == pytest.approx(Fw, rel=1e-12) and g.Fc == pytest.approx(1 - 2 * Fw, rel=1e-12)
+    # 0.00436 is pi/720 rounded, hence rel=1e-3
+    assert g.Ssb == pytest.approx(0.00436 * Ds * h.clearance_shell_baffle * (360 - th_ds), rel=1e-3)
+    Ltb = h.clearance_tube_baffle
+    assert g.Stb == pytest.approx(math.pi / 4 * ((do + Ltb) ** 2 - do ** 2) * N * (1 - Fw), rel=1e-12)
+    Ptef = {30: 1.0, 45: 0.707, 90: 1.0}[g.layout] * g.pitch
+    assert g.Sm == pytest.approx(Lbc * (h.clearance_bundle_shell + Dctl / Ptef * (g.pitch - do)), rel=1e-3)
+    assert g.Sb == pytest.approx(Lbc * (Ds - Dotl), rel=1e-12)  # no pass lanes counted (Lpl = 0)
+    Lpp = {30: 0.866, 45: 0.707, 90: 1.0}[g.layout] * g.pitch
+    assert g.Nc == pytest.approx(Ds / Lpp * (1 - 2 * Bc / 100), rel=1e-3)
+    assert g.Ncw == pytest.approx(0.8 / Lpp * (Ds * Bc / 100 - (Ds - Dctl) / 2), rel=1e-3)
+    Swg = math.pi * Ds ** 2 / 4 * (th_ds / 360 - math.sin(math.radians(th_ds)) / (2 * math.pi))
+    Ntw = N * Fw
+    Sw = Swg - Ntw * math.pi / 4 * do ** 2
+    assert g.Swg == pytest.approx(Swg, rel=1e-12) and g.Sw == pytest.approx(Sw, rel=1e-12)
+    assert g.Dw == pytest.approx(4 * Sw / (math.pi * do * Ntw + math.pi * Ds * th_ds / 360), rel=1e-12)
+
+
+def test_end_zone_pressure_drop_matches_the_printed_rs_form():
+    # Engineering Data Book III eqs. 3.5.18-3.5.19 (Taborek 1983): dp_e = dp_b1 (1 + Ncw/Nc) Rb Rs with
+    # Rs = (Lbc/Lbo)^(2-n) + (Lbc/Lbi)^(2-n) (= 2 for equal spacings), n = 0.2 turbulent; ours halves Rs and doubles
+    # dp_e, so the products must agree
+    g = hx(baffle_spacing_in=0.3, baffle_spacing_out=0.25).bell()
+    m = 43800 * LB_H
+    r = bell_delaware(g, m, **PROPS)
+    G = m / g.Sm
+    dpb1 = 2 * r.f_ideal * g.Nc * G ** 2 / PROPS["rho"]
+    Rs = (g.Lbc / g.Lbo) ** 1.8 + (g.Lbc / g.Lbi) ** 1.8
+    assert r.dp_ends == pytest.approx(dpb1 * (1 + g.Ncw / g.Nc) * r.Rb * Rs, rel=1e-12)
