@@ -8,7 +8,7 @@ import sys
 from pathlib import Path
 
 import pytest
-from test_unitfile import make_unit, write_unit
+from test_unitfile import CSV_HEADER, make_unit, write_unit
 
 from revamp import report
 
@@ -270,3 +270,120 @@ def test_no_plant_data_no_cycle(batch_run):
     # the batch's units have no plant data: the report keeps the snapshot money and says nothing of a cycle
     text = (batch_run["out"] / f"{report.safe_name(NASTY)}.html").read_text(encoding="utf-8")
     assert "duty_cycle_avg" not in text and "The options side by side" in text
+
+
+# --------------------------------------------------------------------------- the fouling cycle as the unit file says
+def _plant_generator():
+    """The invented-plant-data generator of data/ (a script, not part of the package), imported by path."""
+    import importlib.util
+
+    path = Path(__file__).resolve().parent.parent / "data" / "generate_plant_data.py"
+    spec = importlib.util.spec_from_file_location("generate_plant_data", path)
+    module = importlib.util.module_from_spec(spec)
+    sys.modules.setdefault(spec.name, module)  # its dataclasses look their module up while being built
+    spec.loader.exec_module(module)
+    return module
+
+
+@pytest.fixture(scope="module")
+def filed_cycle(tmp_path_factory):
+    """One exchanger whose file gives the side (tube), its own run length and the unit's downtime.
+
+    The test exchanger's design fouling is 3e-4 on the shell and 2e-4 inside the tube, i.e. 2e-4·do/di = 2.57e-4 on
+    the outside area: the rule without the field would take the shell side, so the tube side can only come from the
+    file. The plant data are invented: 60 days of a linear tube-side deposit (data/generate_plant_data.py)."""
+    import revamp as rv
+    from revamp import unitfile
+
+    root = tmp_path_factory.mktemp("cycle")
+    doc = make_unit("E-1")
+    doc["economics"].update(run_length="400 day", cleaning_downtime="6 day")
+    doc["exchangers"][0]["plant_data"] = {"file": "plant.csv", "fouling_side": "tube", "run_length": "200 day"}
+    # plant data need the file to exist before the load: write it from the exchanger as built
+    (root / "plant.csv").write_text(CSV_HEADER)
+    path = write_unit(root / "unit.yaml", doc)
+    case = unitfile.load(path).exchanger("E-1")
+    gen = _plant_generator()
+    df = gen.generate(case.exchanger, case.service, hours=24 * 60, fouling_law=gen.Linear(a=5e-5, b_per_year=8e-4),
+                      seed=3, fouling_side="tube", bad_rows=False)
+    df.drop(columns=["rf_true"]).to_csv(root / "plant.csv", index=False)
+    calls = []
+    real_monitor = rv.monitor
+
+    def spy(*args, **kwargs):
+        calls.append(kwargs.get("fouling_side"))
+        return real_monitor(*args, **kwargs)
+
+    rv.monitor = spy
+    try:
+        result = report.run_case(unitfile.load(path).exchanger("E-1"), mc_draws=0)
+    finally:
+        rv.monitor = real_monitor
+    return {"result": result, "monitor_sides": calls}
+
+
+def test_fouling_side_from_the_file_reaches_monitor_and_cycle(filed_cycle):
+    result = filed_cycle["result"]
+    do, di = 19.05e-3, 19.05e-3 - 2 * 2.11e-3
+    assert 3e-4 > 2e-4 * do / di  # the design fouling alone would point at the shell side
+    assert filed_cycle["monitor_sides"] == ["tube"]
+    assert result["monitoring_error"] is None and result["cycle_error"] is None
+    side, why = result["fouling_side"]
+    assert side == "tube" and result["cycle"]["side"] == "tube"
+    assert why.startswith("from the unit file") and "exchangers[0].plant_data.fouling_side" in why
+    text = " ".join(x for x in report.study_items(result) if isinstance(x, str))
+    assert "Side: from the unit file" in text and "inferred" not in text
+
+
+def test_cycle_uses_the_files_run_length_and_downtime(filed_cycle):
+    """duty_cycle_avg equals cycle_average evaluated directly on rv.rate calls with the file's run length (the
+    exchanger's 200 day, overriding the unit's 400 day) and the unit's 6 day downtime; the base case starts at its
+    plant-data age, every option clean."""
+    import numpy as np
+
+    import revamp as rv
+    from revamp.economics import cycle_average
+
+    result = filed_cycle["result"]
+    case, mon, table = result["case"], result["monitoring"], result["study"].table
+    cycle = result["cycle"]
+    assert mon.trend.model != "threshold"  # a model used as fitted (a threshold one is rebuilt per option)
+    day = 86400.0  # s (SI definition of the day)
+    assert cycle["run_length"] == 200 * day and cycle["downtime"] == 6 * day
+    ratio = case.exchanger.tube_id / case.exchanger.tube_od  # outside-area Rf to the tube's own surface
+    model = lambda t: np.maximum(mon.trend(t), 0.0) * ratio
+    age = float(np.nanmax(mon.table["run_time"]))
+    assert cycle["base_age"] == pytest.approx(age)
+
+    def direct(ex, svc, start, downtime):
+        return cycle_average(lambda rf: rv.rate(ex, svc.replace(fouling_tube=rf)).duty,
+                             lambda t: model(np.asarray(t, dtype=float) + start), 200 * day, downtime,
+                             points=21).duty_mean
+
+    expected = {k: direct(ex, svc, age if k == "base" else 0.0, 6 * day) for k, (ex, svc) in _option_cases(case).items()}
+    assert table["duty_cycle_avg"].to_dict() == pytest.approx(expected, rel=1e-9)
+    # the downtime counts with no duty: the average is the on-stream one × 200/(200 + 6) (definition of the mean
+    # over a cycle, Epstein 1979's cycle average)
+    on_stream = direct(case.exchanger, case.revamp_service, age, 0.0)
+    assert table.loc["base", "duty_cycle_avg"] == pytest.approx(on_stream * 200 / 206, rel=1e-9)
+    text = " ".join(x for x in report.study_items(result) if isinstance(x, str))
+    assert "Run length 200 days (from the unit file, exchangers[0].plant_data.run_length)" in text
+    assert "cleaning downtime 6 days" in text and "economics.cleaning_downtime" in text
+
+
+def test_fouling_side_given_wins_and_a_bad_one_is_refused():
+    import revamp as rv
+    from revamp.errors import InputError
+    from revamp.report.case import fouling_side
+
+    oil = rv.fluids.constant(density=850.0, heat_capacity=2200.0, viscosity=2e-3, conductivity=0.12)
+    ex = rv.ShellAndTube(shell_id="0.5 m", tube_od="19.05 mm", tube_wall="2.11 mm", tube_length="5 m",
+                         tube_count=200, tube_passes=2, tube_pitch="25.4 mm", layout=90, baffle_spacing="0.3 m",
+                         baffle_cut=0.25)
+    r = rv.rate(ex, rv.Service(shell=rv.Stream(oil, 10.0, 420.0), tube=rv.Stream(oil, 12.0, 300.0),
+                               fouling_shell=1e-3, fouling_tube=0.0))
+    assert fouling_side(r)[0] == "shell" and fouling_side(r)[1].startswith("inferred: ")
+    side, why = fouling_side(r, "tube", "exchangers[0].plant_data.fouling_side")
+    assert side == "tube" and why == "from the unit file (exchangers[0].plant_data.fouling_side: tube)"
+    with pytest.raises(InputError, match="fouling_side"):
+        fouling_side(r, "both")

@@ -172,6 +172,24 @@ BROKEN = [
     ("exchangers.0.plant_data", {"file": "plant.csv", "columns": {"shell_flow": {"column": "shell_flow",
                                                                                    "unit": "degC"}}},
      "exchangers[0].plant_data.columns.shell_flow.unit", "mass flow"),
+    # the fouling cycle: run length > 0, downtime >= 0, both durations; the side is shell or tube
+    ("economics.run_length", "-30 day", "economics.run_length: -30 day: must be > 0", ""),
+    ("economics.run_length", 0, "economics.run_length: 0: must be > 0", ""),
+    ("economics.run_length", "18 kg", "economics.run_length: 18 kg", "duration"),
+    ("economics.cleaning_downtime", "-1 day", "economics.cleaning_downtime: -1 day: must be >= 0", ""),
+    ("economics.cleaning_downtime", "5 m", "economics.cleaning_downtime: 5 m", "duration"),
+    ("exchangers.0.plant_data", {"file": "plant.csv", "fouling_side": "both"},
+     "exchangers[0].plant_data.fouling_side: both", "one of: shell, tube"),
+    ("exchangers.0.plant_data", {"file": "plant.csv", "fouling_side": "Tube"},
+     "exchangers[0].plant_data.fouling_side: Tube", "one of: shell, tube"),
+    ("exchangers.0.plant_data", {"file": "plant.csv", "run_length": "-18 month"},
+     "exchangers[0].plant_data.run_length: -18 month", "must be > 0"),
+    ("exchangers.1.plant_data", {"file": "plant.csv", "run_length": "540 degC"},
+     "exchangers[1].plant_data.run_length: 540 degC", "duration"),
+    ("exchangers.0.plant_data", {"file": "plant.csv", "cleaning_downtime": "-5 day"},
+     "exchangers[0].plant_data.cleaning_downtime: -5 day", "must be >= 0"),
+    ("exchangers.0.plant_data", {"file": "plant.csv", "cleaning_downtime": "a week"},
+     "exchangers[0].plant_data.cleaning_downtime: a week", "duration"),
 ]
 
 
@@ -366,3 +384,68 @@ def test_docs_name_every_field_of_the_schema():
     walk(unitfile.schema())
     missing = sorted(n for n in names if f"`{n}`" not in doc)
     assert not missing, f"fields not in docs/unit-file.md: {missing}"
+
+
+# ---------------------------------------------------------------------------------------------- the fouling cycle
+def test_fouling_cycle_fields_load_with_overrides(tmp_path):
+    """economics.run_length / cleaning_downtime are the unit's; an exchanger's plant_data overrides them."""
+    (tmp_path / "plant.csv").write_text(CSV_HEADER + "2030-01-01,1,400,350,1,300,320\n")
+    doc = make_unit("E-1", "E-2", "E-3")
+    doc["economics"].update(run_length="18 month", cleaning_downtime="5 day")
+    doc["exchangers"][0]["plant_data"] = {"file": "plant.csv", "fouling_side": "shell", "run_length": "540 day",
+                                          "cleaning_downtime": 0}
+    doc["exchangers"][1]["plant_data"] = {"file": "plant.csv", "fouling_side": "tube"}
+    path = write_unit(tmp_path / "unit.yaml", doc)
+    assert unitfile.check(path) == []
+    unit = unitfile.load(path)
+    day = 86400.0  # s (SI definition of the day, 24 h)
+    # pint's month is year/12 with year = 365.25 day (pint default_en.txt, the Julian year)
+    assert unit.economics.run_length == pytest.approx(18 * 365.25 / 12 * day, rel=1e-12)
+    assert unit.economics.cleaning_downtime == pytest.approx(5 * day, rel=1e-12)
+    e1, e2, e3 = (unit.exchanger(t) for t in ("E-1", "E-2", "E-3"))
+    assert (e1.fouling_side, e1.run_length, e1.cleaning_downtime) == ("shell", pytest.approx(540 * day), 0.0)
+    assert e1.plant_data.fouling_side == "shell"
+    assert e1.cycle_from == {"fouling_side": "exchangers[0].plant_data.fouling_side",
+                             "run_length": "exchangers[0].plant_data.run_length",
+                             "cleaning_downtime": "exchangers[0].plant_data.cleaning_downtime"}
+    assert e2.fouling_side == "tube" and e2.run_length == pytest.approx(18 * 365.25 / 12 * day, rel=1e-12)
+    assert e2.cycle_from["run_length"] == "economics.run_length"
+    assert e2.cycle_from["cleaning_downtime"] == "economics.cleaning_downtime"
+    # no plant data, no side: nothing given for the side, the unit's run length still applies
+    assert e3.fouling_side is None and "fouling_side" not in e3.cycle_from
+    assert e3.cleaning_downtime == pytest.approx(5 * day)
+
+
+def test_fouling_cycle_fields_absent_are_none(tmp_path):
+    unit = unitfile.load(write_unit(tmp_path / "unit.yaml", make_unit("E-1")))
+    case = unit.exchanger("E-1")
+    assert (case.fouling_side, case.run_length, case.cleaning_downtime, case.cycle_from) == (None, None, None, {})
+    assert unit.economics.run_length is None and unit.economics.cleaning_downtime is None
+
+
+def test_check_command_lists_every_cycle_problem(tmp_path, capsys):
+    """`revamp check` prints each bad cycle field on its own line with its path, and exits 1."""
+    from revamp.cli import main
+
+    (tmp_path / "plant.csv").write_text(CSV_HEADER + "2030-01-01,1,400,350,1,300,320\n")
+    doc = make_unit("E-1")
+    doc["economics"]["run_length"] = "-18 month"
+    doc["exchangers"][0]["plant_data"] = {"file": "plant.csv", "fouling_side": "inside",
+                                          "cleaning_downtime": "5 kg"}
+    assert main(["check", write_unit(tmp_path / "unit.yaml", doc)]) == 1
+    out = capsys.readouterr()
+    text = out.out + out.err
+    assert "economics.run_length: -18 month: must be > 0" in text
+    assert "exchangers[0].plant_data.fouling_side: inside: must be one of: shell, tube" in text
+    assert "exchangers[0].plant_data.cleaning_downtime: 5 kg: must be a duration" in text
+    assert "Traceback" not in text
+
+
+def test_demo_unit_states_its_fouling_cycle():
+    from revamp.cli import demo_unit_path
+
+    unit = unitfile.load(demo_unit_path())
+    e101 = unit.exchanger("E-101")
+    # the demo file: economics.run_length "365 day"; E-101 overrides with "540 day" and "5 day", side tube
+    assert (e101.fouling_side, e101.run_length, e101.cleaning_downtime) == ("tube", 540 * 86400.0, 5 * 86400.0)
+    assert unit.exchanger("E-102").run_length == 365 * 86400.0 and unit.exchanger("E-102").fouling_side is None
