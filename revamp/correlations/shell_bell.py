@@ -284,6 +284,15 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
     warnings = range_warning("Bell-Delaware ideal tube-bank fits", "Re", Re, 1.0, 1e5, _SOURCE)
     warnings += range_warning("Bell-Delaware", "baffle cut (fraction of Ds)", geom.Bc, 0.15, 0.45, _SOURCE)
     warnings += range_warning("Bell-Delaware", "central baffle spacing / Ds", geom.Lbc / geom.Ds, 0.2, 1.0, _SOURCE)
+    # Leakage and bypass streams this large make the method less reliable and the bundle a poor design: Taborek
+    # advises keeping Jl above about 0.6 and Jb above about 0.7 (design guidance, from memory).
+    jl_min, jb_min = float(np.min(c["Jl"])), float(np.min(c["Jb"]))
+    if jl_min < 0.6:
+        warnings.append(f"Bell-Delaware: leakage correction Jl = {jl_min:.2f} < 0.6: baffle leakage streams are large "
+                        "(tighter clearances or a wider baffle spacing help); h and dp are less certain")
+    if jb_min < 0.7:
+        warnings.append(f"Bell-Delaware: bypass correction Jb = {jb_min:.2f} < 0.7: bundle bypass is large (sealing "
+                        "strips help); h and dp are less certain")
     s = lambda x: _scalar(x, scalar)  # noqa: E731
     return ShellSideResult(
         h=s(h), dp=s(dp_c + dp_w + dp_e), dp_crossflow=s(dp_c), dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
