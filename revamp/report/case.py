@@ -93,7 +93,7 @@ def cycle_settings(case, monitoring, side: str, why: str) -> dict | None:
         cycle["fouling"] = cycle_fouling(trend, side, ratio)
         how = (f"{trend.model} model used as fitted for every option (it does not depend on velocity, so it "
                f"cannot credit an option that fouls more slowly)")
-    cycle["text"] = (f"duty_cycle_avg: the duty averaged over a run from clean to the next cleaning, with the "
+    cycle["text"] = (f"duty_cycle_avg: the duty averaged over the next run until a cleaning, with the "
                      f"{side}-side fouling growing as the plant-data trend says; value, payback and NPV use it "
                      f"instead of the snapshot duty. {_cycle_time_text(run_length, downtime, given)}; the other side "
                      f"keeps its design fouling. "
