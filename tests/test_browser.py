@@ -59,17 +59,21 @@ def test_charts_draw_in_headless_browser(report_page):
     page, index = report_page
     html = page.read_text(encoding="utf-8")
     expected = html.count("Plotly.newPlot")
+    # invariant of the report layout: one breakdown chart and at least two plant-data/study charts are written
     assert expected >= 3
     dom = _run(browser, "--dump-dom", page.as_uri())
-    assert dom.returncode == 0, dom.stderr[-2000:]
-    # plotly adds an <svg class="main-svg"> inside each drawn figure and marks the div js-plotly-plot
+    assert dom.returncode == 0, dom.stderr[-2000:]  # the browser's own exit status: 0 = page loaded
+    # plotly.js documents that a drawn figure's div gets class "js-plotly-plot" and an <svg class="main-svg"> inside
+    # (plotly.js source, plot_api); invariant checked: every figure written into the page was drawn
     drawn = len(re.findall(r'class="[^"]*\bjs-plotly-plot\b', dom.stdout))
     assert drawn == expected, f"{drawn} of {expected} figures drew"
     assert dom.stdout.count('class="main-svg"') >= expected
     shot = page.parent / "shot.png"
     snap = _run(browser, f"--screenshot={shot}", "--window-size=1200,3000", page.as_uri())
     assert snap.returncode == 0 and shot.is_file()
-    assert shot.stat().st_size > 30_000  # a page with charts, not a blank one
+    # a blank 1200x3000 white PNG compresses to a few kB; charts and tables make it tens of kB (common practice for
+    # a smoke check of a screenshot, no source)
+    assert shot.stat().st_size > 30_000
     shot.unlink()
 
 
@@ -78,4 +82,5 @@ def test_index_chart_draws(report_page):
     _, index = report_page
     dom = _run(browser, "--dump-dom", index.as_uri())
     assert dom.returncode == 0
+    # the unit summary's chart drew (plotly.js marks a drawn figure's div "js-plotly-plot", as above)
     assert re.search(r'class="[^"]*\bjs-plotly-plot\b', dom.stdout)

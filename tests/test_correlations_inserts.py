@@ -77,8 +77,8 @@ def test_twisted_tape_blend_continuous():
 
 def wire_coil(Re, Pr, p, e):
     # García, Vicente & Viedma (2005) IJHMT 48:4640, eqs. 4 and 10 (turbulent). Constants recalled, then checked
-    # against a public transcription of the paper's equations: eq. 4 identical; eq. 10 identical except that the
-    # transcription writes (p/e)^-0.372 where we use (p/d)^-0.372 (unconfirmed, see WireCoilInsert's notes)
+    # against a public reproduction of the paper's equations: eq. 4 identical; eq. 10 identical except that the
+    # reproduction writes (p/e)^-0.372 where we use (p/d)^-0.372 (unconfirmed, see WireCoilInsert's notes)
     f_fanning = 9.35 * (p / e) ** -1.16 * Re**-0.217
     nu = 0.132 * p**-0.372 * Re**0.72 * Pr**0.37
     return nu, 4 * f_fanning

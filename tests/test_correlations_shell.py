@@ -311,7 +311,7 @@ def test_kern_h_by_hand():
 def test_geometry_matches_the_degree_forms_printed_in_data_book_iii(changes):
     # Taborek (1983) as printed in Thome, Engineering Data Book III (Wolverine Tube), ch. 3, eqs. 3.4.4-3.4.12,
     # 3.4.15-3.4.17, 3.4.21, 3.5.13-3.5.17, with angles in degrees (numbers checked against a public
-    # transcription of that chapter). A different algebraic form from ours (radians), so a slip in either shows.
+    # reproduction of that chapter). A different algebraic form from ours (radians), so a slip in either shows.
     h = hx(**changes)
     g = h.bell()
     Ds, do, Lbc, N = g.Ds, g.tube_od, g.Lbc, g.tubes

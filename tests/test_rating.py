@@ -4,7 +4,7 @@ Sources:
 - Kern, D. Q. (1950), *Process Heat Transfer*, McGraw-Hill, Example 7.3 (a kerosene / crude-oil exchanger, 21¼ in
   shell, 158 tubes 1 in OD 13 BWG 16 ft, 1¼ in square pitch, 4 passes, 5 in baffle spacing). The example's chart
   readings (properties, jH = 93 and 31, friction factors, wall viscosities) were checked against a public
-  transcription of the example; the intermediate results below are recomputed by hand from those inputs with Kern's
+  reproduction of the example; the intermediate results below are recomputed by hand from those inputs with Kern's
   equations. Where a number is only recalled it says "from memory". Tolerances cover Kern's chart readings and the
   difference between his jH chart and Gnielinski's equation.
 - `ht` (Caleb Bell, ChEDL) for the effectiveness and F relations, and closed forms for the invariants.

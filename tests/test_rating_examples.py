@@ -3,7 +3,7 @@
 Source: Serth, R. W. (2007), *Process Heat Transfer: Principles and Applications*, Academic Press, Example 6.1
 (Serth & Lestina 2014, 2nd ed., the same example): the kerosene/crude-oil exchanger of the book's Example 5.1
 re-rated on the shell side by the Delaware method. The book itself could not be reached; the inputs and the few
-intermediate results used here were read from a public third-party transcription of that example (an open-source
+intermediate results used here were read from a public third-party reproduction of that example (an open-source
 rating tool that lists the example's inputs and chart readings beside its code). Only those values are checked:
 
 - inputs: 19.25 in shell, 124 tubes 1 in od 14 BWG, 14 ft, 6 passes, 1.25 in square pitch; central baffle spacing
@@ -14,8 +14,8 @@ rating tool that lists the example's inputs and chart readings beside its code).
 - intermediates: rows crossed Nc = 9.24, baffles Nb = 42, Re about 30,600, ideal j = 0.006 read from the
   book's Fig. 6.1 and ideal f = 0.09 read from its Fig. 6.2.
 
-NOT checked, because the transcription does not give the book's values: Sm, Sw, Fc, Jc, Jl, Jb, h_ideal, ho and
-the pressure-drop parts. The transcription's effective window rows Ncw = 2.464 equals 0.8 Bc Ds / Pp, the form
+NOT checked, because the reproduction does not give the book's values: Sm, Sw, Fc, Jc, Jl, Jb, h_ideal, ho and
+the pressure-drop parts. The reproduction's effective window rows Ncw = 2.464 equals 0.8 Bc Ds / Pp, the form
 without the bundle-clearance term; Taborek (1983, HEDH §3.3; the same form in Thome's *Engineering Data Book III*
 ch. 3, eq. 3.4.21) subtracts (Ds - Dctl)/2, which gives 1.715 here. Which form the book uses was not confirmed, so
 Ncw is checked against Taborek's printed form only.
@@ -37,7 +37,7 @@ RHO_WATER = 999.0  # kg/m³ for the specific gravities (60 °F basis, common pra
 
 
 def serth_61():
-    """The exchanger and service of Serth (2007) Example 6.1, as transcribed (see the module docstring)."""
+    """The exchanger and service of Serth (2007) Example 6.1, as reproduced (see the module docstring)."""
     hx = ShellAndTube(shell_id=19.25 * INCH, tube_od=INCH, tube_wall=0.083 * INCH, tube_length=14 * FT,
                       tube_count=124, tube_passes=6, tube_pitch=1.25 * INCH, layout=90,
                       baffle_spacing=3.85 * INCH, baffle_cut=0.20, clearance_bundle_shell=1.34 * INCH,
@@ -55,11 +55,11 @@ def serth_61():
 def test_serth_61_geometry():
     hx, _ = serth_61()
     g = hx.bell()
-    # Serth (2007) Ex. 6.1 (transcription): Nc = Ds (1 - 2 Bc)/Pp = 9.24 rows, 42 baffles in 14 ft at 3.85 in
+    # Serth (2007) Ex. 6.1 (reproduction): Nc = Ds (1 - 2 Bc)/Pp = 9.24 rows, 42 baffles in 14 ft at 3.85 in
     assert g.Nc == pytest.approx(9.24, abs=0.005)
     assert g.Nb == 42
     # Taborek (1983) eq. for the window rows as printed in Engineering Data Book III eq. 3.4.21 (public
-    # transcription): 0.8/Pp [Ds Bc - (Ds - Dctl)/2], Dctl = Dotl - do; see the module docstring on Ncw = 2.464
+    # reproduction): 0.8/Pp [Ds Bc - (Ds - Dctl)/2], Dctl = Dotl - do; see the module docstring on Ncw = 2.464
     dctl = 19.25 - 1.34 - 1.0
     assert g.Ncw == pytest.approx(0.8 / 1.25 * (19.25 * 0.2 - (19.25 - dctl) / 2), rel=1e-9)
 
@@ -68,7 +68,7 @@ def test_serth_61_rating_shell_side():
     hx, svc = serth_61()
     r = rv.rate(hx, svc, shell_method="bell-delaware")
     s = r.shell_side
-    # Serth (2007) Ex. 6.1 (transcription): Re = do G / mu "about 30 600" with G = ws / Sm; constant properties,
+    # Serth (2007) Ex. 6.1 (reproduction): Re = do G / mu "about 30 600" with G = ws / Sm; constant properties,
     # so this checks Sm (Taborek's crossflow area with the example's Ds - Dotl) end to end through rate()
     assert r.Re_shell == pytest.approx(30600, rel=0.01)
     # ideal-bank factors read off the book's Figs. 6.1 and 6.2 at that Re (one significant figure for j):

@@ -187,12 +187,12 @@ class WireCoilInsert:
     advanced to Re about 700. The forms used:
 
     - Re >= 2000: f_Fanning = 9.35 (p/e)^-1.16 Re^-0.217 (Darcy f = 4 f_Fanning), the paper's eq. 4. Coefficients
-      recalled first, then checked against a public transcription of the paper's equations (an open-source
+      recalled first, then checked against a public reproduction of the paper's equations (an open-source
       process simulator's wire-coil module): identical. Read as a Fanning factor, f is 9.3x the smooth tube
       (Blasius) at p/e = 11.7 (the tightest coil tested) and Re = 1e4, which is the abstract's "up to 9x"; read as
       Darcy it would be 2.3x, so Fanning it is.
     - Re >= 2000: Nu = 0.132 (p/d)^-0.372 Re^0.72 Pr^0.37, the paper's eq. 10. The constants 0.132, 0.372, 0.72
-      and 0.37 agree with the same transcription, but it writes the geometric group as (p/e)^-0.372. With p/e the
+      and 0.37 agree with the same reproduction, but it writes the geometric group as (p/e)^-0.372. With p/e the
       coil would fall below the smooth tube in fully turbulent flow (Nu about 0.5x Gnielinski at p/d 2.68,
       e/d 0.07, Re 9e4, Pr 2.8; about 1.0x for the tightest coil at Re 1e4), against the abstract's enhancement
       and against what a roughness of e/d 0.07-0.10 does; with p/d it gives 1.35x-2.4x at those points. Near
@@ -249,7 +249,7 @@ class WireCoilInsert:
         src = "García, Vicente & Viedma (2005)"
         caution = ("wire coil (García et al. 2005): Nusselt correlation's geometric group (p/d, as used, or p/e) "
                    "not verified against the paper; the friction correlation was checked against a public "
-                   "transcription")
+                   "reproduction")
         w = [caution]
         w += range_warning("García wire coil", "p/d", self.pitch_ratio, 1.17, 2.68, src)
         w += range_warning("García wire coil", "e/d", self.wire_ratio, 0.07, 0.10, src)
