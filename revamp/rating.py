@@ -30,6 +30,7 @@ import numpy as np
 import pandas as pd
 
 from . import thermal
+from ._arrays import as_out
 from .correlations import shell as shell_corr
 from .correlations import tube as tube_corr
 from .errors import InputError
@@ -208,17 +209,14 @@ def _below(t_max):
     return t_max - 1e-6 * t_max if np.isfinite(t_max) else t_max
 
 
-def _props(fluid, T, side, what, bad):
-    """Fluid properties at T; a temperature the fluid cannot take is clipped and marked in ``bad``."""
+def _props(fluid, T):
+    """Fluid properties at T, and a mask of the temperatures the fluid cannot take (clipped), or None."""
     T = np.asarray(T, dtype=float)
     try:
-        return fluid.props(T), bad
+        return fluid.props(T), None
     except InputError:
         lo, hi = fluid.t_min, fluid.t_max
-        out = (T < lo) | (T >= hi)
-        Tc = np.clip(T, lo, _below(hi))
-        bad = out if bad is None else (bad | out)
-        return fluid.props(Tc), bad
+        return fluid.props(np.clip(T, lo, _below(hi))), (T < lo) | (T >= hi)
 
 
 def _wall_props(fluid, T):
@@ -230,11 +228,6 @@ def _wall_props(fluid, T):
     Tc = np.clip(T, fluid.t_min, hi)
     which = "high" if np.any(T > hi) else ("low" if np.any(T < fluid.t_min) else "")
     return fluid.props(Tc).viscosity, which
-
-
-def _as_out(x):
-    x = np.asarray(x, dtype=float)
-    return float(x) if x.ndim == 0 else x
 
 
 def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Rating:
@@ -290,6 +283,8 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
                          "different from the tube-side inlet temperature (equal inlets give no driving force)")
 
     shell_hot = ts_in > tt_in
+    sign = np.where(shell_hot, -1.0, 1.0)  # the shell stream loses heat when it is the hot one
+    dt_in = np.abs(ts_in - tt_in)
     arr_name, n_series = arrangement(hx)
     do, di = hx.tube_od, hx.tube_id
     area_train = hx.area_outside / n_par
@@ -304,9 +299,8 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     warn_wall = set()
     for it in range(_MAX_ITER):
         tm_s, tm_t = 0.5 * (ts_in + x_s), 0.5 * (tt_in + x_t)
-        bad_s = bad_t = None
-        ps, bad_s = _props(s_fluid, tm_s, "shell", "mean", bad_s)
-        pt, bad_t = _props(t_fluid, tm_t, "tube", "mean", bad_t)
+        ps, bad_s = _props(s_fluid, tm_s)
+        pt, bad_t = _props(t_fluid, tm_t)
         mu_ws, clipped = _wall_props(s_fluid, tw_s)
         if clipped:
             warn_wall.add(("shell", clipped))
@@ -331,8 +325,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         Cr = C_min / C_max
         NTU = U * area_train / C_min
         eps = thermal.effectiveness(NTU, Cr, arr_name, n_series)
-        q = eps * C_min * np.abs(ts_in - tt_in)  # one train [W]
-        sign = np.where(shell_hot, -1.0, 1.0)  # shell stream loses heat when it is the hot one
+        q = eps * C_min * dt_in  # one train [W]
         to_s = ts_in + sign * q / C_s
         to_t = tt_in - sign * q / C_t
         # wall temperatures from the resistance split (flux on the outside area, positive shell -> tube)
@@ -390,7 +383,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     lm = thermal.lmtd(dt1, dt2)
     F = q / (U * area_train * lm)
 
-    U_clean = tube_network(h_s, h_t, 0.0, 0.0, do, di, k_w, basis="outside").U
+    U_clean = 1.0 / (net.total - net["shell fouling"] - net["tube fouling"])  # the same films and wall, no deposit
     res_cols = {name: np.broadcast_to(net[name], shape) for name in TUBE_LAYERS}
     shear = ts_res.f / 8.0 * pt.density * ts_res.velocity ** 2
     fields = dict(
@@ -405,7 +398,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         value = np.broadcast_to(np.asarray(value, dtype=float), shape)
         if invalid is not None:
             value = np.where(invalid, np.nan, value)
-        fields[key] = _as_out(value)
+        fields[key] = as_out(value)
     if shape == ():
         resistances = pd.Series({k: float(v) for k, v in res_cols.items()}, name="resistance [m²K/W]")
     else:

@@ -40,6 +40,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
+from ._arrays import as_out as _out
 from .errors import InputError
 from .units import require
 
@@ -57,12 +58,6 @@ __all__ = [
 
 #: The names of the five resistances of a bare tube, outside to inside, as used everywhere in results.
 TUBE_LAYERS = ("shell film", "shell fouling", "wall", "tube fouling", "tube film")
-
-
-def _out(x):
-    """A float for a 0-d result, else the array."""
-    x = np.asarray(x, dtype=float)
-    return float(x) if x.ndim == 0 else x
 
 
 def plane(thickness, k):

@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ._arrays import as_out as _out
 from .errors import InputError
 
 __all__ = [
@@ -35,10 +36,6 @@ __all__ = [
 ]
 
 ARRANGEMENTS = ("counterflow", "parallel", "E")
-
-
-def _out(x):
-    return float(x) if np.ndim(x) == 0 else x
 
 
 def _arr(x, field):

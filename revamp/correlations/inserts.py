@@ -17,19 +17,13 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .._arrays import as_array as _arr
+from .._arrays import as_out as _out
 from ..errors import InputError
 from ._validity import range_warning
 from .tube import RE_LAMINAR, RE_TURBULENT, friction_darcy, nu_laminar, nu_tube
 
 __all__ = ["FactorInsert", "TwistedTapeInsert", "WireCoilInsert"]
-
-
-def _out(x):
-    return float(x) if np.ndim(x) == 0 else x
-
-
-def _arr(x):
-    return np.asarray(x, dtype=float)
 
 
 def _blend(Re, lo, hi, f_lo, f_hi, lam, turb):

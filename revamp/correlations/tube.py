@@ -34,6 +34,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .._arrays import as_array as _arr
+from .._arrays import as_out as _out
 from ..errors import InputError
 from ..units import require, to_si
 from ._validity import range_warning
@@ -59,15 +61,6 @@ __all__ = [
 RE_LAMINAR = 2300.0  #: upper end of laminar flow [-]
 RE_TURBULENT = 1.0e4  #: lower end of fully turbulent flow for heat transfer (Gnielinski 2013) [-]
 RE_FRICTION_TURBULENT = 4000.0  #: lower end of the turbulent friction law [-]
-
-
-def _out(x):
-    """A float for a 0-d result, the array otherwise."""
-    return float(x) if np.ndim(x) == 0 else x
-
-
-def _arr(x):
-    return np.asarray(x, dtype=float)
 
 
 # ----------------------------------------------------------------------------------------------------- friction
