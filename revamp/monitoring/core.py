@@ -232,8 +232,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
 
     # U actual, clean rating
     # clean rating at the same flows and inlets: the duty a clean exchanger would give (duty lost to fouling)
-    failed_rows: set = set()
-    clean, warnings = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), skip=failed_rows)
+    clean, warnings = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1))
     area = float(exchanger.area_outside)
     U_act, eps = _e.u_actual(hb.x, hb.duty, cp_s, cp_t, area, arr_name, shells)
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -244,7 +243,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         # fouling changes, so rate at the fouling found and take that rating's clean-surface U. Rf solves
         # Rf = g(Rf) = 1/U_actual − 1/U_clean(Rf): secant steps per row, one vectorized rating each
         def g(rf_try):
-            st, w = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), rf_try, fouling_side, failed_rows)
+            st, w = _e.rate_clean(exchanger, service, hb.x, max(mc_chunk, 1), rf_try, fouling_side)
             with np.errstate(divide="ignore", invalid="ignore"):
                 return 1.0 / U_act - 1.0 / st["U_clean"], st, w
 
@@ -272,10 +271,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     tab["duty_lost"] = clean["duty"] - hb.duty
     tab["Re_tube"], tab["Pr_tube"], tab["shear_tube"] = state["Re_tube"], state["Pr_tube"], state["shear_tube"]
     tab["T_film"] = film_temperature(0.5 * (hb.x[:, 4] + hb.x[:, 5]), state["t_wall_tube"])
-    no_rating = np.zeros(n, dtype=bool)
-    no_rating[list(failed_rows)] = True
-    no_rating |= ~np.isfinite(state["U_clean"])  # the rating raised, or gave NaN, for these cases
-    no_rating &= valid & ~open_balance
+    no_rating = ~np.isfinite(state["U_clean"]) & valid & ~open_balance  # the rating gave NaN for these cases
     no_u = valid & ~open_balance & ~no_rating & ~np.isfinite(rf)
     text_r = "no clean U: the rating gave no result at these conditions"
     text_u = "no U: effectiveness outside what the arrangement can reach"

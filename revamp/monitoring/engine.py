@@ -56,12 +56,12 @@ def u_actual(xr, duty, cp_s, cp_t, area, arrangement, shells):
     return ntu * c_min / area, eps
 
 
-def rate_clean(exchanger, service, xr, chunk, rf=None, side="tube", skip=None):
+def rate_clean(exchanger, service, xr, chunk, rf=None, side="tube"):
     """One rating of every case in xr (..., 6), in chunks of at most ``chunk`` cases.
 
     ``rf`` (shape xr.shape[:-1], outside basis [m²K/W], clipped at 0) puts that fouling on ``side``; None rates clean.
-    The rating's ``U_clean`` is then the clean-surface U at that (fouled) operating state. ``skip`` (a set of flat
-    case indices) holds the cases whose rating failed before: they are not tried again, and new failures are added.
+    The rating's ``U_clean`` is then the clean-surface U at that (fouled) operating state. Cases with unusable
+    measurements, and cases the rating returns as NaN (a stream leaving its single-phase range), stay NaN.
     """
     from ..rating import rate
     from ..service import Service, Stream
@@ -74,37 +74,18 @@ def rate_clean(exchanger, service, xr, chunk, rf=None, side="tube", skip=None):
     out = {k: np.full(flat.shape[0], np.nan) for k in keys}
     warnings: list = []
     good = np.all(np.isfinite(flat), axis=1) & (flat[:, 0] > 0) & (flat[:, 3] > 0) & (flat[:, 1] != flat[:, 4])
-    if skip:
-        good[np.fromiter(skip, dtype=int)] = False
     idx = np.flatnonzero(good)
-    failed = []
-
-    def run(sel):
+    # the cases are arrays, so the rating never raises for one bad case: it returns NaN with a warning
+    for start in range(0, idx.size, chunk):
+        sel = idx[start:start + chunk]
         svc = Service(shell=Stream(service.shell.fluid, flat[sel, 0], flat[sel, 1]),
                       tube=Stream(service.tube.fluid, flat[sel, 3], flat[sel, 4]),
                       fouling_shell=rf_flat[sel] if side == "shell" else 0.0,
                       fouling_tube=rf_flat[sel] * ratio if side == "tube" else 0.0)
-        try:
-            r = rate(exchanger, svc)
-        except InputError as exc:
-            # a case the rating cannot settle (e.g. its outlet iteration cycles) fails the whole call: split the
-            # cases (16 parts, then halves) until the failing ones are found, and leave those NaN
-            if sel.size == 1:
-                failed.append((int(sel[0]), str(exc)))
-                return
-            for part in np.array_split(sel, 16 if sel.size > 256 else 2):
-                run(part)
-            return
+        r = rate(exchanger, svc)
         for k in keys:
             out[k][sel] = np.asarray(getattr(r, k), dtype=float).ravel()
         warnings.extend(r.warnings)
-
-    for start in range(0, idx.size, chunk):
-        run(idx[start:start + chunk])
-    if failed:
-        warnings.append(f"rating failed for {len(failed)} case(s), left NaN: {failed[0][1]}")
-        if skip is not None:
-            skip.update(i for i, _ in failed)
     return {k: v.reshape(xr.shape[:-1]) for k, v in out.items()}, list(dict.fromkeys(warnings))
 
 
