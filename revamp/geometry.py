@@ -41,9 +41,10 @@ from dataclasses import dataclass, field
 from .errors import InputError
 from .units import to_si
 
-__all__ = ["ShellAndTube", "BellGeometry", "REAR_HEADS", "LAYOUTS"]
+__all__ = ["ShellAndTube", "BellGeometry", "REAR_HEADS", "LAYOUTS", "SHELL_TYPES"]
 
 LAYOUTS = (30, 45, 60, 90)
+SHELL_TYPES = ("E", "F", "J", "X")  #: TEMA shell types the rating supports
 REAR_HEADS = ("fixed", "u-tube", "split-ring", "pull-through")
 _REAR_ALIASES = {
     "fixed": "fixed", "fixed tubesheet": "fixed", "l": "fixed", "m": "fixed", "n": "fixed",
@@ -421,6 +422,10 @@ class ShellAndTube:
         A tube insert model from :mod:`revamp.correlations.inserts` (default None).
     tag : str
         A name for reports (default "").
+    shell_type : {"E", "F", "J", "X"}
+        TEMA shell type (default "E"): E one-pass shell; F two-pass shell with a longitudinal baffle (an even
+        number of tube passes); J divided flow (one central inlet, two outlets, or the reverse); X crossflow (no
+        baffle windows: the shell stream crosses the whole bundle once). Lower case is accepted.
 
     Attributes
     ----------
@@ -460,6 +465,7 @@ class ShellAndTube:
     tube_roughness: float | None = None
     insert: object = None
     tag: str = ""
+    shell_type: str = "E"
     defaults_used: tuple = field(init=False, default=(), compare=False)
     notes: tuple = field(init=False, default=(), compare=False)
     _bell: BellGeometry = field(init=False, default=None, repr=False, compare=False)
@@ -487,6 +493,13 @@ class ShellAndTube:
         if passes != 1 and passes % 2:
             raise InputError("tube_passes", self.tube_passes, "1 or an even number (2, 4, 6, 8, ...)")
         put("tube_passes", passes)
+        kind = self.shell_type.strip().upper() if isinstance(self.shell_type, str) else None
+        if kind not in SHELL_TYPES:
+            raise InputError("shell_type", self.shell_type, f"one of {', '.join(SHELL_TYPES)} (TEMA shell types "
+                             "rated here: E one pass, F two passes, J divided flow, X crossflow)")
+        if kind == "F" and passes < 2:
+            raise InputError("tube_passes", self.tube_passes, "an even number >= 2 in an F shell (two shell passes)")
+        put("shell_type", kind)
         if self.tube_count < passes:
             raise InputError("tube_count", self.tube_count, f">= tube_passes ({passes})")
         put("shells", _integer(self.shells, "shells", 1))

@@ -24,6 +24,8 @@ Gnielinski, V. (1976). New equations for heat and mass transfer in turbulent pip
 """
 from __future__ import annotations
 
+import dataclasses
+import inspect
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -34,7 +36,7 @@ from ._arrays import as_out
 from .correlations import shell as shell_corr
 from .correlations import tube as tube_corr
 from .errors import InputError
-from .resistance import TUBE_LAYERS, tube_network
+from .resistance import TUBE_LAYERS, tube_resistances
 from .service import Service, Stream
 
 __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"]
@@ -42,21 +44,33 @@ __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"
 #: Shell-side methods by name: the one registry, defined beside the correlations and dispatched here only.
 SHELL_METHODS = shell_corr.SHELL_METHODS
 
-_MAX_ITER = 40
-_PLAIN_STEPS = 6  # substitution steps before the step starts to shrink
-_TOL_K = 1e-6  # outlet temperature change at which the property iteration stops [K]
-_SETTLED_K = 0.05  # a case whose outlets still move by more than this at the end is reported [K]
+_MAX_ITER = 60
+_TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
+_SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
+_ANDERSON_FROM = 1  # iteration from which the Anderson step is tried (plain substitution before)
 
 
 def arrangement(exchanger) -> tuple[str, int]:
-    """The effectiveness-NTU arrangement of an exchanger: ``(name, shells in series)``.
+    """The effectiveness-NTU arrangement of an exchanger: ``(name, units in series)``.
 
-    One tube pass runs in counterflow (the usual single-pass layout); two or more passes in a TEMA E shell use the
-    1-2N relation; identical shells in series combine by the series formula.
+    E shell: one tube pass runs in counterflow (N counterflow shells in series are one counterflow exchanger);
+    two or more passes use the 1-2N relation, identical shells in series by the series formula. F shell: two tube
+    passes are pure counterflow; four or more are two 1-2N shells in series per F shell (no leakage or heat
+    conduction across the longitudinal baffle). J shell: the J 1-1, 1-2 or 1-4 relation (six or more passes use
+    1-4). X shell: single-pass crossflow with both fluids unmixed, per shell. Names are keys of
+    :data:`revamp.thermal.EFFECTIVENESS_ARRANGEMENTS`.
     """
-    if exchanger.tube_passes == 1:
-        return "counterflow", 1  # N counterflow shells in series are one counterflow exchanger of the total NTU
-    return "E", int(exchanger.shells)
+    kind = getattr(exchanger, "shell_type", "E")
+    passes, shells = exchanger.tube_passes, int(exchanger.shells)
+    if kind == "F":
+        return ("counterflow", 1) if passes == 2 else ("E", 2 * shells)
+    if kind == "J":
+        return ("J1" if passes == 1 else "J2" if passes == 2 else "J4"), shells
+    if kind == "X":
+        return "crossflow", shells
+    if passes == 1:
+        return "counterflow", 1
+    return "E", shells
 
 
 # ------------------------------------------------------------------------------------------------------ the result
@@ -209,25 +223,84 @@ def _below(t_max):
     return t_max - 1e-6 * t_max if np.isfinite(t_max) else t_max
 
 
-def _props(fluid, T):
-    """Fluid properties at T, and a mask of the temperatures the fluid cannot take (clipped), or None."""
-    T = np.asarray(T, dtype=float)
+def _accepts(fn, name: str) -> bool:
     try:
-        return fluid.props(T), None
-    except InputError:
-        lo, hi = fluid.t_min, fluid.t_max
-        return fluid.props(np.clip(T, lo, _below(hi))), (T < lo) | (T >= hi)
+        return name in inspect.signature(fn).parameters
+    except (TypeError, ValueError):  # pragma: no cover - builtins
+        return False
 
 
-def _wall_props(fluid, T):
-    """Viscosity at the wall, with the wall temperature clipped to the fluid's valid range.
+def _scaled_dp(res, factor):
+    """A shell-side result with its pressure drops multiplied by ``factor`` (two shell passes in series)."""
+    return dataclasses.replace(res, dp=res.dp * factor, dp_crossflow=res.dp_crossflow * factor,
+                               dp_window=res.dp_window * factor, dp_ends=res.dp_ends * factor)
 
-    Returns the viscosity and which end was clipped: ``""``, ``"low"`` or ``"high"``.
+
+def _shell_side_by_type(kind, shell_fn, geom):
+    """The shell-side calculation of one shell adapted to its TEMA type, and what the adaptation assumes.
+
+    - E: the method as published.
+    - F (two shell passes, longitudinal baffle): each pass carries the whole stream through half the shell's flow
+      areas, which is the method at twice the flow on the full geometry (every area halves together); the pressure
+      drop is that of two passes. The longitudinal baffle is taken as sealed (no bypass or heat conduction across
+      it): a leaking baffle lowers both the effectiveness and the pressure drop.
+    - J (divided flow): each half of the stream flows through half the shell length, with half the baffles; the
+      pressure drop is that of one half.
+    - X (crossflow): :func:`revamp.correlations.shell.crossflow_bundle`.
+
+    Returns ``(fn(m, rho, cp, mu, k, mu_wall, **kw), nozzle_scale, note)``; ``nozzle_scale`` turns the nozzle
+    diameter into the one that gives the right nozzle loss at the flow the method sees (a loss in velocity heads
+    scales as m²/d⁴).
     """
-    hi = _below(fluid.t_max)
-    Tc = np.clip(T, fluid.t_min, hi)
-    which = "high" if np.any(T > hi) else ("low" if np.any(T < fluid.t_min) else "")
-    return fluid.props(Tc).viscosity, which
+    if kind == "X":
+        return (lambda m, *p, **kw: shell_corr.crossflow_bundle(geom, m, *p)), None, ()
+    if kind == "F":
+        def f_shell(m, *p, **kw):
+            return _scaled_dp(shell_fn(geom, 2.0 * m, *p, **kw), 2.0)
+        return f_shell, 8.0 ** 0.25, ("F shell: two shell passes, each with half the flow area; the longitudinal "
+                                      "baffle is assumed sealed (no leakage or heat conduction across it)",)
+    if kind == "J":
+        half = dataclasses.replace(geom, Nb=max(1, geom.Nb // 2), length=geom.length / 2.0)
+        return ((lambda m, *p, **kw: shell_fn(half, 0.5 * m, *p, **kw)), 0.5 ** 0.5,
+                ("J shell: divided flow, each half of the stream through half the length and half the baffles",))
+    return (lambda m, *p, **kw: shell_fn(geom, m, *p, **kw)), 1.0, ()
+
+
+def _reshape_fields(res, shape):
+    """A correlation result with every array field reshaped to the sweep's shape (floats for a single case)."""
+    changes = {}
+    for f in dataclasses.fields(res):
+        v = getattr(res, f.name)
+        if isinstance(v, np.ndarray) and v.ndim == 1:
+            v = np.broadcast_to(v, (int(np.prod(shape, dtype=int)),)) if v.size == 1 else v
+            changes[f.name] = as_out(v.reshape(shape))
+        elif isinstance(v, (float, np.floating)) and shape != ():
+            changes[f.name] = np.full(shape, float(v))
+    return dataclasses.replace(res, **changes)
+
+
+@dataclass(frozen=True)
+class _Eval:
+    """One evaluation of the outlet map at a state (internal)."""
+
+    to_s: np.ndarray
+    to_t: np.ndarray
+    tw_s: np.ndarray
+    tw_t: np.ndarray
+    q: np.ndarray
+    eps: np.ndarray
+    w: np.ndarray
+    NTU: np.ndarray
+    U: np.ndarray
+    C_s: np.ndarray
+    C_t: np.ndarray
+    shell_min: np.ndarray
+    R: tuple
+    tube: object
+    shell: object
+    rho_s: np.ndarray
+    rho_t: np.ndarray
+    Pr_s: np.ndarray
 
 
 def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Rating:
@@ -236,12 +309,13 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     Parameters
     ----------
     exchanger : revamp.ShellAndTube
-        The geometry as built.
+        The geometry as built; its ``shell_type`` (E, F, J, X) selects the effectiveness relation and the
+        shell-side adaptation (see :func:`arrangement`).
     service : revamp.Service
         The two inlet streams and the fouling of each side; flows, inlet temperatures and fouling may be arrays
         (they broadcast).
     shell_method : {"bell-delaware", "kern"}
-        Shell-side method; Kern (1950) is a simpler cross-check.
+        Shell-side method; Kern (1950) is a simpler cross-check (not for X shells).
 
     Returns
     -------
@@ -251,160 +325,244 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     Raises
     ------
     InputError
-        On a bad input: equal inlet temperatures (no driving force), a service that is not a Service, an unknown
-        method.
+        On a bad input: equal inlet temperatures in a single case (no driving force), a service that is not a
+        Service, an unknown method, or a single case whose stream would leave its fluid's liquid range (it would
+        boil or freeze; the error names the side). In a sweep such cases come back as NaN with one warning, and
+        equal inlets give zero duty.
 
     Notes
     -----
-    Identical shells in series (``exchanger.shells``) combine by the series effectiveness relation; identical trains in
-    parallel (``exchanger.shells_parallel``) each take ``flow / shells_parallel`` of both streams.
+    Inputs are checked once here; the loop calls unvalidated kernels. Fluid properties are taken at the mean bulk
+    temperature of each side and the wall viscosity at the wall temperature from the resistance split; the
+    outlet and wall temperatures are found per case by an Anderson-accelerated (depth one) substitution that
+    stops each case when it has converged (1e-6 K). Where the map jumps at a correlation's band edge and the
+    residual changes sign without shrinking, that case's step is halved at each change of sign, so it settles at
+    the edge; it is reported if its outlets then differ from the map by more than 0.05 K.
+
+    A close temperature approach is physics, not an error: the duty tends to eps Cmin dTmax, the terminal
+    differences are computed from 1 - eps without cancellation, F = (Q/UA)/LMTD is never above 1 (exactly 1 in
+    counterflow) and is NaN, with a warning, only where the approach is below floating-point resolution.
+
+    Identical shells in series (``exchanger.shells``) combine by the series effectiveness relation; identical trains
+    in parallel (``exchanger.shells_parallel``) each take ``flow / shells_parallel`` of both streams.
     """
     if shell_method not in SHELL_METHODS:
         raise InputError("shell_method", shell_method, f"one of {sorted(SHELL_METHODS)}")
     if not isinstance(service, Service):
         raise InputError("service", service, "a revamp.Service(shell=Stream(...), tube=Stream(...))")
-    shell_fn = SHELL_METHODS[shell_method]
     hx = exchanger
+    kind = getattr(hx, "shell_type", "E")
+    if kind == "X" and shell_method == "kern":
+        raise InputError("shell_method", shell_method, "'bell-delaware' for an X shell (Kern's method assumes "
+                         "baffled crossflow; the X shell is rated as one crossflow pass over the bundle)")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
         service.shell.flow, service.shell.t_in, service.tube.flow, service.tube.t_in,
         service.fouling_shell, service.fouling_tube)))
+    n = int(np.prod(shape, dtype=int))
 
-    def full(v):
-        return np.broadcast_to(np.asarray(v, dtype=float), shape)
+    def flat(v):
+        return np.array(np.broadcast_to(np.asarray(v, dtype=float), shape), dtype=float).reshape(n)
 
     n_par = float(getattr(hx, "shells_parallel", 1))
-    m_s = full(service.shell.flow) / n_par  # one parallel train [kg/s]
-    m_t = full(service.tube.flow) / n_par
-    ts_in, tt_in = full(service.shell.t_in), full(service.tube.t_in)
-    rf_s, rf_t = full(service.fouling_shell), full(service.fouling_tube)
-    if np.any(ts_in == tt_in):
+    m_s = flat(service.shell.flow) / n_par  # one parallel train [kg/s]
+    m_t = flat(service.tube.flow) / n_par
+    ts_in, tt_in = flat(service.shell.t_in), flat(service.tube.t_in)
+    rf_s, rf_t = flat(service.fouling_shell), flat(service.fouling_tube)
+    same = ts_in == tt_in
+    if shape == () and same[0]:
         raise InputError("service.shell.t_in", service.shell.t_in,
                          "different from the tube-side inlet temperature (equal inlets give no driving force)")
 
     shell_hot = ts_in > tt_in
     sign = np.where(shell_hot, -1.0, 1.0)  # the shell stream loses heat when it is the hot one
     dt_in = np.abs(ts_in - tt_in)
-    arr_name, n_series = arrangement(hx)
+    t_lo, t_hi = np.minimum(ts_in, tt_in), np.maximum(ts_in, tt_in)
+    arr_name, n_units = arrangement(hx)
     do, di = hx.tube_od, hx.tube_id
     area_train = hx.area_outside / n_par
-    geom = hx.bell()
     material = hx.tube_material
     insert = getattr(hx, "insert", None)
     rel_rough = getattr(hx, "tube_roughness", 0.0) / di
+    n_tpp, length, passes = float(hx.tubes_per_pass), float(hx.tube_length), int(hx.tube_passes)
+    d_noz_t = getattr(hx, "nozzle_tube", None)
+    shell_call, noz_scale, type_notes = _shell_side_by_type(kind, SHELL_METHODS[shell_method], hx.bell())
+    shell_kw, notes = {}, list(type_notes)
+    d_noz_s = getattr(hx, "nozzle_shell", None)
+    if d_noz_s is not None:
+        if noz_scale is not None and _accepts(SHELL_METHODS[shell_method], "d_nozzle"):
+            shell_kw = {"d_nozzle": d_noz_s * noz_scale}
+        else:
+            notes.append("shell side: nozzle pressure drop not included (not available for this shell type or method)")
+    s_lo, s_hi = s_fluid.t_min, _below(s_fluid.t_max)
+    t_lo_f, t_hi_f = t_fluid.t_min, _below(t_fluid.t_max)
 
-    # State of the iteration: the outlet temperatures the properties are taken at, and the wall temperatures.
-    x_s, x_t = ts_in.copy(), tt_in.copy()  # first pass: properties at the inlets
-    tw_s = tw_t = 0.5 * (ts_in + tt_in)  # first guess of the wall temperatures
-    warn_wall = set()
-    for it in range(_MAX_ITER):
-        tm_s, tm_t = 0.5 * (ts_in + x_s), 0.5 * (tt_in + x_t)
-        ps, bad_s = _props(s_fluid, tm_s)
-        pt, bad_t = _props(t_fluid, tm_t)
-        mu_ws, clipped = _wall_props(s_fluid, tw_s)
-        if clipped:
-            warn_wall.add(("shell", clipped))
-        mu_wt, clipped = _wall_props(t_fluid, tw_t)
-        if clipped:
-            warn_wall.add(("tube", clipped))
-
-        ts_res = tube_corr.tube_side(
-            m_t, hx.tubes_per_pass, di, hx.tube_length, hx.tube_passes,
-            pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity,
-            mu_wall=mu_wt, rel_roughness=rel_rough, insert=insert,
-            d_nozzle=getattr(hx, "nozzle_tube", None), rho_nozzle=pt.density,
-        )
-        ss_res = shell_fn(geom, m_s, ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity, mu_wall=mu_ws)
-        h_s, h_t = ss_res.h, ts_res.h
-        k_w = material.conductivity(0.5 * (tw_s + tw_t))
-        net = tube_network(h_s, h_t, rf_s, rf_t, do, di, k_w, basis="outside")
-        U = net.U
-        C_s = m_s * ps.heat_capacity
-        C_t = m_t * pt.heat_capacity
-        C_min, C_max = np.minimum(C_s, C_t), np.maximum(C_s, C_t)
-        Cr = C_min / C_max
+    def evaluate(sel, xs, xt, tws, twt, warn=False) -> _Eval:
+        """The outlet and wall temperatures the correlations give at a state (cases ``sel``, None for all)."""
+        if sel is None:
+            ms, mt, tsi, tti, rfs, rft, sg, dT = m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in
+        else:
+            ms, mt, tsi, tti, rfs, rft, sg, dT = (a[sel] for a in (m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in))
+        na = xs.size
+        tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
+        ps = s_fluid.props(np.clip(np.concatenate((tm_s, tws)), s_lo, s_hi))
+        pt = t_fluid.props(np.clip(np.concatenate((tm_t, twt)), t_lo_f, t_hi_f))
+        rho_s, cp_s, mu_s, k_s = (np.broadcast_to(v, (2 * na,))[:na] for v in
+                                  (ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity))
+        mu_ws = np.broadcast_to(ps.viscosity, (2 * na,))[na:]
+        rho_t, cp_t, mu_t, k_t = (np.broadcast_to(v, (2 * na,))[:na] for v in
+                                  (pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
+        mu_wt = np.broadcast_to(pt.viscosity, (2 * na,))[na:]
+        tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
+                                          insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=warn)
+        shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **shell_kw)
+        h_s = np.asarray(shell.h, dtype=float)
+        k_w = material.conductivity(0.5 * (tws + twt))
+        R = tube_resistances(h_s, tube.h, rfs, rft, do, di, k_w)
+        U = 1.0 / (R[0] + R[1] + R[2] + R[3] + R[4])
+        C_s, C_t = ms * cp_s, mt * cp_t
+        shell_min = C_s <= C_t
+        C_min = np.where(shell_min, C_s, C_t)
+        Cr = np.where(shell_min, C_s / C_t, C_t / C_s)
         NTU = U * area_train / C_min
-        eps = thermal.effectiveness(NTU, Cr, arr_name, n_series)
-        q = eps * C_min * dt_in  # one train [W]
-        to_s = ts_in + sign * q / C_s
-        to_t = tt_in - sign * q / C_t
-        # wall temperatures from the resistance split (flux on the outside area, positive shell -> tube)
-        flux = U * (tm_s - tm_t)
-        new_tw_s = tm_s - flux * net["shell film"]
-        new_tw_t = tm_t + flux * net["tube film"]
-        residual = np.maximum(np.abs(to_s - x_s), np.abs(to_t - x_t))  # [K]
-        if it > 0 and np.max(residual) < _TOL_K:
+        eps, w = thermal.effectiveness_kernel(NTU, Cr, arr_name, n_units, shell_min)
+        eps, w = np.minimum(eps, 1.0), np.maximum(w, 0.0)
+        q = eps * C_min * dT  # one train [W]
+        flux = U * (tm_s - tm_t)  # on the outside area, positive shell -> tube
+        return _Eval(to_s=tsi + sg * q / C_s, to_t=tti - sg * q / C_t, tw_s=tm_s - flux * R[0],
+                     tw_t=tm_t + flux * R[4], q=q, eps=eps, w=w, NTU=NTU, U=U, C_s=C_s, C_t=C_t,
+                     shell_min=shell_min, R=R, tube=tube, shell=shell, rho_s=rho_s, rho_t=rho_t,
+                     Pr_s=cp_s * mu_s / k_s)
+
+    # ---- the property iteration, per case
+    xs, xt = ts_in.copy(), tt_in.copy()  # first pass: properties at the inlets
+    tws = 0.5 * (ts_in + tt_in)
+    twt = tws.copy()
+    f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
+    r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
+    omega, damped = np.ones(n), np.zeros(n, dtype=bool)
+    active = np.arange(n)
+    for it in range(_MAX_ITER):
+        if active.size == 0:
             break
-        # Plain substitution first; then a shrinking step, so that a case whose correlation jumps at a band edge
-        # (no exact fixed point) settles at the edge instead of cycling.
-        omega = 1.0 if it < _PLAIN_STEPS else 1.0 / (it - _PLAIN_STEPS + 2)
-        x_s = x_s + omega * (to_s - x_s)
-        x_t = x_t + omega * (to_t - x_t)
-        tw_s = tw_s + omega * (new_tw_s - tw_s)
-        tw_t = tw_t + omega * (new_tw_t - tw_t)
+        sel = None if active.size == n else active
+        X = np.stack((xs, xt, tws, twt)) if sel is None else np.stack((xs[sel], xt[sel], tws[sel], twt[sel]))
+        ev = evaluate(sel, *X)
+        G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
+        f = G - X
+        r = np.max(np.abs(f), axis=0)
+        conv = r < _TOL_K
+        rp, om = r_prev[active], omega[active]
+        # a seam: the outlet residual changes sign without shrinking (no fixed point there): halve the step
+        s_now = np.sign(f[1])
+        flip = (it > 0) & (s_now * s_prev[active] < 0) & (r > 0.5 * rp)
+        dm = damped[active] | flip
+        om = np.where(flip, 0.5 * om, om)
+        if it >= _ANDERSON_FROM:
+            df = f - f_prev[:, active]
+            den = np.sum(df * df, axis=0)
+            with np.errstate(divide="ignore", invalid="ignore"):
+                gam = np.sum(f * df, axis=0) / den
+            gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp), gam, 0.0)  # residual grew: plain step
+            Xn = G - gam * (G - g_prev[:, active])
+        else:
+            Xn = G
+        Xn = np.where(dm, X + om * f, Xn)
+        Xn = np.clip(Xn, t_lo[active], t_hi[active])  # outlets and walls stay between the inlets
+        stop = conv | (dm & (om * r < _TOL_K))
+        Xn = np.where(stop, X, Xn)
+        xs[active], xt[active], tws[active], twt[active] = Xn
+        f_prev[:, active], g_prev[:, active] = f, G
+        r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
+        active = active[~stop]
+
+    ev = evaluate(None, xs, xt, tws, twt, warn=True)
+    to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
+    residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))
     unsettled = residual > _SETTLED_K
 
-    warnings = [f"geometry: {note}" for note in getattr(hx, "notes", ())]
-    warnings += list(ts_res.warnings) + list(ss_res.warnings)
+    # ---- cases that leave a fluid's liquid range at an inlet or an outlet
+    invalid = np.zeros(n, dtype=bool)
+    range_msgs = []
+    for side, fluid, t_i, t_o in (("shell", s_fluid, ts_in, to_s), ("tube", t_fluid, tt_in, to_t)):
+        out = (np.minimum(t_i, t_o) < fluid.t_min) | (np.maximum(t_i, t_o) >= fluid.t_max)
+        if np.any(out):
+            t_bad = np.where(t_o >= fluid.t_max, t_o, np.where(t_i >= fluid.t_max, t_i, np.minimum(t_i, t_o)))
+            if shape == ():
+                where = "outlet" if not (fluid.t_min <= t_i[0] < fluid.t_max) else "outlet"
+                where = "inlet" if not (fluid.t_min <= t_i[0] < fluid.t_max) else where
+                raise InputError(f"service.{side}", f"{fluid.name} at its {where}, {float(t_bad[0]):.1f} K",
+                                 f"within the fluid's single-phase range {fluid.t_min:.1f}..{fluid.t_max:.1f} K "
+                                 "(the stream would boil or freeze: this rating does not apply)")
+            invalid |= out
+            range_msgs.append(f"{side} side: {int(np.sum(out))} case(s) would leave the single-phase range of "
+                              f"{fluid.name} ({fluid.t_min:.1f}..{fluid.t_max:.1f} K) at an inlet or an outlet; "
+                              "their results are NaN")
+
+    # ---- counterflow terminal differences from 1 - eps (no cancellation near eps = 1), F and LMTD
+    Cr = np.where(ev.shell_min, ev.C_s / ev.C_t, ev.C_t / ev.C_s)
+    far = (1.0 - Cr) + Cr * ev.w  # 1 - eps Cmin/Cmax: the approach at the Cmax stream's outlet, per dT
+    a_s = np.where(ev.shell_min, ev.w, far) * dt_in  # |t_out,shell - t_in,tube|
+    b_t = np.where(ev.shell_min, far, ev.w) * dt_in  # |t_out,tube - t_in,shell|
+    lm = thermal.lmtd_kernel(a_s, b_t)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        F = np.minimum(ev.eps * dt_in / ev.NTU / lm, 1.0)  # (Q/UA)/LMTD
+    if arr_name == "counterflow":
+        F = np.where(np.isfinite(lm), 1.0, np.nan)
+    undefined = ~np.isfinite(F) & ~invalid & ~same
+    F = np.where(np.isfinite(F), F, np.nan)
+
+    warnings = [f"geometry: {note}" for note in getattr(hx, "notes", ())] + notes
+    warnings += list(ev.tube.warnings) + list(ev.shell.warnings)
+    ok = ~invalid
     for side, fluid, temps in (("shell", s_fluid, (ts_in, to_s)), ("tube", t_fluid, (tt_in, to_t))):
-        for T in temps:
-            warnings += [f"{side} side: {w}" for w in fluid.check(T)]
-    for side, end in sorted(warn_wall):
-        fluid = s_fluid if side == "shell" else t_fluid
-        warnings.append(f"{side} side: wall temperature outside the range of {fluid.name} "
-                        f"({fluid.t_min:.1f}..{fluid.t_max:.1f} K); wall viscosity taken at the range limit"
-                        + ("; local boiling or cracking at the wall is possible" if end == "high" else
-                           "; freezing or waxing at the wall is possible"))
-    invalid = None
-    if np.any(unsettled):
-        worst = float(np.max(residual))
+        warnings += [f"{side} side: {w}" for w in fluid.check(np.concatenate([t[ok] for t in temps]))]
+    for side, fluid, tw in (("shell", s_fluid, ev.tw_s), ("tube", t_fluid, ev.tw_t)):
+        hi_, lo_ = np.any(tw[ok] > _below(fluid.t_max)), np.any(tw[ok] < fluid.t_min)
+        if hi_ or lo_:
+            warnings.append(f"{side} side: wall temperature outside the range of {fluid.name} "
+                            f"({fluid.t_min:.1f}..{fluid.t_max:.1f} K); wall viscosity taken at the range limit"
+                            + ("; local boiling or cracking at the wall is possible" if hi_ else
+                               "; freezing or waxing at the wall is possible"))
+    if np.any(unsettled & ok):
+        worst = float(np.max(residual[ok]))
         if shape == ():
             warnings.append(f"property iteration: outlet temperatures settled only to within {worst:.2g} K "
                             "(a correlation changes form near this flow)")
         else:
-            warnings.append(f"property iteration: {int(np.sum(unsettled))} case(s) settled only to within "
+            warnings.append(f"property iteration: {int(np.sum(unsettled & ok))} case(s) settled only to within "
                             f"{worst:.2g} K (a correlation changes form near these flows)")
-    for side, bad, fluid in (("shell", bad_s, s_fluid), ("tube", bad_t, t_fluid)):
-        if bad is not None and np.any(bad):
-            if shape == ():
-                raise InputError(f"service.{side}", f"{fluid.name} at mean {float(tm_s if side == 'shell' else tm_t):.1f} K",
-                                 f"within the fluid's single-phase range {fluid.t_min:.1f}..{fluid.t_max:.1f} K "
-                                 "(the stream would boil or freeze: this rating does not apply)")
-            invalid = bad if invalid is None else (invalid | bad)
-            warnings.append(f"{side} side: {int(np.sum(bad))} case(s) leave the single-phase range of {fluid.name}; "
-                            "their results are NaN")
+    if np.any(undefined):
+        warnings.append(f"F and LMTD: {int(np.sum(undefined))} case(s) with a temperature approach below "
+                        "floating-point resolution: F is undefined there (NaN); the duty is eps Cmin dTmax")
+    if np.any(same & ok) and shape != ():
+        warnings.append(f"{int(np.sum(same))} case(s) with equal inlet temperatures: no driving force, zero duty")
+    warnings += range_msgs
 
-    # counterflow terminal differences: always positive for 0 < eps < 1
-    t_hot_in = np.where(shell_hot, ts_in, tt_in)
-    t_hot_out = np.where(shell_hot, to_s, to_t)
-    t_cold_in = np.where(shell_hot, tt_in, ts_in)
-    t_cold_out = np.where(shell_hot, to_t, to_s)
-    dt1, dt2 = t_hot_in - t_cold_out, t_hot_out - t_cold_in
-    lm = thermal.lmtd(dt1, dt2)
-    F = q / (U * area_train * lm)
-
-    U_clean = 1.0 / (net.total - net["shell fouling"] - net["tube fouling"])  # the same films and wall, no deposit
-    res_cols = {name: np.broadcast_to(net[name], shape) for name in TUBE_LAYERS}
-    shear = ts_res.f / 8.0 * pt.density * ts_res.velocity ** 2
+    U_clean = 1.0 / (ev.R[0] + ev.R[2] + ev.R[4])  # the same films and wall, no deposit
+    res_cols = {name: np.broadcast_to(v, (n,)) for name, v in zip(TUBE_LAYERS, ev.R)}
+    tube = ev.tube
+    shear = tube.f / 8.0 * ev.rho_t * tube.velocity ** 2
     fields = dict(
-        duty=q * n_par, t_out_shell=to_s, t_out_tube=to_t, effectiveness=eps, NTU=NTU, F=F, lmtd=lm,
-        U_clean=U_clean, U_service=U, U_service_inside=U * do / di, h_shell=h_s, h_tube=h_t,
-        dp_shell=ss_res.dp * hx.shells, dp_tube=ts_res.dp * hx.shells, velocity_tube=ts_res.velocity,
-        velocity_shell=ss_res.velocity_crossflow, Re_tube=ts_res.Re, Re_shell=ss_res.Re, Pr_tube=ts_res.Pr,
-        Pr_shell=ps.heat_capacity * ps.viscosity / ps.conductivity, t_wall_tube=tw_t, t_wall_shell=tw_s,
-        shear_tube=shear, rho_tube=pt.density, rho_shell=ps.density, C_shell=C_s * n_par, C_tube=C_t * n_par,
+        duty=q * n_par, t_out_shell=to_s, t_out_tube=to_t, effectiveness=ev.eps, NTU=ev.NTU, F=F, lmtd=lm,
+        U_clean=U_clean, U_service=U, U_service_inside=U * do / di, h_shell=ev.shell.h, h_tube=tube.h,
+        dp_shell=np.asarray(ev.shell.dp) * hx.shells, dp_tube=tube.dp * hx.shells, velocity_tube=tube.velocity,
+        velocity_shell=ev.shell.velocity_crossflow, Re_tube=tube.Re, Re_shell=ev.shell.Re, Pr_tube=tube.Pr,
+        Pr_shell=ev.Pr_s, t_wall_tube=ev.tw_t, t_wall_shell=ev.tw_s, shear_tube=shear, rho_tube=ev.rho_t,
+        rho_shell=ev.rho_s, C_shell=ev.C_s * n_par, C_tube=ev.C_t * n_par,
     )
     for key, value in fields.items():
-        value = np.broadcast_to(np.asarray(value, dtype=float), shape)
-        if invalid is not None:
+        value = np.broadcast_to(np.asarray(value, dtype=float), (n,))
+        if np.any(invalid):
             value = np.where(invalid, np.nan, value)
-        fields[key] = as_out(value)
+        fields[key] = as_out(value.reshape(shape))
     if shape == ():
-        resistances = pd.Series({k: float(v) for k, v in res_cols.items()}, name="resistance [m²K/W]")
+        resistances = pd.Series({k: float(v[0]) for k, v in res_cols.items()}, name="resistance [m²K/W]")
     else:
-        resistances = pd.DataFrame({k: np.asarray(v).ravel() for k, v in res_cols.items()})
+        resistances = pd.DataFrame({k: np.where(invalid, np.nan, v) for k, v in res_cols.items()})
     return Rating(
         **fields, area=hx.area_outside, area_inside=hx.area_inside, resistances=resistances,
-        tube_side=ts_res, shell_side=ss_res, warnings=tuple(dict.fromkeys(warnings)),
-        defaults=tuple(getattr(hx, "defaults_used", ())), exchanger=hx, service=service, shell_method=shell_method,
+        tube_side=_reshape_fields(tube, shape), shell_side=_reshape_fields(ev.shell, shape),
+        warnings=tuple(dict.fromkeys(warnings)), defaults=tuple(getattr(hx, "defaults_used", ())), exchanger=hx,
+        service=service, shell_method=shell_method,
     )

@@ -53,6 +53,7 @@ __all__ = [
     "cylinder",
     "deposit",
     "tube_network",
+    "tube_resistances",
     "TUBE_LAYERS",
 ]
 
@@ -344,3 +345,14 @@ def tube_network(h_shell, h_tube, fouling_shell, fouling_tube, d_out, d_in, k_wa
         ],
         basis_diameter=d_b,
     )
+
+
+def tube_resistances(h_shell, h_tube, fouling_shell, fouling_tube, d_out, d_in, k_wall):
+    """The five resistances of :func:`tube_network` on the outside basis, without input checks.
+
+    The rating loop's kernel (inputs checked once at the edge): SI floats or arrays in, a tuple of five arrays
+    in the order of :data:`TUBE_LAYERS` [m²K/W] out.
+    """
+    ratio = d_out / d_in
+    return (1.0 / h_shell, fouling_shell, d_out * np.log(ratio) / (2.0 * k_wall), fouling_tube * ratio,
+            ratio / h_tube)

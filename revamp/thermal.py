@@ -3,7 +3,12 @@
 Arrangements (keys of :data:`ARRANGEMENTS`):
 
 - ``"counterflow"``, ``"parallel"``: pure counter- and parallel flow;
-- ``"E"``: TEMA E shell, one shell pass and an even number of tube passes (1-2N exchanger).
+- ``"E"``: TEMA E shell, one shell pass and an even number of tube passes (1-2N exchanger);
+- ``"crossflow"``: single-pass crossflow, both fluids unmixed (TEMA X shell);
+- ``"J1"``, ``"J2"``, ``"J4"``: TEMA J shell (divided flow) with 1, 2 and 4 tube passes.
+
+A TEMA F shell (two shell passes with a longitudinal baffle) is two E shells in series (four or more tube passes)
+or pure counterflow (two tube passes), when no fluid or heat leaks across the longitudinal baffle.
 
 ``shells`` = N identical units in series, connected in overall counterflow. All functions broadcast over numpy
 arrays; scalars in give floats out.
@@ -16,10 +21,13 @@ References
 .. [3] Shah, R. K., Sekulić, D. P. (2003). Fundamentals of Heat Exchanger Design. Wiley, ch. 3
    (P-NTU of 1-2N shells, shells in series).
 .. [4] Kern, D. Q. (1950). Process Heat Transfer. McGraw-Hill, ch. 7 (1-2 exchanger, shells in series).
+.. [5] Mason, J. L. (1954). Heat transfer in cross flow. Proc. 2nd U.S. National Congress of Applied Mechanics,
+   801-803 (crossflow, both fluids unmixed, exact series).
 """
 from __future__ import annotations
 
 import numpy as np
+from scipy.special import gammainc
 
 from ._arrays import as_out as _out
 from .errors import InputError
@@ -27,15 +35,21 @@ from .errors import InputError
 __all__ = [
     "ARRANGEMENTS",
     "F_1_2N",
+    "EFFECTIVENESS_ARRANGEMENTS",
     "F_series",
     "effectiveness",
+    "effectiveness_kernel",
     "lmtd",
+    "lmtd_kernel",
     "max_effectiveness",
     "ntu_from_effectiveness",
     "outlets",
 ]
 
+#: arrangements with a closed-form inverse (:func:`ntu_from_effectiveness`, :func:`max_effectiveness`)
 ARRANGEMENTS = ("counterflow", "parallel", "E")
+#: every arrangement :func:`effectiveness` rates: also crossflow (TEMA X) and TEMA J with 1, 2, 4 tube passes
+EFFECTIVENESS_ARRANGEMENTS = ARRANGEMENTS + ("crossflow", "J1", "J2", "J4")
 
 
 def _arr(x, field):
@@ -114,9 +128,27 @@ def lmtd(dt1, dt2):
     return _out(np.where(small, series, general))
 
 
+def lmtd_kernel(dt1, dt2):
+    """Log-mean of two terminal differences without input checks: 0 where one difference is 0 (the limit), NaN
+    where one is negative (crossed temperatures). The rating loop's kernel; see :func:`lmtd`."""
+    hi, lo = np.maximum(dt1, dt2), np.minimum(dt1, dt2)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        x = hi / lo - 1.0
+        small = x < 1e-4
+        xs = np.where(small, 1.0, x)
+        general = lo * xs / np.log1p(xs)
+        series = lo * (1.0 + x / 2.0 - x * x / 12.0)
+        out = np.where(small, series, general)
+    out = np.where(lo == 0.0, 0.0, out)
+    return np.where(lo < 0.0, np.nan, out)
+
+
 # ------------------------------------------------------------------------------------------------------ F factor
 def F_1_2N(R, P):
     """LMTD correction F of a 1-2N exchanger (one shell pass, even tube passes), Bowman, Mueller & Nagle (1940).
+
+    The formula is exact for two tube passes and is used for 4, 6 and 8 passes as well: against the exact 1-4
+    relation (`ht`'s TEMA E with four passes, 0.05 <= R <= 4) it is within 0.6 % where F >= 0.8, slightly high.
 
     F = S ln[(1 - P)/(1 - P R)] / ((R - 1) ln{[2 - P (R + 1 - S)] / [2 - P (R + 1 + S)]}), S = sqrt(R² + 1);
     at R = 1: F = [P sqrt(2)/(1 - P)] / ln{[2 - P (2 - sqrt 2)] / [2 - P (2 + sqrt 2)]}.
@@ -164,7 +196,7 @@ def F_1_2N(R, P):
         one = np.where(ok1, one, np.nan)
     F = np.where(near1, one, general)
     F = np.where(P == 0, 1.0, F)  # no duty: the limit is 1
-    F = np.where((F > 0) & (F <= 1.0 + 1e-12), F, np.nan)
+    F = np.where((F > 0) & (F <= 1.0 + 1e-9), np.minimum(F, 1.0), np.nan)  # above 1 only by round-off
     return _out(F)
 
 
@@ -197,7 +229,8 @@ def F_series(R, P, shells):
     Returns
     -------
     float or numpy.ndarray
-        F [-]; NaN where infeasible.
+        F [-]; NaN, element by element, where no train of that many shells reaches (R, P): P >= 1, P R >= 1, or a
+        per-shell P beyond the 1-2N limit. The feasible elements of an array keep their values.
 
     References
     ----------
@@ -210,58 +243,161 @@ def F_series(R, P, shells):
     with np.errstate(invalid="ignore"):
         bad = (P < 0) | (P >= 1) | (P * R >= 1)
         P1 = _p_per_shell(R, np.where(bad, 0.5, P), shells)
-    F = _arr(F_1_2N(R, P1), "F")
+    F = np.asarray(F_1_2N(R, P1), dtype=float)  # NaN where one shell cannot reach its share
     return _out(np.where(bad, np.nan, F))
 
 
 # ----------------------------------------------------------------------------------------------- effectiveness
+# Unvalidated kernels: arrays in, ``(eps, w)`` out with w = 1 - eps computed without cancellation, so that a close
+# temperature approach (eps -> 1) keeps its terminal differences. The public functions validate and call them.
 def _eps_counterflow(ntu, cr):
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         em = np.expm1(-ntu * (1.0 - cr))  # e^{-NTU(1-Cr)} - 1
-        general = -em / ((1.0 - cr) - cr * em)
+        den = (1.0 - cr) - cr * em
+        general = -em / den
+        w_general = (1.0 - cr) * (1.0 + em) / den
     one = ntu / (1.0 + ntu)
-    return np.where(cr >= 1.0, one, general)
+    w_one = 1.0 / (1.0 + ntu)
+    at1 = cr >= 1.0
+    return np.where(at1, one, general), np.where(at1, w_one, w_general)
 
 
 def _eps_parallel(ntu, cr):
-    return -np.expm1(-ntu * (1.0 + cr)) / (1.0 + cr)
+    x = ntu * (1.0 + cr)
+    return -np.expm1(-x) / (1.0 + cr), (cr + np.exp(-x)) / (1.0 + cr)
 
 
 def _eps_E(ntu, cr):
     s = np.sqrt(1.0 + cr * cr)
-    # (1 + e^{-x})/(1 - e^{-x}) = coth(x/2), x = NTU s
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        coth = 1.0 / np.tanh(ntu * s / 2.0)
-        eps = 2.0 / (1.0 + cr + s * coth)
-    return np.where(ntu == 0, 0.0, eps)
+        g = 2.0 / np.expm1(ntu * s)  # coth(NTU s / 2) - 1, small at large NTU
+        den = 1.0 + cr + s * (1.0 + g)
+        eps = 2.0 / den
+        w = (s * g + cr * cr / (s + 1.0) + cr) / den  # (s coth + Cr - 1)/den with s - 1 = Cr²/(s + 1)
+    zero = ntu == 0
+    return np.where(zero, 0.0, eps), np.where(zero, 1.0, w)
 
 
-_EPS = {"counterflow": _eps_counterflow, "parallel": _eps_parallel, "E": _eps_E}
+def _eps_crossflow(ntu, cr):
+    """Single-pass crossflow, both fluids unmixed: the exact series of Mason (1954),
+
+    eps = 1/(Cr NTU) sum_{n>=0} Q(n + 1, NTU) Q(n + 1, Cr NTU), with Q(n + 1, x) = P(a Poisson(x) variable > n)
+    the regularized lower incomplete gamma function. Terms are summed per case until both tails are negligible.
+    """
+    ntu, cr = np.broadcast_arrays(np.asarray(ntu, dtype=float), np.asarray(cr, dtype=float))
+    shape = ntu.shape
+    n_ = ntu.ravel()
+    c_ = cr.ravel()
+    y = c_ * n_
+    total = np.zeros(n_.shape)
+    # the product of the tails is below 1e-17 of the sum once n passes the smaller mean by 12 standard deviations
+    need = np.ceil(np.minimum(n_, y) + 12.0 * np.sqrt(np.minimum(n_, y)) + 40.0).astype(int)
+    live = np.flatnonzero((y > 0) & (n_ > 0))
+    n = 0
+    while live.size:
+        total[live] += gammainc(n + 1, n_[live]) * gammainc(n + 1, y[live])
+        n += 1
+        live = live[need[live] > n]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        eps = np.where(y > 0, total / np.where(y > 0, y, 1.0), -np.expm1(-n_))  # Cr = 0: 1 - e^{-NTU}
+    eps = np.minimum(eps, 1.0).reshape(shape)
+    return eps, 1.0 - eps
 
 
-def _series(eps1, cr, n):
-    """Effectiveness of n identical units in series, overall counterflow, from the unit's eps1."""
+def _p1_J1(N, R):
+    """P1 of the shell fluid, TEMA J shell with one tube pass (Shah & Sekulić 2003, Table 3.6), overflow-free."""
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore", under="ignore"):
+        Rg = np.where(np.abs(R - 2.0) < 1e-6, 2.0 - 1e-6, R)  # removable 0/0 at R = 2
+        lo = Rg < 2.0
+        # (2E + R B)/(2E - R/B), E = e^N, B = e^{-NR/2}, divided by its largest term
+        num = np.where(lo, 2.0 + Rg * np.exp(-N * (1.0 + Rg / 2.0)), 2.0 * np.exp(N * (1.0 - Rg / 2.0))
+                       + Rg * np.exp(-N * Rg))
+        den = np.where(lo, 2.0 - Rg * np.exp(-N * (1.0 - Rg / 2.0)), 2.0 * np.exp(N * (1.0 - Rg / 2.0)) - Rg)
+        p = (1.0 - (2.0 - Rg) * num / ((2.0 + Rg) * den)) / Rg
+    return np.where(R < 1e-8, -np.expm1(-N), p)
+
+
+def _p1_J2N(N, R, passes):
+    """P1 of the shell fluid, TEMA J shell with 2 or 4 tube passes (Shah & Sekulić 2003, Table 3.6)."""
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore", under="ignore"):
+        lam = np.sqrt(1.0 + R * R / (4.0 if passes == 2 else 16.0))
+        B = 1.0 + 2.0 / np.expm1(lam * N)  # (A^lam + 1)/(A^lam - 1), A = e^N
+        C = np.exp(-(lam - 1.0) * N / 2.0) / ((lam - 1.0) * np.exp(-lam * N) + (1.0 + lam))
+        D = 1.0 + lam * np.exp(-(lam + 1.0) * N / 2.0) / -np.expm1(-lam * N)
+        if passes == 2:
+            first = 1.0 + R / 2.0
+        else:
+            e = np.exp(-R * N / 2.0)
+            first = 1.0 + R / 4.0 * (3.0 + e) / (1.0 + e)  # (R/4)(1 + 3E)/(1 + E), E = e^{RN/2}
+        p = 1.0 / (first + lam * B - 2.0 * lam * C * D)
+    return np.where(N == 0, 0.0, p)
+
+
+def _eps_J(ntu, cr, shell_min, passes):
+    """Effectiveness of a J shell from the shell-fluid P1: eps = P1 C_shell / Cmin."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        crs = np.where(cr > 0, cr, 1.0)
+        R1 = np.where(shell_min, cr, 1.0 / crs)  # C_shell / C_tube
+        N1 = np.where(shell_min, ntu, ntu * cr)  # UA / C_shell
+    p1 = _p1_J1(N1, R1) if passes == 1 else _p1_J2N(N1, R1, passes)
+    eps = np.where(shell_min, p1, p1 * R1)
+    eps = np.where(cr <= 1e-12, -np.expm1(-ntu), eps)
+    return eps, 1.0 - eps
+
+
+_EPS = {"counterflow": _eps_counterflow, "parallel": _eps_parallel, "E": _eps_E, "crossflow": _eps_crossflow}
+_J_PASSES = {"J1": 1, "J2": 2, "J4": 4}
+
+
+def _series(eps1, w1, cr, n):
+    """Effectiveness (and 1 - eps) of n identical units in series, overall counterflow, from the unit's."""
     if n == 1:
-        return eps1
+        return eps1, w1
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        lny = np.log1p(eps1 * (1.0 - cr) / (1.0 - eps1))  # ln[(1 - eps1 Cr)/(1 - eps1)]
-        top = np.expm1(n * lny)
-        general = top / (top + (1.0 - cr))
+        lny = np.log1p(eps1 * (1.0 - cr) / w1)  # ln[(1 - eps1 Cr)/(1 - eps1)]
+        top = np.expm1(n * lny)  # Y^n - 1
+        general = np.where(np.isinf(top), 1.0, top / (top + (1.0 - cr)))
+        w_general = (1.0 - cr) / (top + (1.0 - cr))
         one = n * eps1 / (1.0 + (n - 1) * eps1)
-    general = np.where(eps1 >= 1.0, 1.0, general)
-    return np.where(cr >= 1.0, one, general)
+        w_one = w1 / (1.0 + (n - 1) * eps1)
+    saturated = w1 <= 0.0
+    general = np.where(saturated, 1.0, general)
+    w_general = np.where(saturated, 0.0, w_general)
+    at1 = cr >= 1.0
+    return np.where(at1, one, general), np.where(at1, w_one, w_general)
 
 
-def effectiveness(NTU, Cr, arrangement="E", shells=1):
-    """Exchanger effectiveness from NTU, Kays & London (1984).
+def effectiveness_kernel(ntu, cr, arrangement, units=1, shell_is_cmin=True):
+    """Effectiveness and its complement ``(eps, 1 - eps)``, without input checks (the rating loop's kernel).
+
+    Arguments as in :func:`effectiveness` (``units`` identical units in series); NTU >= 0 and 0 <= Cr <= 1 are
+    the caller's responsibility. ``1 - eps`` is computed directly (not by subtraction), so that the terminal
+    temperature differences of a close approach keep their digits.
+    """
+    if arrangement in _J_PASSES:
+        eps1, w1 = _eps_J(ntu / units, cr, shell_is_cmin, _J_PASSES[arrangement])
+    else:
+        eps1, w1 = _EPS[arrangement](ntu / units, cr)
+    return _series(eps1, w1, cr, units)
+
+
+def effectiveness(NTU, Cr, arrangement="E", shells=1, shell_is_cmin=True):
+    """Exchanger effectiveness from NTU.
 
     - counterflow: eps = (1 - e^{-NTU(1-Cr)})/(1 - Cr e^{-NTU(1-Cr)}); Cr = 1: NTU/(1 + NTU);
     - parallel: eps = (1 - e^{-NTU(1+Cr)})/(1 + Cr);
-    - E (1 shell pass, even tube passes): eps1 = 2/{1 + Cr + S (1 + e^{-NTU1 S})/(1 - e^{-NTU1 S})}, S = sqrt(1 + Cr²);
-    - N shells in series (overall counterflow), NTU1 = NTU/N:
+    - E (1 shell pass, even tube passes): eps1 = 2/{1 + Cr + S (1 + e^{-NTU1 S})/(1 - e^{-NTU1 S})}, S = sqrt(1 + Cr²)
+      (Kays & London 1984);
+    - crossflow (single pass, both fluids unmixed, the TEMA X shell): the exact series of Mason (1954),
+      eps = (1/(Cr NTU)) sum_n [1 - e^{-NTU} sum_{m<=n} NTU^m/m!] [1 - e^{-Cr NTU} sum_{m<=n} (Cr NTU)^m/m!];
+    - J1, J2, J4 (TEMA J, divided flow, shell fluid mixed, with 1, 2 and 4 tube passes): the P1-NTU1 relations of
+      the shell fluid in Shah & Sekulić (2003), Table 3.6, turned into eps = P1 C_shell / Cmin; they depend on which
+      stream is on the shell side (``shell_is_cmin``);
+    - N units in series (overall counterflow), NTU1 = NTU/N:
       eps = {[(1 - eps1 Cr)/(1 - eps1)]^N - 1} / {[(1 - eps1 Cr)/(1 - eps1)]^N - Cr}; Cr = 1: N eps1/(1 + (N-1) eps1).
 
-    Cr = 0 gives 1 - e^{-NTU} for every arrangement.
+    Cr = 0 gives 1 - e^{-NTU} for every arrangement. The forms are arranged so that no exponential overflows at
+    large NTU; eps reaches 1 only where the arrangement's limit is 1.
 
     Parameters
     ----------
@@ -270,9 +406,11 @@ def effectiveness(NTU, Cr, arrangement="E", shells=1):
     Cr : float or array_like
         Cmin/Cmax [-], 0 <= Cr <= 1.
     arrangement : str
-        "counterflow", "parallel" or "E".
+        One of :data:`EFFECTIVENESS_ARRANGEMENTS`.
     shells : int
         Identical units in series, >= 1.
+    shell_is_cmin : bool or array_like of bool
+        Whether the shell-side stream has the smaller heat-capacity rate (J shells only; default True).
 
     Returns
     -------
@@ -282,6 +420,9 @@ def effectiveness(NTU, Cr, arrangement="E", shells=1):
     References
     ----------
     Kays, W. M., London, A. L. (1984). Compact Heat Exchangers, 3rd ed., McGraw-Hill.
+    Shah, R. K., Sekulić, D. P. (2003). Fundamentals of Heat Exchanger Design, Wiley, Table 3.6.
+    Mason, J. L. (1954). Heat transfer in cross flow. Proc. 2nd U.S. National Congress of Applied Mechanics,
+    801-803.
 
     Examples
     --------
@@ -290,15 +431,17 @@ def effectiveness(NTU, Cr, arrangement="E", shells=1):
     >>> effectiveness(1.0, 1.0, "counterflow")
     0.5
     """
-    _check_arrangement(arrangement)
+    if arrangement not in EFFECTIVENESS_ARRANGEMENTS:
+        raise InputError("arrangement", arrangement, f"one of {list(EFFECTIVENESS_ARRANGEMENTS)}")
     shells = _check_shells(shells)
     ntu = _arr(NTU, "NTU")
     if np.any(ntu < 0):
         raise InputError("NTU", ntu, ">= 0")
     cr = _check_cr(Cr)
-    ntu, cr = np.broadcast_arrays(ntu, cr)
-    eps1 = _EPS[arrangement](ntu / shells, cr)
-    return _out(_series(eps1, cr, shells))
+    smin = np.asarray(shell_is_cmin, dtype=bool)
+    ntu, cr, smin = np.broadcast_arrays(ntu, cr, smin)
+    eps, _ = effectiveness_kernel(ntu, cr, arrangement, shells, smin)
+    return _out(eps)
 
 
 def max_effectiveness(Cr, arrangement="E", shells=1):
@@ -321,7 +464,7 @@ def max_effectiveness(Cr, arrangement="E", shells=1):
         e1 = 1.0 / (1.0 + cr)
     else:
         e1 = 2.0 / (1.0 + cr + np.sqrt(1.0 + cr * cr))
-    return _out(_series(e1, cr, shells))
+    return _out(_series(e1, 1.0 - e1, cr, shells)[0])
 
 
 def _ntu_counterflow(eps, cr):
