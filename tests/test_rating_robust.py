@@ -313,3 +313,19 @@ def test_random_sweeps_never_fail_and_match_scalars(n, seed, kind, passes, shell
     i = int(rng.integers(n))
     one = rv.rate(hx, rv.Service(shell=rv.Stream(OIL, ms[i], 480.0), tube=rv.Stream(COOL, mt[i], 300.0)))
     assert r.duty[i] == pytest.approx(one.duty, rel=1e-6)
+
+
+# -------------------------------------------------------------------------------------------- unit file tema_type
+def test_unit_file_tema_type_sets_the_shell_type(tmp_path):
+    from test_unitfile import make_unit, write_unit
+
+    from revamp import unitfile
+
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][0]["geometry"]["tema_type"] = "AJW"  # TEMA: the middle letter is the shell (J: divided flow)
+    doc["exchangers"][1]["geometry"]["tema_type"] = "bfu"
+    unit = unitfile.load(write_unit(tmp_path / "u.yaml", doc))
+    assert [x.exchanger.shell_type for x in unit.exchangers] == ["J", "F"]
+    doc["exchangers"][1]["geometry"]["tema_type"] = "AGW"  # G (split flow) is not rated: a named problem
+    problems = unitfile.check(write_unit(tmp_path / "u.yaml", doc))
+    assert [p.path for p in problems] == ["exchangers[1].geometry.tema_type"]

@@ -185,7 +185,14 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
 
     start, pre = len(problems), f"exchangers[{i}]"
     g = dict(si["geometry"])
-    g.pop("tema_type", None)
+    tema = g.pop("tema_type", None)
+    if tema is not None:  # the middle letter of a TEMA designation is the shell type
+        code = str(tema).strip().upper()
+        if len(code) == 3 and code[1] in geometry.SHELL_TYPES:
+            g["shell_type"] = code[1]
+        else:
+            problems.append(Problem(f"{pre}.geometry.tema_type", str(tema), "must be a three-letter TEMA designation "
+                                    f"whose shell letter (the middle one) is one of {', '.join(geometry.SHELL_TYPES)}"))
     exchanger = _guard(problems, f"{pre}.geometry", lambda: geometry.ShellAndTube(**g, tag=x["tag"]))
     streams = {}
     for side in ("shell", "tube"):
