@@ -45,9 +45,11 @@ __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"
 SHELL_METHODS = shell_corr.SHELL_METHODS
 
 _MAX_ITER = 60
+_DEBUG = False
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
-_ANDERSON_FROM = 1  # iteration from which the Anderson step is tried (plain substitution before)
+_ANDERSON_FROM = 2  # iteration from which the Anderson step is tried (plain substitution before)
+_SEAM_FROM = 4  # iteration from which a residual that changes sign without shrinking marks a seam
 
 
 def arrangement(exchanger) -> tuple[str, int]:
@@ -301,6 +303,7 @@ class _Eval:
     rho_s: np.ndarray
     rho_t: np.ndarray
     Pr_s: np.ndarray
+    mu_ratio_t: np.ndarray
 
 
 def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Rating:
@@ -397,7 +400,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     s_lo, s_hi = s_fluid.t_min, _below(s_fluid.t_max)
     t_lo_f, t_hi_f = t_fluid.t_min, _below(t_fluid.t_max)
 
-    def evaluate(sel, xs, xt, tws, twt, warn=False) -> _Eval:
+    def evaluate(sel, xs, xt, tws, twt) -> _Eval:
         """The outlet and wall temperatures the correlations give at a state (cases ``sel``, None for all)."""
         if sel is None:
             ms, mt, tsi, tti, rfs, rft, sg, dT = m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in
@@ -414,7 +417,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
                                   (pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
         mu_wt = np.broadcast_to(pt.viscosity, (2 * na,))[na:]
         tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
-                                          insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=warn)
+                                          insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=False)
         shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **shell_kw)
         h_s = np.asarray(shell.h, dtype=float)
         k_w = material.conductivity(0.5 * (tws + twt))
@@ -432,7 +435,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         return _Eval(to_s=tsi + sg * q / C_s, to_t=tti - sg * q / C_t, tw_s=tm_s - flux * R[0],
                      tw_t=tm_t + flux * R[4], q=q, eps=eps, w=w, NTU=NTU, U=U, C_s=C_s, C_t=C_t,
                      shell_min=shell_min, R=R, tube=tube, shell=shell, rho_s=rho_s, rho_t=rho_t,
-                     Pr_s=cp_s * mu_s / k_s)
+                     Pr_s=cp_s * mu_s / k_s, mu_ratio_t=mu_t / mu_wt)
 
     # ---- the property iteration, per case
     xs, xt = ts_in.copy(), tt_in.copy()  # first pass: properties at the inlets
@@ -442,6 +445,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
     omega, damped = np.ones(n), np.zeros(n, dtype=bool)
     active = np.arange(n)
+    last_full = False
     for it in range(_MAX_ITER):
         if active.size == 0:
             break
@@ -450,12 +454,12 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         ev = evaluate(sel, *X)
         G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
         f = G - X
-        r = np.max(np.abs(f), axis=0)
+        r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
         conv = r < _TOL_K
         rp, om = r_prev[active], omega[active]
         # a seam: the outlet residual changes sign without shrinking (no fixed point there): halve the step
         s_now = np.sign(f[1])
-        flip = (it > 0) & (s_now * s_prev[active] < 0) & (r > 0.5 * rp)
+        flip = (it >= _SEAM_FROM) & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
         dm = damped[active] | flip
         om = np.where(flip, 0.5 * om, om)
         if it >= _ANDERSON_FROM:
@@ -474,9 +478,14 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         xs[active], xt[active], tws[active], twt[active] = Xn
         f_prev[:, active], g_prev[:, active] = f, G
         r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
+        last_full = sel is None and bool(np.all(stop))
+        if _DEBUG: print(it, active.size, r[:3], gam[:3] if it >= _ANDERSON_FROM else None, dm[:3], om[:3])
         active = active[~stop]
 
-    ev = evaluate(None, xs, xt, tws, twt, warn=True)
+    # every case stopped at the state of its last evaluation: evaluate once more, all together (skipped when that
+    # last evaluation was already of every case at once)
+    if not last_full:
+        ev = evaluate(None, xs, xt, tws, twt)
     to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
     residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))
     unsettled = residual > _SETTLED_K
@@ -513,7 +522,8 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     F = np.where(np.isfinite(F), F, np.nan)
 
     warnings = [f"geometry: {note}" for note in getattr(hx, "notes", ())] + notes
-    warnings += list(ev.tube.warnings) + list(ev.shell.warnings)
+    tube_warnings = tube_corr.tube_side_warnings(ev.tube.Re, ev.tube.Pr, ev.mu_ratio_t, insert)
+    warnings += tube_warnings + list(ev.shell.warnings)
     ok = ~invalid
     for side, fluid, temps in (("shell", s_fluid, (ts_in, to_s)), ("tube", t_fluid, (tt_in, to_t))):
         warnings += [f"{side} side: {w}" for w in fluid.check(np.concatenate([t[ok] for t in temps]))]
@@ -562,7 +572,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         resistances = pd.DataFrame({k: np.where(invalid, np.nan, v) for k, v in res_cols.items()})
     return Rating(
         **fields, area=hx.area_outside, area_inside=hx.area_inside, resistances=resistances,
-        tube_side=_reshape_fields(tube, shape), shell_side=_reshape_fields(ev.shell, shape),
+        tube_side=_reshape_fields(dataclasses.replace(tube, warnings=tube_warnings), shape), shell_side=_reshape_fields(ev.shell, shape),
         warnings=tuple(dict.fromkeys(warnings)), defaults=tuple(getattr(hx, "defaults_used", ())), exchanger=hx,
         service=service, shell_method=shell_method,
     )

@@ -56,6 +56,7 @@ __all__ = [
     "prandtl_correction",
     "tube_side",
     "tube_side_kernel",
+    "tube_side_warnings",
     "viscosity_correction",
 ]
 
@@ -448,6 +449,47 @@ def tube_side(m_dot, n_tubes_per_pass, d_i, length, passes, rho, cp, mu, k, mu_w
     return TubeSideResult(*out, warnings=res.warnings)
 
 
+def tube_side_warnings(Re, Pr, mu_ratio=None, insert=None) -> list[str]:
+    """The validity-range warnings of a tube-side result: Gnielinski and Sieder-Tate ranges, transitional flow, the
+    insert's own checks, and the viscosity ratio (``mu_ratio`` = μ/μ_wall, None when not applied)."""
+    warns: list[str] = []
+    if insert is None:
+        Re_b, Pr_b = np.broadcast_arrays(Re, Pr)
+        turb = Re_b >= RE_TURBULENT
+        warns += range_warning("Gnielinski (1976)", "Re", Re_b[turb], 3000, 5e6, "Gnielinski (1976)")
+        warns += range_warning("Gnielinski (1976)", "Pr", Pr_b[turb], 0.5, 2000, "Gnielinski (1976)")
+        lam = Re_b <= RE_LAMINAR
+        warns += range_warning("Sieder-Tate (1936)", "Pr", Pr_b[lam], 0.48, 16700, "Sieder & Tate (1936)")
+        mid = ~lam & ~turb
+        if np.any(mid):
+            warns.append(f"tube side: transitional flow (2300 < Re < 1e4) in {int(np.sum(mid))} case(s): "
+                         "Nu from the Gnielinski (2013) blend, uncertain to about +-20 %")
+    else:
+        warns += list(insert.check(Re, Pr))
+    if mu_ratio is not None:
+        warns += range_warning("Sieder-Tate (1936)", "mu/mu_wall", mu_ratio, 0.0044, 9.75, "Sieder & Tate (1936)")
+    return warns
+
+
+def _nu_tube_kernel(Re, Pr, dl, laminar):
+    """:func:`nu_tube` on float arrays, each branch evaluated once."""
+    lam_fn = LAMINAR_METHODS[laminar]
+    nu_lam_end = lam_fn(RE_LAMINAR, Pr, dl)
+    nu_turb_start = nu_gnielinski(RE_TURBULENT, Pr, d_over_L=dl)
+    g = np.clip((Re - RE_LAMINAR) / (RE_TURBULENT - RE_LAMINAR), 0.0, 1.0)
+    nu = np.where(Re <= RE_LAMINAR, lam_fn(np.minimum(Re, RE_LAMINAR), Pr, dl),
+                  (1.0 - g) * nu_lam_end + g * nu_turb_start)
+    return np.where(Re >= RE_TURBULENT, nu_gnielinski(np.maximum(Re, RE_TURBULENT), Pr, d_over_L=dl), nu)
+
+
+def _friction_kernel(Re, rr):
+    """:func:`friction_darcy` on float arrays."""
+    f_turb = _swamee_jain(np.maximum(Re, RE_FRICTION_TURBULENT), rr)
+    g = np.clip((Re - RE_LAMINAR) / (RE_FRICTION_TURBULENT - RE_LAMINAR), 0.0, 1.0)
+    f_mid = (1.0 - g) * (64.0 / RE_LAMINAR) + g * _swamee_jain(RE_FRICTION_TURBULENT, rr)
+    return np.where(Re <= RE_LAMINAR, 64.0 / Re, np.where(Re >= RE_FRICTION_TURBULENT, f_turb, f_mid))
+
+
 def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.0, insert=None, d_nozzle=None,
                      rho_nozzle=None, laminar="sieder-tate", warn=True) -> TubeSideResult:
     """:func:`tube_side` without input checks or unit parsing: SI floats or float arrays in, arrays out.
@@ -460,33 +502,17 @@ def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.
     Re = rho * v * d / mu
     Pr = cp * mu / k
     dl = d / L
-    warns: list[str] = []
     if insert is None:
-        Nu = _arr(nu_tube(Re, Pr, dl, laminar))
-        f = _arr(friction_darcy(Re, rr))
-        if warn:
-            Re_b, Pr_b = np.broadcast_arrays(Re, Pr)
-            turb = Re_b >= RE_TURBULENT
-            warns += range_warning("Gnielinski (1976)", "Re", Re_b[turb], 3000, 5e6, "Gnielinski (1976)")
-            warns += range_warning("Gnielinski (1976)", "Pr", Pr_b[turb], 0.5, 2000, "Gnielinski (1976)")
-            lam = Re_b <= RE_LAMINAR
-            warns += range_warning("Sieder-Tate (1936)", "Pr", Pr_b[lam], 0.48, 16700, "Sieder & Tate (1936)")
-            mid = ~lam & ~turb
-            if np.any(mid):
-                warns.append(f"tube side: transitional flow (2300 < Re < 1e4) in {int(np.sum(mid))} case(s): "
-                             "Nu from the Gnielinski (2013) blend, uncertain to about +-20 %")
+        Nu = _nu_tube_kernel(Re, Pr, dl, laminar)
+        f = _friction_kernel(Re, rr)
     else:
         Nu = _arr(insert.nu(Re, Pr, dl))
         f = _arr(insert.friction(Re))
-        if warn:
-            warns += list(insert.check(Re, Pr))
     if mu_wall is not None:
-        ratio = mu / mu_wall
-        phi = ratio ** 0.14
+        phi = (mu / mu_wall) ** 0.14
         Nu = Nu * phi
         f = f / phi
-        if warn:
-            warns += range_warning("Sieder-Tate (1936)", "mu/mu_wall", ratio, 0.0044, 9.75, "Sieder & Tate (1936)")
+    warns = tube_side_warnings(Re, Pr, None if mu_wall is None else mu / mu_wall, insert) if warn else []
     h = Nu * k / d
     head = rho * v**2 / 2.0
     dp_f = f * (L * passes / d) * head
