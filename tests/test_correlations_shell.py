@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 
+import fluids.fittings as fl
 import ht.conv_tube_bank as tb
 import numpy as np
 import pytest
@@ -448,3 +449,39 @@ def test_jc_never_exceeds_the_charts_maximum():
     assert jc.max() <= 1.155
     assert baffle_cut_factor(1.0) == pytest.approx(tb.baffle_correction_Bell(1.0), abs=0.035)
     assert np.all(np.abs(np.diff(jc)) < 0.0035)  # continuous: no step larger than the slope allows (<= 3 per unit Fc)
+
+
+# ---------------------------------------------------------------------------------------------- nozzles
+@pytest.mark.parametrize("method", [bell_delaware, kern])
+def test_shell_nozzle_loss_is_added_only_when_asked(method):
+    g = hx().bell()
+    plain = method(g, 20.0, **PROPS)
+    with_n = method(g, 20.0, **PROPS, d_nozzle="6 in")
+    assert plain.dp_nozzles == 0.0
+    # 1.0 velocity head at the inlet (sudden expansion) + 0.5 at the outlet (sudden contraction), Perry's Handbook §6
+    # loss coefficients (from memory), by hand: v = m / (ρ π d²/4)
+    v = 20.0 / (PROPS["rho"] * math.pi * (6 * INCH) ** 2 / 4)
+    assert with_n.dp_nozzles == pytest.approx(1.5 * PROPS["rho"] * v ** 2 / 2, rel=1e-12)
+    assert with_n.dp == pytest.approx(plain.dp + with_n.dp_nozzles, rel=1e-12)
+    assert with_n.h == plain.h
+    # independent check: fluids' loss coefficients, exit into a large space (Borda-Carnot, 1.0) and sharp-edged
+    # entrance (0.57), total 1.57 velocity heads: ours is within 5 %
+    k_fluids = fl.diffuser_sharp(Di1=6 * INCH, Di2=100.0) + fl.contraction_sharp(Di1=100.0, Di2=6 * INCH)
+    assert with_n.dp_nozzles == pytest.approx(k_fluids * PROPS["rho"] * v ** 2 / 2, rel=0.05)
+    # the nozzle density can differ from the bulk (inlet temperature): Δp ∝ 1/ρ at fixed mass flow
+    other = method(g, 20.0, **PROPS, d_nozzle=6 * INCH, rho_nozzle=2 * PROPS["rho"])
+    assert other.dp_nozzles == pytest.approx(with_n.dp_nozzles / 2, rel=1e-12)
+
+
+def test_shell_nozzle_loss_broadcasts():
+    g = hx().bell()
+    r = bell_delaware(g, np.array([10.0, 20.0]), **PROPS, d_nozzle=0.15)
+    assert r.dp_nozzles.shape == (2,)
+    assert r.dp_nozzles[1] == pytest.approx(4 * r.dp_nozzles[0])  # v² ∝ m² (definition of the velocity head)
+
+
+@pytest.mark.parametrize("kw", [dict(d_nozzle=0.0), dict(d_nozzle="-2 in"), dict(d_nozzle=[0.1, 0.2]),
+                                dict(rho_nozzle=800.0), dict(d_nozzle=0.1, rho_nozzle=-1.0)])
+def test_bad_nozzle_input_names_the_field(kw):
+    with pytest.raises(InputError, match="nozzle"):
+        bell_delaware(hx().bell(), 20.0, **PROPS, **kw)
