@@ -388,8 +388,8 @@ class ShellAndTube:
         Layout angle: 30 (triangular), 45 (rotated square), 60 (rotated triangular), 90 (square) [deg].
     baffle_spacing : float or str
         Central baffle spacing Lbc [m].
-    baffle_cut : float
-        Baffle cut as a fraction of the shell inside diameter, 0.15-0.45 [-].
+    baffle_cut : float or str
+        Baffle cut as a fraction of the shell inside diameter, 0.15-0.45 [-] (or a string such as ``"25 %"``).
     shells : int
         Identical shells in series (default 1).
     shells_parallel : int
@@ -493,10 +493,14 @@ class ShellAndTube:
         put("shells_parallel", _integer(self.shells_parallel, "shells_parallel", 1))
 
         cut = self.baffle_cut
-        if isinstance(cut, bool) or not isinstance(cut, (int, float)) or not 0.15 <= cut <= 0.45:
-            raise InputError("baffle_cut", cut, "a fraction of the shell id from 0.15 to 0.45 (0.25 for 25 %): "
-                             "the range of the Bell-Delaware correlations (Taborek 1983)")
-        put("baffle_cut", float(cut))
+        allowed_cut = ("a fraction of the shell id from 0.15 to 0.45 (0.25 or '25 %'): the range of the "
+                       "Bell-Delaware correlations (Taborek 1983)")
+        if isinstance(cut, bool) or not isinstance(cut, (int, float, str)):
+            raise InputError("baffle_cut", cut, allowed_cut)
+        cut_si = to_si(cut, "dimensionless", "baffle_cut")  # "25 %" -> 0.25, as the unit file reads it
+        if not isinstance(cut_si, float) or not 0.15 <= cut_si <= 0.45:
+            raise InputError("baffle_cut", cut, allowed_cut)
+        put("baffle_cut", float(cut_si))
 
         # rear head
         if _is_default(self.rear_head):

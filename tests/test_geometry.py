@@ -280,3 +280,17 @@ def test_material_is_parsed_through_revamp_materials():
     with pytest.raises(InputError) as err:
         make(tube_material="unobtainium")
     assert err.value.field == "tube_material"
+
+
+# ------------------------------------------------------------------------------------------------ baffle cut as text
+@pytest.mark.parametrize("text, value", [("25 %", 0.25), ("0.3", 0.3), ("45%", 0.45)])
+def test_baffle_cut_accepts_percent_strings(text, value):
+    # "25 %" is 0.25 of the shell id (definition of per cent), as the unit file reads it
+    assert make(baffle_cut=text).baffle_cut == pytest.approx(value)
+    assert make(baffle_cut=text).bell().Bc == pytest.approx(value)
+
+
+@pytest.mark.parametrize("bad", ["25 mm", "10 %", "50 %", "x", [0.25], None])
+def test_baffle_cut_bad_strings_name_the_field(bad):
+    with pytest.raises(InputError, match="baffle_cut"):
+        make(baffle_cut=bad)
