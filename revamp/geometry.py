@@ -41,7 +41,7 @@ from dataclasses import dataclass, field
 from .errors import InputError
 from .units import to_si
 
-__all__ = ["ShellAndTube", "BellGeometry", "REAR_HEADS", "LAYOUTS", "SHELL_TYPES"]
+__all__ = ["ShellAndTube", "BellGeometry", "REAR_HEADS", "LAYOUTS", "SHELL_TYPES", "tube_count_max"]
 
 LAYOUTS = (30, 45, 60, 90)
 SHELL_TYPES = ("E", "F", "J", "X")  #: TEMA shell types the rating supports
@@ -367,6 +367,80 @@ def tube_count_estimate(Dctl: float, pitch: float, layout: int) -> float:
     return 0.78 * Dctl ** 2 / (_C1[layout] * pitch ** 2)
 
 
+def _lattice_radii(bundle_diameter: float, tube_od: float, pitch: float, layout: int):
+    """Sorted centre distances [in pitches] of the lattice tubes from the bundle centre, for each of the standard
+    placements of the centre (on a tube; between two tubes; at the centre of a lattice cell), out to the radius
+    that keeps a whole tube inside ``bundle_diameter``."""
+    r = 0.5 * (bundle_diameter - tube_od) / pitch
+    if r < 0:
+        return []
+    import numpy as np  # local: the rest of this module is plain Python
+
+    n = int(math.ceil(1.2 * r)) + 2  # rows: a triangular lattice's rows are 0.866 Pt apart
+    i, j = np.meshgrid(np.arange(-2 * n, 2 * n + 1), np.arange(-n, n + 1), indexing="ij")
+    if layout in (30, 60):  # triangular lattice (60° is the same lattice turned 90°: the same count in a circle)
+        x, y = (i + 0.5 * j).ravel(), (j * math.sqrt(3) / 2).ravel()
+        centres = ((0.0, 0.0), (0.5, 0.0), (0.5, math.sqrt(3) / 6))
+    else:  # square lattice (45° is the same lattice turned 45°)
+        x, y = i.ravel().astype(float), j.ravel().astype(float)
+        centres = ((0.0, 0.0), (0.5, 0.0), (0.5, 0.5))
+    lim = r * r * (1 + 1e-12)
+    out = []
+    for cx, cy in centres:
+        d2 = (x - cx) ** 2 + (y - cy) ** 2
+        out.append(np.sqrt(np.sort(d2[d2 <= lim])).tolist())
+    return out
+
+
+def tube_count_max(bundle_diameter: float, tube_od: float, pitch: float, layout: int) -> int:
+    """The most tubes of a regular layout whose full section lies inside a circle (exact lattice count) [-].
+
+    Counts the lattice positions whose centre lies within ``(bundle_diameter - tube_od)/2`` of the circle's centre,
+    for the centre on a tube, midway between two tubes and at the centre of a lattice cell, and returns the largest
+    count. One tube pass (no pass-partition lanes), so it bounds what any layout of this pitch can hold.
+
+    Parameters
+    ----------
+    bundle_diameter : float
+        Diameter of the circle the tubes must lie in (outer tube limit, or the shell id) [m].
+    tube_od : float
+        Tube outside diameter [m].
+    pitch : float
+        Tube pitch [m].
+    layout : int
+        30, 45, 60 or 90 [deg].
+
+    Returns
+    -------
+    int
+        Tubes that fit.
+
+    References
+    ----------
+    Phadke, P. S. (1984). Determining tube counts for shell and tube exchangers. *Chem. Eng.* 91(18), 65-68 (the same
+    lattice-in-circle count, tabulated for a tube at the centre; ``ht.Ntubes_Phadkeb`` codes it and is the
+    independent check in the tests).
+
+    Examples
+    --------
+    1 in tubes on a 1.25 in square pitch in a 183 mm circle (tube-centred count 21, Phadke 1984 as coded in ht):
+
+    >>> tube_count_max(0.183, 0.0254, 0.03175, 90)
+    21
+    """
+    radii = _lattice_radii(bundle_diameter, tube_od, pitch, layout)
+    return max((len(r) for r in radii), default=0)
+
+
+def _bundle_diameter_for(tubes: int, tube_od: float, pitch: float, layout: int, shell_id: float) -> float:
+    """The smallest outer-tube-limit diameter [m] holding ``tubes`` tubes (exact lattice count, best placement)."""
+    best = math.inf
+    for radii in _lattice_radii(shell_id, tube_od, pitch, layout):
+        if len(radii) >= tubes:
+            best = min(best, radii[tubes - 1])
+    return 2.0 * best * pitch + tube_od
+
+
 @dataclass(frozen=True)
 class ShellAndTube:
     """A shell-and-tube exchanger: TEMA E shell, single-segmental baffles (validated, immutable, SI inside).
@@ -389,8 +463,8 @@ class ShellAndTube:
         Layout angle: 30 (triangular), 45 (rotated square), 60 (rotated triangular), 90 (square) [deg].
     baffle_spacing : float or str
         Central baffle spacing Lbc [m].
-    baffle_cut : float
-        Baffle cut as a fraction of the shell inside diameter, 0.15-0.45 [-].
+    baffle_cut : float or str
+        Baffle cut as a fraction of the shell inside diameter, 0.15-0.45 [-] (or a string such as ``"25 %"``).
     shells : int
         Identical shells in series (default 1).
     shells_parallel : int
@@ -506,10 +580,14 @@ class ShellAndTube:
         put("shells_parallel", _integer(self.shells_parallel, "shells_parallel", 1))
 
         cut = self.baffle_cut
-        if isinstance(cut, bool) or not isinstance(cut, (int, float)) or not 0.15 <= cut <= 0.45:
-            raise InputError("baffle_cut", cut, "a fraction of the shell id from 0.15 to 0.45 (0.25 for 25 %): "
-                             "the range of the Bell-Delaware correlations (Taborek 1983)")
-        put("baffle_cut", float(cut))
+        allowed_cut = ("a fraction of the shell id from 0.15 to 0.45 (0.25 or '25 %'): the range of the "
+                       "Bell-Delaware correlations (Taborek 1983)")
+        if isinstance(cut, bool) or not isinstance(cut, (int, float, str)):
+            raise InputError("baffle_cut", cut, allowed_cut)
+        cut_si = to_si(cut, "dimensionless", "baffle_cut")  # "25 %" -> 0.25, as the unit file reads it
+        if not isinstance(cut_si, float) or not 0.15 <= cut_si <= 0.45:
+            raise InputError("baffle_cut", cut, allowed_cut)
+        put("baffle_cut", float(cut_si))
 
         # rear head
         if _is_default(self.rear_head):
@@ -608,14 +686,35 @@ class ShellAndTube:
             if getattr(self, name) is not None:
                 put(name, _length(getattr(self, name), name))
 
-        # tube count against the room in the bundle
-        dctl = ds - lbb - do
-        n_max = tube_count_estimate(dctl, pt, self.layout)
-        if self.tube_count > 1.1 * n_max:
-            raise InputError("tube_count", self.tube_count,
-                             f"<= about {1.1 * n_max:.0f} (1.1 x Taborek's estimate 0.78 Dctl²/(C1 Pt²) = "
-                             f"{n_max:.0f} tubes for this shell, pitch and bundle-to-shell clearance "
-                             f"{lbb * 1000:.1f} mm; check clearance_bundle_shell or rear_head)")
+        # tube count against the room in the bundle: refuse only what cannot fit (an exact lattice count); the
+        # estimate 0.78 Dctl²/(C1 Pt²) (Taborek 1983) only prompts a note. A defaulted bundle-to-shell clearance
+        # too large for the stated tubes is reduced to the largest that holds them.
+        n_est = tube_count_estimate(ds - lbb - do, pt, self.layout)
+        if self.tube_count > n_est:
+            stated = not _is_default(self.clearance_bundle_shell)
+            limit = ds - lbb if stated else ds
+            n_fit = tube_count_max(limit, do, pt, self.layout)
+            if self.tube_count > n_fit:
+                where = (f"within the outer tube limit {limit * 1000:.1f} mm (shell id less the stated "
+                         f"clearance_bundle_shell {lbb * 1000:.1f} mm)" if stated else
+                         f"inside the shell id {ds * 1000:.1f} mm even with no bundle-to-shell clearance")
+                raise InputError("tube_count", self.tube_count,
+                                 f"<= {n_fit}: no more tubes of {do * 1000:.4g} mm on a {pt * 1000:.4g} mm pitch "
+                                 f"at {self.layout}° fit {where} (exact lattice count, one pass)")
+            if not stated and self.tube_count > tube_count_max(ds - lbb, do, pt, self.layout):
+                lbb = max(0.0, ds - _bundle_diameter_for(self.tube_count, do, pt, self.layout, ds))
+                lbb = _DefaultFloat(math.floor(lbb * 1e4) / 1e4)
+                put("clearance_bundle_shell", lbb)
+                defaults[:] = [d for d in defaults if not d.startswith("clearance_bundle_shell")]
+                defaults.append(f"clearance_bundle_shell = {lbb * 1000:.1f} mm (the largest that holds "
+                                f"{self.tube_count} tubes; the typical {self.rear_head} value leaves too little room)")
+                notes.append(f"tube_count {self.tube_count} does not fit the typical bundle-to-shell clearance of a "
+                             f"{self.rear_head} rear head: rated with {lbb * 1000:.1f} mm; give clearance_bundle_shell "
+                             "from the bundle drawing")
+            else:
+                notes.append(f"tube_count {self.tube_count} exceeds the estimate 0.78 Dctl²/(C1 Pt²) = {n_est:.0f} "
+                             f"(Taborek 1983) but fits by an exact lattice count ({n_fit} at most in one pass); check "
+                             "it against the tube sheet layout")
 
         # material and roughness
         raw = self.tube_material

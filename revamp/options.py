@@ -314,16 +314,17 @@ class BaffleChange:
     Parameters
     ----------
     spacing : float or str, optional
-        Central baffle spacing [m]; the end spacings are recomputed unless given.
-    cut : float, optional
-        Baffle cut, fraction of shell inside diameter [-].
+        Central baffle spacing [m]. End spacings given here are used; end spacings the exchanger states keep their
+        values; only end spacings that were defaulted follow the new central spacing.
+    cut : float or str, optional
+        Baffle cut, fraction of shell inside diameter [-] (or a string such as ``"25 %"``).
     spacing_in, spacing_out : float or str, optional
         Inlet and outlet spacings [m].
     label : str, optional
     """
 
     spacing: object = None
-    cut: float | None = None
+    cut: object = None
     spacing_in: object = None
     spacing_out: object = None
     label: str | None = None
@@ -336,7 +337,11 @@ class BaffleChange:
                 v = to_si(getattr(self, name), "length", f"BaffleChange.{name}")
                 object.__setattr__(self, name, float(require(v, f"BaffleChange.{name}", gt=0)))
         if self.cut is not None:
-            object.__setattr__(self, "cut", float(require(self.cut, "BaffleChange.cut", gt=0, lt=0.5)))
+            cut = self.cut
+            if isinstance(cut, bool) or not isinstance(cut, (int, float, str)):
+                raise InputError("BaffleChange.cut", cut, "a fraction of the shell id, e.g. 0.25 or '25 %'")
+            cut = to_si(cut, "dimensionless", "BaffleChange.cut")  # "25 %" -> 0.25
+            object.__setattr__(self, "cut", float(require(cut, "BaffleChange.cut", gt=0, lt=0.5)))
         parts = []
         if self.spacing is not None:
             parts.append(f"spacing {_mm(self.spacing)}")
@@ -349,10 +354,16 @@ class BaffleChange:
     def apply(self, exchanger, service):
         changes = {}
         if self.spacing is not None:
+            from .geometry import _is_default
+
             changes["baffle_spacing"] = self.spacing
-            # end spacings that were defaults follow the new central spacing
-            changes["baffle_spacing_in"] = self.spacing_in
-            changes["baffle_spacing_out"] = self.spacing_out
+            # end spacings given here win; the exchanger's own stated end spacings stay; defaulted ones (None)
+            # are recomputed for the new central spacing
+            for end in ("in", "out"):
+                given = getattr(self, f"spacing_{end}")
+                current = getattr(exchanger, f"baffle_spacing_{end}")
+                changes[f"baffle_spacing_{end}"] = given if given is not None else (
+                    None if _is_default(current) else current)
         else:
             if self.spacing_in is not None:
                 changes["baffle_spacing_in"] = self.spacing_in
@@ -370,7 +381,7 @@ class Combined:
     Parameters
     ----------
     *options
-        The options.
+        The options, or one list (or tuple) of them, as the unit file writes them.
     label : str, optional
     """
 
@@ -378,6 +389,8 @@ class Combined:
     label: str | None
 
     def __init__(self, *options, label=None):
+        if len(options) == 1 and isinstance(options[0], (list, tuple)):
+            options = tuple(options[0])
         if not options:
             raise InputError("Combined", options, "at least one option")
         for opt in options:

@@ -170,14 +170,74 @@ def test_crossflow_area_against_the_centre_row_of_a_lattice(layout, ds, lbb):
 
 
 @pytest.mark.parametrize("layout", [30, 45, 60, 90])
-def test_tube_count_limit_matches_ht_estimate(layout):
-    hx = make(layout=layout, tube_count=10)
+def test_tube_count_above_the_estimate_is_a_note_not_an_error(layout):
+    hx = make(layout=layout, tube_count=10, clearance_bundle_shell="0 mm")
     b = hx.bell()
-    # ht.hx.Ntubes_HEDH: N = 0.78 Dctl^2/(C1 Pt^2), C1 = 13/15 for 30/60 (HEDH); error above 1.1 x this
+    # ht.hx.Ntubes_HEDH: N = 0.78 Dctl^2/(C1 Pt^2) (HEDH), an estimate: exceeding it only draws a note
     n_ht = ht.hx.Ntubes_HEDH(DBundle=b.Dotl, Do=b.tube_od, pitch=b.pitch, angle=layout)
-    make(layout=layout, tube_count=int(1.09 * n_ht))  # fits within the tolerance
+    n_exact = ht.hx.Ntubes_Phadkeb(DBundle=b.Dotl, Do=b.tube_od, pitch=b.pitch, Ntp=1, angle=layout)
+    assert n_exact >= n_ht + 4  # the exact count exceeds the estimate here (236 vs 241, 204 vs 213)
+    assert make(layout=layout, tube_count=int(0.95 * n_ht), clearance_bundle_shell="0 mm").notes == ()
+    over = make(layout=layout, tube_count=n_exact, clearance_bundle_shell="0 mm")
+    assert any("exceeds the estimate" in n for n in over.notes)
+
+
+@pytest.mark.parametrize("layout", [30, 45, 60, 90])
+@pytest.mark.parametrize("ds, lbb", [(0.183, 0.0), (0.3, 0.012), (0.54, 0.015), (0.9, 0.02)])
+def test_tube_count_refused_only_when_it_cannot_fit(layout, ds, lbb):
+    kw = dict(shell_id=ds, tube_count=2, tube_passes=1, clearance_bundle_shell=lbb, baffle_spacing=0.4 * ds,
+              layout=layout)
+    # Phadke (1984) as coded in ht.hx.Ntubes_Phadkeb: the exact tube-centred count in the outer tube limit
+    n_phadke = ht.hx.Ntubes_Phadkeb(DBundle=ds - lbb, Do=0.0254, pitch=0.03175, Ntp=1, angle=layout)
+    ok = make(**{**kw, "tube_count": n_phadke})  # what Phadke's count holds is never refused
+    assert ok.tube_count == n_phadke
+    from revamp.geometry import _lattice_radii, tube_count_max
+    # with a tube at the centre our lattice count is Phadke's, tube for tube
+    assert len(_lattice_radii(ds - lbb, 0.0254, 0.03175, layout)[0]) == n_phadke
+    # another centre placement (between tubes, cell centre) may hold a few more: that is the limit
+    limit = tube_count_max(ds - lbb, 0.0254, 0.03175, layout)
+    assert limit >= n_phadke
+    make(**{**kw, "tube_count": limit})
+    with pytest.raises(InputError, match="tube_count") as err:
+        make(**{**kw, "tube_count": limit + 1})
+    assert f"<= {limit}" in str(err.value)
+    # area bound (closed form): each tube owns a lattice cell of C1 Pt² (C1 = sqrt(3)/2 triangular, 1 square);
+    # the cells of tubes centred within r lie within r + Pt of the centre
+    r = (ds - lbb - 0.0254) / 2
+    c1 = math.sqrt(3) / 2 if layout in (30, 60) else 1.0
+    assert limit <= math.pi * (r + 0.03175) ** 2 / (c1 * 0.03175 ** 2)
+
+
+@settings(max_examples=25, deadline=None)
+@given(d=st.floats(0.06, 1.6), ratio=st.floats(1.2, 1.6), layout=st.sampled_from([30, 45, 60, 90]))
+def test_exact_count_never_below_phadke(d, ratio, layout):
+    from revamp.geometry import _lattice_radii, tube_count_max
+    # Phadke (1984) as coded in ht.hx.Ntubes_Phadkeb (tube-centred, one pass)
+    n_phadke = ht.hx.Ntubes_Phadkeb(DBundle=d, Do=0.0254, pitch=ratio * 0.0254, Ntp=1, angle=layout)
+    radii = _lattice_radii(d, 0.0254, ratio * 0.0254, layout)
+    assert len(radii[0]) == n_phadke
+    assert tube_count_max(d, 0.0254, ratio * 0.0254, layout) >= n_phadke
+
+
+def test_buildable_small_bundle_is_accepted():
+    # 21 tubes of 25.4 mm on 31.75 mm square pitch in a 183 mm shell: Phadke's exact count (ht.hx.Ntubes_Phadkeb)
+    # fits 21 in the shell id; the old estimate refused more than about 18
+    assert ht.hx.Ntubes_Phadkeb(DBundle=0.183, Do=0.0254, pitch=0.03175, Ntp=1, angle=90) == 21
+    hx = make(shell_id="0.183 m", tube_count=21, tube_passes=1, baffle_spacing="0.15 m")
+    # the typical split-ring clearance (35 mm + 0.015 Ds) cannot hold 21 tubes: the defaulted clearance shrinks to
+    # what holds them, and the note says so
+    assert any("does not fit the typical bundle-to-shell clearance" in n for n in hx.notes)
+    b = hx.bell()
+    # the 21st tube centre lies at sqrt(1 + 4) pitches from the centre (the (1, 2) lattice point, closed form), so
+    # the outer tube limit must be at least 2 sqrt(5) Pt + do
+    assert b.Dotl >= 2 * math.sqrt(5) * 0.03175 + 0.0254 - 1e-12
+    assert b.Dotl <= 2 * math.sqrt(5) * 0.03175 + 0.0254 + 2e-4
     with pytest.raises(InputError, match="tube_count"):
-        make(layout=layout, tube_count=int(1.12 * n_ht) + 1)
+        hx.replace(tube_count=22)
+    # a stated clearance is a fact: it is not shrunk, the count is checked against it
+    with pytest.raises(InputError, match="clearance_bundle_shell"):
+        make(shell_id="0.183 m", tube_count=21, tube_passes=1, baffle_spacing="0.15 m",
+             clearance_bundle_shell="30 mm")
 
 
 def test_pitches_by_layout():
@@ -280,3 +340,17 @@ def test_material_is_parsed_through_revamp_materials():
     with pytest.raises(InputError) as err:
         make(tube_material="unobtainium")
     assert err.value.field == "tube_material"
+
+
+# ------------------------------------------------------------------------------------------------ baffle cut as text
+@pytest.mark.parametrize("text, value", [("25 %", 0.25), ("0.3", 0.3), ("45%", 0.45)])
+def test_baffle_cut_accepts_percent_strings(text, value):
+    # "25 %" is 0.25 of the shell id (definition of per cent), as the unit file reads it
+    assert make(baffle_cut=text).baffle_cut == pytest.approx(value)
+    assert make(baffle_cut=text).bell().Bc == pytest.approx(value)
+
+
+@pytest.mark.parametrize("bad", ["25 mm", "10 %", "50 %", "x", [0.25], None])
+def test_baffle_cut_bad_strings_name_the_field(bad):
+    with pytest.raises(InputError, match="baffle_cut"):
+        make(baffle_cut=bad)

@@ -155,3 +155,51 @@ def test_cleaning_never_lowers_duty(rf_shell, rf_tube, side, frac):
     before = rv.rate(ex, svc).duty
     after = rv.rate(*op.Clean(side, residual).apply(ex, svc)).duty
     assert after >= before * (1 - 1e-9)
+
+
+# ---------------------------------------------------------------------------------------------- baffle change edges
+def test_baffle_change_takes_units_and_percent():
+    a = op.BaffleChange(spacing="380 mm", cut="25 %")
+    # 380 mm = 0.38 m, 25 % = 0.25 (definitions of the units)
+    assert a.spacing == pytest.approx(0.38) and a.cut == pytest.approx(0.25)
+    assert op.BaffleChange(cut=0.3).cut == 0.3
+    ex, _ = a.apply(exchanger(shell_id="0.8 m", tube_count=300), service())
+    assert ex.baffle_spacing == pytest.approx(0.38) and ex.baffle_cut == pytest.approx(0.25)
+
+
+@pytest.mark.parametrize("cut", ["25 mm", "abc", [0.2, 0.3], 0.6, "60 %", 0.0, True])
+def test_baffle_change_bad_cut_names_the_field(cut):
+    with pytest.raises(InputError, match="BaffleChange.cut"):
+        op.BaffleChange(cut=cut)
+
+
+def test_baffle_change_keeps_stated_end_spacings():
+    ex = exchanger(shell_id="0.8 m", tube_count=300, baffle_spacing="0.3 m", baffle_spacing_in="0.4 m",
+                   baffle_spacing_out="0.45 m")
+    new, _ = op.BaffleChange(spacing="0.35 m").apply(ex, service())
+    # the user's inlet/outlet spacings are data about the exchanger: a new central spacing does not move them
+    assert new.baffle_spacing == pytest.approx(0.35)
+    assert new.baffle_spacing_in == pytest.approx(0.4) and new.baffle_spacing_out == pytest.approx(0.45)
+    # given with the change, they win
+    new2, _ = op.BaffleChange(spacing="0.35 m", spacing_in="0.5 m").apply(ex, service())
+    assert new2.baffle_spacing_in == pytest.approx(0.5) and new2.baffle_spacing_out == pytest.approx(0.45)
+
+
+def test_baffle_change_recomputes_defaulted_end_spacings():
+    ex = exchanger(shell_id="0.8 m", tube_count=300, baffle_spacing="0.3 m")
+    new, _ = op.BaffleChange(spacing="0.35 m").apply(ex, service())
+    b = new.bell()
+    # defaulted end spacings follow the new central spacing: the spacings fill the tube length
+    # (Lbi + (Nb - 1) Lbc + Lbo = L, definition) with end spaces at least one central spacing
+    assert b.Lbi + (b.Nb - 1) * b.Lbc + b.Lbo == pytest.approx(16 * 0.3048)
+    assert b.Lbi >= 0.35 - 1e-9 and b.Lbo >= 0.35 - 1e-9
+
+
+def test_combined_accepts_a_list():
+    a, b = op.Clean(), op.AddShells(1)
+    c = op.Combined([a, b])
+    assert c.options == (a, b) and c.label == op.Combined(a, b).label
+    with pytest.raises(InputError):
+        op.Combined([])
+    with pytest.raises(InputError):
+        op.Combined([a, "not an option"])

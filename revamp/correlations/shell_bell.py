@@ -20,10 +20,12 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..units import require
+from ..errors import InputError
+from ..units import require, to_si
 from ._validity import range_warning
 
-__all__ = ["ShellSideResult", "bell_delaware", "ideal_j", "ideal_f", "correction_factors", "TABOREK_FITS"]
+__all__ = ["ShellSideResult", "bell_delaware", "ideal_j", "ideal_f", "correction_factors", "baffle_cut_factor",
+           "nozzle_pressure_drop", "TABOREK_FITS"]
 
 _SOURCE = "Taborek (1983), HEDH §3.3"
 
@@ -41,6 +43,30 @@ TABOREK_FITS = {
 TABOREK_FITS[60] = TABOREK_FITS[30]  # Taborek: the 60° layout uses the 30° fits
 _EDGES = np.array([10.0, 100.0, 1e3, 1e4])
 _LAMINAR_RE = 100.0
+# Seams. Taborek's method switches abruptly at band edges (the ideal-bank fits, a few per cent apart there) and at
+# Re = 100 between its laminar and turbulent constants (Jb, Rb, Js, Rs and the window pressure drop, which can differ
+# several-fold there). A rating swept in flow must not see a step, so each switch is replaced by a blend that is
+# linear in ln Re, geometric in the blended value, over a band centred (in ln Re) on the published switch point:
+# a factor 1.25 either side of each fit edge, a factor 2.5 either side of Re = 100 (40 to 250). Outside these bands
+# the published values are used unchanged. The blend and its widths are our choice (no published source). The
+# window pressure drop, whose laminar and turbulent forms can differ up to about 7 times at Re = 100, is
+# interpolated between its band-end values instead (see _window_dp), which keeps it rising with flow.
+_FIT_BLEND = 1.25
+_SWITCH_BLEND = 2.5
+
+
+def _weight(Re, edge, factor):
+    """Blend weight of the upper side: 0 below ``edge/factor``, 1 above ``edge*factor``, linear in ln Re between."""
+    return np.clip(0.5 + np.log(np.asarray(Re, dtype=float) / edge) / (2.0 * math.log(factor)), 0.0, 1.0)
+
+
+def _log_blend(lower, upper, w):
+    """Geometric blend ``lower^(1-w) upper^w`` of two positive values (w = 0: lower, w = 1: upper)."""
+    return np.where(w <= 0.0, lower, np.where(w >= 1.0, upper, lower ** (1.0 - w) * upper ** w))
+
+
+def _fit_band(Re, c1s, c2s, band):
+    return np.asarray(c1s)[band] * Re ** np.asarray(c2s)[band]
 
 
 def _fit(Re, pitch_ratio, layout, kind):
@@ -48,17 +74,26 @@ def _fit(Re, pitch_ratio, layout, kind):
     k1, k2, k3, k4 = ("a1", "a2", "a3", "a4") if kind == "j" else ("b1", "b2", "b3", "b4")
     Re = np.asarray(Re, dtype=float)
     band = np.searchsorted(_EDGES, Re, side="right")
-    c1 = np.asarray(c[k1])[band]
-    c2 = np.asarray(c[k2])[band]
+    core = _fit_band(Re, c[k1], c[k2], band)
+    # near an edge, blend with the neighbouring band's fit (see _FIT_BLEND)
+    for i, edge in enumerate(_EDGES):
+        w = _weight(Re, edge, _FIT_BLEND)
+        near = (w > 0.0) & (w < 1.0)
+        if np.any(near):
+            lower = _fit_band(Re, c[k1], c[k2], np.full(Re.shape, i))
+            upper = _fit_band(Re, c[k1], c[k2], np.full(Re.shape, i + 1))
+            core = np.where(near, _log_blend(lower, upper, w), core)
     expo = c[k3] / (1.0 + 0.14 * Re ** c[k4])
-    out = c1 * (1.33 / pitch_ratio) ** expo * Re ** c2
+    out = core * (1.33 / pitch_ratio) ** expo
     return float(out) if out.ndim == 0 else out
 
 
 def ideal_j(Re, pitch_ratio, layout):
     """Ideal tube-bank Colburn factor j_i (Taborek's fit) [-].
 
-    ``j = a1 (1.33/(Pt/do))^a Re^a2`` with ``a = a3 / (1 + 0.14 Re^a4)``.
+    ``j = a1 (1.33/(Pt/do))^a Re^a2`` with ``a = a3 / (1 + 0.14 Re^a4)``; within a factor 1.25 of a band edge
+    (Re = 10, 100, 1e3, 1e4) the two bands' values are blended geometrically, linear in ln Re, so that j is
+    continuous (the fits differ by up to a few per cent at the edges).
 
     Parameters
     ----------
@@ -80,11 +115,11 @@ def ideal_j(Re, pitch_ratio, layout):
 
     Examples
     --------
-    At Re = 1e4, Pt/do = 1.25, 90° (by hand: a = 1.187/(1 + 0.14·1e4^0.37) = 0.2270,
-    j = 0.370·(1.33/1.25)^0.2270·1e4^-0.395 = 0.009870):
+    At Re = 2e4, Pt/do = 1.25, 90° (by hand: a = 1.187/(1 + 0.14·2e4^0.37) = 0.18363,
+    j = 0.370·(1.33/1.25)^0.18363·2e4^-0.395 = 0.0074859):
 
-    >>> round(ideal_j(1e4, 1.25, 90), 6)
-    0.00987
+    >>> round(ideal_j(2e4, 1.25, 90), 7)
+    0.0074859
     """
     return _fit(Re, pitch_ratio, layout, "j")
 
@@ -93,6 +128,7 @@ def ideal_f(Re, pitch_ratio, layout):
     """Ideal tube-bank friction factor f_i (Taborek's fit) [-].
 
     ``f = b1 (1.33/(Pt/do))^b Re^b2`` with ``b = b3 / (1 + 0.14 Re^b4)``; used as Δp = 2 f Nc (m/Sm)²/ρ.
+    Blended across the band edges as :func:`ideal_j`.
 
     Parameters
     ----------
@@ -122,8 +158,10 @@ class ShellSideResult:
     Attributes
     ----------
     h : film coefficient on the outside tube surface [W/m²/K].
-    dp : pressure drop of one shell, crossflow + window + end zones (nozzles excluded) [Pa].
+    dp : pressure drop of one shell, crossflow + window + end zones + nozzles (when a nozzle diameter was given) [Pa].
     dp_crossflow, dp_window, dp_ends : its parts [Pa] (NaN where the method does not split them).
+    dp_nozzles : inlet plus outlet nozzle loss of one shell [Pa] (0 without a nozzle diameter; see
+    :func:`nozzle_pressure_drop`).
     Re : shell-side Reynolds number [-]. velocity_crossflow : velocity at the crossflow area [m/s].
     j_ideal, f_ideal : ideal tube-bank factors [-]. Jc, Jl, Jb, Js, Jr, Rl, Rb, Rs : Bell-Delaware factors [-].
     warnings : list of str, validity-range warnings. method : str, the method used.
@@ -146,8 +184,42 @@ class ShellSideResult:
     Rl: object
     Rb: object
     Rs: object
+    dp_nozzles: object = 0.0
     warnings: list = field(default_factory=list)
     method: str = "bell-delaware"
+
+
+def baffle_cut_factor(Fc):
+    """Baffle-cut correction Jc [-] from the fraction of tubes in crossflow ``Fc``, bounded as Bell's chart is.
+
+    ``Jc = 0.55 + 0.72 Fc`` (Taborek's linear fit of Bell's chart, stated for baffle cuts of 15-45 %), capped at 1.15
+    (the chart's maximum, reached near Fc = 0.9), and for Fc > 0.9 ``1.15 - 15 (Fc - 0.9)²``, which falls to 1.0 at
+    Fc = 1 (no tubes in the windows), joining the cap with zero slope. The linear fit alone would give 1.27 at Fc = 1.
+
+    Parameters
+    ----------
+    Fc : float or array_like
+        Fraction of the tubes in crossflow between the baffle tips [-], 0 to 1.
+
+    Returns
+    -------
+    float or ndarray
+        Jc [-].
+
+    References
+    ----------
+    Bell (1963), Bulletin 5 (the chart); Taborek (1983), HEDH §3.3 (the linear fit; "Jc is 1.0 with no tubes in the
+    windows and rises to about 1.15 for small windows", paraphrased from memory). The curved top end (a parabola with
+    its vertex at the cap) is our fit to the shape of the chart, not a published formula.
+
+    Examples
+    --------
+    >>> round(baffle_cut_factor(0.5), 3), round(baffle_cut_factor(0.95), 4), round(baffle_cut_factor(1.0), 3)
+    (0.91, 1.1125, 1.0)
+    """
+    Fc = np.asarray(Fc, dtype=float)
+    out = np.where(Fc <= 0.9, np.minimum(0.55 + 0.72 * Fc, 1.15), 1.15 - 15.0 * (Fc - 0.9) ** 2)
+    return float(out) if out.ndim == 0 else out
 
 
 def _geometry_factors(geom):
@@ -156,7 +228,7 @@ def _geometry_factors(geom):
     leak = geom.Ssb + geom.Stb
     rs = geom.Ssb / leak if leak > 0 else 0.0
     rlm = leak / geom.Sm
-    Jc = 0.55 + 0.72 * Fc
+    Jc = baffle_cut_factor(Fc)
     Jl = 0.44 * (1.0 - rs) + (1.0 - 0.44 * (1.0 - rs)) * math.exp(-2.2 * rlm)
     p = -0.15 * (1.0 + rs) + 0.8
     Rl = math.exp(-1.33 * (1.0 + rs) * rlm ** p) if rlm > 0 else 1.0
@@ -173,14 +245,16 @@ def correction_factors(geom, Re):
     geom : BellGeometry
         Shell geometry.
     Re : float or array_like
-        Shell-side Reynolds number [-]; Re < 100 selects the laminar constants.
+        Shell-side Reynolds number [-]. Below Re = 40 the laminar constants apply, above 250 the turbulent
+        ones; between, the two factors are blended geometrically, linear in ln Re (our choice, no published
+        source: Taborek switches at Re = 100, which makes h and Δp jump).
 
     Returns
     -------
     dict
         ``Jc, Jl, Jb, Js, Jr, Rl, Rb, Rs`` [-]:
 
-        - Jc = 0.55 + 0.72 Fc
+        - Jc = 0.55 + 0.72 Fc, bounded as Bell's chart (:func:`baffle_cut_factor`)
         - Jl = 0.44 (1 - rs) + [1 - 0.44 (1 - rs)] exp(-2.2 rlm), rs = Ssb/(Ssb + Stb), rlm = (Ssb + Stb)/Sm
         - Jb = exp[-Cbh Fsbp (1 - (2 rss)^(1/3))], Cbh = 1.35 (Re < 100) or 1.25; 1 for rss >= 1/2
         - Js = [(Nb - 1) + (Lbi/Lbc)^(1-n) + (Lbo/Lbc)^(1-n)] / [(Nb - 1) + Lbi/Lbc + Lbo/Lbc], n = 1/3 or 0.6
@@ -190,22 +264,108 @@ def correction_factors(geom, Re):
         - Rs = [(Lbc/Lbo)^(2-n') + (Lbc/Lbi)^(2-n')] / 2, n' = 1 or 0.2
     """
     Re = np.asarray(Re, dtype=float)
-    lam = Re < _LAMINAR_RE
+    w = _weight(Re, _LAMINAR_RE, _SWITCH_BLEND)  # 0 laminar, 1 turbulent constants, blended between
     Jc, Jl, Rl, bypass = _geometry_factors(geom)
-    Jb = np.exp(-np.where(lam, 1.35, 1.25) * bypass)
-    Rb = np.exp(-np.where(lam, 4.5, 3.7) * bypass)
+    # exp(-C x) with C linear in w is the geometric blend of the laminar and turbulent factors
+    Jb = np.exp(-(1.35 + (1.25 - 1.35) * w) * bypass)
+    Rb = np.exp(-(4.5 + (3.7 - 4.5) * w) * bypass)
     ri, ro = geom.Lbi / geom.Lbc, geom.Lbo / geom.Lbc
-    n = np.where(lam, 1.0 / 3.0, 0.6)
-    Js = ((geom.Nb - 1) + ri ** (1 - n) + ro ** (1 - n)) / ((geom.Nb - 1) + ri + ro)
-    n2 = np.where(lam, 1.0, 0.2)
-    Rs = 0.5 * ((1.0 / ro) ** (2 - n2) + (1.0 / ri) ** (2 - n2))
+
+    def js(n):
+        return ((geom.Nb - 1) + ri ** (1 - n) + ro ** (1 - n)) / ((geom.Nb - 1) + ri + ro)
+
+    def rs(n2):
+        return 0.5 * ((1.0 / ro) ** (2 - n2) + (1.0 / ri) ** (2 - n2))
+
+    Js = _log_blend(js(1.0 / 3.0), js(0.6), w)
+    Rs = _log_blend(rs(1.0), rs(0.2), w)
     nct = (geom.Nb + 1) * (geom.Nc + geom.Ncw)
     jr20 = max((10.0 / nct) ** 0.18, 0.4) if nct > 0 else 1.0
-    Jr = np.where(Re <= 20.0, jr20, np.where(lam, jr20 + (Re - 20.0) / 80.0 * (1.0 - jr20), 1.0))
+    Jr = np.where(Re <= 20.0, jr20, np.where(Re < _LAMINAR_RE, jr20 + (Re - 20.0) / 80.0 * (1.0 - jr20), 1.0))
     Jr = np.maximum(Jr, 0.4)
     shape = Re.shape
     full = lambda v: np.broadcast_to(np.asarray(v, dtype=float), shape)  # noqa: E731
     return dict(Jc=full(Jc), Jl=full(Jl), Jb=Jb, Js=Js, Jr=Jr, Rl=full(Rl), Rb=Rb, Rs=Rs)
+
+
+def _window_dp(geom, Gw, Re, rho, mu):
+    """Ideal window pressure drop [Pa]: Taborek's laminar form below the switch band, turbulent above, and across
+    the band a geometric interpolation, linear in ln Re, from the laminar value at the band's lower end to the
+    turbulent value at its upper end (both at this fluid's properties). That rises with flow whenever the turbulent
+    value at the upper end exceeds the laminar one at the lower end, i.e. while the laminar/turbulent ratio at
+    Re = 100 stays below ``_SWITCH_BLEND**3`` (15.6; about 7 seen in practical bundles)."""
+    a = 26.0 * mu / rho * (geom.Ncw / (geom.pitch - geom.tube_od) + geom.Lbc / geom.Dw ** 2)
+
+    def lam(g):
+        return a * g + g ** 2 / rho
+
+    def turb(g):
+        return (2.0 + 0.6 * geom.Ncw) * g ** 2 / (2.0 * rho)
+
+    w = _weight(Re, _LAMINAR_RE, _SWITCH_BLEND)
+    lo, hi = _LAMINAR_RE / _SWITCH_BLEND, _LAMINAR_RE * _SWITCH_BLEND
+    band = _log_blend(lam(Gw * lo / Re), turb(Gw * hi / Re), w)
+    return np.where(w <= 0.0, lam(Gw), np.where(w >= 1.0, turb(Gw), band))
+
+
+#: Nozzle loss in velocity heads of the nozzle flow, per shell: 1.0 at the inlet (sudden expansion into the shell)
+#: plus 0.5 at the outlet (sudden contraction into the nozzle).
+NOZZLE_VELOCITY_HEADS = 1.5
+
+
+def nozzle_pressure_drop(m_dot, d_nozzle, rho_nozzle):
+    """Shell-side inlet plus outlet nozzle pressure drop of one shell [Pa].
+
+    ``Δp = 1.5 ρ v²/2`` with ``v = m / (ρ π d²/4)``: one velocity head lost where the nozzle jet expands into the
+    shell and half a velocity head where the flow contracts into the outlet nozzle (loss coefficients of a sudden
+    expansion and a sudden contraction of large area ratio).
+
+    Parameters
+    ----------
+    m_dot : float or array_like
+        Mass flow through one shell [kg/s].
+    d_nozzle : float
+        Nozzle inside diameter [m] (inlet and outlet taken equal).
+    rho_nozzle : float or array_like
+        Density of the fluid in the nozzles [kg/m³].
+
+    Returns
+    -------
+    float or ndarray
+        Δp [Pa].
+
+    References
+    ----------
+    Perry, R. H., Green, D. W. (2008). *Perry's Chemical Engineers' Handbook*, 8th ed., §6 (loss coefficients: about
+    1 for a sudden expansion into a large space, 0.5 for a sudden contraction from one; from memory). The same total,
+    1.5 velocity heads per shell in turbulent nozzle flow, is the shell-nozzle rule of Serth & Lestina (2014),
+    *Process Heat Transfer*, ch. 5-6 (ΔPn = 7.5e-4 Ns Gn²/s in SI with s the specific gravity; from memory).
+
+    Examples
+    --------
+    10 kg/s of water (1000 kg/m³) through a 0.1 m nozzle: v = 1.273 m/s, Δp = 1.5 · 1000 · 1.273²/2 = 1216 Pa.
+
+    >>> round(nozzle_pressure_drop(10.0, 0.1, 1000.0))
+    1216
+    """
+    rho_n = np.asarray(rho_nozzle, dtype=float)
+    v = np.asarray(m_dot, dtype=float) / (rho_n * math.pi * d_nozzle ** 2 / 4.0)
+    out = NOZZLE_VELOCITY_HEADS * rho_n * v ** 2 / 2.0
+    return float(out) if out.ndim == 0 else out
+
+
+def _nozzles(m, rho, d_nozzle, rho_nozzle):
+    """Parse the optional nozzle arguments of the shell-side methods and return the nozzle Δp (0 without them)."""
+    if d_nozzle is None:
+        if rho_nozzle is not None:
+            raise InputError("rho_nozzle", rho_nozzle, "None unless d_nozzle is given")
+        return np.zeros(np.broadcast(m, rho).shape)
+    dn = to_si(d_nozzle, "length", "d_nozzle")
+    if np.ndim(dn) != 0 or not np.isfinite(dn) or not dn > 0:
+        raise InputError("d_nozzle", d_nozzle, "one nozzle inside diameter > 0 (m, or a string with a unit)")
+    rn = rho if rho_nozzle is None else require(np.asarray(to_si(rho_nozzle, "density", "rho_nozzle"), dtype=float),
+                                                 "rho_nozzle", gt=0)
+    return np.asarray(nozzle_pressure_drop(m, float(dn), rn), dtype=float)
 
 
 def _scalar(x, scalar):
@@ -213,7 +373,7 @@ def _scalar(x, scalar):
     return float(x) if scalar else x
 
 
-def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
+def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_nozzle=None) -> ShellSideResult:
     """Shell-side coefficient and pressure drop of one shell by the Bell-Delaware method.
 
     Parameters
@@ -232,13 +392,19 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
         Thermal conductivity [W/m/K].
     mu_wall : float or array_like, optional
         Viscosity at the wall temperature [Pa·s]; None for no viscosity correction.
+    d_nozzle : float or str, optional
+        Shell nozzle inside diameter [m] (inlet and outlet); adds :func:`nozzle_pressure_drop` to ``dp`` and
+        reports it as ``dp_nozzles``. None (default): no nozzle loss.
+    rho_nozzle : float or array_like, optional
+        Density in the nozzles [kg/m³] (e.g. at the inlet temperature); default ``rho``.
 
     Returns
     -------
     ShellSideResult
         ``h = j_i cp (m/Sm) Pr^(-2/3) (μ/μw)^0.14 Jc Jl Jb Js Jr``; ``dp = Δpc + Δpw + Δpe`` with
         Δpbi = 2 f_i Nc (m/Sm)²/ρ (μw/μ)^0.14, Δpc = (Nb - 1) Δpbi Rb Rl, Δpw = Nb Δpwi Rl,
-        Δpwi = (2 + 0.6 Ncw) mw²/(2ρ) for Re >= 100 and 26 μ mw/ρ [Ncw/(Pt - do) + Lbc/Dw²] + mw²/ρ below,
+        Δpwi = (2 + 0.6 Ncw) mw²/(2ρ) for Re >= 250 and 26 μ mw/ρ [Ncw/(Pt - do) + Lbc/Dw²] + mw²/ρ below 40
+        (Taborek switches at 100; between, a geometric interpolation of the band-end values, linear in ln Re),
         mw = m/sqrt(Sm Sw), Δpe = 2 Δpbi (1 + Ncw/Nc) Rb Rs.
 
     Notes
@@ -246,7 +412,7 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
     Validity: about 1 < Re < 1e5 (the ideal-bank fits), baffle cut 15-45 % of Ds, central spacing 0.2-1.0 Ds
     (Taborek 1983). Outside these the numbers are returned with a warning. Pass-partition lanes are not counted
     in the bypass area. The laminar window form above is written from memory of HEDH and is checked only against
-    itself; nozzle pressure drops are left to the caller.
+    itself. Nozzle losses are added only when ``d_nozzle`` is given.
 
     References
     ----------
@@ -275,9 +441,7 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
     dp_bi = 2.0 * f * geom.Nc * G ** 2 / rho / phi
     dp_c = (geom.Nb - 1) * dp_bi * c["Rb"] * c["Rl"]
     Gw = m / math.sqrt(geom.Sm * geom.Sw)
-    dp_wi = np.where(Re >= _LAMINAR_RE, (2.0 + 0.6 * geom.Ncw) * Gw ** 2 / (2.0 * rho),
-                     26.0 * mu * Gw / rho * (geom.Ncw / (geom.pitch - geom.tube_od) + geom.Lbc / geom.Dw ** 2)
-                     + Gw ** 2 / rho)
+    dp_wi = _window_dp(geom, Gw, Re, rho, mu)
     dp_w = geom.Nb * dp_wi * c["Rl"]
     dp_e = 2.0 * dp_bi * (1.0 + geom.Ncw / geom.Nc) * c["Rb"] * c["Rs"]
 
@@ -293,8 +457,10 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
     if jb_min < 0.7:
         warnings.append(f"Bell-Delaware: bypass correction Jb = {jb_min:.2f} < 0.7: bundle bypass is large (sealing "
                         "strips help); h and dp are less certain")
+    dp_n = _nozzles(m, rho, d_nozzle, rho_nozzle)
+    scalar = scalar and (rho_nozzle is None or np.ndim(rho_nozzle) == 0)
     s = lambda x: _scalar(x, scalar)  # noqa: E731
     return ShellSideResult(
-        h=s(h), dp=s(dp_c + dp_w + dp_e), dp_crossflow=s(dp_c), dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
+        h=s(h), dp=s(dp_c + dp_w + dp_e + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=s(dp_c), dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
         velocity_crossflow=s(G / rho), j_ideal=s(j), f_ideal=s(f), Jc=s(c["Jc"]), Jl=s(c["Jl"]), Jb=s(c["Jb"]),
         Js=s(c["Js"]), Jr=s(c["Jr"]), Rl=s(c["Rl"]), Rb=s(c["Rb"]), Rs=s(c["Rs"]), warnings=warnings)

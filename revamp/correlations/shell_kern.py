@@ -20,7 +20,7 @@ import numpy as np
 
 from ..units import require
 from ._validity import range_warning
-from .shell_bell import ShellSideResult, _scalar
+from .shell_bell import ShellSideResult, _nozzles, _scalar
 
 __all__ = ["kern", "kern_equivalent_diameter"]
 
@@ -43,7 +43,7 @@ def kern_equivalent_diameter(tube_od: float, pitch: float, layout: int) -> float
     return 4.0 * (math.sqrt(3.0) / 4.0 * pitch ** 2 - math.pi * tube_od ** 2 / 8.0) / (math.pi * tube_od / 2.0)
 
 
-def kern(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
+def kern(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_nozzle=None) -> ShellSideResult:
     """Shell-side coefficient and pressure drop of one shell by Kern's method.
 
     ``ho De / k = 0.36 Re^0.55 Pr^(1/3) (μ/μw)^0.14`` with ``Re = De Gs / μ``, ``Gs = m/As``,
@@ -60,6 +60,12 @@ def kern(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
         Density [kg/m³], heat capacity [J/kg/K], bulk viscosity [Pa·s], conductivity [W/m/K].
     mu_wall : float or array_like, optional
         Viscosity at the wall temperature [Pa·s].
+    d_nozzle : float or str, optional
+        Shell nozzle inside diameter [m]; adds the nozzle loss of
+        :func:`revamp.correlations.shell_bell.nozzle_pressure_drop` (1.5 velocity heads per shell) to ``dp`` and
+        reports it as ``dp_nozzles``. None (default): no nozzle loss.
+    rho_nozzle : float or array_like, optional
+        Density in the nozzles [kg/m³]; default ``rho``.
 
     Returns
     -------
@@ -92,8 +98,10 @@ def kern(geom, m_dot, rho, cp, mu, k, mu_wall=None) -> ShellSideResult:
     dp = f * G ** 2 * (geom.Nb + 1) * geom.Ds / (2.0 * rho * de * phi)
     warnings = range_warning("Kern (1950) shell-side h", "Re", Re, 2e3, 1e6, "Kern (1950)")
     warnings += range_warning("Kern shell-side friction fit", "Re", Re, 400.0, 1e6, "Kakaç & Liu (2002)")
-    nan = _scalar(np.full(np.shape(Re), np.nan), scalar)
+    dp_n = _nozzles(m, rho, d_nozzle, rho_nozzle)
+    scalar = scalar and (rho_nozzle is None or np.ndim(rho_nozzle) == 0)
+    nan = _scalar(np.full(np.shape(Re + dp_n), np.nan), scalar)
     s = lambda x: _scalar(x, scalar)  # noqa: E731
-    return ShellSideResult(h=s(h), dp=s(dp), dp_crossflow=nan, dp_window=nan, dp_ends=nan, Re=s(Re),
+    return ShellSideResult(h=s(h), dp=s(dp + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=nan, dp_window=nan, dp_ends=nan, Re=s(Re),
                            velocity_crossflow=s(G / rho), j_ideal=nan, f_ideal=s(f), Jc=nan, Jl=nan, Jb=nan,
                            Js=nan, Jr=nan, Rl=nan, Rb=nan, Rs=nan, warnings=warnings, method="kern")
