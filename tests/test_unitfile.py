@@ -160,7 +160,8 @@ BROKEN = [
     ("exchangers.0.options.1.n", _DELETE, "exchangers[0].options[1].n", "must be given"),
     ("exchangers.0.options.0.capex", "20000 EUR", "exchangers[0].options[0].capex", "USD"),
     ("exchangers.1.tag", "E-1", "exchangers[1].tag", "unique"),
-    ("economics.energy_price", "9 EUR/GJ", "economics.energy_price", "price per energy"),
+    ("economics.energy_price", "9 EUR/GJ", "economics.energy_price", "in the unit's currency USD (economics.currency), not EUR"),
+    ("economics.energy_price", "9 GJ", "economics.energy_price", "price per energy"),
     ("economics.heater_efficiency", 1.5, "economics.heater_efficiency", "<= 1"),
     ("economics.currency", "dollars", "economics.currency", "currency code"),
     ("unit", _DELETE, "unit", "must be given"),
@@ -248,18 +249,19 @@ def test_link_out_of_the_folder_is_refused(tmp_path):
 
 def test_plant_data_mapping_is_built(tmp_path):
     (tmp_path / "plant").mkdir()
-    (tmp_path / "plant" / "e1.csv").write_text("time,F1,T1,T2,F2,T3,T4\n")
+    (tmp_path / "plant" / "e1.csv").write_text("time,F1,T1,T2,F2,T3,T4\n2030-01-01,36,150,120,12,300,320\n")
     doc = make_unit()
     doc["exchangers"][0]["plant_data"] = {
         "file": "plant/e1.csv",
         "columns": {"timestamp": "time", "shell_flow": {"column": "F1", "unit": "t/h"},
                     "shell_t_in": {"column": "T1", "unit": "degC"}, "shell_t_out": {"column": "T2", "unit": "degC"},
-                    "tube_flow": {"column": "F2", "unit": "kg/s"}, "tube_t_in": "T3", "tube_t_out": "T4"},
+                    "tube_flow": {"column": "F2", "unit": "kg/s"}, "tube_t_in": {"column": "T3", "unit": "K"},
+                    "tube_t_out": {"column": "T4", "unit": "K"}},
         "uncertainty": {"flow": "2 %", "temperature": "0.5 delta_degC"}}
     case = unitfile.load(write_unit(tmp_path / "unit.yaml", doc)).exchanger("E-1")
     assert case.plant_data.file == (tmp_path / "plant" / "e1.csv").resolve()
     assert case.plant_data.columns["shell_flow"] == ("F1", "t/h")
-    assert case.plant_data.columns["tube_t_in"] == ("T3", None)
+    assert case.plant_data.columns["tube_t_in"] == ("T3", "K")
     assert case.plant_data.uncertainty == {"flow": pytest.approx(0.02), "temperature": pytest.approx(0.5)}
 
 
