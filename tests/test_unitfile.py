@@ -388,6 +388,55 @@ def test_docs_name_every_field_of_the_schema():
     assert not missing, f"fields not in docs/unit-file.md: {missing}"
 
 
+def test_docs_state_every_upper_bound_of_the_schema():
+    """docs/unit-file.md's Limits table gives, for every field with an upper bound in the schema, that bound."""
+    import re
+
+    text = (unitfile.SCHEMA_PATH.parent.parent / "docs" / "unit-file.md").read_text(encoding="utf-8")
+    table = text.split("## Limits", 1)[1]
+    rows = {}
+    for line in table.splitlines():
+        if line.startswith("| `"):
+            cells = line.split("|")
+            numbers = {float(n) for n in re.findall(r"\d+(?:\.\d+)?(?:e\d+)?", cells[2])}
+            for name in re.findall(r"`([^`]+)`", cells[1]):
+                rows.setdefault(name.split(".")[-1], set()).update(numbers)
+    bounds = []
+
+    def walk(node):
+        if isinstance(node, dict):
+            for name, sub in (node.get("properties") or {}).items():
+                if isinstance(sub, dict):
+                    for key in ("x-le", "x-lt", "maximum", "exclusiveMaximum"):
+                        if key in sub:
+                            bounds.append((name, float(sub[key])))
+            for v in node.values():
+                walk(v)
+        elif isinstance(node, list):
+            for v in node:
+                walk(v)
+
+    walk(unitfile.schema())
+    money = unitfile.schema()["$defs"]["money"]["x-le"]
+    bounds.append(("capex", float(money)))
+    assert bounds
+    missing = [(n, b) for n, b in bounds if b not in rows.get(n, set())]
+    assert not missing, f"upper bounds not stated in the Limits table of docs/unit-file.md: {missing}"
+
+
+def test_docs_state_the_reading_limits():
+    from revamp import units
+    from revamp.unitfile import _reading
+
+    text = (unitfile.SCHEMA_PATH.parent.parent / "docs" / "unit-file.md").read_text(encoding="utf-8")
+    assert f"{_reading.MAX_FILE_BYTES // (1024 * 1024)} MiB" in text
+    assert f"{_reading.MAX_DEPTH} levels deep" in text
+    assert f"{_reading.MAX_NODES:,} values" in text
+    assert f"at most {units.MAX_QUANTITY_LENGTH} characters" in text
+    assert f"up to {units.MAX_UNIT_EXPONENT}" in text
+    assert f"at most {units.MAX_UNIT_PARENTHESES} deep" in text
+
+
 # ---------------------------------------------------------------------------------------------- the fouling cycle
 def test_fouling_cycle_fields_load_with_overrides(tmp_path):
     """economics.run_length / cleaning_downtime are the unit's; an exchanger's plant_data overrides them."""
