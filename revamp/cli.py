@@ -85,21 +85,74 @@ def _cmd_check(args) -> int:
     return 0
 
 
+def _shown(text: str) -> str:
+    """Text safe for a terminal: control characters (escape sequences, NUL) shown escaped, line breaks kept."""
+    from .errors import printable
+
+    return "\n".join(printable(line, limit=10_000) for line in str(text).split("\n"))
+
+
+def _load_one(path, tag):
+    """The unit with only ``tag`` built: problems of *other* exchangers (a missing CSV elsewhere) do not stop the
+    rating of this one; the unit's own problems and this exchanger's do."""
+    import re
+
+    from .unitfile import UnitFileError, load_partial
+
+    unit, problems, entries = load_partial(path, only=[tag])
+    indices = {i for t, i in entries if t == tag}
+    if entries and not indices:
+        raise InputError("--tag", tag, f"one of the unit's tags: {', '.join(t for t, _ in entries)}")
+
+    def ours(p):
+        m = re.match(r"^exchangers\[(\d+)\]", p.path)
+        return m is None or int(m.group(1)) in indices
+
+    blocking = [p for p in problems if ours(p)]
+    if blocking or unit is None:
+        raise UnitFileError(path, blocking or problems)
+    if problems:
+        print(f"note: {len(problems)} problem(s) in other exchangers of {path}; run 'revamp check' for the list",
+              file=sys.stderr)
+    return unit
+
+
 def _cmd_rate(args) -> int:
     from . import rating as rating_mod
-    from .unitfile import load
 
-    unit = load(args.file)
+    unit = _load_one(args.file, args.tag)
     case = unit.exchanger(args.tag)
     service = case.revamp_service if args.revamp else case.service
     result = rating_mod.rate(case.exchanger, service)
     when = f"revamp conditions (throughput x{case.throughput:g})" if args.revamp else "today's conditions"
-    print(format_rating(result, args.units, f"{case.tag}: {case.description} - {when}"))
+    print(_shown(format_rating(result, args.units, f"{case.tag}: {case.description} - {when}")))
     return 0
+
+
+def _usable_cores() -> int:
+    import os
+
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except (AttributeError, OSError):  # pragma: no cover - not Linux
+        return max(1, os.cpu_count() or 1)
+
+
+def _cap_jobs(args) -> None:
+    """``--jobs`` at least 1 and at most the cores this process may use (each worker runs a notebook kernel of a
+    few hundred MB: more workers than cores only add memory)."""
+    if args.jobs < 1:
+        raise InputError("--jobs", args.jobs, "a whole number >= 1")
+    cores = _usable_cores()
+    if args.jobs > cores:
+        print(f"note: --jobs {args.jobs} capped to {cores}, the cores available", file=sys.stderr)
+        args.jobs = cores
 
 
 def _cmd_batch(args) -> int:
     from .batch import run_batch
+
+    _cap_jobs(args)
 
     result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet)
     print(result.index_path)
@@ -156,9 +209,9 @@ def main(argv=None) -> int:
                 print(p, file=sys.stderr)
             print(f"{len(problems)} problem(s); run 'revamp check' for the list", file=sys.stderr)
         elif isinstance(exc, InputError):
-            print(f"error: {exc}", file=sys.stderr)
+            print(_shown(f"error: {exc}"), file=sys.stderr)
         else:
-            print(f"error: {exc.__class__.__name__}: {exc} (use --debug for the traceback)", file=sys.stderr)
+            print(_shown(f"error: {exc.__class__.__name__}: {exc} (use --debug for the traceback)"), file=sys.stderr)
         return 1
 
 

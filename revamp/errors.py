@@ -5,7 +5,23 @@ so that a user reading one line knows what to fix.
 """
 from __future__ import annotations
 
-__all__ = ["InputError", "RangeWarning", "describe_value"]
+__all__ = ["InputError", "RangeWarning", "describe_value", "printable"]
+
+
+def printable(text: str, limit: int = 200) -> str:
+    """``text`` safe to print on a terminal or write to a file: control characters (terminal escapes, NUL), lone
+    surrogates and other unprintable characters shown as ``\\x1b``-style escapes, cut to ``limit`` characters.
+
+    >>> printable("E-1\\x1b[31m")
+    'E-1\\\\x1b[31m'
+    """
+    if not isinstance(text, str):
+        text = str(text)
+    if len(text) > limit:
+        text = text[: limit - 3] + "..."
+    if text.isprintable():
+        return text
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
 def describe_value(value, limit: int = 60) -> str:
@@ -46,7 +62,7 @@ class InputError(ValueError):
         self.field = field
         self.value = value
         self.allowed = allowed
-        shown = value if isinstance(value, str) else describe_value(value)
+        shown = printable(value) if isinstance(value, str) else describe_value(value)
         super().__init__(f"{field}: {shown}: must be {allowed}")
 
     def with_prefix(self, prefix: str) -> "InputError":

@@ -50,6 +50,8 @@ DIMENSIONS: dict[str, tuple[str, str]] = {
     "time": ("second", "a duration (s, or e.g. '30 day', '8000 h')"),
     "energy": ("joule", "an energy (J, or e.g. '1 GJ', '1 MMBTU')"),
     "dimensionless": ("dimensionless", "a plain number"),
+    "mass": ("kilogram", "a mass (kg, or e.g. '1 t', '1 lb')"),
+    "thermal_conductance": ("watt/kelvin", "a thermal conductance U·A (W/K, or e.g. '150 kW/K')"),
 }
 
 # Inside a compound unit (BTU/lb/degF, h*ft**2*degF/BTU) a temperature is a *difference*: pint would otherwise take
@@ -64,21 +66,91 @@ def _as_differences(text: str) -> str:
     return _DELTA_RE.sub(lambda m: _DELTA[m.group(1)], text)
 
 
+#: the longest quantity string read [characters]; a longer one is refused before pint sees it
+MAX_QUANTITY_LENGTH = 120
+#: the largest power a unit may be raised to in a quantity string (``m**3``, ``ft**2``)
+MAX_UNIT_EXPONENT = 12
+#: the deepest parentheses in a quantity string's unit (``BTU/(h*ft**2*degF)`` is 1)
+MAX_UNIT_PARENTHESES = 3
+
+_MAGNITUDE_RE = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?")
+_UNIT_TOKEN_RE = re.compile(
+    r"\s*(?:(?P<name>(?:[^\W\d]|°)[\w°]*[²³]?)|(?P<pct>%)|(?P<pow>\*\*|\^)\s*(?P<exp>[-+]?\d{1,2}(?:\.\d{1,3})?)"
+    r"|(?P<op>[*/])|(?P<open>\()|(?P<close>\)))")
+
+
+def _split_quantity(text: str) -> tuple[float, str]:
+    """Split ``"<number> <unit>"`` into a float and a unit text, by a grammar that cannot explode.
+
+    The number is a plain decimal literal (no arithmetic, read by ``float``, so ``10**400`` or ``9**9**9`` never
+    reach pint's evaluator); the unit is names (``kg``, ``degC``, ``ft²``, ``%``), ``*``, ``/``, parentheses (at most
+    :data:`MAX_UNIT_PARENTHESES` deep) and powers of a *name* by a literal of at most :data:`MAX_UNIT_EXPONENT`.
+    Anything else raises ValueError with the reason, before pint is called.
+    """
+    if len(text) > MAX_QUANTITY_LENGTH:
+        raise ValueError(f"longer than {MAX_QUANTITY_LENGTH} characters")
+    m = _MAGNITUDE_RE.match(text)
+    if not m:
+        raise ValueError("must start with a number, e.g. '25.4 mm'")
+    magnitude = float(m.group(0))  # '1e400' -> inf, refused later as not finite
+    unit = text[m.end():].strip()
+    pos, depth, prev = 0, 0, "start"
+    while pos < len(unit):
+        t = _UNIT_TOKEN_RE.match(unit, pos)
+        if t is None or t.end() == pos:
+            raise ValueError(f"unexpected {unit[pos:].strip()[:12]!r} in the unit (powers of numbers are not read: "
+                             "write the number, e.g. '1e6 W')")
+        pos = t.end()
+        if t.group("name") or t.group("pct"):
+            prev = "name"
+        elif t.group("pow"):
+            if prev in ("start", "exp"):
+                raise ValueError("powers of numbers are not read: write the number, e.g. '1e6 W'")
+            if prev != "name":
+                raise ValueError("a power must follow a unit name, e.g. 'ft**2'")
+            if abs(float(t.group("exp"))) > MAX_UNIT_EXPONENT:
+                raise ValueError(f"unit powers are limited to {MAX_UNIT_EXPONENT}")
+            prev = "exp"
+        elif t.group("op"):
+            if prev in ("op", "open") or (prev == "start" and t.group("op") == "*"):
+                raise ValueError("an operator without a unit before it")
+            prev = "op"
+        elif t.group("open"):
+            depth += 1
+            if depth > MAX_UNIT_PARENTHESES:
+                raise ValueError(f"parentheses nested deeper than {MAX_UNIT_PARENTHESES}")
+            prev = "open"
+        else:
+            depth -= 1
+            if depth < 0 or prev not in ("name", "exp", "close"):
+                raise ValueError("unbalanced parentheses")
+            prev = "close"
+    if depth or prev in ("op", "open"):
+        raise ValueError("an incomplete unit")
+    if unit.startswith("/"):
+        unit = "1" + unit  # '9 /MMBTU': per unit
+    return magnitude, unit
+
+
 @lru_cache(maxsize=4096)
 def _parse_string(text: str, kind: str) -> float:
     si_unit, words = DIMENSIONS[kind]
     try:
-        q = ureg.Quantity(text if kind == "temperature" else _as_differences(text))
+        magnitude, unit = _split_quantity(text)
+    except ValueError as exc:
+        raise ValueError(f"cannot read {text[:40]!r} as a number with a unit ({exc})") from None
+    if not np.isfinite(magnitude):
+        raise ValueError(f"{text[:40]!r} is not a finite number")
+    try:
+        q = ureg.Quantity(magnitude, (unit if kind == "temperature" else _as_differences(unit)) or "dimensionless")
     except Exception as exc:  # pint raises many types: undefined unit, syntax, ...
         raise ValueError(f"cannot read {text!r} as a number with a unit ({exc.__class__.__name__})") from None
-    if not isinstance(q, pint.Quantity):
-        q = ureg.Quantity(q, "dimensionless")
-    if not isinstance(q.magnitude, numbers.Real):
-        raise ValueError(f"{text!r} is not a real number with a unit")
     try:
         return float(q.to(si_unit).magnitude)
     except pint.DimensionalityError:
         raise ValueError(f"{text!r} has dimension {q.dimensionality}, not {words}") from None
+    except (ArithmeticError, ValueError) as exc:  # an overflowing conversion factor
+        raise ValueError(f"cannot convert {text!r} to {si_unit} ({exc.__class__.__name__})") from None
 
 
 def to_si(value, kind: str, field: str = "value"):

@@ -28,7 +28,7 @@ def test_check_lists_every_problem_one_per_line(tmp_path, capsys):
     assert main(["check", path]) == 1
     err = capsys.readouterr().err.strip().splitlines()
     assert err[0].startswith("exchangers[0].geometry.layout: 12: must be one of")
-    assert err[1] == "exchangers[1].tube_side.flow: -5 kg/s: must be > 0 kg/s"
+    assert err[1] == "exchangers[1].tube_side.flow: -5 kg/s: must be > 0 and <= 100000 kg/s"
     assert err[2].endswith("2 problem(s)")
     assert "Traceback" not in "\n".join(err)
 
@@ -78,14 +78,62 @@ def test_debug_shows_the_traceback(good):
         main(["--debug", "rate", good, "--tag", "E-9"])
 
 
-def test_infeasible_rating_is_one_line(tmp_path, capsys):
+def test_infeasible_service_is_refused_by_path_before_rating(tmp_path, capsys):
     doc = make_unit()
     doc["exchangers"][0]["tube_side"]["t_in"] = "150 degC"  # equal inlets: no driving force
     assert main(["rate", write_unit(tmp_path / "x.yaml", doc), "--tag", "E-1"]) == 1
     err = capsys.readouterr().err.strip().splitlines()
-    assert len(err) == 1 and err[0].startswith("error: ") and "inlet" in err[0]
+    assert err[0].startswith("exchangers[0].tube_side.t_in: 150 degC: must differ") and "inlet" in err[0]
+    assert "Traceback" not in "\n".join(err)
 
 
 def test_missing_file(tmp_path, capsys):
     assert main(["check", str(tmp_path / "nope.yaml")]) == 1
     assert "readable file" in capsys.readouterr().err
+
+
+# ------------------------------------------------------------------------------------------- hostile input, jobs
+def test_rate_is_not_refused_for_another_exchangers_missing_csv(tmp_path, capsys):
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][0]["plant_data"] = {"file": "missing.csv"}
+    path = write_unit(tmp_path / "unit.yaml", doc)
+    assert main(["rate", path, "--tag", "E-2"]) == 0
+    out = capsys.readouterr()
+    assert "duty" in out.out and "1 problem(s) in other exchangers" in out.err
+    # the exchanger whose CSV is missing is still refused, by path
+    assert main(["rate", path, "--tag", "E-1"]) == 1
+    assert "exchangers[0].plant_data.file: missing.csv: must be an existing file" in capsys.readouterr().err
+
+
+def test_rate_is_refused_for_a_problem_of_the_whole_unit(tmp_path, capsys):
+    doc = make_unit("E-1", "E-2")
+    doc["economics"]["discount_rate"] = 3
+    assert main(["rate", write_unit(tmp_path / "unit.yaml", doc), "--tag", "E-2"]) == 1
+    assert "economics.discount_rate: 3" in capsys.readouterr().err
+
+
+def test_terminal_escapes_are_shown_escaped():
+    from revamp.cli import _shown
+
+    assert _shown("E-1\x1b[2J\x00\nnext") == "E-1\\x1b[2J\\x00\nnext"
+
+
+def test_jobs_are_capped_to_the_cores(good, tmp_path, monkeypatch, capsys):
+    import revamp.batch
+    from revamp.cli import _usable_cores
+
+    seen = {}
+
+    class Result:
+        index_path, failures = tmp_path / "index.html", {}
+
+    def fake_run_batch(file, out, jobs=None, **kwargs):
+        seen["jobs"] = jobs
+        return Result()
+
+    monkeypatch.setattr(revamp.batch, "run_batch", fake_run_batch)
+    assert main(["batch", good, "--out", str(tmp_path / "r"), "--jobs", "1000", "--quiet"]) == 0
+    assert seen["jobs"] == _usable_cores() and "capped" in capsys.readouterr().err
+    assert main(["batch", good, "--out", str(tmp_path / "r"), "--jobs", "0", "--quiet"]) == 1
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and err[0].startswith("error: --jobs: 0: must be a whole number >= 1")

@@ -160,7 +160,8 @@ BROKEN = [
     ("exchangers.0.options.1.n", _DELETE, "exchangers[0].options[1].n", "must be given"),
     ("exchangers.0.options.0.capex", "20000 EUR", "exchangers[0].options[0].capex", "USD"),
     ("exchangers.1.tag", "E-1", "exchangers[1].tag", "unique"),
-    ("economics.energy_price", "9 EUR/GJ", "economics.energy_price", "price per energy"),
+    ("economics.energy_price", "9 EUR/GJ", "economics.energy_price", "in the unit's currency USD (economics.currency), not EUR"),
+    ("economics.energy_price", "9 GJ", "economics.energy_price", "price per energy"),
     ("economics.heater_efficiency", 1.5, "economics.heater_efficiency", "<= 1"),
     ("economics.currency", "dollars", "economics.currency", "currency code"),
     ("unit", _DELETE, "unit", "must be given"),
@@ -248,18 +249,19 @@ def test_link_out_of_the_folder_is_refused(tmp_path):
 
 def test_plant_data_mapping_is_built(tmp_path):
     (tmp_path / "plant").mkdir()
-    (tmp_path / "plant" / "e1.csv").write_text("time,F1,T1,T2,F2,T3,T4\n")
+    (tmp_path / "plant" / "e1.csv").write_text("time,F1,T1,T2,F2,T3,T4\n2030-01-01,36,150,120,12,300,320\n")
     doc = make_unit()
     doc["exchangers"][0]["plant_data"] = {
         "file": "plant/e1.csv",
         "columns": {"timestamp": "time", "shell_flow": {"column": "F1", "unit": "t/h"},
                     "shell_t_in": {"column": "T1", "unit": "degC"}, "shell_t_out": {"column": "T2", "unit": "degC"},
-                    "tube_flow": {"column": "F2", "unit": "kg/s"}, "tube_t_in": "T3", "tube_t_out": "T4"},
+                    "tube_flow": {"column": "F2", "unit": "kg/s"}, "tube_t_in": {"column": "T3", "unit": "K"},
+                    "tube_t_out": {"column": "T4", "unit": "K"}},
         "uncertainty": {"flow": "2 %", "temperature": "0.5 delta_degC"}}
     case = unitfile.load(write_unit(tmp_path / "unit.yaml", doc)).exchanger("E-1")
     assert case.plant_data.file == (tmp_path / "plant" / "e1.csv").resolve()
     assert case.plant_data.columns["shell_flow"] == ("F1", "t/h")
-    assert case.plant_data.columns["tube_t_in"] == ("T3", None)
+    assert case.plant_data.columns["tube_t_in"] == ("T3", "K")
     assert case.plant_data.uncertainty == {"flow": pytest.approx(0.02), "temperature": pytest.approx(0.5)}
 
 
@@ -384,6 +386,55 @@ def test_docs_name_every_field_of_the_schema():
     walk(unitfile.schema())
     missing = sorted(n for n in names if f"`{n}`" not in doc)
     assert not missing, f"fields not in docs/unit-file.md: {missing}"
+
+
+def test_docs_state_every_upper_bound_of_the_schema():
+    """docs/unit-file.md's Limits table gives, for every field with an upper bound in the schema, that bound."""
+    import re
+
+    text = (unitfile.SCHEMA_PATH.parent.parent / "docs" / "unit-file.md").read_text(encoding="utf-8")
+    table = text.split("## Limits", 1)[1]
+    rows = {}
+    for line in table.splitlines():
+        if line.startswith("| `"):
+            cells = line.split("|")
+            numbers = {float(n) for n in re.findall(r"\d+(?:\.\d+)?(?:e\d+)?", cells[2])}
+            for name in re.findall(r"`([^`]+)`", cells[1]):
+                rows.setdefault(name.split(".")[-1], set()).update(numbers)
+    bounds = []
+
+    def walk(node):
+        if isinstance(node, dict):
+            for name, sub in (node.get("properties") or {}).items():
+                if isinstance(sub, dict):
+                    for key in ("x-le", "x-lt", "maximum", "exclusiveMaximum"):
+                        if key in sub:
+                            bounds.append((name, float(sub[key])))
+            for v in node.values():
+                walk(v)
+        elif isinstance(node, list):
+            for v in node:
+                walk(v)
+
+    walk(unitfile.schema())
+    money = unitfile.schema()["$defs"]["money"]["x-le"]
+    bounds.append(("capex", float(money)))
+    assert bounds
+    missing = [(n, b) for n, b in bounds if b not in rows.get(n, set())]
+    assert not missing, f"upper bounds not stated in the Limits table of docs/unit-file.md: {missing}"
+
+
+def test_docs_state_the_reading_limits():
+    from revamp import units
+    from revamp.unitfile import _reading
+
+    text = (unitfile.SCHEMA_PATH.parent.parent / "docs" / "unit-file.md").read_text(encoding="utf-8")
+    assert f"{_reading.MAX_FILE_BYTES // (1024 * 1024)} MiB" in text
+    assert f"{_reading.MAX_DEPTH} levels deep" in text
+    assert f"{_reading.MAX_NODES:,} values" in text
+    assert f"at most {units.MAX_QUANTITY_LENGTH} characters" in text
+    assert f"up to {units.MAX_UNIT_EXPONENT}" in text
+    assert f"at most {units.MAX_UNIT_PARENTHESES} deep" in text
 
 
 # ---------------------------------------------------------------------------------------------- the fouling cycle

@@ -83,3 +83,78 @@ def test_display_labels():
 def test_fuel_price_units():
     # 1 MMBTU = 1e6 BTU_IT = 1.055056 GJ (NIST SP 811; pint rounds BTU to 1055.056 J)
     assert to_si("1 MMBTU", "energy") == pytest.approx(1.05505585e9, rel=1e-6)
+
+
+# ----------------------------------------------------------------------------------------- hostile quantity strings
+HOSTILE = ["9**9**9 K", "10**400 K", "9**9**8 K", "1 K**9**9**9", "2 m**99999999", "1 ((((((m))))))", "1e400 K",
+           "1" * 5000 + " K", "1 m" + " * m" * 200, "300 K\x00", "300 K\x1b[2J", "(9)**9**9 K", "9^9^9 K", "nan K",
+           "inf K", "-inf K", "1e-400e5 K"]
+
+
+def test_hostile_strings_are_refused_quickly_in_a_subprocess():
+    """A quantity string is read by a grammar that cannot explode: no power of a number reaches pint (whose
+    evaluator computes Python integer powers: 9**9**9 would run for hours), exponents and length are bounded.
+    Run in a subprocess with a time limit, so that a regression fails instead of hanging the suite."""
+    import json
+    import subprocess
+    import sys
+
+    code = ("import json, sys\nfrom revamp.units import to_si\nfrom revamp.errors import InputError\nout = []\n"
+            "for s in json.loads(sys.stdin.read()):\n"
+            "    try:\n        to_si(s, 'temperature' if s.endswith('K') else 'length', 'f'); out.append('accepted')\n"
+            "    except InputError as e:\n        out.append('refused' if str(e).startswith('f: ') else 'bad message')\n"
+            "    except BaseException as e:\n        out.append(type(e).__name__)\n"
+            "print(json.dumps(out))\n")
+    proc = subprocess.run([sys.executable, "-c", code], input=json.dumps(HOSTILE), capture_output=True, text=True,
+                          timeout=60, check=False)
+    assert proc.returncode == 0, proc.stderr[-2000:]
+    assert json.loads(proc.stdout) == ["refused"] * len(HOSTILE)
+
+
+@pytest.mark.parametrize("text, kind, expected", [
+    ("1 ft²", "area", 0.09290304),           # NIST SP 811: 1 ft² = 0.092 903 04 m² (exact)
+    ("1 m^3", "length", None),               # wrong dimension, read by the grammar, refused by pint's dimension check
+    ("1 BTU/(h*ft**2*degF)", "htc", 5.678263),  # NIST SP 811: 5.678 263 W/(m² K)
+    ("150 kW/K", "thermal_conductance", 150e3),  # SI prefix
+    ("2 t", "mass", 2000.0),                 # SI: 1 t = 1000 kg
+    ("-5 kg/s", "mass_flow", -5.0),          # the sign is the number's: bounds are checked elsewhere
+])
+def test_grammar_keeps_what_users_write(text, kind, expected):
+    if expected is None:
+        with pytest.raises(InputError, match="dimension"):
+            to_si(text, kind, "f")
+    else:
+        assert to_si(text, kind, "f") == pytest.approx(expected, rel=1e-6)
+
+
+@pytest.mark.parametrize("text, words", [
+    ("9**9**9 K", "powers of numbers"),
+    ("1 m**13", "limited to 12"),
+    ("kg/s", "start with a number"),
+    ("x" * 500, "longer than"),
+    ("1 ((((m))))", "nested deeper"),
+])
+def test_refusals_say_why(text, words):
+    with pytest.raises(InputError, match=words):
+        to_si(text, "length", "f")
+
+
+def test_error_messages_escape_control_characters_and_stay_short():
+    with pytest.raises(InputError) as info:
+        to_si("300 \x1b[2J" + "K" * 1000, "temperature", "t_in")
+    msg = str(info.value)
+    assert "\x1b" not in msg and "\\x1b" in msg
+    assert len(msg) < 600
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.text(alphabet="0123456789.eE+-*/^() Kkgmsdeg°%²", max_size=40))
+def test_any_short_string_parses_or_is_refused(text):
+    """Invariant: any string made of the grammar's own characters gives a finite float or an InputError naming the
+    field, never another exception."""
+    try:
+        out = to_si(text, "temperature", "t_in")
+    except InputError as exc:
+        assert str(exc).startswith("t_in: ")
+    else:
+        assert np.isfinite(out)

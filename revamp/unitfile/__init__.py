@@ -32,7 +32,7 @@ from ._model import (
     UnitEconomics,
     UnitFileError,
 )
-from ._reading import _read_yaml, _schema_problems, _show, _walk, schema
+from ._reading import _bad_text, _read_file, _read_yaml, _schema_problems, _show, _text_problems, _walk, schema
 
 __all__ = [
     "SCHEMA_PATH",
@@ -59,10 +59,9 @@ def _sorted(problems):
 
 def _validate(path, build: bool, only=None):
     path = Path(path)
-    try:
-        data = path.read_bytes()
-    except OSError as exc:
-        return None, [Problem(str(path), "(file)", f"must be a readable file ({exc.strerror or exc})")]
+    data, reason = _read_file(path)
+    if data is None:
+        return None, [Problem(str(path), "(file)", reason)]
     try:
         text = data.decode("utf-8")
     except UnicodeDecodeError:
@@ -73,6 +72,7 @@ def _validate(path, build: bool, only=None):
     if problems and doc is None:
         return None, problems
     problems += _schema_problems(doc)
+    problems += _text_problems(doc)
     if not isinstance(doc, dict):
         return None, _sorted(problems)
     econ = doc.get("economics") if isinstance(doc.get("economics"), dict) else {}
@@ -84,9 +84,10 @@ def _validate(path, build: bool, only=None):
     problems += [p for p in quantity_problems if p.path not in seen]
     base, tags = path.resolve().parent, {}
     exchangers = doc.get("exchangers") if isinstance(doc.get("exchangers"), list) else []
+    seen = {p.path for p in problems}
     for i, x in enumerate(exchangers):
-        if isinstance(x, dict):
-            problems += _exchanger_rules(x, ["exchangers", i], base, tags)
+        if isinstance(x, dict):  # a place already refused (e.g. a NUL in a file name) is not reported twice
+            problems += [p for p in _exchanger_rules(x, ["exchangers", i], base, tags) if p.path not in seen]
     if not build or any(not _owned([p], None) for p in problems):  # the unit as a whole is wrong: build nothing
         return None, _sorted(problems)
     e = si.get("economics") or {}
@@ -134,7 +135,8 @@ def _entries(unit_or_doc) -> list[tuple[str, int]]:
     out = []
     for i, x in enumerate(exchangers if isinstance(exchangers, list) else []):
         tag = x.get("tag") if isinstance(x, dict) else None
-        out.append((tag if isinstance(tag, str) and tag else f"exchangers[{i}]", i))
+        usable = isinstance(tag, str) and tag.strip() and _bad_text(tag, True) is None
+        out.append((tag if usable else f"exchangers[{i}]", i))  # never a tag that cannot be printed or written
     return out
 
 

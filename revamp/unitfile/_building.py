@@ -38,6 +38,13 @@ def _exchanger_rules(x: dict, parts: list, base: Path, seen_tags: dict) -> list[
             out.append(Problem(_path(parts + ["revamp", "side"]), _show(rv["side"]), "must come with a throughput"))
     for side in ("shell_side", "tube_side"):
         fluid = (x.get(side) or {}).get("fluid") if isinstance(x.get(side), dict) else None
+        name = fluid.get("fluid") if isinstance(fluid, dict) and fluid.get("kind") == "pure" else None
+        if isinstance(name, str) and re.search(r"[&\[\]|:]", name):
+            # CoolProp's mixture and backend syntax ('Water&Ethanol', 'HEOS::Water[0.5]&...'): the pure-fluid
+            # provider would quietly rate the first component alone
+            out.append(Problem(_path(parts + [side, "fluid", "fluid"]), name,
+                               "must be one pure substance (mixtures are not supported here: describe a mixture "
+                               "as a 'table' or 'constant' fluid from its measured properties)"))
         if isinstance(fluid, dict) and fluid.get("kind") == "table":
             lengths = {k: len(fluid[k]) for k in ("T", "density", "heat_capacity", "viscosity", "conductivity")
                        if isinstance(fluid.get(k), list)}
@@ -51,6 +58,8 @@ def _exchanger_rules(x: dict, parts: list, base: Path, seen_tags: dict) -> list[
 
 def _safe_file(text: str, base: Path):
     """Resolve a path written in the file; (Path, None) or (None, reason)."""
+    if not text.isprintable():  # a NUL would make the file system call raise; control characters are never meant
+        return None, "must be a printable path (no NUL or control characters)"
     p = Path(text)
     if p.is_absolute() or re.match(r"^[A-Za-z]:[\\/]", text) or text.startswith("~"):
         return None, "must be a path relative to the unit file's folder"
@@ -59,9 +68,34 @@ def _safe_file(text: str, base: Path):
         full.relative_to(base.resolve())
     except ValueError:
         return None, "must stay inside the unit file's folder (no '..' out of it, no link out of it)"
-    if not full.is_file():
+    if not full.exists():
         return None, f"must be an existing file (looked for {full.relative_to(base.resolve())})"
+    if not full.is_file():
+        return None, "must be a regular file (not a folder, pipe or device)"
     return full, None
+
+
+#: how much of a plant-data CSV ``check`` reads for its header and first rows [bytes]
+CSV_HEAD_BYTES = 1 << 20
+_TZ_RE = re.compile(r"(Z|[+-]\d\d:?\d\d)$")
+
+
+def _csv_head(full: Path):
+    """The header and the first data rows of a CSV, reading at most :data:`CSV_HEAD_BYTES` (a UTF-8 byte-order mark,
+    as spreadsheet programs write, is dropped, as pandas does). Raises ValueError with the reason."""
+    import io
+
+    with open(full, "rb") as fh:
+        head = fh.read(CSV_HEAD_BYTES)
+    text = head.decode("utf-8-sig", errors="strict") if len(head) < CSV_HEAD_BYTES else \
+        head.decode("utf-8-sig", errors="ignore")
+    lines = text.splitlines()
+    if len(head) == CSV_HEAD_BYTES and lines:
+        lines = lines[:-1]  # a partly read last line
+    rows = list(csv.reader(io.StringIO("\n".join(lines[:1000]))))
+    if not rows:
+        raise ValueError(f"must have a header row within its first {CSV_HEAD_BYTES // 1024} KiB")
+    return [h.strip() for h in rows[0]], rows[1:]
 
 
 def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
@@ -70,11 +104,14 @@ def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
         return [Problem(_path(parts + ["file"]), pd["file"], reason)]
     out = []
     try:
-        with open(full, newline="", encoding="utf-8") as fh:
-            header = next(csv.reader(fh), [])
-    except (OSError, UnicodeDecodeError) as exc:
-        return [Problem(_path(parts + ["file"]), pd["file"], f"must be a readable UTF-8 CSV file ({exc.__class__.__name__})")]
-    header = [h.strip() for h in header]
+        header, rows = _csv_head(full)
+    except (OSError, UnicodeDecodeError, csv.Error) as exc:
+        return [Problem(_path(parts + ["file"]), pd["file"], f"must be a readable UTF-8 CSV file ({exc.__class__.__name__}: "
+                                                             f"{str(exc)[:80]})")]
+    except ValueError as exc:
+        return [Problem(_path(parts + ["file"]), pd["file"], str(exc))]
+    if not any(any(cell.strip() for cell in row) for row in rows):
+        out.append(Problem(_path(parts + ["file"]), pd["file"], "must hold at least one data row below its header"))
     cols = pd.get("columns") if isinstance(pd.get("columns"), dict) else {}
     for std, kind in STANDARD_COLUMNS.items():
         spec = cols.get(std, std)
@@ -84,6 +121,12 @@ def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
         if name not in header:
             out.append(Problem(_path(parts + ["columns", std]), name,
                                f"must be a column of {pd['file']} (it has: {', '.join(header)[:200]})"))
+        if std in cols and isinstance(spec, str) and kind is not None:
+            # a mapped column read without a unit would be taken as SI: degC data read as kelvin discards every row
+            example = "degC" if kind == "temperature" else "t/h"
+            out.append(Problem(_path(parts + ["columns", std]), name,
+                               f"must give its unit: {{column: {name}, unit: {example}}} (SI is written "
+                               f"'{'K' if kind == 'temperature' else 'kg/s'}')"))
         if unit is not None and kind is not None:
             try:
                 _convert(f"1 {unit}", kind, "unit", "USD")
@@ -91,6 +134,16 @@ def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
                 out.append(Problem(_path(parts + ["columns", std, "unit"]), unit, f"must be the unit of {exc.allowed}"))
         elif unit is not None:
             out.append(Problem(_path(parts + ["columns", std, "unit"]), unit, "must not be given for the timestamp"))
+    ts = cols.get("timestamp", "timestamp")
+    ts = ts if isinstance(ts, str) else ts.get("column") if isinstance(ts, dict) else None
+    if ts in header:
+        j = header.index(ts)
+        zones = {(_TZ_RE.search(r[j].strip()) or [None])[0] for r in rows if len(r) > j and r[j].strip()}
+        if len(zones) > 1:
+            shown = ", ".join(sorted("none" if z is None else z for z in zones))[:80]
+            out.append(Problem(_path(parts + ["columns", "timestamp"]), ts,
+                               f"must use one time zone throughout (its first rows have: {shown}); convert the "
+                               "timestamps to one zone, e.g. UTC"))
     return out
 
 
@@ -157,6 +210,77 @@ def _guard(problems: list, prefix: str, func, *args, field_of=None):
     return None
 
 
+#: option labels the study uses for its own rows (``revamp.study`` refuses them as option labels)
+RESERVED_LABELS = frozenset({"base", "today", "today (clean)", "revamp", "revamp (clean)"})
+#: an insert's field (as its model names it) -> the option field the unit file writes
+_INSERT_FIELDS = {"insert.thickness_ratio": "thickness", "insert.wire_ratio": "wire_diameter",
+                  "insert.pitch_ratio": "pitch", "insert.twist_ratio": "twist_ratio"}
+#: the largest relative roughness of a tube bore read on the Moody (1944) chart, whose curves end at e/d = 0.05
+MAX_RELATIVE_ROUGHNESS = 0.05
+
+
+def _option_field(field: str) -> str:
+    field = field.split(".", 1)[1] if re.match(r"^(NewBundle|Retube|TwistedTape|WireCoil|BaffleChange)\.", field) else field
+    return _INSERT_FIELDS.get(field, field)
+
+
+def _fluid_at_inlet(problems: list, where: str, fluid, t_in):
+    """Evaluate the fluid at its inlet; a provider that fails other than by InputError (e.g. a petroleum
+    correlation overflowing at 1 K) is reported as a temperature outside the fluid's range."""
+    try:
+        return fluid.props(t_in)
+    except InputError as exc:
+        problems.append(Problem(where, exc.value if isinstance(exc.value, str) else _show(exc.value),
+                                f"must be {exc.allowed}"))
+    except (ArithmeticError, ValueError, FloatingPointError) as exc:
+        lo, hi = getattr(fluid, "t_min", None), getattr(fluid, "t_max", None)
+        span = f" ({lo - 273.15:.0f} to {hi - 273.15:.0f} degC)" if lo is not None and hi is not None else ""
+        problems.append(Problem(where, f"{t_in:.6g} K", f"must be a temperature the fluid's property model covers{span}; "
+                                                        f"it fails there ({exc.__class__.__name__})"))
+    return None
+
+
+def _bore_rule(exchanger, g: dict, where: str, problems: list):
+    """A tube bore small against its roughness (a wall near half the od) is named as such, not as a friction-factor
+    range error deep inside the rating (Moody 1944: the chart stops at e/d = 0.05)."""
+    if exchanger is None:
+        return
+    rel = float(exchanger.tube_roughness) / float(exchanger.tube_id)
+    if rel > MAX_RELATIVE_ROUGHNESS:
+        field = "tube_roughness" if "tube_roughness" in g else "tube_wall"
+        problems.append(Problem(f"{where}.{field}", _show(g.get(field)),
+                                f"must leave a bore large against the tube roughness: bore {exchanger.tube_id * 1e3:.3g} "
+                                f"mm, roughness {exchanger.tube_roughness * 1e3:.3g} mm, relative roughness {rel:.3g} > "
+                                f"{MAX_RELATIVE_ROUGHNESS} (end of the Moody chart)"))
+
+
+def _inlets_rule(service, where: str, problems: list) -> bool:
+    """Equal inlet temperatures give no driving force: the rating would refuse them, so check does first."""
+    ts, tt = float(service.shell.t_in), float(service.tube.t_in)
+    if abs(ts - tt) < 1e-6:
+        problems.append(Problem(where, f"{tt - 273.15:.6g} degC", "must differ from the other side's inlet "
+                                f"temperature ({ts - 273.15:.6g} degC): equal inlets give no driving force"))
+        return True
+    return False
+
+
+def _target_rule(target: dict, service, where: str, problems: list):
+    """An outlet-temperature target must lie between the two inlets at the revamp conditions (second law): the hot
+    side can only cool towards the cold inlet, the cold side only heat towards the hot inlet."""
+    for side in ("shell", "tube"):
+        key = f"t_out_{side}"
+        if target.get(key) is None:
+            continue
+        own, other = float(getattr(service, side).t_in), float(getattr(service, "tube" if side == "shell" else "shell").t_in)
+        lo, hi = sorted((own, other))
+        if not lo < float(target[key]) < hi:
+            verb = "cooled" if own > other else "heated"
+            problems.append(Problem(f"{where}.{key}", f"{float(target[key]) - 273.15:.6g} degC",
+                                    f"must lie between the {side}-side inlet ({own - 273.15:.6g} degC) and the other "
+                                    f"inlet ({other - 273.15:.6g} degC) at the revamp conditions: the {side} side is "
+                                    f"{verb}"))
+
+
 def _economics(econ: UnitEconomics, capex: dict, capacity_flow):
     """The study's Economics for one exchanger (None when the file gives no energy price)."""
     if econ.energy_price is None:
@@ -203,11 +327,12 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         if fluid is None:
             continue
         # evaluate the fluid once at its inlet: a liquid-only provider refuses a vapour here, with its reason
-        if _guard(problems, f"{pre}.{side}_side.t_in", fluid.props, s["t_in"], field_of=lambda f: "") is None:
+        if _fluid_at_inlet(problems, f"{pre}.{side}_side.t_in", fluid, s["t_in"]) is None:
             continue
         streams[side] = _guard(problems, f"{pre}.{side}_side", rating.Stream, fluid, s["flow"], s["t_in"])
     if len(problems) > start or None in streams.values():
         return None
+    _bore_rule(exchanger, si["geometry"], f"{pre}.geometry", problems)
     service = _guard(problems, pre, lambda: rating.Service(
         shell=streams["shell"], tube=streams["tube"], fouling_shell=si["shell_side"].get("fouling", 0.0),
         fouling_tube=si["tube_side"].get("fouling", 0.0)))
@@ -225,15 +350,35 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
                 changes[side] = stream.replace(**upd) if upd else stream
             return svc.replace(**changes)
         revamp_service = _guard(problems, f"{pre}.revamp", revamped)
-    opts, capex = [], {}
+    for svc, where in ((service, f"{pre}.tube_side.t_in"), (revamp_service, f"{pre}.revamp.t_in")):
+        if svc is not None and _inlets_rule(svc, where, problems):
+            break
+    if revamp_service is not None:
+        _target_rule(rv.get("target") or {}, revamp_service, f"{pre}.revamp.target", problems)
+    opts, capex, labels = [], {}, {}
     for j, spec in enumerate(si.get("options") or []):
         obj = _guard(problems, f"{pre}.options[{j}]", _build_option, spec)
-        if obj is not None:
-            opts.append(obj)
-            capex[_option_label(obj, spec, j)] = spec.get("capex")
-    labels = list(capex)
-    for label in {lab for lab in labels if labels.count(lab) > 1}:
-        problems.append(Problem(f"{pre}.options", label, "must have distinct labels (give each a 'label')"))
+        if obj is None:
+            continue
+        label = _option_label(obj, spec, j)
+        where = f"{pre}.options[{j}]" + (".label" if "label" in spec else "")
+        if label in labels:
+            # a dict of capex by label would silently keep the second figure: refuse the repeat by its place
+            problems.append(Problem(where, label, f"must be distinct from the label of {pre}.options[{labels[label]}] "
+                                                  "(give each option its own 'label')"))
+            continue
+        if label.strip().lower() in RESERVED_LABELS:
+            problems.append(Problem(where, label, f"must not be one of the study's own rows "
+                                                  f"({', '.join(sorted(RESERVED_LABELS))})"))
+            continue
+        labels[label] = j
+        # apply it once to the exchanger and the revamp service (no rating): what the study would refuse,
+        # check refuses first (a pitch below the tube od, an insert thicker than the bore, a bad material)
+        if exchanger is not None and revamp_service is not None and _guard(
+                problems, f"{pre}.options[{j}]", obj.apply, exchanger, revamp_service, field_of=_option_field) is None:
+            continue
+        opts.append(obj)
+        capex[label] = spec.get("capex")
     plant = None
     if "plant_data" in si:
         pd = si["plant_data"]

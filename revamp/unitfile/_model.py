@@ -5,7 +5,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from ..errors import InputError
+from ..errors import InputError, printable
 
 SCHEMA_PATH = Path(__file__).resolve().parent.parent / "unit_schema.json"
 #: the plant-data columns :func:`revamp.monitor` reads, and the quantity kind of each
@@ -26,6 +26,10 @@ class Problem:
     path: str
     value: str
     message: str
+
+    def __post_init__(self):  # a path or value from the file may hold terminal escapes, NUL or lone surrogates
+        for name in ("path", "value", "message"):
+            object.__setattr__(self, name, printable(getattr(self, name), limit=400))
 
     def __str__(self) -> str:
         return f"{self.path}: {self.value}: {self.message}"
