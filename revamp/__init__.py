@@ -26,6 +26,7 @@ _EXPORTS = {
     "Train": "revamp.train",
     "Match": "revamp.train",
     "Furnace": "revamp.train",
+    "compare_train": "revamp.train",
 }
 _SUBMODULES = {"fluids", "materials", "fouling", "units", "options", "screening", "economics", "thermal",
                "resistance", "geometry", "correlations", "plots", "unitfile", "batch", "train"}

@@ -260,3 +260,63 @@ def test_bad_parts_are_path_named():
     with pytest.raises(InputError) as info:
         Train(**_base_kw()).apply({"E-107": op.Clean()})
     assert info.value.field == "options['E-107']"
+
+
+# ------------------------------------------------------------------------------------------- options and throughput
+ECON = {"energy_price": 9.0, "price_per": "GJ", "operating_time": "8000 h", "discount_rate": 0.1, "horizon": 10,
+        "capex": {"clean E-102": 60e3, "inserts E-101 + clean E-104": 250e3}}
+SETS = {"clean E-102": {"E-102": op.Clean()},
+        "inserts E-101 + clean E-104": {"E-101": op.TwistedTape(4.0), "E-104": op.Clean()}}
+
+
+@pytest.fixture(scope="module")
+def study():
+    tr = interlinked(CRUDE_C, RESID_C, KERO_C, furnace=Furnace("crude", "360 degC", 0.85, "60 MW"))
+    return tr, rv.compare_train(tr, SETS, economics=ECON)
+
+
+def test_compare_train_rows_are_train_solves(study):
+    tr, s = study
+    t = s.table
+    assert list(t.index) == ["base", *SETS]
+    for label, opts in SETS.items():
+        direct = tr.apply(opts).solve()
+        assert t.loc[label, "furnace_inlet"] == pytest.approx(direct.furnace_inlet, abs=1e-6)
+        assert t.loc[label, "furnace_duty"] == pytest.approx(direct.furnace_duty, rel=1e-9)
+        saved = t.loc["base", "furnace_duty"] - direct.furnace_duty
+        assert t.loc[label, "furnace_duty_saved"] == pytest.approx(saved, rel=1e-6)
+        for tag in tr.exchangers:
+            assert t.loc[label, f"duty {tag}"] == pytest.approx(direct.exchangers.loc[tag, "duty"], rel=1e-9)
+        # money by hand: saved fired duty [W] × 8000 h × 3600 s/h / 1e9 J/GJ × 9 per GJ
+        value = saved * 8000 * 3600 / 1e9 * 9.0
+        assert t.loc[label, "annual_value"] == pytest.approx(value, rel=1e-6)
+        assert t.loc[label, "payback"] == pytest.approx(ECON["capex"][label] / value, rel=1e-6)
+        # NPV = -capex + value × (1 - 1.1^-10) / 0.1 (annuity factor, Brealey, Myers & Allen 2020, ch. 2)
+        assert t.loc[label, "npv"] == pytest.approx(-ECON["capex"][label] + value * (1 - 1.1 ** -10) / 0.1,
+                                                    rel=1e-6)
+
+
+def test_compare_train_does_not_double_count(study):
+    _, s = study
+    label = "inserts E-101 + clean E-104"
+    saved_absorbed = s.table.loc[label, "furnace_duty_saved"] * 0.85
+    # the exchangers' gains rated one by one at the base inlets add up to more than the train recovers
+    assert s.isolated_gains.loc[label].sum() > saved_absorbed
+    # and the train's duty changes show an exchanger downstream losing duty
+    assert (s.duty_changes.loc[label] < 0).any() or (s.duty_changes.loc["clean E-102"] < 0).any()
+
+
+def test_max_throughput_stops_at_the_binding_limit():
+    tr = interlinked(CRUDE_C, RESID_C, KERO_C, furnace=Furnace("crude", "360 degC", 0.85, "40 MW"))
+    tp = tr.max_throughput("crude", low=0.5, high=2.0, points=21)
+    assert tp.binding == ("furnace duty",)
+    below = tr.scaled(tp.factor, "crude").solve()
+    above = tr.scaled(tp.factor + tp.resolution, "crude").solve()
+    assert below.furnace_duty <= 40e6 < above.furnace_duty
+    # an allowed tube-side pressure drop on E-101 binds first when tight enough
+    m = tr.exchangers["E-101"]
+    dp_today = tr.solve().exchangers.loc["E-101", "dp_tube"]
+    tight = tr.replace(exchangers={**tr.exchangers, "E-101": m.replace(dp_max_tube=1.05 * dp_today)})
+    tp2 = tight.max_throughput("crude", points=21)
+    assert tp2.binding == ("E-101 dp_tube",) and 1.0 < tp2.factor < tp.factor
+    assert tp2.result.exchangers.loc["E-101", "dp_tube"] <= 1.05 * dp_today

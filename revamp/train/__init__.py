@@ -9,5 +9,7 @@ the train for sets of options and :func:`max_throughput` finds the largest flow 
 from .network import Furnace, Match, Point, Split, Train
 from .result import LimitCheck, TrainResult
 from .solver import enthalpy_change, solve
+from .study import Throughput, TrainStudy, compare_train, max_throughput
 
-__all__ = ["Furnace", "LimitCheck", "Match", "Point", "Split", "Train", "TrainResult", "enthalpy_change", "solve"]
+__all__ = ["Furnace", "LimitCheck", "Match", "Point", "Split", "Throughput", "Train", "TrainResult", "TrainStudy",
+           "compare_train", "enthalpy_change", "max_throughput", "solve"]
