@@ -220,3 +220,26 @@ def build_network(si: dict, doc: dict, cases: tuple, problems: list):
     except InputError as exc:  # the rules above should have named it already; never a traceback
         problems.append(Problem(f"network.{exc.field}", _show(exc.value), f"must be {exc.allowed}"))
         return None
+
+
+def train_options(unit):
+    """The options of the network's exchangers as train-level cases, and their economics.
+
+    Returns ``({"<tag>: <option label>": {tag: option}}, Economics or None)``: each exchanger's options from the file,
+    one case each, with its capex; the economics from the unit's prices (None without an energy price).
+    """
+    from ._building import _economics
+
+    network = unit.network
+    if network is None:
+        return {}, None
+    cases, capex = {}, {}
+    for tag in network.exchangers:
+        case = unit.exchanger(tag)
+        for opt in case.options:
+            label = f"{tag}: {opt.label}"
+            cases[label] = {tag: opt}
+            cost = case.capex.get(opt.label)
+            if cost is not None:
+                capex[label] = cost
+    return cases, _economics(unit.economics, capex, None)
