@@ -50,10 +50,10 @@ def train_svg(result, title: str = "") -> str:
     main = _main_stream(train)
     pos = {}  # tag -> (x, y) of the box's top-left corner
     items_svg, labels = [], []
-    x, y0 = 40, 150
+    x, y0 = 130, 130
     supply = float(result.streams.loc[main, "supply"])
-    labels.append((x - 30, y0 + _BOX_H / 2 - 10, f"{esc(main)} {_c(supply)}", "start"))
-    line_pts = [(x - 30, y0 + _BOX_H / 2)]
+    labels.append((10, y0 + _BOX_H / 2 - 8, f"{esc(main)} {_c(supply)}", "start"))
+    line_pts = [(10, y0 + _BOX_H / 2)]
     max_rows = 1
     for item in train.routes.get(main, ()):
         if isinstance(item, str):
@@ -66,7 +66,7 @@ def train_svg(result, title: str = "") -> str:
             items_svg.append(f'<polygon points="{cx - 12},{cy} {cx},{cy - 12} {cx + 12},{cy} {cx},{cy + 12}" '
                              f'fill="{"#27ae60" if ok else "#e74c3c"}"/>')
             labels.append((cx, cy + 30, f"{esc(item.name)} {_c(t)}", "middle"))
-            x += 20 + _GAP // 2
+            x += 20 + _GAP
         elif isinstance(item, Split):
             n = len(item.branches)
             max_rows = max(max_rows, n)
@@ -78,13 +78,22 @@ def train_svg(result, title: str = "") -> str:
                     pos[tag] = (bx, by)
                     bx += _BOX_W + _GAP // 2
                 labels.append((x - 6, by - 6, f"{frac:.0%}", "end"))
+            x_end = x + width * (_BOX_W + _GAP // 2)
+            ys = [y0 + (b - (n - 1) / 2) * (_BOX_H + 40) + _BOX_H / 2 for b in range(n)]
+            for bx_ in (x - _GAP / 2, x_end):  # the split and the remix
+                items_svg.append(f'<line x1="{bx_}" y1="{min(ys)}" x2="{bx_}" y2="{max(ys)}" stroke="#1f5fa8" '
+                                 f'stroke-width="3"/>')
+            for b, branch in enumerate(item.branches):
+                if not branch:  # a bypass
+                    items_svg.append(f'<line x1="{x - _GAP / 2}" y1="{ys[b]}" x2="{x_end}" y2="{ys[b]}" '
+                                     f'stroke="#1f5fa8" stroke-width="3" stroke-dasharray="6 4"/>')
             x += width * (_BOX_W + _GAP // 2) + _GAP // 2
     end_x = x
     # exchangers not on the main route: a second row
     extra = [t for t in train.exchangers if t not in pos]
     for k, tag in enumerate(extra):
         pos[tag] = (40 + k * (_BOX_W + _GAP), y0 + 190)
-    height = y0 + 190 + (_BOX_H + 90 if extra else 0) + 40 * max(0, max_rows - 2)
+    height = y0 + _BOX_H + 70 + (190 if extra else 0) + (_BOX_H + 40) * max(0, max_rows - 1) / 2
     # main stream line through its exchangers (branches drawn from the split column)
     main_path = []
     for tag, (bx, by) in pos.items():
@@ -99,14 +108,13 @@ def train_svg(result, title: str = "") -> str:
                         f'y2="{line_pts[1][1]}" stroke="#1f5fa8" stroke-width="3" stroke-opacity="0.35"/>')
     # furnace
     if train.furnace is not None and result.furnace_inlet is not None:
-        fx, fy = end_x, y0 - 10
-        items_svg.append(f'<rect x="{fx}" y="{fy}" width="{_BOX_W + 20}" height="{_BOX_H + 20}" rx="4" '
+        fx, fy, fw = end_x, y0 - 17, _BOX_W + 50
+        items_svg.append(f'<rect x="{fx}" y="{fy}" width="{fw}" height="{_BOX_H + 34}" rx="4" '
                          f'fill="#fdebd0" stroke="#a04000" stroke-width="2"/>')
-        labels.append((fx + (_BOX_W + 20) / 2, fy + 22, "furnace", "middle"))
-        labels.append((fx + (_BOX_W + 20) / 2, fy + 40, f"fired {_mw(result.furnace_duty)}", "middle"))
-        labels.append((fx - 4, fy - 8, f"inlet {_c(result.furnace_inlet)}", "end"))
-        labels.append((fx + (_BOX_W + 20) / 2, fy + _BOX_H + 38, f"outlet {_c(train.furnace.outlet)}", "middle"))
-        end_x += _BOX_W + 40
+        labels.append((fx + fw / 2, fy + 20, "furnace", "middle"))
+        labels.append((fx + fw / 2, fy + 40, f"{_c(result.furnace_inlet)} → {_c(train.furnace.outlet)}", "middle"))
+        labels.append((fx + fw / 2, fy + 60, f"fired {_mw(result.furnace_duty)}", "middle"))
+        end_x += fw + 20
     # other streams: into each exchanger from above, in route order
     others = [s for s in train.routes if s != main]
     for k, s in enumerate(others):
