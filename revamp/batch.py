@@ -131,7 +131,7 @@ SUMMARY_FIELDS = [
 ]
 
 
-def _index_html(unit, rows: list[dict], prov: dict) -> str:
+def _index_html(unit, rows: list[dict], prov: dict, train: dict | None = None) -> str:
     header = ["exchanger", "description", "status"] + [h for _, h, _ in SUMMARY_FIELDS] + ["reason"]
     lines = ['<section id="summary"><h2>Exchangers</h2><table class="rv-table"><thead><tr>'
              + "".join(f"<th>{report.esc(h)}</th>" for h in header) + "</tr></thead><tbody>"]
@@ -157,7 +157,10 @@ def _index_html(unit, rows: list[dict], prov: dict) -> str:
     failed = sum(r["status"] != "ok" for r in rows)
     intro = (f"<p>{len(rows)} exchanger(s), {len(rows) - failed} report(s) written, {failed} failed. "
              f"{report.esc(unit.description) if unit else ''}</p>")
-    return report.page(f"{unit.name if unit else 'Unit'} — revamp study", intro + "".join(lines) + chart, prov)
+    from .batch_train import index_section
+
+    return report.page(f"{unit.name if unit else 'Unit'} — revamp study",
+                       intro + index_section(train) + "".join(lines) + chart, prov)
 
 
 def _index_chart(rows) -> str:
@@ -238,9 +241,14 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     from tqdm.auto import tqdm
 
     bar = tqdm(total=len(jobs_list), desc="reports", unit="exchanger", disable=not progress)
-    results = []
+    results, train = [], None
     if jobs_list:  # always in worker processes: a worker silences its own stderr, never ours
         with ProcessPoolExecutor(max_workers=min(int(jobs), len(jobs_list)), mp_context=get_context("spawn")) as pool:
+            from .batch_train import run_train_page
+
+            # a unit with a network gets its train page, computed in a worker beside the exchanger studies
+            train_fut = (pool.submit(run_train_page, {"unit_file": str(unit_file), "out": str(out)})
+                         if getattr(unit, "network", None) is not None and not only else None)
             futures = {pool.submit(_run_one, job): job for job in jobs_list}
             for fut in as_completed(futures):
                 job = futures[fut]
@@ -250,6 +258,12 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
                     results.append({"tag": job["tag"], "status": "failed", "file": None, "summary": {},
                                     "reason": _one_line(f"{exc.__class__.__name__}: {exc}"), "seconds": 0.0})
                 bar.update(1)
+            if train_fut is not None:
+                try:
+                    train = train_fut.result()
+                except Exception as exc:  # a worker that died: the index says so, the reports stand
+                    train = {"status": "failed", "reason": _one_line(f"{exc.__class__.__name__}: {exc}"),
+                             "file": None, "summary": {}}
     bar.close()
     per = {}
     for res in results:
@@ -257,7 +271,7 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         per[res["tag"]] = res["seconds"]
     prov = report.provenance(unit_file, None, parameters={"jobs": jobs, "only": " ".join(only or []) or "all",
                                                           "units": units})
-    index = report.write_atomic(out / "index.html", _index_html(unit, rows, prov))
+    index = report.write_atomic(out / "index.html", _index_html(unit, rows, prov, train))
     return BatchResult(index_path=index.resolve(),
                        reports={r["tag"]: (out / r["file"]).resolve() for r in rows if r.get("file")},
                        failures={r["tag"]: r["reason"] for r in rows if r["status"] != "ok"},
