@@ -23,9 +23,11 @@ _EXPORTS = {
     "Monitoring": "revamp.monitoring",
     "compare": "revamp.study",
     "Study": "revamp.study",
+    "study_exchanger": "revamp.studies",
+    "ExchangerStudy": "revamp.studies",
 }
 _SUBMODULES = {"fluids", "materials", "fouling", "units", "options", "screening", "economics", "thermal",
-               "resistance", "geometry", "correlations", "plots", "unitfile", "batch"}
+               "resistance", "geometry", "correlations", "plots", "unitfile", "batch", "studies"}
 
 __all__ = sorted(_EXPORTS) + sorted(_SUBMODULES)
 
