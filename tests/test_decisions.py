@@ -212,3 +212,43 @@ def test_cycle_average_basis_judges_the_target_on_the_run_mean():
         rv.compare(EX, SVC, [op.AddShells(1)], basis="cycle_average")
     with pytest.raises(InputError, match="basis"):
         rv.compare(EX, SVC, [op.AddShells(1)], basis="day0")
+
+
+# ------------------------------------------------------------------------------------------- the unit file's keys
+def test_unit_file_value_basis_per_exchanger_with_a_unit_default(tmp_path):
+    from test_unitfile import make_unit, write_unit
+
+    from revamp import unitfile
+    from revamp.studies import study_exchanger
+
+    doc = make_unit("E-1", "C-2")
+    doc["economics"].update(value_basis="fuel", utility_price="0.4 USD/GJ", rank_by="payback",
+                            capacity_margin="4 USD/t")
+    doc["exchangers"][1]["value_basis"] = "cooling"
+    doc["exchangers"][1]["revamp"]["capacity_flow"] = "2 kg/s"
+    path = write_unit(tmp_path / "unit.yaml", doc)
+    assert unitfile.check(path) == []
+    unit = unitfile.load(path)
+    e1, c2 = unit.exchanger("E-1"), unit.exchanger("C-2")
+    assert e1.economics.value_basis == "fuel" and c2.economics.value_basis == "cooling"
+    # 0.4 USD/GJ = 0.4e-9 USD/J, given back per GJ (definition of the prefix)
+    assert c2.economics.utility_price == pytest.approx(0.4, rel=1e-12)
+    assert c2.rank_by == "payback"
+    res = study_exchanger(c2, mc_draws=0)
+    assert res.study.rank_by == "payback" and (res.study.table["value_basis"] == "cooling").all()
+    assert any(n.quantity == "value_basis" and "exchangers[1].value_basis" in n.text for n in res.notes)
+    assert any(n.quantity == "value_basis" and "economics.value_basis" in n.text
+               for n in study_exchanger(e1, mc_draws=0).notes)
+
+
+def test_unit_file_refuses_an_unknown_basis_by_path(tmp_path):
+    from test_unitfile import make_unit, write_unit
+
+    from revamp import unitfile
+
+    doc = make_unit("E-1")
+    doc["exchangers"][0]["value_basis"] = "steam credit"
+    doc["economics"]["rank_by"] = "irr"
+    problems = unitfile.check(write_unit(tmp_path / "unit.yaml", doc))
+    paths = {p.path for p in problems}
+    assert "exchangers[0].value_basis" in paths and "economics.rank_by" in paths

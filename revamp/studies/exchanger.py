@@ -388,6 +388,13 @@ def study_exchanger(case, *, service_today=None, service_revamp=None, mc_draws: 
             notes += rating_notes(str(label), study.ratings[label])
     if side.source.startswith("inferred"):
         notes.append(Note("study", "fouling_side", "info", side.source))
+    economics = getattr(case, "economics", None)
+    if economics is not None:
+        where = (getattr(case, "cycle_from", None) or {}).get("value_basis")
+        origin = (f"from the unit file ({where})" if where else
+                  "the default: the unit file names none (economics.value_basis or the exchanger's value_basis)")
+        notes.append(Note("study", "value_basis", "info",
+                          f"Money valued on the '{economics.value_basis}' basis, {origin}."))
     return ExchangerStudy(case=case, service_today=service_today, service_revamp=service_revamp, today=today,
                           today_clean=today_clean, revamp=revamp, revamp_clean=revamp_clean, fouling_side=side,
                           monitoring=monitoring, cycle=cycle, study=study, notes=tuple(dict.fromkeys(notes)),
