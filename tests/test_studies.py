@@ -111,25 +111,50 @@ def test_every_rating_warning_is_a_note(result):
     assert all(n.severity == "warning" for n in rating_notes("today", result.today))
 
 
+def _cell_marks(cell: str) -> dict:
+    """``"today [1] [2]; revamp (clean) [1]"`` -> {"today": {1, 2}, "revamp (clean)": {1}} (the notes column)."""
+    out = {}
+    for part in filter(None, cell.split("; ")):
+        label, _, marks = part.partition(" [")
+        out[label] = {int(m.strip("[] ")) for m in ("[" + marks).split() if m}
+    return out
+
+
 def test_the_report_shows_each_warning_beside_the_number_it_qualifies(result):
+    from revamp.report.case import notes_legend
+
     table, _, legend = report.rating_items(result)[:3]
-    assert isinstance(legend, pd.DataFrame)
-    for w in result.today.warnings:
-        mark = legend.index[list(legend["note"]).index(w)]
-        row = next(i for i in table.index if i.startswith(warning_quantity(w) + " ["))
-        # the cell reads "today [1] [2]; revamp [1]": the rating's label, then its note numbers
-        cells = dict(c.split(" ", 1) if not c.startswith("today (") and not c.startswith("revamp (")
-                     else c.rsplit(") ", 1) for c in table.loc[row, "notes"].split("; "))
-        assert mark in cells["today"].split()
+    notes = [n for n in result.notes if n.source in result.ratings]
+    marks, _ = notes_legend(notes)
+    assert len(notes) >= 3  # the premise: this case warns (transitional tube flow, Bell-Delaware Jl and Jb)
+    for n in notes:
+        row = next(i for i in table.index if i.startswith(n.quantity + " ["))
+        assert marks[n] in _cell_marks(table.loc[row, "notes"])[n.source]
+        # the legend's line for that number says what the warning says (up to its first "= value")
+        assert legend.loc[f"[{marks[n]}]", "note"].startswith(n.text.split("= ")[0])
     # the option rows carry their own ratings' notes in the study table, with the legend after it
     items = report.study_items(result)
     study_tab = next(x for x in items if isinstance(x, pd.DataFrame) and "notes" in x.columns)
-    study_legend = next(x for x in items if isinstance(x, pd.DataFrame) and "note" in x.columns)
+    rows = {str(i) for i in result.study.table.index}
+    notes = [n for n in result.notes if n.source in rows]
+    marks, _ = notes_legend(notes)
     for label in result.study.table.index:
-        for w in result.study.ratings[label].warnings:
-            mark = study_legend.index[list(study_legend["note"]).index(w)]
-            assert mark in study_tab.loc[str(label), "notes"]
-            assert f"{warning_quantity(w)} " in study_tab.loc[str(label), "notes"]
+        assert {n.text for n in notes if n.source == str(label)} == set(result.study.ratings[label].warnings)
+    for n in notes:
+        assert marks[n] in _cell_marks(study_tab.loc[n.source, "notes"])[n.quantity]
+
+
+def test_notes_saying_the_same_with_other_values_share_a_number_and_state_the_range():
+    from revamp.report.case import notes_legend
+
+    text = "shell side: residue: API MPMS 11.1 density: T = {} K is outside its valid range 255.37 to 422.04 K"
+    notes = [Note("today", "t_out_shell", "warning", text.format("613.15")),
+             Note("revamp", "t_out_shell", "warning", text.format("533.88")),
+             Note("revamp", "h_tube", "warning", "Gnielinski (1976): Pr = 0.3 is outside its validity range")]
+    marks, legend = notes_legend(notes)
+    assert marks[notes[0]] == marks[notes[1]] != marks[notes[2]]
+    assert legend.loc["[1]", "note"] == text.format("533.88 to 613.15")
+    assert legend.loc["[1]", "where"] == "today, revamp"
 
 
 def test_the_report_states_the_basis_the_value_and_the_ranking_rule():

@@ -6,6 +6,7 @@ layer's (:func:`revamp.studies.study_exchanger` returns a frozen ``ExchangerStud
 from __future__ import annotations
 
 import json
+import re
 
 
 from ..studies import ExchangerStudy, fouling_side, study_exchanger  # noqa: F401  (fouling_side: re-exported)
@@ -44,25 +45,51 @@ def cycle_text(cycle) -> str:
             f"starts its run clean.")
 
 
+_NUMBER_AFTER_EQUALS = re.compile(r"(= )(-?[0-9][0-9.]*(?:e[-+]?[0-9]+)?)")
+
+
+def _note_pattern(text: str) -> tuple:
+    """A note's text with the number after its first ``=`` taken out (the pattern), and that number (or None)."""
+    m = _NUMBER_AFTER_EQUALS.search(text)
+    if not m:
+        return text, None
+    return text[:m.start(2)] + "{}" + text[m.end(2):], (float(m.group(2)), m.group(2))
+
+
 def notes_legend(notes) -> tuple:
-    """Number the distinct notes: ``(marks, table)`` with ``marks`` (quantity, severity, text) -> number and a
-    DataFrame (one row per number: where it applies, the quantity it qualifies, severity, the note)."""
+    """Number the notes: ``(marks, table)``.
+
+    ``marks`` maps each :class:`revamp.studies.Note` to its number. Notes that say the same thing of the same
+    quantity with another value (e.g. a property fit outside its range at 533.9 K in one rating, 613.2 K in another)
+    share one number, and the table states the range of those values. The table has one row per number: where it
+    applies (the ratings), the quantity it qualifies, the severity and the note.
+    """
     import pandas as pd
 
-    marks, where = {}, {}
+    groups, marks = {}, {}
     for n in notes:
-        key = (n.quantity, n.severity, n.text)
-        marks.setdefault(key, len(marks) + 1)
-        where.setdefault(key, []).append(n.source)
-    rows = [{"where": ", ".join(dict.fromkeys(where[k])), "qualifies": k[0], "severity": k[1], "note": k[2]}
-            for k in marks]
-    table = pd.DataFrame(rows, index=[f"[{i}]" for i in marks.values()], columns=["where", "qualifies", "severity", "note"])
+        pattern, value = _note_pattern(n.text)
+        key = (n.quantity, n.severity, pattern)
+        g = groups.setdefault(key, {"number": len(groups) + 1, "where": [], "values": []})
+        g["where"].append(n.source)
+        if value is not None:
+            g["values"].append(value)
+        marks[n] = g["number"]
+    rows = []
+    for (quantity, severity, pattern), g in groups.items():
+        text = pattern
+        if "{}" in pattern:
+            (lo, lo_text), (hi, hi_text) = min(g["values"]), max(g["values"])
+            text = pattern.replace("{}", lo_text if lo == hi else f"{lo_text} to {hi_text}", 1)
+        rows.append({"where": ", ".join(dict.fromkeys(g["where"])), "qualifies": quantity, "severity": severity,
+                     "note": text})
+    table = pd.DataFrame(rows, index=[f"[{g['number']}]" for g in groups.values()],
+                         columns=["where", "qualifies", "severity", "note"])
     return marks, table
 
 
 def _marks_for(notes, marks, source, quantity=None) -> list:
-    return sorted({marks[(n.quantity, n.severity, n.text)] for n in notes
-                   if n.source == source and (quantity is None or n.quantity == quantity)})
+    return sorted({marks[n] for n in notes if n.source == source and (quantity is None or n.quantity == quantity)})
 
 
 RATING_COLUMNS = [("duty", "power"), ("t_out_shell", "temperature"), ("t_out_tube", "temperature"),
@@ -362,7 +389,7 @@ def study_table(study, system: str = "SI", notes=(), marks=None):
             by_quantity = {}
             for n in notes:
                 if n.source == label:
-                    by_quantity.setdefault(n.quantity, set()).add(marks[(n.quantity, n.severity, n.text)])
+                    by_quantity.setdefault(n.quantity, set()).add(marks[n])
             column.append("; ".join(f"{q} {' '.join(f'[{m}]' for m in sorted(ms))}" for q, ms in by_quantity.items()))
         out["notes"] = column
     return out
