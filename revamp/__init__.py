@@ -27,9 +27,11 @@ _EXPORTS = {
     "Match": "revamp.train",
     "Furnace": "revamp.train",
     "compare_train": "revamp.train",
+    "study_exchanger": "revamp.studies",
+    "ExchangerStudy": "revamp.studies",
 }
 _SUBMODULES = {"fluids", "materials", "fouling", "units", "options", "screening", "economics", "thermal",
-               "resistance", "geometry", "correlations", "plots", "unitfile", "batch", "train"}
+               "resistance", "geometry", "correlations", "plots", "unitfile", "batch", "train", "studies"}
 
 __all__ = sorted(_EXPORTS) + sorted(_SUBMODULES)
 

@@ -21,6 +21,7 @@ from .units import require, to_si, ureg
 
 __all__ = [
     "ENERGY_BASES",
+    "VALUE_BASES",
     "CycleAverage",
     "Economics",
     "annual_capacity_value",
@@ -37,6 +38,21 @@ _YEAR_H = 8766.0  # hours in a mean (Julian) year
 
 #: energy units a price may be given per
 ENERGY_BASES = ("J", "kJ", "MJ", "GJ", "kWh", "MWh", "BTU", "MMBTU", "therm")
+
+#: What an exchanger's extra duty is worth, by service (each a sentence the report shows beside the money). The
+#: split by service is common practice in revamp work, no source: recovered heat in a preheat train replaces fired
+#: fuel; a cooler's extra duty saves nothing and costs cooling utility, and is worth money only when it lifts a
+#: rundown-temperature or throughput limit; a condenser's duty is worth the column throughput it allows.
+VALUE_BASES = {
+    "fuel": "fired fuel saved: extra recovered duty × operating time × fuel price / heater efficiency (preheat "
+            "service)",
+    "cooling": "cooler: the extra duty costs cooling utility (cooling water or fan power, at the utility price per "
+               "energy removed) and earns the throughput value only when it lifts the rundown or throughput limit",
+    "throughput": "rundown/throughput value only: the capacity value when the option lifts the limit the "
+                  "exchanger sets, nothing for the duty itself",
+    "column": "condenser: the column throughput value when the option lifts the column limit the condenser "
+              "sets, nothing for the duty itself",
+}
 
 
 def price_per_joule(price, per="GJ") -> float:
@@ -249,8 +265,9 @@ class Economics:
 
     Parameters
     ----------
-    energy_price : float
-        Price of the fuel or utility the recovered heat replaces [currency per ``price_per``].
+    energy_price : float or None
+        Price of the fired fuel the recovered heat replaces [currency per ``price_per``]; needed for the ``"fuel"``
+        value basis only.
     price_per : str
         Energy unit of the price (:data:`ENERGY_BASES`).
     efficiency : float
@@ -270,9 +287,15 @@ class Economics:
         Margin per kg of that throughput [currency/kg].
     currency : str
         Label only.
+    value_basis : str
+        What extra duty is worth, one of :data:`VALUE_BASES`: ``"fuel"`` (default, preheat), ``"cooling"``,
+        ``"throughput"`` or ``"column"``.
+    utility_price : float or None
+        Cost of removing heat in a cooler (cooling water or fan power) [currency per ``price_per`` of heat
+        removed], for the ``"cooling"`` basis; ``None``: counted as zero and said so.
     """
 
-    energy_price: float
+    energy_price: float | None = None
     price_per: str = "GJ"
     efficiency: float = 1.0
     operating_time: object = "8000 h"
@@ -283,9 +306,20 @@ class Economics:
     capacity_flow: float | None = None
     capacity_margin: float | None = None
     currency: str = ""
+    value_basis: str = "fuel"
+    utility_price: float | None = None
 
     def __post_init__(self):
-        price_per_joule(self.energy_price, self.price_per)
+        if self.value_basis not in VALUE_BASES:
+            raise InputError("economics.value_basis", self.value_basis, f"one of {sorted(VALUE_BASES)}")
+        if self.energy_price is None:
+            if self.value_basis == "fuel":
+                raise InputError("economics.energy_price", None, "a fuel price for the 'fuel' value basis")
+            price_per_joule(0.0, self.price_per)
+        else:
+            price_per_joule(self.energy_price, self.price_per)
+        if self.utility_price is not None:
+            price_per_joule(self.utility_price, self.price_per)
         require(self.efficiency, "economics.efficiency", gt=0, le=1)
         _seconds_per_year(self.operating_time)
         if self.discount_rate is not None:
@@ -315,11 +349,30 @@ class Economics:
         return float(self.capex.get(label, 0.0)) + float(self.installation.get(label, 0.0))
 
     def value(self, delta_duty, meets_target=False) -> float:
-        """Annual value [currency/year] of an extra duty [W], plus the capacity value when the target is met."""
-        v = annual_duty_value(delta_duty, self.energy_price, self.price_per, self.operating_time, self.efficiency)
+        """Annual value [currency/year] of an extra duty [W] on this exchanger's :attr:`value_basis`.
+
+        ``"fuel"``: ``ΔQ·t·price/η``; ``"cooling"``: ``−ΔQ·t·utility_price``; ``"throughput"``, ``"column"``: 0 for
+        the duty. On every basis the capacity value ``Δm·t·margin`` is added when ``meets_target`` (the option
+        lifts the limit the exchanger set) and a capacity flow is given.
+        """
+        if self.value_basis == "fuel":
+            v = annual_duty_value(delta_duty, self.energy_price, self.price_per, self.operating_time, self.efficiency)
+        elif self.value_basis == "cooling" and self.utility_price is not None:
+            v = -annual_duty_value(delta_duty, self.utility_price, self.price_per, self.operating_time, 1.0)
+        else:
+            v = 0.0 * float(to_si(delta_duty, "power", "delta_duty"))
         if meets_target and self.capacity_flow is not None:
             v += annual_capacity_value(self.capacity_flow, self.capacity_margin, self.operating_time)
         return float(v)
+
+    def basis_text(self) -> str:
+        """One sentence: the value basis the money figures use, with what is and is not counted."""
+        text = f"Value basis '{self.value_basis}': {VALUE_BASES[self.value_basis]}"
+        if self.value_basis == "cooling" and self.utility_price is None:
+            text += " (no utility price given: the utility cost is counted as zero)"
+        if self.value_basis != "fuel" and self.capacity_flow is None:
+            text += " (no capacity flow given: no throughput value can be counted, so the options earn nothing)"
+        return text + "."
 
     def npv(self, label, annual_value) -> float:
         """NPV of an option over the horizon (NaN without a discount rate)."""

@@ -2,7 +2,8 @@
 
 ``compare(exchanger, service, options, target=..., limits=..., economics=..., revamp=...)`` rates the base case
 and each option at the revamp conditions, screens each rating (pressure drops, velocity, vibration, nozzle),
-prices it and ranks the options: those that meet the target without failing a limit first, then by payback.
+prices it and ranks the options: those within every screening limit first, then those that meet the target, then by
+the stated criterion (NPV by default). Every row is judged on one stated basis (end of run by default).
 
 Examples
 --------
@@ -23,7 +24,7 @@ from .options import option_label
 from .screening import Limits, screen, worst
 from .units import require, to_si, ureg
 
-__all__ = ["RESISTANCE_NAMES", "Study", "Target", "compare"]
+__all__ = ["JUDGE_BASES", "RANK_CRITERIA", "RESISTANCE_NAMES", "Study", "Target", "compare"]
 
 RESISTANCE_NAMES = ("shell film", "shell fouling", "wall", "tube fouling", "tube film")
 _TARGET_KINDS = {"duty": "power", "t_out_shell": "temperature", "t_out_tube": "temperature", "UA": None}
@@ -82,9 +83,17 @@ class Target:
             return float(rating.U_service) * float(rating.area)
         return float(getattr(rating, self.kind))
 
-    def met(self, rating) -> bool:
-        """Whether the rating meets the target (relative tolerance 1e-9)."""
-        got, tol = self.achieved(rating), 1e-9 * self.value
+    def achieved_array(self, rating):
+        """As :meth:`achieved` for an array rating (one value per case)."""
+        if self.kind == "UA":
+            return np.asarray(rating.U_service, dtype=float) * np.asarray(rating.area, dtype=float)
+        return np.asarray(getattr(rating, self.kind), dtype=float)
+
+    def met(self, rating, value=None) -> bool:
+        """Whether the rating (or ``value``, e.g. a run average, in the rating's service) meets the target
+        (relative tolerance 1e-9)."""
+        got = self.achieved(rating) if value is None else float(value)
+        tol = 1e-9 * self.value
         if self.kind.startswith("t_out_"):
             side = self.kind[len("t_out_"):]
             other = "tube" if side == "shell" else "shell"
@@ -129,6 +138,12 @@ class Study:
     limits : Limits
     economics : Economics or None
     warnings : tuple of str
+    basis : str
+        What every row was judged on (:data:`JUDGE_BASES`); ``basis_text`` says it in a sentence.
+    rank_by : str
+        The ranking criterion used (:data:`RANK_CRITERIA`); ``ranking_text`` states the whole ranking rule.
+    value_text : str
+        The value basis of the money columns (:meth:`revamp.economics.Economics.basis_text`).
     """
 
     table: pd.DataFrame
@@ -142,6 +157,11 @@ class Study:
     limits: Limits = field(default_factory=Limits)
     economics: Economics | None = None
     warnings: tuple = ()
+    basis: str = "end_of_run"
+    basis_text: str = ""
+    rank_by: str = "npv"
+    ranking_text: str = ""
+    value_text: str = ""
 
     def ranked(self) -> pd.DataFrame:
         """The options in rank order (base row excluded)."""
@@ -178,9 +198,10 @@ def _reason(row, checks, target, economics):
     return "; ".join(parts)
 
 
-def _cycle(cycle, ex, svc, rate, shell_method, start=0.0):
-    """Duty averaged over a run; ``start`` [s] is how far into its run the exchanger already is (the base case
-    goes on fouling from where it stands; an option, installed at a shutdown, starts clean)."""
+def _fouling_model(cycle, ex, svc, rate, shell_method, start=0.0):
+    """The fouling-side Rf(t) [m²K/W] of one case over its next run; ``start`` [s] is how far into its run the
+    exchanger already is (the base case goes on fouling from where it stands; an option, installed at a shutdown,
+    starts clean)."""
     side = cycle.get("side", "tube")
     if "run_length" not in cycle:
         raise InputError("cycle.run_length", None, "a run length between cleanings, e.g. '365 day'")
@@ -191,29 +212,116 @@ def _cycle(cycle, ex, svc, rate, shell_method, start=0.0):
         model = cycle["fouling_for"](rate(ex, svc.replace(**{f"fouling_{side}": 0.0}), shell_method=shell_method))
     if model is None:
         raise InputError("cycle.fouling", None, "a fouling model Rf(t) (or 'fouling_for': rating -> model)")
+    fitted = model.Rf if (hasattr(model, "Rf") and not callable(model)) else model
     if start:
-        fitted = model if callable(model) else model.Rf
+        return lambda t, _f=fitted, _s=float(start): np.asarray(_f(np.asarray(t, dtype=float) + _s), dtype=float)
+    return lambda t, _f=fitted: np.asarray(_f(np.asarray(t, dtype=float)), dtype=float)
 
-        def model(t, _fitted=fitted, _start=float(start)):
-            return _fitted(np.asarray(t, dtype=float) + _start)
+
+def _other_side_ramp(svc, design, side):
+    """Fouling of the side with no growth model over the run: from where the option leaves it to its design value
+    at the end of the run, linearly (common practice, no source); a side at its design value stays there."""
+    other = "shell" if side == "tube" else "tube"
+    begin = float(np.asarray(getattr(svc, f"fouling_{other}"), dtype=float))
+    end = float(np.asarray(getattr(design, f"fouling_{other}"), dtype=float))
+    return other, (lambda frac: begin + (end - begin) * np.asarray(frac, dtype=float))
+
+
+def _cycle(cycle, ex, svc, design, model, rate, shell_method):
+    """Duty averaged over a run (Epstein 1979's mean, with the downtime at no duty), with the fouling side growing
+    as ``model`` and the other side ramping to its design value (see :func:`_other_side_ramp`)."""
+    side = cycle.get("side", "tube")
+    other, ramp = _other_side_ramp(svc, design, side)
 
     def duty_at(rf):
-        return rate(ex, svc.replace(**{f"fouling_{side}": np.asarray(rf, float)}), shell_method=shell_method).duty
+        rf = np.asarray(rf, dtype=float)
+        frac = np.linspace(0.0, 1.0, rf.size).reshape(rf.shape) if rf.ndim else 1.0
+        return rate(ex, svc.replace(**{f"fouling_{side}": rf, f"fouling_{other}": ramp(frac)}),
+                    shell_method=shell_method).duty
 
-    return cycle_average(duty_at, model, cycle["run_length"], cycle.get("downtime", 0.0),
-                         cycle.get("points", 21)).duty_mean
+    return cycle_average(duty_at, model, cycle["run_length"], cycle.get("downtime", 0.0), cycle.get("points", 21))
+
+
+def _run_mean(cycle, ex, svc, design, model, rate, shell_method, target):
+    """The target quantity averaged over the on-stream run (Simpson's rule on the cycle's points) [W, K or W/K]."""
+    from scipy import integrate
+
+    side = cycle.get("side", "tube")
+    other, ramp = _other_side_ramp(svc, design, side)
+    tau = float(to_si(cycle["run_length"], "time", "cycle.run_length"))
+    n = int(cycle.get("points", 21)) | 1
+    t = np.linspace(0.0, tau, n)
+    r = rate(ex, svc.replace(**{f"fouling_{side}": model(t), f"fouling_{other}": ramp(t / tau)}),
+             shell_method=shell_method)
+    q = np.broadcast_to(np.asarray(target.achieved_array(r), dtype=float), t.shape)
+    return float(integrate.simpson(q, x=t) / tau)
+
+
+#: The one basis every row (base case and every option, cleaning included) is judged on: the target, the limits, the
+#: duty columns and the rank. The design fouling resistance is the allowance for the end of a run between cleanings
+#: (TEMA RGP-T-2.4, from memory), so a design is checked there; the cycle average is the mean over the next run.
+JUDGE_BASES = {
+    "end_of_run": "end of run: each row with the fouling it will have when its next run ends (the design fouling "
+                  "for a side without a growth model, also for an option that cleans it now)",
+    "cycle_average": "cycle average: the target quantity averaged over each row's next run, with the fouling "
+                     "growing from where that row starts it",
+}
+
+#: What ranks the options among those in the same class (all limits met and target met first; see compare()).
+RANK_CRITERIA = {
+    "npv": "net present value, highest first",
+    "payback": "simple payback, shortest first",
+    "npv_per_capex": "NPV per unit of capex, highest first",
+    "duty_gain": "duty gain over the base case, largest first",
+}
+
+
+def _rank_criterion(rank_by, eco):
+    """The criterion actually used and a sentence saying so (and why when it had to fall back)."""
+    if rank_by not in RANK_CRITERIA:
+        raise InputError("rank_by", rank_by, f"one of {sorted(RANK_CRITERIA)}")
+    used, why = rank_by, ""
+    if used in ("npv", "npv_per_capex") and (eco is None or eco.discount_rate is None):
+        used = "payback" if eco is not None else "duty_gain"
+        why = f" ({rank_by} asked for, but {'no discount rate' if eco is not None else 'no economics'} is given)"
+    if used == "payback" and eco is None:
+        used, why = "duty_gain", f" ({rank_by} asked for, but no economics is given)"
+    text = (f"Ranking: an option that fails a screening limit never ranks above one that meets every limit; among "
+            f"those, an option that meets the target ranks above one that misses it; within each class by "
+            f"{RANK_CRITERIA[used]}{why}. (Limits before target before money: common practice, no source.)")
+    return used, text
+
+
+def _criterion_key(row, used):
+    def finite(x, default):
+        return x if x is not None and math.isfinite(x) else default
+
+    gain = row.get("value_gain", row["duty_gain"])
+    if used == "npv":
+        return -finite(row["npv"], -math.inf)
+    if used == "payback":
+        return finite(row["payback"], math.inf)
+    if used == "npv_per_capex":
+        npv_, capex = row["npv"], row["capex"]
+        if not math.isfinite(npv_):
+            return math.inf
+        return -(npv_ / capex if capex > 0 else math.copysign(math.inf, npv_) if npv_ else 0.0)
+    return -finite(gain, -math.inf)
 
 
 def compare(exchanger, service, options=(), target=None, limits=None, economics=None, revamp=None, cycle=None,
-            shell_method="bell-delaware") -> Study:
+            shell_method="bell-delaware", basis="end_of_run", rank_by="npv") -> Study:
     """Rate the base case and every option at the revamp conditions, screen, price and rank them.
+
+    Every row (the base case and each option, cleaning included) is judged on one stated ``basis``: at the end of
+    its next run with the fouling it will have then (default), or averaged over that run.
 
     Parameters
     ----------
     exchanger : ShellAndTube
         The exchanger as it is.
     service : Service
-        Today's service (with today's fouling).
+        Today's service (with today's fouling, taken as the design fouling the exchanger reaches at end of run).
     options : sequence of options
         From :mod:`revamp.options`; labels must be unique and not ``"base"``.
     target : None, float, str, dict or Target
@@ -222,8 +330,8 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
         Screening limits (:class:`revamp.screening.Limits`).
     economics : None, dict or Economics
         Prices and costs (:class:`revamp.economics.Economics`); the value of an option is that of its extra duty
-        over the base case, plus the capacity value when it meets the target without failing a limit while the base
-        case does not (the exchanger was the bottleneck).
+        over the base case on the economics' ``value_basis``, plus the capacity value when it meets the target
+        without failing a limit while the base case does not (the exchanger was the bottleneck).
     revamp : None, float or Service
         The revamp conditions: a throughput factor on both flows (``1.2``) or a Service; ``None``: today's.
     cycle : dict, optional
@@ -232,12 +340,24 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
         velocity and wall shear). When given, the annual value uses the cycle-averaged duties. ``"base_age"``
         (time since the last cleaning, e.g. from plant data) lets the base case go on fouling from where it stands,
         while every option, installed at a shutdown, starts its run clean; without it the base also starts clean.
+        The other side has no growth model: it goes linearly from where the option leaves it to its design value.
     shell_method : str
         Passed to :func:`revamp.rate`.
+    basis : {"end_of_run", "cycle_average"}
+        What every row is judged on (:data:`JUDGE_BASES`); ``"cycle_average"`` needs ``cycle``.
+    rank_by : {"npv", "payback", "npv_per_capex", "duty_gain"}
+        The ranking criterion within a class (:data:`RANK_CRITERIA`); it falls back (and says so) when the money
+        it needs is not given.
 
     Returns
     -------
     Study
+
+    References
+    ----------
+    Epstein, N. (1979). Optimum evaporator cycles with scale formation.
+    TEMA (2007). Standards of the Tubular Exchanger Manufacturers Association, 9th ed., RGP-T-2.4 (fouling
+    resistances as an allowance for the end of a run, from memory).
     """
     from .rating import rate
     from .service import Service
@@ -245,6 +365,11 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
     tgt = Target.of(target)
     lim = Limits.of(limits)
     eco = Economics.of(economics)
+    if basis not in JUDGE_BASES:
+        raise InputError("basis", basis, f"one of {sorted(JUDGE_BASES)}")
+    if basis == "cycle_average" and cycle is None:
+        raise InputError("basis", basis, "'end_of_run' when no fouling cycle is given (cycle_average needs one)")
+    used, ranking_text = _rank_criterion(rank_by, eco)
     if revamp is None or revamp is service:
         revamp, rev = None, service
     elif isinstance(revamp, Service):
@@ -265,35 +390,56 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
 
     ratings, checks, rows = {}, {}, {}
     for label, (ex, svc) in cases.items():
-        ratings[label] = rating = rate(ex, svc, shell_method=shell_method)
-        checks[label] = screen(rating, lim)
-        rows[label] = _row(rating, checks[label])
-        rows[label]["meets_target"] = bool(tgt.met(rating)) if tgt is not None else True
+        # the state the row is judged in: the end of its next run (design fouling where no growth model says more)
+        judged = svc.replace(fouling_shell=rev.fouling_shell, fouling_tube=rev.fouling_tube)
+        model = None
         if cycle is not None:
             start = to_si(cycle.get("base_age", 0.0), "time", "cycle.base_age") if label == "base" else 0.0
-            rows[label]["duty_cycle_avg"] = _cycle(cycle, ex, svc, rate, shell_method, start)
-    base_duty = rows["base"]["duty_cycle_avg" if cycle is not None else "duty"]
+            model = _fouling_model(cycle, ex, svc, rate, shell_method, start)
+            side = cycle.get("side", "tube")
+            tau = float(to_si(cycle["run_length"], "time", "cycle.run_length"))
+            judged = judged.replace(**{f"fouling_{side}": float(max(float(model(tau)), 0.0))})
+        ratings[label] = rating = rate(ex, judged, shell_method=shell_method)
+        checks[label] = screen(rating, lim)
+        rows[label] = _row(rating, checks[label])
+        if model is not None:
+            avg = _cycle(cycle, ex, svc, rev, model, rate, shell_method)
+            rows[label]["duty_cycle_avg"] = avg.duty_mean
+        if tgt is None:
+            rows[label]["meets_target"] = True
+        elif basis == "cycle_average":
+            mean = _run_mean(cycle, ex, svc, rev, model, rate, shell_method, tgt)
+            rows[label]["target_mean"] = mean
+            rows[label]["meets_target"] = bool(tgt.met(rating, mean))
+        else:
+            rows[label]["meets_target"] = bool(tgt.met(rating))
+        rows[label]["judged_on"] = basis
+    money_col = "duty_cycle_avg" if cycle is not None else "duty"
+    base_duty = rows["base"][money_col]
     # capacity is gained only when the base case is the bottleneck (misses the target or fails a limit)
     base_ok = tgt is None or (rows["base"]["meets_target"] and rows["base"]["screening"] != "fail")
     for label, row in rows.items():
         row["duty_gain"] = row["duty"] - rows["base"]["duty"]
+        row["value_gain"] = row[money_col] - base_duty
         ok = row["meets_target"] and row["screening"] != "fail"
         if eco is None or label == "base":
             row.update(capex=0.0 if label == "base" else math.nan, annual_value=0.0 if label == "base" else math.nan,
                        payback=math.nan, npv=math.nan)
         else:
-            gain = row["duty_cycle_avg" if cycle is not None else "duty"] - base_duty
             row["capex"] = eco.cost(label)
-            row["annual_value"] = eco.value(gain, meets_target=ok and not base_ok)
+            row["annual_value"] = eco.value(row["value_gain"], meets_target=ok and not base_ok)
             row["payback"] = float(simple_payback(row["capex"], row["annual_value"]))
             row["npv"] = eco.npv(label, row["annual_value"])
-    order = sorted(labels, key=lambda k: (not (rows[k]["meets_target"] and rows[k]["screening"] != "fail"),
-                                          rows[k]["payback"] if math.isfinite(rows[k]["payback"]) else math.inf,
-                                          -rows[k]["duty"]))
+        row["value_basis"] = eco.value_basis if eco is not None else ""
+    # hard limits first, then the target, then the stated criterion (then the larger duty on a tie)
+    order = sorted(labels, key=lambda k: (rows[k]["screening"] == "fail", not rows[k]["meets_target"],
+                                          _criterion_key(rows[k], used), -rows[k]["duty"]))
     for label, row in rows.items():
         row["rank"] = order.index(label) + 1 if label != "base" else pd.NA
         row["reason"] = ("base case at the revamp conditions; " if label == "base" else "") + \
             _reason(row, checks[label], tgt, eco if label != "base" else None)
+    for row in rows.values():
+        del row["value_gain"]
     table = pd.DataFrame.from_dict(rows, orient="index")
     table["rank"] = table["rank"].astype("Int64")
     table.index.name = "case"
@@ -302,10 +448,15 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
         recommendation = "No options given."
     else:
         best = order[0]
-        good = rows[best]["meets_target"] and rows[best]["screening"] != "fail"
-        recommendation = (f"{best}: {rows[best]['reason']}" if good else
-                          f"No option meets the target without failing a limit; nearest: {best} "
-                          f"({rows[best]['reason']}).")
+        within = rows[best]["screening"] != "fail"
+        if within and rows[best]["meets_target"]:
+            recommendation = f"{best}: {rows[best]['reason']}"
+        elif within:
+            recommendation = (f"No option meets the target; the nearest within every limit: {best} "
+                              f"({rows[best]['reason']}).")
+        else:
+            recommendation = (f"Every option fails a screening limit; least bad: {best} ({rows[best]['reason']}). "
+                              f"Not a recommendation.")
 
     # the base case today and at the revamp conditions, fouled and clean
     base_cases = {"today": (exchanger, service), "today (clean)": (exchanger, service.clean()),
@@ -324,4 +475,9 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
     breakdowns = {k: ratings[k].breakdown() for k in rows}
     resistances = pd.DataFrame({k: ratings[k].resistances for k in rows}).T.reindex(columns=list(RESISTANCE_NAMES))
     warnings = tuple(dict.fromkeys(f"{k}: {w}" for k in rows for w in ratings[k].warnings))
-    return Study(table, case_table, ratings, breakdowns, resistances, checks, recommendation, tgt, lim, eco, warnings)
+    basis_text = f"Every row is judged on one basis, the same for all: {JUDGE_BASES[basis]}."
+    if cycle is not None:
+        basis_text += (" Value, payback and NPV use the duty averaged over each row's next run (duty_cycle_avg).")
+    value_text = eco.basis_text() if eco is not None else ""
+    return Study(table, case_table, ratings, breakdowns, resistances, checks, recommendation, tgt, lim, eco, warnings,
+                 basis=basis, basis_text=basis_text, rank_by=used, ranking_text=ranking_text, value_text=value_text)

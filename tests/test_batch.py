@@ -184,15 +184,17 @@ def _option_cases(case):
     return out
 
 
-def _direct_cycle_average(ex, svc, model, start=0.0):
+def _direct_cycle_average(ex, svc, model, start=0.0, design_shell=None):
     import numpy as np
 
     import revamp as rv
     from revamp.economics import cycle_average
 
     # a run of one year (the report's stated default), no downtime, the study's 21 Simpson points; ``start`` [s] is
-    # how far into its run the exchanger already is (0 for an option installed at a shutdown: it starts clean)
-    return cycle_average(lambda rf: rv.rate(ex, svc.replace(fouling_tube=rf)).duty,
+    # how far into its run the exchanger already is (0 for an option installed at a shutdown: it starts clean); the
+    # shell side (no growth model) goes linearly from where the option leaves it to its design value (the stated rule)
+    shell = svc.fouling_shell if design_shell is None else np.linspace(svc.fouling_shell, design_shell, 21)
+    return cycle_average(lambda rf: rv.rate(ex, svc.replace(fouling_tube=rf, fouling_shell=shell)).duty,
                          lambda t: model(np.asarray(t, dtype=float) + start), "365 day", points=21).duty_mean
 
 
@@ -200,8 +202,8 @@ def test_cycle_average_of_a_linear_trend_equals_direct_ratings(demo_cases):
     import numpy as np
 
     result = demo_cases["E-102"]
-    case, mon, table = result["case"], result["monitoring"], result["study"].table
-    assert mon.trend.model == "linear" and result["cycle"]["side"] == "tube"
+    case, mon, table = result.case, result.monitoring, result.study.table
+    assert mon.trend.model == "linear" and result.cycle.side.value == "tube"
     # the trend is Rf on the outside area; on the tube's own surface the same deposit is Rf·di/do (the rating
     # refers a tube-side resistance to the outside area by do/di: resistances in series, common practice)
     ratio = case.exchanger.tube_id / case.exchanger.tube_od
@@ -218,7 +220,7 @@ def test_cycle_average_of_a_linear_trend_equals_direct_ratings(demo_cases):
                                                                            rel=1e-9)
     text = " ".join(x for x in report.study_items(result) if isinstance(x, str))
     assert "duty_cycle_avg" in text and "365 days" in text and "tube side" in text and "linear model" in text
-    assert any("duty_cycle_avg" in c for c in report.study_table(result["study"]).columns)
+    assert any("duty_cycle_avg" in c for c in report.study_table(result.study).columns)
 
 
 def test_cycle_average_of_a_threshold_trend_is_rebuilt_per_option(demo_cases):
@@ -227,7 +229,7 @@ def test_cycle_average_of_a_threshold_trend_is_rebuilt_per_option(demo_cases):
     import revamp as rv
 
     result = demo_cases["E-103"]
-    case, mon, table = result["case"], result["monitoring"], result["study"].table
+    case, mon, table = result.case, result.monitoring, result.study.table
     assert mon.trend.model == "threshold"
     p, c = mon.trend.params, mon.trend.conditions
     ratio = case.exchanger.tube_id / case.exchanger.tube_od
@@ -241,7 +243,8 @@ def test_cycle_average_of_a_threshold_trend_is_rebuilt_per_option(demo_cases):
         rate = p["alpha_ref"] * float(r.Re_tube) ** c["beta"] * float(r.Pr_tube) ** -0.33 \
             * np.exp(-p["E"] / 8.314462618 * (1 / t_film - 1 / c["T_ref"])) - p["gamma"] * float(r.shear_tube)
         growth = max(rate, 0.0)
-        direct[label] = _direct_cycle_average(ex, svc, lambda t, g=growth: ratio * (max(p["Rf0"], 0.0) + g * t))
+        direct[label] = _direct_cycle_average(ex, svc, lambda t, g=growth: ratio * (max(p["Rf0"], 0.0) + g * t),
+                                              design_shell=case.revamp_service.fouling_shell)
     assert table["duty_cycle_avg"].to_dict() == pytest.approx(direct, rel=1e-9)
     text = " ".join(x for x in report.study_items(result) if isinstance(x, str))
     assert "threshold model rebuilt" in text
@@ -327,9 +330,9 @@ def test_fouling_side_from_the_file_reaches_monitor_and_cycle(filed_cycle):
     do, di = 19.05e-3, 19.05e-3 - 2 * 2.11e-3
     assert 3e-4 > 2e-4 * do / di  # the design fouling alone would point at the shell side
     assert filed_cycle["monitor_sides"] == ["tube"]
-    assert result["monitoring_error"] is None and result["cycle_error"] is None
-    side, why = result["fouling_side"]
-    assert side == "tube" and result["cycle"]["side"] == "tube"
+    assert result.monitoring_error is None and result.cycle_error is None
+    side, why = result.fouling_side.value, result.fouling_side.source
+    assert side == "tube" and result.cycle.side.value == "tube"
     assert why.startswith("from the unit file") and "exchangers[0].plant_data.fouling_side" in why
     text = " ".join(x for x in report.study_items(result) if isinstance(x, str))
     assert "Side: from the unit file" in text and "inferred" not in text
@@ -345,18 +348,20 @@ def test_cycle_uses_the_files_run_length_and_downtime(filed_cycle):
     from revamp.economics import cycle_average
 
     result = filed_cycle["result"]
-    case, mon, table = result["case"], result["monitoring"], result["study"].table
-    cycle = result["cycle"]
+    case, mon, table = result.case, result.monitoring, result.study.table
+    cycle = result.cycle
     assert mon.trend.model != "threshold"  # a model used as fitted (a threshold one is rebuilt per option)
     day = 86400.0  # s (SI definition of the day)
-    assert cycle["run_length"] == 200 * day and cycle["downtime"] == 6 * day
+    assert cycle.run_length.value == 200 * day and cycle.downtime.value == 6 * day
     ratio = case.exchanger.tube_id / case.exchanger.tube_od  # outside-area Rf to the tube's own surface
     model = lambda t: np.maximum(mon.trend(t), 0.0) * ratio
     age = float(np.nanmax(mon.table["run_time"]))
-    assert cycle["base_age"] == pytest.approx(age)
+    assert cycle.base_age == pytest.approx(age)
 
     def direct(ex, svc, start, downtime):
-        return cycle_average(lambda rf: rv.rate(ex, svc.replace(fouling_tube=rf)).duty,
+        # the shell side (no growth model) goes linearly from where the option leaves it to its design value
+        shell = np.linspace(svc.fouling_shell, case.revamp_service.fouling_shell, 21)
+        return cycle_average(lambda rf: rv.rate(ex, svc.replace(fouling_tube=rf, fouling_shell=shell)).duty,
                              lambda t: model(np.asarray(t, dtype=float) + start), 200 * day, downtime,
                              points=21).duty_mean
 

@@ -5,8 +5,11 @@ from .case import (
                    RATING_COLUMNS,
                    breakdown_figure,
                    case_header_html,
+                   cycle_text,
                    monitoring_items,
+                   notes_legend,
                    option_breakdown_figure,
+                   rating_items,
                    ratings_table,
                    recommendation_html,
                    rf_figure,
@@ -47,10 +50,10 @@ from .widgets import (
 )
 
 __all__ = [
-    "CAUTIONS", "PACKAGES", "RATING_COLUMNS", "breakdown_figure", "case_header_html", "cautions_html",
-    "copy_plotly_js", "esc", "figure_html", "file_sha256", "monitoring_items", "option_breakdown_figure", "page",
+    "CAUTIONS", "PACKAGES", "RATING_COLUMNS", "breakdown_figure", "case_header_html", "cautions_html", "cycle_text",
+    "copy_plotly_js", "esc", "figure_html", "file_sha256", "monitoring_items", "notes_legend", "option_breakdown_figure", "page",
     "plot_text", "plotly_js_source", "primer_sweep", "primer_table", "primer_widget", "provenance",
-    "provenance_html", "ratings_table", "recommendation_html", "rf_figure", "run_case", "safe_name", "show",
+    "provenance_html", "rating_items", "ratings_table", "recommendation_html", "rf_figure", "run_case", "safe_name", "show",
     "study_items", "study_money_table", "study_table", "summary", "table_html", "unit_figure", "unit_table",
     "what_if", "what_if_widget", "widgets_available", "write_atomic", "write_summary",
 ]

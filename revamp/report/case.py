@@ -1,166 +1,95 @@
 """One exchanger's study as the reports show it: the ratings, the plant data, the options, the summary for the index.
 
-The notebooks call these and display what they return; the computing is the package's (``rate``, ``monitor``,
-``compare``), the layout is here.
+The notebooks call these and display what they return; the computing (and every choice of the study) is the studies
+layer's (:func:`revamp.studies.study_exchanger` returns a frozen ``ExchangerStudy``), the layout is here.
 """
 from __future__ import annotations
 
 import json
+import re
 
-import numpy as np
 
+from ..studies import ExchangerStudy, fouling_side, study_exchanger  # noqa: F401  (fouling_side: re-exported)
 from .pages import esc, figure_html, plot_text, table_html, write_atomic
 
-#: Run length between cleanings taken for the cycle-averaged duty when the unit file gives none [day].
-DEFAULT_RUN_LENGTH_DAYS = 365.0
+
+def run_case(case, mc_draws: int = 100, **kwargs) -> ExchangerStudy:
+    """The exchanger's study, as the notebooks call it: :func:`revamp.studies.study_exchanger` (same arguments)."""
+    return study_exchanger(case, mc_draws=mc_draws, **kwargs)
 
 
-def fouling_side(rating, given: str | None = None, where: str = "plant_data.fouling_side") -> tuple:
-    """Where the deposit is taken to form, and why, as ``(side, reason)``.
-
-    ``given`` is the side the unit file names (``where`` says which field); the reason then starts "from the unit
-    file". Without it the side with the larger design fouling resistance is taken, compared on the outside-area
-    basis of the resistance breakdown (``rating.resistances``); a tie goes to the tube side, and the reason starts
-    "inferred:".
-    """
-    if given is not None:
-        if given not in ("shell", "tube"):
-            from ..errors import InputError
-
-            raise InputError("fouling_side", given, "'shell' or 'tube'")
-        return given, f"from the unit file ({where}: {given})"
-    shell, tube = (float(rating.resistances[f"{s} fouling"]) for s in ("shell", "tube"))
-    side = "shell" if shell > tube else "tube"
-    values = f"{shell * 1e4:.2f} shell vs {tube * 1e4:.2f} tube, 10⁻⁴ m²·K/W on the outside area"
-    rule = "its design fouling resistance is the larger" if shell != tube else "the design fouling resistances are equal"
-    return side, (f"inferred: the unit file does not say which side fouls (plant_data.fouling_side), so the {side} "
-                  f"side is taken: {rule} ({values})")
+def _source_text(setting) -> str:
+    """``(from the unit file, <path>)`` or the default's own words, for a :class:`revamp.studies.Setting`."""
+    src = setting.source
+    if src.startswith("unit file: "):
+        return f"from the unit file, {src[len('unit file: '):]}"
+    return src[len("default: "):] if src.startswith("default: ") else src
 
 
-def cycle_fouling(trend, side: str, ratio: float, rating=None):
-    """The fitted plant-data trend as a fouling model Rf(t) for a run from clean [m²K/W on the side's own surface].
-
-    ``ratio`` converts the trend's outside-area Rf to the side's own surface (tube side: di/do of the exchanger the
-    data come from, so the same deposit; shell side: 1). A linear or asymptotic trend is used as it was fitted,
-    whatever the option (it knows nothing of velocity). A threshold trend (Ebert & Panchal 1995) is rebuilt at the
-    clean ``rating`` of each option: its fitted Rf0, alpha_ref, E, gamma, with the rating's tube-side Re, Pr, wall
-    shear and film temperature (T_b + 0.55·(T_w − T_b)), held for the run; a net rate below zero (removal beats
-    deposition) is taken as no growth. Negative Rf from a fit is clipped to 0.
-
-    References
-    ----------
-    Ebert, W., Panchal, C. B. (1995). Analysis of Exxon crude-oil-slip-stream coking data.
-    """
-    import numpy as np
-
-    from ..fouling.models import film_temperature, threshold_rate
-
-    if trend.model == "threshold" and side == "tube" and rating is not None:
-        p, c = trend.params, trend.conditions
-        t_bulk = 0.5 * (float(rating.service.tube.t_in) + float(rating.t_out_tube))
-        growth = max(float(threshold_rate(float(rating.Re_tube), float(rating.Pr_tube),
-                                          film_temperature(t_bulk, float(rating.t_wall_tube)),
-                                          float(rating.shear_tube), p["alpha_ref"], p["E"], p["gamma"],
-                                          c["beta"], c["T_ref"])), 0.0)
-        rf0 = max(float(p["Rf0"]), 0.0)
-        return lambda t: ratio * (rf0 + growth * np.asarray(t, dtype=float))
-    return lambda t: ratio * np.maximum(np.asarray(trend(np.asarray(t, dtype=float)), dtype=float), 0.0)
-
-
-def cycle_settings(case, monitoring, side: str, why: str) -> dict | None:
-    """The ``cycle`` argument of :func:`revamp.compare` from the plant-data trend (None without a trend), with the
-    sentence the report shows about it under ``"text"``."""
-    trend = getattr(monitoring, "trend", None)
-    if trend is None:
-        return None
-    ex = case.exchanger
-    ratio = float(ex.tube_id) / float(ex.tube_od) if side == "tube" else 1.0
-    given = getattr(case, "cycle_from", None) or {}
-    run_length = getattr(case, "run_length", None)
-    run_length = float(run_length) if run_length is not None else DEFAULT_RUN_LENGTH_DAYS * 86400.0
-    downtime = getattr(case, "cleaning_downtime", None)
-    downtime = float(downtime) if downtime is not None else 0.0
-    cycle = {"side": side, "run_length": run_length, "downtime": downtime}
-    run_time = monitoring.table["run_time"].to_numpy(dtype=float)
-    age = float(np.nanmax(run_time)) if np.isfinite(run_time).any() else 0.0
-    cycle["base_age"] = max(age, 0.0)
-    if trend.model == "threshold" and side == "tube":
-        cycle["fouling_for"] = lambda rating: cycle_fouling(trend, side, ratio, rating)
-        how = ("threshold model rebuilt at each option's own clean tube velocity, wall shear and film temperature, "
-               "so an option that raises velocity fouls more slowly; where removal beats deposition the deposit "
-               "is taken not to grow")
-    else:
-        cycle["fouling"] = cycle_fouling(trend, side, ratio)
-        how = (f"{trend.model} model used as fitted for every option (it does not depend on velocity, so it "
-               f"cannot credit an option that fouls more slowly)")
-    cycle["text"] = (f"duty_cycle_avg: the duty averaged over the next run until a cleaning, with the "
-                     f"{side}-side fouling growing as the plant-data trend says; value, payback and NPV use it "
-                     f"instead of the snapshot duty. {_cycle_time_text(run_length, downtime, given)}; the other side "
-                     f"keeps its design fouling. "
-                     f"Fouling model: {how}. Side: {why}. Doing nothing, the base case goes on fouling from where "
-                     f"the plant data leave it ({age / 86400.0:.0f} days into its run); every option is installed at "
-                     f"a shutdown and starts its run clean.")
-    return cycle
-
-
-def _cycle_time_text(run_length: float, downtime: float, given: dict) -> str:
-    """The sentence on the run length and the cleaning downtime [s], saying where each came from."""
+def cycle_text(cycle) -> str:
+    """The paragraph the report shows about the fouling cycle (:class:`revamp.studies.CycleSettings`)."""
     days = lambda s: f"{s / 86400.0:.4g} days"
-    if "run_length" in given:
-        run = f"Run length {days(run_length)} (from the unit file, {given['run_length']})"
-    else:
-        run = f"Run length {days(run_length)} (the unit file gives none, so one year is taken)"
-    if "cleaning_downtime" in given:
-        down = (f"cleaning downtime {days(downtime)} per run, counted with no duty (from the unit file, "
-                f"{given['cleaning_downtime']})")
+    run = f"Run length {days(cycle.run_length.value)} ({_source_text(cycle.run_length)})"
+    if cycle.downtime.source.startswith("unit file: "):
+        down = (f"cleaning downtime {days(cycle.downtime.value)} per run, counted with no duty "
+                f"({_source_text(cycle.downtime)})")
     else:
         down = "no cleaning downtime counted (the unit file gives none)"
-    return f"{run}, {down}"
+    side = cycle.side.value
+    return (f"duty_cycle_avg: the duty averaged over the next run until a cleaning, with the {side}-side fouling "
+            f"growing as the plant-data trend says; value, payback and NPV use it instead of the end-of-run duty. "
+            f"{run}, {down}; the other side, with no growth model, goes linearly from where the option leaves it "
+            f"to its design fouling at the end of the run. Fouling model: {cycle.model_text}. Side: "
+            f"{cycle.side.source}. Doing nothing, the base case goes on fouling from where the plant data leave it "
+            f"({cycle.base_age / 86400.0:.0f} days into its run); every option is installed at a shutdown and "
+            f"starts its run clean.")
 
 
-def run_case(case, mc_draws: int = 100):
-    """Everything a report on one exchanger shows, computed by the package (the notebooks only display it).
+_NUMBER_AFTER_EQUALS = re.compile(r"(= )(-?[0-9][0-9.]*(?:e[-+]?[0-9]+)?)")
 
-    Returns a dict: ``today``, ``today_clean``, ``revamp``, ``revamp_clean`` (Ratings), ``monitoring``
-    (:class:`revamp.Monitoring` or None, with ``monitoring_error`` when the plant data could not be used),
-    ``fouling_side`` (``(side, reason)``), ``cycle`` (the cycle settings of :func:`cycle_settings`, None without a
-    fitted trend; ``cycle_error`` when the cycle-averaged study failed and the snapshot study was kept) and ``study``
-    (:class:`revamp.Study` at the revamp conditions, or None when the file lists no option).
+
+def _note_pattern(text: str) -> tuple:
+    """A note's text with the number after its first ``=`` taken out (the pattern), and that number (or None)."""
+    m = _NUMBER_AFTER_EQUALS.search(text)
+    if not m:
+        return text, None
+    return text[:m.start(2)] + "{}" + text[m.end(2):], (float(m.group(2)), m.group(2))
+
+
+def notes_legend(notes) -> tuple:
+    """Number the notes: ``(marks, table)``.
+
+    ``marks`` maps each :class:`revamp.studies.Note` to its number. Notes that say the same thing of the same
+    quantity with another value (e.g. a property fit outside its range at 533.9 K in one rating, 613.2 K in another)
+    share one number, and the table states the range of those values. The table has one row per number: where it
+    applies (the ratings), the quantity it qualifies, the severity and the note.
     """
-    import revamp as rv
+    import pandas as pd
 
-    out = {"case": case}
-    out["today"] = rv.rate(case.exchanger, case.service)
-    out["today_clean"] = rv.rate(case.exchanger, case.service.clean())
-    out["revamp"] = rv.rate(case.exchanger, case.revamp_service)
-    out["revamp_clean"] = rv.rate(case.exchanger, case.revamp_service.clean())
-    where = (getattr(case, "cycle_from", None) or {}).get("fouling_side", "plant_data.fouling_side")
-    out["fouling_side"] = side, why = fouling_side(out["today"], getattr(case, "fouling_side", None), where)
-    out["monitoring"], out["monitoring_error"], out["cycle"], out["cycle_error"] = None, None, None, None
-    if case.plant_data is not None:
-        try:
-            out["monitoring"] = rv.monitor(case.exchanger, case.service, case.plant_data.file,
-                                           columns=case.plant_data.columns,
-                                           uncertainty=case.plant_data.uncertainty or None, mc_draws=mc_draws,
-                                           fouling_side=side)
-        except Exception as exc:  # plant data is evidence, not a precondition: the study goes on without it
-            out["monitoring_error"] = f"{exc.__class__.__name__}: {exc}"
-        else:
-            out["cycle"] = cycle_settings(case, out["monitoring"], side, why)
-    out["study"] = None
-    if case.options:
-        kwargs = {"target": case.target or None, "limits": case.limits or None, "economics": case.economics,
-                  "revamp": case.revamp_service}
-        cycle = {k: v for k, v in (out["cycle"] or {}).items() if k != "text"} or None
-        try:
-            out["study"] = rv.compare(case.exchanger, case.service, list(case.options), cycle=cycle, **kwargs)
-        except Exception as exc:
-            if cycle is None:
-                raise
-            # the cycle average is an extra: when a rating along the run fails, keep the snapshot comparison
-            out["cycle_error"] = f"{exc.__class__.__name__}: {exc}"
-            out["study"] = rv.compare(case.exchanger, case.service, list(case.options), **kwargs)
-    return out
+    groups, marks = {}, {}
+    for n in notes:
+        pattern, value = _note_pattern(n.text)
+        key = (n.quantity, n.severity, pattern)
+        g = groups.setdefault(key, {"number": len(groups) + 1, "where": [], "values": []})
+        g["where"].append(n.source)
+        if value is not None:
+            g["values"].append(value)
+        marks[n] = g["number"]
+    rows = []
+    for (quantity, severity, pattern), g in groups.items():
+        text = pattern
+        if "{}" in pattern:
+            (lo, lo_text), (hi, hi_text) = min(g["values"]), max(g["values"])
+            text = pattern.replace("{}", lo_text if lo == hi else f"{lo_text} to {hi_text}", 1)
+        rows.append({"where": ", ".join(dict.fromkeys(g["where"])), "qualifies": quantity, "severity": severity,
+                     "note": text})
+    table = pd.DataFrame(rows, index=[f"[{g['number']}]" for g in groups.values()],
+                         columns=["where", "qualifies", "severity", "note"])
+    return marks, table
+
+
+def _marks_for(notes, marks, source, quantity=None) -> list:
+    return sorted({marks[n] for n in notes if n.source == source and (quantity is None or n.quantity == quantity)})
 
 
 RATING_COLUMNS = [("duty", "power"), ("t_out_shell", "temperature"), ("t_out_tube", "temperature"),
@@ -169,8 +98,13 @@ RATING_COLUMNS = [("duty", "power"), ("t_out_shell", "temperature"), ("t_out_tub
                   ("velocity_shell", "velocity")]
 
 
-def ratings_table(ratings: dict, system: str = "SI"):
-    """A display table (pandas DataFrame) of named ratings in ``system`` units, one column per rating."""
+def ratings_table(ratings: dict, system: str = "SI", notes=(), marks=None):
+    """A display table (pandas DataFrame) of named ratings in ``system`` units, one column per rating.
+
+    With ``notes`` (:class:`revamp.studies.Note`, their ``source`` the rating labels), a last column ``notes`` puts
+    beside each quantity the numbers of the notes that qualify it, as ``label [n]`` (``marks`` from
+    :func:`notes_legend`; built here when not given).
+    """
     import pandas as pd
 
     from ..units import from_si
@@ -182,7 +116,32 @@ def ratings_table(ratings: dict, system: str = "SI"):
             value, unit = from_si(float(getattr(r, attr)), kind, system)
             col[f"{attr} [{unit}]"] = round(value, 3 if abs(value) < 100 else 1)
         rows[label] = col
-    return pd.DataFrame(rows)
+    table = pd.DataFrame(rows)
+    if notes:
+        marks = marks if marks is not None else notes_legend(notes)[0]
+        column = []
+        for attr, _ in RATING_COLUMNS:
+            cells = [f"{label} {' '.join(f'[{m}]' for m in found)}" for label in ratings
+                     if (found := _marks_for(notes, marks, label, attr))]
+            column.append("; ".join(cells))
+        table["notes"] = column
+    return table
+
+
+def rating_items(result, system: str = "SI") -> list:
+    """The ratings section: the four base-case ratings with the note numbers beside the quantities they qualify,
+    then the notes themselves (or a line saying there are none)."""
+    labels = ("today", "today (clean)", "revamp", "revamp (clean)")
+    notes = [n for n in result.notes if n.source in labels]
+    marks, legend = notes_legend(notes)
+    items = [ratings_table(result.ratings, system, notes, marks)]
+    if notes:
+        items += ["Notes on these ratings (numbers in the notes column point here): a warning means the number "
+                  "it qualifies comes from a method outside its stated range or from extrapolated properties, and "
+                  "is less certain.", legend]
+    else:
+        items.append("No rating raised a warning.")
+    return items
 
 
 def breakdown_figure(ratings: dict, title: str = "Where the resistance to heat transfer lies"):
@@ -205,26 +164,26 @@ def option_breakdown_figure(study):
     return breakdown_figure(ratings, "Resistances of each option at the revamp conditions")
 
 
-def summary(result: dict) -> dict:
+def summary(result) -> dict:
     """The few numbers the unit index shows for one exchanger (JSON-ready)."""
-    case, today, rev = result["case"], result["today"], result["revamp"]
+    case, today, rev, svc_rev = result.case, result.today, result.revamp, result.service_revamp
     target = case.target or {}
     text = ", ".join(f"{k} {v:.4g}" for k, v in target.items())
     if "duty" in target:
         text, meets = f"duty {target['duty'] / 1e3:,.0f} kW", float(rev.duty) >= target["duty"]
     elif "t_out_tube" in target:
         text = f"tube outlet {target['t_out_tube'] - 273.15:.1f} °C"
-        hot_tube = float(case.revamp_service.tube.t_in) > float(case.revamp_service.shell.t_in)
+        hot_tube = float(svc_rev.tube.t_in) > float(svc_rev.shell.t_in)
         meets = (float(rev.t_out_tube) <= target["t_out_tube"]) if hot_tube else (float(rev.t_out_tube) >= target["t_out_tube"])
     elif "t_out_shell" in target:
         text = f"shell outlet {target['t_out_shell'] - 273.15:.1f} °C"
-        hot_shell = float(case.revamp_service.shell.t_in) > float(case.revamp_service.tube.t_in)
+        hot_shell = float(svc_rev.shell.t_in) > float(svc_rev.tube.t_in)
         meets = (float(rev.t_out_shell) <= target["t_out_shell"]) if hot_shell else (float(rev.t_out_shell) >= target["t_out_shell"])
     else:
         meets = None
     out = {"tag": case.tag, "duty_today": float(today.duty), "duty_revamp": float(rev.duty), "target": text,
            "target_duty": target.get("duty"), "meets_target": meets, "recommendation": ""}
-    study = result.get("study")
+    study = result.study
     if study is not None:
         out["recommendation"] = str(study.recommendation or "")
         if "meets_target" in study.table and "base" in study.table.index and target:
@@ -234,7 +193,7 @@ def summary(result: dict) -> dict:
     return out
 
 
-def write_summary(path, result: dict) -> None:
+def write_summary(path, result) -> None:
     """Write :func:`summary` as JSON (atomically); ``path`` None does nothing."""
     if path:
         write_atomic(path, json.dumps(summary(result), indent=1))
@@ -315,13 +274,13 @@ def unit_figure(table):
     return fig
 
 
-def monitoring_items(result: dict, system: str = "SI") -> list:
+def monitoring_items(result, system: str = "SI") -> list:
     """What the plant-data section shows: the findings, the row counts by reason, and the fouling figure."""
     import pandas as pd
 
-    mon = result.get("monitoring")
+    mon = result.monitoring
     if mon is None:
-        why = result.get("monitoring_error") or "the unit file gives no plant data for this exchanger"
+        why = result.monitoring_error or "the unit file gives no plant data for this exchanger"
         return [f"No plant-data analysis: {why}."]
     summ = mon.summary
     rows = {str(k)[len("rows: "):]: v for k, v in summ.items() if str(k).startswith("rows: ")}
@@ -370,22 +329,35 @@ def rf_figure(mon):
     return fig
 
 
-def study_items(result: dict, system: str = "SI") -> list:
-    """What the options section shows: the comparison table in display units and the study figures."""
-    study = result.get("study")
+def study_items(result, system: str = "SI") -> list:
+    """What the options section shows: the basis every row is judged on, the comparison table in display units
+    (with the note numbers of each row's rating), the money with its value basis and the ranking rule, the notes,
+    and the study figures."""
+    study = result.study
     if study is None:
         return ["The unit file lists no option for this exchanger."]
     from .. import plots
 
-    items = [study_table(study, system), study_money_table(study)]
+    rows = {str(i) for i in study.table.index}
+    notes = [n for n in result.notes if n.source in rows]
+    marks, legend = notes_legend(notes)
+    items = [study.basis_text] if study.basis_text else []
+    items += [study_table(study, system, notes, marks)]
+    if notes:
+        items += ["Notes on the ratings of these rows (numbers in the notes column point here):", legend]
+    if study.value_text:
+        items.append(f"Money: {study.value_text}")
+    if study.ranking_text:
+        items.append(study.ranking_text)
+    items.append(study_money_table(study))
     if "duty_cycle_avg" in study.table:
-        items.append((result.get("cycle") or {}).get("text") or
+        items.append(cycle_text(result.cycle) if result.cycle is not None else
                      "duty_cycle_avg: the duty averaged over a run between cleanings; value, payback and NPV use it.")
-    elif result.get("cycle_error"):
-        items.append(f"No cycle-averaged duty (snapshot duties used for the money): {result['cycle_error']}.")
-    elif result.get("monitoring") is not None:
+    elif result.cycle_error:
+        items.append(f"No cycle-averaged duty (end-of-run duties used for the money): {result.cycle_error}.")
+    elif result.monitoring is not None:
         items.append("No cycle-averaged duty: no fouling trend could be fitted to the plant data; value, payback "
-                     "and NPV use the snapshot duties.")
+                     "and NPV use the end-of-run duties.")
     return items + [plots.option_comparison(study, system), plots.resistance_breakdown(study),
                     plots.economics_chart(study)]
 
@@ -395,8 +367,9 @@ _STUDY_COLUMNS = [("duty", "power"), ("duty_gain", "power"), ("duty_cycle_avg", 
                   ("velocity_tube", "velocity"), ("velocity_shell", "velocity")]
 
 
-def study_table(study, system: str = "SI"):
-    """The study table with physical columns in display units and the money and screening columns as they are."""
+def study_table(study, system: str = "SI", notes=(), marks=None):
+    """The study table with physical columns in display units and the money and screening columns as they are;
+    with ``notes``, a last column gives each row's note numbers beside the quantity they qualify."""
     import pandas as pd
 
     from ..units import from_si
@@ -409,6 +382,16 @@ def study_table(study, system: str = "SI"):
             out[f"{col} [{unit}]"] = [round(float(v), 3 if abs(v) < 100 else 1) for v in mag]
     if "controlling" in t:
         out["controlling resistance"] = t["controlling"].tolist()
+    if notes:
+        marks = marks if marks is not None else notes_legend(notes)[0]
+        column = []
+        for label in out.index:
+            by_quantity = {}
+            for n in notes:
+                if n.source == label:
+                    by_quantity.setdefault(n.quantity, set()).add(marks[n])
+            column.append("; ".join(f"{q} {' '.join(f'[{m}]' for m in sorted(ms))}" for q, ms in by_quantity.items()))
+        out["notes"] = column
     return out
 
 
@@ -422,7 +405,8 @@ def study_money_table(study):
     names = {"dp_shell_status": "dp shell", "dp_tube_status": "dp tube", "velocity_status": "tube velocity",
              "vibration_status": "vibration", "nozzle_status": "nozzle", "meets_target": "meets target",
              "capex": f"capex [{cur}]", "annual_value": f"value [{cur}/yr]", "payback": "payback [yr]",
-             "npv": f"NPV [{cur}]", "rank": "rank", "reason": "why"}
+             "npv": f"NPV [{cur}]", "value_basis": "value basis", "rank": f"rank (by {getattr(study, 'rank_by', '')})",
+             "reason": "why"}
     for col, name in names.items():
         if col in t:
             values = t[col].tolist()
@@ -434,8 +418,8 @@ def study_money_table(study):
     return out
 
 
-def recommendation_html(result: dict) -> str:
-    study = result.get("study")
+def recommendation_html(result) -> str:
+    study = result.study
     if study is None:
         return "<p>No option to compare.</p>"
     return f'<p class="rv-recommendation"><b>{esc(study.recommendation)}</b></p>'

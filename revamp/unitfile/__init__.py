@@ -100,7 +100,9 @@ def _validate(path, build: bool, only=None):
         discount_rate=e.get("discount_rate"),
         horizon_years=e["horizon"] / (365.25 * 86400.0) if "horizon" in e else None,
         capacity_margin=e.get("capacity_margin"), cleaning_cost=e.get("cleaning_cost"),
-        run_length=e.get("run_length"), cleaning_downtime=e.get("cleaning_downtime"))
+        run_length=e.get("run_length"), cleaning_downtime=e.get("cleaning_downtime"),
+        value_basis=e.get("value_basis"), utility_price=e.get("utility_price"), rank_by=e.get("rank_by"),
+        judge_on=e.get("judge_on"))
     built = []
     for i, x in enumerate(exchangers):
         if _owned(problems, i) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):

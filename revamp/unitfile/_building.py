@@ -281,14 +281,19 @@ def _target_rule(target: dict, service, where: str, problems: list):
                                     f"{verb}"))
 
 
-def _economics(econ: UnitEconomics, capex: dict, capacity_flow):
-    """The study's Economics for one exchanger (None when the file gives no energy price)."""
-    if econ.energy_price is None:
+def _economics(econ: UnitEconomics, capex: dict, capacity_flow, value_basis=None):
+    """The study's Economics for one exchanger (None when the file gives no energy price and the exchanger's value
+    basis needs one); ``value_basis`` is the exchanger's own, else the unit's, else fired fuel."""
+    basis = value_basis or econ.value_basis or "fuel"
+    if econ.energy_price is None and (basis == "fuel" or (econ.utility_price is None and econ.capacity_margin is None)):
         return None
     from ..economics import Economics
 
-    fields = {"energy_price": econ.energy_price * 1e9, "price_per": "GJ", "currency": econ.currency,
-              "capex": {k: v for k, v in capex.items() if v is not None}}
+    fields = {"energy_price": None if econ.energy_price is None else econ.energy_price * 1e9, "price_per": "GJ",
+              "currency": econ.currency, "capex": {k: v for k, v in capex.items() if v is not None},
+              "value_basis": basis}
+    if econ.utility_price is not None:
+        fields["utility_price"] = econ.utility_price * 1e9
     if econ.heater_efficiency is not None:
         fields["efficiency"] = econ.heater_efficiency
     if econ.hours_per_year is not None:
@@ -390,7 +395,8 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         plant = PlantData(file=full, columns=cols, uncertainty=dict(pd.get("uncertainty") or {}),
                           fouling_side=pd.get("fouling_side"), run_length=pd.get("run_length"),
                           cleaning_downtime=pd.get("cleaning_downtime"))
-    economics = _guard(problems, f"{pre}.options", _economics, econ, capex, rv.get("capacity_flow"))
+    economics = _guard(problems, f"{pre}.options", _economics, econ, capex, rv.get("capacity_flow"),
+                       si.get("value_basis"))
     if len(problems) > start:
         return None
     limits = {f"dp_{side}": si[f"{side}_side"]["dp_allowed"] for side in ("shell", "tube")
@@ -400,7 +406,8 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
     return ExchangerCase(index=i, tag=x["tag"], description=x.get("description", ""), exchanger=exchanger,
                          service=service, revamp_service=revamp_service, throughput=throughput,
                          target=dict(rv.get("target") or {}), limits=limits, options=tuple(opts), capex=capex,
-                         plant_data=plant, economics=economics, **cycle, cycle_from=cycle_from, raw=x)
+                         plant_data=plant, economics=economics, **cycle, cycle_from=cycle_from, raw=x,
+                         rank_by=econ.rank_by, judge_on=econ.judge_on)
 
 
 def _cycle_fields(i: int, si: dict, econ: UnitEconomics):
@@ -417,6 +424,10 @@ def _cycle_fields(i: int, si: dict, econ: UnitEconomics):
             values[name], where[name] = float(getattr(econ, name)), f"economics.{name}"
         else:
             values[name] = None
+    if si.get("value_basis") is not None:
+        where["value_basis"] = f"exchangers[{i}].value_basis"
+    elif econ.value_basis is not None:
+        where["value_basis"] = "economics.value_basis"
     return values, where
 
 

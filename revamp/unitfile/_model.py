@@ -59,6 +59,10 @@ class UnitEconomics:
     cleaning_cost: float | None = None      #: [currency]
     run_length: float | None = None         #: [s] between cleanings, for the cycle-averaged duty
     cleaning_downtime: float | None = None  #: [s] out of service per cleaning
+    value_basis: str | None = None          #: the unit's default value basis (revamp.economics.VALUE_BASES)
+    utility_price: float | None = None      #: [currency/J] cooling utility, for the "cooling" value basis
+    rank_by: str | None = None              #: ranking criterion (revamp.study.RANK_CRITERIA)
+    judge_on: str | None = None             #: judging basis (revamp.study.JUDGE_BASES)
 
 
 @dataclass(frozen=True)
@@ -107,6 +111,8 @@ class ExchangerCase:
     cleaning_downtime: float | None = None
     cycle_from: dict = field(default_factory=dict)
     raw: dict = field(repr=False, default_factory=dict)
+    rank_by: str | None = None   #: the unit's ranking criterion, None: the study's default
+    judge_on: str | None = None  #: the unit's judging basis, None: the study's default
 
 
 @dataclass(frozen=True)
