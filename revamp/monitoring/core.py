@@ -35,7 +35,7 @@ from . import engine as _e
 from .cleaning import CleaningInterval, optimal_cleaning_interval
 from .data import read_plant_data
 from .reconcile import reconcile_heat_balance
-from .steady import steady_state
+from .steady import SteadyFilter, steady_filter
 
 __all__ = ["DEFAULT_UNCERTAINTY", "Monitoring", "monitor"]
 
@@ -69,6 +69,10 @@ class Monitoring:
     cleaning : CleaningInterval or None
     run_start : pandas.Timestamp
         Time zero of the run (the last cleaning): ``run_time`` counts from it.
+    dialect : DialectUsed
+        How the plant data file was read (date order and why, UTC, hints).
+    steady_filter : SteadyFilter or None
+        The steady-state filter's settings and the rows each removed (None with ``steady=False``).
     """
 
     table: pd.DataFrame
@@ -82,6 +86,8 @@ class Monitoring:
     service: object = field(repr=False)
     run_start: object = None
     _duty_curve: tuple = field(repr=False, default=())
+    dialect: object = None
+    steady_filter: SteadyFilter | None = None
 
     def duty_at(self, rf):
         """Duty [W] at the reference conditions with a fouling resistance ``rf`` [m²K/W, outside area]."""
@@ -120,12 +126,41 @@ class Monitoring:
                 from None
 
 
+def _start(value, used) -> pd.Timestamp:
+    """The run start as a naive timestamp on the data's clock (UTC when the data were put in UTC)."""
+    try:
+        t = pd.Timestamp(value)
+    except (ValueError, TypeError):
+        raise InputError("run_start", value, "a date and time, e.g. '2031-03-01 06:00'") from None
+    if t.tzinfo is not None:
+        return t.tz_convert("UTC").tz_localize(None) if used.utc else t.tz_localize(None)
+    if used.utc and used.dialect.timezone:
+        return t.tz_localize(used.dialect.timezone).tz_convert("UTC").tz_localize(None)
+    return t
+
+
+def _more_summary(sfilter, used) -> dict:
+    """Summary lines on how the file was read and what each steady-state setting removed."""
+    s: dict = {}
+    if sfilter is not None:
+        s["steady filter: rows checked"] = sfilter.checked
+        s[f"steady filter: removed, fewer than {sfilter.min_rows} rows in {sfilter.window / 3600:.3g} h"] = \
+            sfilter.removed_min_rows
+        for col, k in sfilter.removed_flow_rsd.items():
+            s[f"steady filter: removed, {col} varies > {sfilter.flow_rsd:.3g} (relative std)"] = k
+        for col, k in sfilter.removed_t_range.items():
+            s[f"steady filter: removed, {col} range > {sfilter.t_range:.3g} K"] = k
+    if used is not None and used.hints:
+        s["plant data file"] = "; ".join(used.hints)
+    return s
+
+
 # --------------------------------------------------------------------------------------------------------- monitor
 def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=None, balance_tolerance=0.10,
             mc_draws: int = 200, band=(5.0, 95.0), seed=0, run_start=None, run_length=None, models=None,
             fouling_side: str = "tube", beta: float = -0.66, E=None, cleaning=None, duty_value=None,
             sort: bool = False, flat_rows: int = 6, clean_u: str = "operating", mc_clean: str = "linear",
-            mc_chunk: int = 400_000) -> Monitoring:
+            mc_chunk: int = 400_000, dialect=None) -> Monitoring:
     """Measured U and fouling of an exchanger from plant data.
 
     Parameters
@@ -142,8 +177,9 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         Measurement standard deviations (1σ): ``flow`` relative [-] (default 0.02), ``temperature`` [K]
         (default 0.5), or per column (``"tube_t_out": 1.0``).
     steady : dict, False or None
-        Arguments of :func:`revamp.monitoring.steady_state` (``window``, ``flow_rsd``, ``t_range``, ``min_rows``);
-        ``False`` keeps every valid row.
+        Settings of the steady-state filter, :func:`revamp.monitoring.steady_filter` (``window``, ``flow_rsd``,
+        ``t_range``, ``min_rows``; numbers in SI or strings with units); ``False`` keeps every valid row. The rows
+        each setting removed are in ``Monitoring.steady_filter``.
     balance_tolerance : float
         Rows whose |balance_error| exceeds this are flagged ``heat balance does not close`` [-].
     mc_draws : int
@@ -183,6 +219,10 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         with each input nudged; fast), ``"full"`` by rating every draw × row (stacked, in chunks; ~20 µs a case).
     mc_chunk : int
         Largest number of cases per rating call.
+    dialect : CsvDialect, dict or None
+        How the CSV file is written (``delimiter``, ``decimal``, ``timestamp_format``, ``dayfirst``, ``timezone``);
+        see :class:`revamp.monitoring.CsvDialect`. With a ``timezone`` the times (and ``run_start``, when written
+        without an offset) are in UTC.
 
     Returns
     -------
@@ -204,7 +244,12 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         raise InputError("clean_u", clean_u, "'operating' or 'clean'")
     if mc_clean not in ("linear", "full"):
         raise InputError("mc_clean", mc_clean, "'linear' or 'full'")
-    pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows)
+    if steady is not False and steady is not None and not isinstance(steady, dict):
+        raise InputError("steady", steady, "a dict of window, flow_rsd, t_range, min_rows, or False")
+    for key in (steady or {}):
+        if key not in ("window", "flow_rsd", "t_range", "min_rows"):
+            raise InputError(f"steady.{key}", key, "one of 'window', 'flow_rsd', 't_range', 'min_rows'")
+    pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows, dialect=dialect)
     tab = pdata.frame.copy()
     n = len(tab)
     valid = tab["valid"].to_numpy().copy()
@@ -310,17 +355,19 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
 
     # steady filter and the rows used
     ok = valid & ~open_balance & np.isfinite(rf)
+    sfilter = None
     if steady is False:
         st = ok.copy()
     else:
-        st = steady_state(tab, valid=valid, **(steady or {}))
+        sfilter = steady_filter(tab, valid=valid, **(steady or {}))
+        st = sfilter.mask
     tab["steady"] = st
     tab["used"] = ok & st
     counts["not steady"] = int((ok & ~st).sum())
     counts["used"] = int(tab["used"].sum())
 
     ts = tab["timestamp"]
-    t0 = pd.Timestamp(run_start) if run_start is not None else (ts[valid].min() if valid.any() else pd.NaT)
+    t0 = _start(run_start, pdata.dialect) if run_start is not None else (ts[valid].min() if valid.any() else pd.NaT)
     tab["run_time"] = (ts - t0).dt.total_seconds().to_numpy() if pd.notna(t0) else np.nan
 
     used = tab["used"].to_numpy()
@@ -376,6 +423,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
             downtime_cost_rate=c.pop("downtime_cost_rate", duty_value * q0), **c)
 
     summary = _e.summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings)
+    summary = pd.concat([summary, pd.Series(_more_summary(sfilter, pdata.dialect), dtype=object)])
     return Monitoring(table=tab, summary=summary, trend=trend, fits=fits, counts=counts, reference=reference,
                       cleaning=clean_res, exchanger=exchanger, service=service, run_start=t0,
-                      _duty_curve=duty_curve)
+                      _duty_curve=duty_curve, dialect=pdata.dialect, steady_filter=sfilter)
