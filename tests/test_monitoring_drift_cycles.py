@@ -148,3 +148,38 @@ def test_one_run_without_cleanings_stays_one_cycle():
     m = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False, models=("linear",))
     assert len(m.cycles) == 1 and m.cycles[0].source == "data start"
     assert m.trend.params["b"] == pytest.approx(3e-4 / T[-1], rel=0.1)  # the law set above
+
+
+def test_figures_show_the_runs_and_the_drift():
+    from revamp import plots_monitoring as pm
+
+    m = rv.monitor(HX, SERVICE, _three_runs(), mc_draws=0, steady=False, models=("linear",))
+    names = [tr.name for tr in pm.fouling_trend(m).data]
+    assert "cleaning 2031-03-21 (detected)" in names and "cleaning 2031-04-10 (detected)" in names
+    assert sum(1 for x in names if x and x.startswith("fit of the run from")) == 2  # the two earlier runs
+    df = _series(LAW, N, np.full(N, 20.0), _square(N, 48, 18.0, 25.0), seed=1)
+    df["tube_t_out"] += 1.5 * T / T[-1]
+    title = pm.heat_balance(rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False)).layout.title.text
+    assert "sensor drift" in title and "tube-side" in title
+
+
+def test_demo_generators_drifting_thermocouple_is_found(monkeypatch):
+    # the demo data generator (data/generate_plant_data.py) drifts the tube outlet thermocouple linearly by `drift`
+    # K over the series; its process variations move the two flows independently
+    import importlib.util
+    import pathlib
+    import sys
+
+    path = pathlib.Path(__file__).resolve().parents[1] / "data" / "generate_plant_data.py"
+    spec = importlib.util.spec_from_file_location("generate_plant_data", path)
+    gen = importlib.util.module_from_spec(spec)
+    monkeypatch.setitem(sys.modules, spec.name, gen)
+    spec.loader.exec_module(gen)
+    df = gen.generate(HX, SERVICE, hours=24 * 40, fouling_law=gen.Linear(a=1e-4, b_per_year=2e-3), seed=3,
+                      drift=1.5, bad_rows=False)
+    d = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False).drift
+    assert d.detected and d.side == "tube"
+    assert d.kelvin == pytest.approx(1.5, abs=0.3)  # the generator's 1.5 K (its 0.3 K noise on each reading)
+    clean = gen.generate(HX, SERVICE, hours=24 * 40, fouling_law=gen.Linear(a=1e-4, b_per_year=2e-3), seed=3,
+                         drift=0.0, bad_rows=False)
+    assert not rv.monitor(HX, SERVICE, clean, mc_draws=0, steady=False).drift.detected
