@@ -334,8 +334,7 @@ def _read_times(src: pd.Series, blank: np.ndarray, d: CsvDialect):
     return ts, unplaced, DialectUsed(dialect=d, dayfirst=dayfirst, dayfirst_from=why, utc=utc, hints=tuple(hints))
 
 
-def _numbers(col: pd.Series, blank: np.ndarray, decimal: str) -> np.ndarray:
-    text = col.astype(str).str.strip()
+def _numbers(text: pd.Series, blank: np.ndarray, decimal: str) -> np.ndarray:
     if decimal != ".":
         text = text.str.replace(decimal, ".", regex=False)
     return pd.to_numeric(text.where(~blank), errors="coerce").to_numpy(dtype=float)
@@ -413,7 +412,7 @@ def read_plant_data(data, columns=None, *, sort: bool = False, flat_rows: int = 
         col = raw[src]
         text = col.astype(str).str.strip()
         blank = col.isna().to_numpy() | text.isin(["", "nan", "NaN", "NA", "N/A", "null", "None"]).to_numpy()
-        num = _numbers(col, blank, d.decimal)
+        num = _numbers(text, blank, d.decimal)
         bad = ~np.isfinite(num) & ~blank
         if d.decimal == "." and bad.sum() > 0.5 * max((~blank).sum(), 1):
             commas = text[bad & text.str.match(_DECIMAL_COMMA).to_numpy()]
