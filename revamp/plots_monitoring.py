@@ -1,8 +1,10 @@
 """Plotly figures of plant-data monitoring (no physics here: everything comes from a :class:`Monitoring`).
 
 - :func:`fouling_trend`: fouling resistance against time, the rows used, the Monte Carlo band (daily medians), the
-  fitted model and its projection to the end of the run;
-- :func:`heat_balance`: heat-balance closure against the tolerance, rows flagged shown apart;
+  fitted model and its projection to the end of the run; with several runs in the data, the earlier runs' fits and
+  the cleanings between them;
+- :func:`heat_balance`: heat-balance closure against the tolerance, rows flagged shown apart; a sensor drift found
+  in the closure is named in the title;
 - :func:`duty_lost`: duty lost to fouling (daily median) and the energy lost to date.
 
 :func:`fouling_trend` and :func:`duty_lost` take ``units="SI"`` or ``"US"`` for the axes. Every function takes
@@ -98,9 +100,29 @@ def fouling_trend(mon, units: str = "SI", run_length=None, resample="D") -> go.F
         rp = np.linspace(float(used["run_time"].max()), t_end, 100)
         fig.add_trace(go.Scatter(x=t0 + pd.to_timedelta(rp, unit="s"), y=conv(mon.trend(rp)), mode="lines",
                                  line={"color": "black", "dash": "dash"}, name="projection"))
+    _earlier_runs(fig, mon, tab, conv)
     fig.update_layout(title="Fouling resistance from plant data" + what, xaxis_title="time",
                       yaxis_title=f"Rf, outside area [{label}]", legend={"orientation": "h", "y": -0.2})
     return fig
+
+
+def _earlier_runs(fig, mon, tab, conv):
+    """The fits of the runs before the current one (grey), and a vertical line at each cleaning."""
+    cycles = tuple(getattr(mon, "cycles", ()) or ())
+    rf = tab["Rf"].to_numpy(dtype=float)
+    top = float(np.nanmax(rf)) if np.isfinite(rf).any() else 1e-4
+    for c in cycles[:-1]:
+        rows = tab[tab["used"] & (tab["cycle"] == c.index)]
+        if c.fit is None or not len(rows):
+            continue
+        rt = np.linspace(0.0, float(rows["cycle_time"].max()), 100)
+        fig.add_trace(go.Scatter(x=c.start + pd.to_timedelta(rt, unit="s"), y=conv(c.fit(rt)), mode="lines",
+                                 line={"color": "gray"}, name=f"fit of the run from {c.start:%Y-%m-%d}: "
+                                                              f"{_text(c.fit.model)}"))
+    for c in cycles[1:]:
+        fig.add_trace(go.Scatter(x=[c.start, c.start], y=conv([0.0, top]), mode="lines",
+                                 line={"color": "seagreen", "dash": "dot"},
+                                 name=f"cleaning {c.start:%Y-%m-%d} ({c.source})"))
 
 
 def heat_balance(mon, tolerance=None, resample="D") -> go.Figure:
@@ -155,7 +177,12 @@ def heat_balance(mon, tolerance=None, resample="D") -> go.Figure:
                                        name="rows flagged"))
     for sign in (1, -1):
         fig.add_hline(y=sign * 100 * tol, line={"dash": "dash", "color": "gray"})
-    fig.update_layout(title="Heat balance closure (before reconciliation)", xaxis_title="time",
+    title = "Heat balance closure (before reconciliation)"
+    drift = getattr(mon, "drift", None)
+    if drift is not None and drift.detected:
+        side = f", {drift.side}-side temperatures suspect" if drift.side else ", side not identifiable"
+        title += f"<br><sub>sensor drift: the closure moved by {drift.change:+.1%} over the data{side}</sub>"
+    fig.update_layout(title=title, xaxis_title="time",
                       yaxis_title="(Q_hot − Q_cold) / mean [%]")
     return fig
 

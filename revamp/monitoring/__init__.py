@@ -9,22 +9,26 @@ in their own modules: :mod:`.data` (reading, units, per-row flags), :mod:`.stead
 """
 from .cleaning import CleaningInterval, linear_closed_form, optimal_cleaning_interval
 from .core import DEFAULT_UNCERTAINTY, Monitoring, monitor
-from .data import COLUMNS, PlantData, read_plant_data
+from .data import COLUMNS, CsvDialect, DialectUsed, PlantData, read_plant_data
 from .reconcile import HeatBalance, reconcile_heat_balance, reconcile_linear
-from .steady import steady_state
+from .steady import SteadyFilter, steady_filter, steady_state
 
 __all__ = [
            "COLUMNS",
            "DEFAULT_UNCERTAINTY",
            "CleaningInterval",
+           "CsvDialect",
+           "DialectUsed",
            "HeatBalance",
            "Monitoring",
            "PlantData",
+           "SteadyFilter",
            "linear_closed_form",
            "monitor",
            "optimal_cleaning_interval",
            "read_plant_data",
            "reconcile_heat_balance",
            "reconcile_linear",
+           "steady_filter",
            "steady_state",
 ]

@@ -22,12 +22,13 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
+import pandas as pd
 from scipy import optimize
 
 from ..errors import InputError
 from ..units import require
 
-__all__ = ["CleaningInterval", "linear_closed_form", "optimal_cleaning_interval"]
+__all__ = ["CleaningInterval", "Cycle", "find_cleanings", "linear_closed_form", "optimal_cleaning_interval"]
 
 
 @dataclass(frozen=True)
@@ -148,3 +149,94 @@ def optimal_cleaning_interval(loss_rate, cleaning_cost, downtime=0.0, downtime_c
     return CleaningInterval(interval=float(tc), cost_rate=float(cycle / (tc + downtime)),
                             loss_rate_at_interval=float(np.asarray(loss_rate(np.asarray(tc)), dtype=float)),
                             cycle_cost=float(cycle), bounded=bool(i == points - 1))
+
+
+# -------------------------------------------------------------------------------------- runs between cleanings
+@dataclass(frozen=True)
+class Cycle:
+    """One run between cleanings found in plant data.
+
+    Attributes
+    ----------
+    index : int
+        0 for the first run in the data.
+    start : pandas.Timestamp
+        Time zero of the run: a cleaning (``source`` ``"detected"`` or ``"given"``) or the first valid row
+        (``"data start"``).
+    end : pandas.Timestamp
+        Time of the run's last row.
+    rows : int
+        Rows of the run used in the fit.
+    source : str
+        ``"data start"``, ``"detected"`` (Rf fell back, see :func:`find_cleanings`) or ``"given"``.
+    fit : FoulingFit or None
+        The model chosen by AIC for this run (None when it could not be fitted; see ``note``).
+    note : str
+        Why there is no fit, or "".
+    """
+
+    index: int
+    start: object
+    end: object
+    rows: int
+    source: str
+    fit: object = None
+    note: str = ""
+
+
+def find_cleanings(rf, window: int = 9, sigmas: float = 6.0) -> np.ndarray:
+    """Rows where a cleaning starts a new run: the fouling resistance falls back, suddenly and for good.
+
+    For each row i the median of the ``window`` rows before it is compared with the median of ``window`` rows from
+    it on. Row i starts a new run when that drop (a) exceeds ``sigmas`` standard errors of a difference of two
+    medians (noise from the scatter of successive rows, σ = 1.4826·MAD(ΔRf)/√2; the median of w rows has a standard
+    error of about 1.2533·σ/√w), (b) is at least half of what the run had built up (the median before it minus the
+    lowest smoothed Rf of the run so far), and (c) is the largest drop among the rows near it. The rule is common
+    practice (no single source): fouling resistance does not fall by half its build-up within hours except by a
+    cleaning.
+
+    Parameters
+    ----------
+    rf : array_like
+        Fouling resistance of the rows, in time order [m²K/W] (finite).
+    window : int
+        Rows on each side compared (>= 3).
+    sigmas : float
+        Standard errors a drop must exceed.
+
+    Returns
+    -------
+    numpy.ndarray of int
+        Indices of the first row of each new run (empty when the data hold one run).
+    """
+    rf = np.asarray(rf, dtype=float)
+    w = int(window)
+    if w < 3:
+        raise InputError("window", window, "a number of rows >= 3")
+    if rf.size < 2 * w + 1:
+        return np.zeros(0, dtype=int)
+    s = pd.Series(rf)
+    before = s.rolling(w).median().shift(1).to_numpy()
+    after = s[::-1].rolling(w).median()[::-1].to_numpy()
+    drop = np.nan_to_num(before - after, nan=-np.inf)
+    d1 = np.diff(rf)
+    sigma = 1.4826 * float(np.median(np.abs(d1 - np.median(d1)))) / np.sqrt(2.0)
+    threshold = sigmas * np.sqrt(2.0) * 1.2533 * sigma / np.sqrt(w)
+    smooth = s.rolling(w, center=True, min_periods=1).median().to_numpy()
+    cand = np.flatnonzero(drop > threshold)
+    picks: list[int] = []
+    start = 0
+    i = 0
+    while i < cand.size:
+        j = i
+        while j + 1 < cand.size and cand[j + 1] - cand[j] <= w:
+            j += 1
+        group = cand[i:j + 1]
+        c = int(group[np.argmax(drop[group])])
+        low = smooth[start:max(c - w // 2, start + 1)].min()
+        build = before[c] - low
+        if build > threshold and drop[c] >= 0.5 * build:
+            picks.append(c)
+            start = c
+        i = j + 1
+    return np.asarray(picks, dtype=int)

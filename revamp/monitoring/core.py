@@ -30,18 +30,36 @@ import pandas as pd
 
 from ..errors import InputError
 from ..fouling.models import FoulingFit, film_temperature, fit_best
-from ..units import to_si
+from ..units import require, to_si
 from . import engine as _e
 from .cleaning import CleaningInterval, optimal_cleaning_interval
 from .data import read_plant_data
-from .reconcile import reconcile_heat_balance
-from .steady import steady_state
+from .cleaning import Cycle, find_cleanings
+from .reconcile import BalanceDrift, balance_drift, reconcile_heat_balance
+from .steady import SteadyFilter, steady_filter
 
-__all__ = ["DEFAULT_UNCERTAINTY", "Monitoring", "monitor"]
+__all__ = ["DEFAULT_UNCERTAINTY", "Horizon", "Monitoring", "monitor"]
 
 #: Standard deviations (1σ) of the measurements: flows relative [-], temperatures absolute [K].
 DEFAULT_UNCERTAINTY = _e.DEFAULT_UNCERTAINTY
 _X = _e._X
+
+
+@dataclass(frozen=True)
+class Horizon:
+    """The run time the monitoring projects to, and where it came from.
+
+    Attributes
+    ----------
+    run_time : float
+        Run time since the current run's start [s].
+    source : str
+        ``"run_length"`` (given to :func:`monitor`) or ``"twice the data span"`` (none given: twice the span of the
+        current run's rows).
+    """
+
+    run_time: float
+    source: str
 
 
 @dataclass(frozen=True)
@@ -69,6 +87,16 @@ class Monitoring:
     cleaning : CleaningInterval or None
     run_start : pandas.Timestamp
         Time zero of the run (the last cleaning): ``run_time`` counts from it.
+    dialect : DialectUsed
+        How the plant data file was read (date order and why, UTC, hints).
+    steady_filter : SteadyFilter or None
+        The steady-state filter's settings and the rows each removed (None with ``steady=False``).
+    drift : BalanceDrift
+        The test of the heat-balance closure for a trend over time (a drifting sensor), with the suspect side.
+    cycles : tuple of Cycle
+        The runs between cleanings in the data, each with its own fit; ``trend`` and ``fits`` are the last one's.
+    horizon : Horizon
+        The run time the summary projects to ("Rf at end of run"), and where it came from.
     """
 
     table: pd.DataFrame
@@ -82,6 +110,11 @@ class Monitoring:
     service: object = field(repr=False)
     run_start: object = None
     _duty_curve: tuple = field(repr=False, default=())
+    dialect: object = None
+    steady_filter: SteadyFilter | None = None
+    drift: BalanceDrift | None = None
+    cycles: tuple = ()
+    horizon: Horizon | None = None
 
     def duty_at(self, rf):
         """Duty [W] at the reference conditions with a fouling resistance ``rf`` [m²K/W, outside area]."""
@@ -120,12 +153,109 @@ class Monitoring:
                 from None
 
 
+def _start(value, used, where: str = "run_start") -> pd.Timestamp:
+    """A date as a naive timestamp on the data's clock (UTC when the data were put in UTC)."""
+    try:
+        t = pd.Timestamp(value)
+    except (ValueError, TypeError):
+        t = pd.NaT
+    if pd.isna(t):
+        raise InputError(where, value, "a date and time, e.g. '2031-03-01 06:00'")
+    if t.tzinfo is not None:
+        return t.tz_convert("UTC").tz_localize(None) if used.utc else t.tz_localize(None)
+    if used.utc and used.dialect.timezone:
+        return t.tz_localize(used.dialect.timezone).tz_convert("UTC").tz_localize(None)
+    return t
+
+
+def _more_summary(sfilter, used, drift, cycles, horizon) -> dict:
+    """Summary lines on the projection horizon, the runs, the closure drift, how the file was read and what each
+    steady-state setting removed."""
+    s: dict = {"projection horizon from": "run_length (given)" if horizon.source == "run_length" else
+               "no run length given: twice the data span of the current run"}
+    s["runs in the data"] = "; ".join(f"{c.start:%Y-%m-%d %H:%M} ({c.source}, {c.rows} rows used"
+                                      f"{', ' + c.fit.model + ' fit' if c.fit is not None else ''})" for c in cycles)
+    s["heat-balance drift"] = drift.reason
+    if sfilter is not None:
+        s["steady filter: rows checked"] = sfilter.checked
+        s[f"steady filter: removed, fewer than {sfilter.min_rows} rows in {sfilter.window / 3600:.3g} h"] = \
+            sfilter.removed_min_rows
+        for col, k in sfilter.removed_flow_rsd.items():
+            s[f"steady filter: removed, {col} varies > {sfilter.flow_rsd:.3g} (relative std)"] = k
+        for col, k in sfilter.removed_t_range.items():
+            s[f"steady filter: removed, {col} range > {sfilter.t_range:.3g} K"] = k
+    if used is not None and used.hints:
+        s["plant data file"] = "; ".join(used.hints)
+    return s
+
+
+def _runs(tab, rf, valid, run_start, cleanings, used_dialect, fouling_side, beta, E, models):
+    """Split the rows into runs between cleanings, fit each, and set ``cycle``, ``cycle_time`` and ``run_time``.
+
+    Returns (cycles, trend, fits) with the current (last) run's trend and fits."""
+    ts = tab["timestamp"]
+    n = len(tab)
+    used = tab["used"].to_numpy()
+    first = ts[valid].min() if valid.any() else pd.NaT
+    given: list = []
+    if cleanings is not None:
+        if isinstance(cleanings, (str, pd.Timestamp)) or not hasattr(cleanings, "__iter__"):
+            raise InputError("cleanings", cleanings, "a list of dates (e.g. ['2031-04-10 12:00'])")
+        given = [_start(c, used_dialect, f"cleanings[{i}]") for i, c in enumerate(cleanings)]
+    if run_start is not None:
+        given.append(_start(run_start, used_dialect))
+    starts: list = []
+    if given:
+        starts = [(t, "given") for t in sorted(set(given))]
+    elif cleanings is None and used.sum() >= 4:
+        rows = np.flatnonzero(used & np.isfinite(rf))
+        starts = [(ts.iloc[rows[i]], "detected") for i in find_cleanings(rf[rows])]
+    if pd.notna(first) and (not starts or starts[0][0] > first):
+        starts.insert(0, (first, "data start"))
+    if not starts:
+        tab["cycle"], tab["cycle_time"], tab["run_time"] = -1, np.nan, np.nan
+        return [], None, {}
+    t_starts = np.array([t for t, _ in starts], dtype="datetime64[ns]")
+    have_t = ts.notna().to_numpy()
+    k = np.searchsorted(t_starts, ts.to_numpy().astype("datetime64[ns]"), side="right") - 1
+    k = np.where(have_t, np.maximum(k, 0), -1)
+    tab["cycle"] = k
+    origin = pd.Series(pd.to_datetime(t_starts[np.maximum(k, 0)]))
+    tab["cycle_time"] = np.where(have_t, (ts - origin).dt.total_seconds().to_numpy(), np.nan)
+    tab["run_time"] = (ts - pd.Timestamp(t_starts[-1])).dt.total_seconds().to_numpy()
+    names = tuple(models) if models else ("linear", "asymptotic", "threshold")
+    cycles, trend, fits = [], None, {}
+    for j, (start, source) in enumerate(starts):
+        sel = used & (k == j)
+        rows_j = np.flatnonzero(k == j)
+        end = ts.iloc[rows_j].max() if rows_j.size else start
+        fit, note, fits_j = None, "", {}
+        if sel.sum() >= 4:
+            cond = None
+            if fouling_side == "tube":
+                cond = {"Re": tab["Re_tube"].to_numpy()[sel], "Pr": tab["Pr_tube"].to_numpy()[sel],
+                        "T_film": tab["T_film"].to_numpy()[sel], "shear": tab["shear_tube"].to_numpy()[sel],
+                        "beta": beta, "E": E}
+            try:
+                fit, fits_j = fit_best(tab["cycle_time"].to_numpy()[sel], rf[sel], conditions=cond, models=names)
+            except InputError as exc:
+                note, fits_j = str(exc), {"error": str(exc)}
+        else:
+            note = f"{int(sel.sum())} steady, unflagged rows: too few to fit"
+            if j == len(starts) - 1 and len(starts) > 1:
+                fits_j = {"error": f"the current run (since {start:%Y-%m-%d %H:%M}) has {note}"}
+        cycles.append(Cycle(index=j, start=pd.Timestamp(start), end=end, rows=int(sel.sum()), source=source,
+                            fit=fit, note=note))
+        trend, fits = fit, fits_j
+    return cycles, trend, fits
+
+
 # --------------------------------------------------------------------------------------------------------- monitor
 def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=None, balance_tolerance=0.10,
             mc_draws: int = 200, band=(5.0, 95.0), seed=0, run_start=None, run_length=None, models=None,
             fouling_side: str = "tube", beta: float = -0.66, E=None, cleaning=None, duty_value=None,
             sort: bool = False, flat_rows: int = 6, clean_u: str = "operating", mc_clean: str = "linear",
-            mc_chunk: int = 400_000) -> Monitoring:
+            mc_chunk: int = 400_000, dialect=None, cleanings=None, drift_tolerance: float = 0.02) -> Monitoring:
     """Measured U and fouling of an exchanger from plant data.
 
     Parameters
@@ -142,8 +272,9 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         Measurement standard deviations (1σ): ``flow`` relative [-] (default 0.02), ``temperature`` [K]
         (default 0.5), or per column (``"tube_t_out": 1.0``).
     steady : dict, False or None
-        Arguments of :func:`revamp.monitoring.steady_state` (``window``, ``flow_rsd``, ``t_range``, ``min_rows``);
-        ``False`` keeps every valid row.
+        Settings of the steady-state filter, :func:`revamp.monitoring.steady_filter` (``window``, ``flow_rsd``,
+        ``t_range``, ``min_rows``; numbers in SI or strings with units); ``False`` keeps every valid row. The rows
+        each setting removed are in ``Monitoring.steady_filter``.
     balance_tolerance : float
         Rows whose |balance_error| exceeds this are flagged ``heat balance does not close`` [-].
     mc_draws : int
@@ -153,9 +284,15 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     seed : int
         Seed of the random draws (reproducible bands).
     run_start : str, timestamp or None
-        Start of the run (the last cleaning); default the first valid row.
+        Start of the current run (the last cleaning); it counts as a given cleaning (see ``cleanings``).
     run_length : float, str or None
-        Run length to project to [s or e.g. ``"365 day"``]; default twice the data span.
+        Run length to project to [s or e.g. ``"365 day"``]; default twice the data span of the current run (said in
+        ``Monitoring.horizon`` and the summary). A unit file's ``run_length`` belongs here.
+    cleanings : list of dates, or None
+        Cleanings in the data: each starts a new run, fitted on its own. None (with no ``run_start``) finds them
+        where Rf falls back (:func:`revamp.monitoring.cleaning.find_cleanings`); ``[]`` takes the data as one run.
+    drift_tolerance : float
+        Smallest change of the heat-balance closure over the data span flagged as a sensor drift [-].
     models : sequence of str or None
         Fouling models to try (default all that apply).
     fouling_side : {"tube", "shell"}
@@ -183,6 +320,10 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         with each input nudged; fast), ``"full"`` by rating every draw × row (stacked, in chunks; ~20 µs a case).
     mc_chunk : int
         Largest number of cases per rating call.
+    dialect : CsvDialect, dict or None
+        How the CSV file is written (``delimiter``, ``decimal``, ``timestamp_format``, ``dayfirst``, ``timezone``);
+        see :class:`revamp.monitoring.CsvDialect`. With a ``timezone`` the times (and ``run_start``, when written
+        without an offset) are in UTC.
 
     Returns
     -------
@@ -194,7 +335,9 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     close (|error| > 10%)``, ``no clean U: the rating gave no result at these conditions`` or ``no U: effectiveness
     outside what the arrangement can reach``; valid rows that fail the steady-state rule are counted as
     ``not steady``. Only unflagged steady rows (``used``) enter the trend fit; every row stays in the table.
-    Rows are taken as a time series of one run: pass ``run_start`` (the last cleaning) to count run time from it.
+    The data may span cleanings: each run is fitted on its own (``Monitoring.cycles``) and the trend, rate and
+    projection are the current run's. ``run_time`` counts from the current run's start (negative for earlier runs),
+    ``cycle_time`` from each row's own run start, ``cycle`` numbers the runs from 0.
     """
     from ..rating import arrangement as hx_arrangement
 
@@ -204,7 +347,14 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         raise InputError("clean_u", clean_u, "'operating' or 'clean'")
     if mc_clean not in ("linear", "full"):
         raise InputError("mc_clean", mc_clean, "'linear' or 'full'")
-    pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows)
+    drift_tolerance = float(require(to_si(drift_tolerance, "dimensionless", "drift_tolerance"), "drift_tolerance",
+                                    gt=0))
+    if steady is not False and steady is not None and not isinstance(steady, dict):
+        raise InputError("steady", steady, "a dict of window, flow_rsd, t_range, min_rows, or False")
+    for key in (steady or {}):
+        if key not in ("window", "flow_rsd", "t_range", "min_rows"):
+            raise InputError(f"steady.{key}", key, "one of 'window', 'flow_rsd', 't_range', 'min_rows'")
+    pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows, dialect=dialect)
     tab = pdata.frame.copy()
     n = len(tab)
     valid = tab["valid"].to_numpy().copy()
@@ -310,32 +460,28 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
 
     # steady filter and the rows used
     ok = valid & ~open_balance & np.isfinite(rf)
+    sfilter = None
     if steady is False:
         st = ok.copy()
     else:
-        st = steady_state(tab, valid=valid, **(steady or {}))
+        sfilter = steady_filter(tab, valid=valid, **(steady or {}))
+        st = sfilter.mask
     tab["steady"] = st
     tab["used"] = ok & st
     counts["not steady"] = int((ok & ~st).sum())
     counts["used"] = int(tab["used"].sum())
 
     ts = tab["timestamp"]
-    t0 = pd.Timestamp(run_start) if run_start is not None else (ts[valid].min() if valid.any() else pd.NaT)
-    tab["run_time"] = (ts - t0).dt.total_seconds().to_numpy() if pd.notna(t0) else np.nan
-
+    cycles, trend, fits = _runs(tab, rf, valid, run_start, cleanings, pdata.dialect, fouling_side, beta, E, models)
+    t0 = cycles[-1].start if cycles else pd.NaT
     used = tab["used"].to_numpy()
-    trend, fits = None, {}
-    if used.sum() >= 4:
-        cond = None
-        if fouling_side == "tube":
-            cond = {"Re": tab["Re_tube"].to_numpy()[used], "Pr": tab["Pr_tube"].to_numpy()[used],
-                    "T_film": tab["T_film"].to_numpy()[used], "shear": tab["shear_tube"].to_numpy()[used],
-                    "beta": beta, "E": E}
-        names = tuple(models) if models else ("linear", "asymptotic", "threshold")
-        try:
-            trend, fits = fit_best(tab["run_time"].to_numpy()[used], rf[used], conditions=cond, models=names)
-        except InputError as exc:
-            fits = {"error": str(exc)}
+    current = used & (tab["cycle"].to_numpy() == (len(cycles) - 1))
+
+    # drift of the heat-balance closure (valid rows, open balance included: a drift is what opens it)
+    tsec = (ts - ts[valid].min()).dt.total_seconds().to_numpy() if valid.any() else np.full(n, np.nan)
+    shell_hot = x[:, 1] > x[:, 4]
+    drift = balance_drift(np.where(valid, tsec, np.nan), hb.duty_shell, hb.duty_tube, shell_hot, x[:, 0] * cp_s,
+                          x[:, 3] * cp_t, tolerance=drift_tolerance)
 
     # reference conditions and duty vs Rf there
     reference, duty_curve = {}, ()
@@ -348,7 +494,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         duty_curve = (grid, _e.duty_vs_rf(exchanger, service, reference, grid, fouling_side))
 
     # losses to date (valid rows; each row stands for the time to the next, capped at 3 median steps)
-    tnum = tab["run_time"].to_numpy()
+    tnum = tsec
     lost = tab["duty_lost"].to_numpy()
     have = np.isfinite(lost) & np.isfinite(tnum) & valid & ~open_balance
     energy = 0.0
@@ -359,8 +505,13 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         energy = float(np.sum(ll[:-1] * dt))
 
     # projection and cleaning
-    span = float(np.nanmax(tnum[used]) - np.nanmin(tnum[used])) if used.any() else 0.0
-    t_end = to_si(run_length, "time", "run_length") if run_length is not None else 2.0 * max(span, 1.0)
+    ctime = tab["cycle_time"].to_numpy()
+    span = float(np.nanmax(ctime[current]) - np.nanmin(ctime[current])) if current.any() else 0.0
+    if run_length is not None:
+        horizon = Horizon(float(require(to_si(run_length, "time", "run_length"), "run_length", gt=0)), "run_length")
+    else:
+        horizon = Horizon(2.0 * max(span, 1.0), "twice the data span")
+    t_end = horizon.run_time
     clean_res = None
     if cleaning is not None and trend is not None and duty_curve:
         if duty_value is None:
@@ -376,6 +527,9 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
             downtime_cost_rate=c.pop("downtime_cost_rate", duty_value * q0), **c)
 
     summary = _e.summary(tab, counts, trend, t_end, duty_curve, energy, duty_value, clean_res, warnings)
+    summary = pd.concat([summary, pd.Series(_more_summary(sfilter, pdata.dialect, drift, cycles, horizon),
+                                            dtype=object)])
     return Monitoring(table=tab, summary=summary, trend=trend, fits=fits, counts=counts, reference=reference,
                       cleaning=clean_res, exchanger=exchanger, service=service, run_start=t0,
-                      _duty_curve=duty_curve)
+                      _duty_curve=duty_curve, dialect=pdata.dialect, steady_filter=sfilter, drift=drift,
+                      cycles=tuple(cycles), horizon=horizon)

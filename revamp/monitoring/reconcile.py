@@ -28,7 +28,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["HeatBalance", "reconcile_heat_balance", "reconcile_linear", "side_duties"]
+__all__ = ["BalanceDrift", "HeatBalance", "balance_drift", "reconcile_heat_balance", "reconcile_linear", "side_duties"]
 
 
 def reconcile_linear(x, variance, A, b=None):
@@ -181,3 +181,138 @@ def reconcile_heat_balance(x, sigma, cp_shell, cp_tube, tol: float = 1e-10, max_
     duty = np.abs(side_duties(xh, cps, cpt)[0])
     return HeatBalance(duty_shell=duty_shell, duty_tube=duty_tube, balance_error=err, duty=duty, x=xh,
                        residual=resid, iterations=it)
+
+
+# ------------------------------------------------------------------------------------------------ drift of the closure
+@dataclass(frozen=True)
+class BalanceDrift:
+    """A trend of the heat-balance closure over time: the mark of a drifting sensor.
+
+    Attributes
+    ----------
+    detected : bool
+        The closure moved by at least ``tolerance`` over the data span, and the trend stands out of the scatter
+        (|t| >= 4 for the slope of a straight line through the closure).
+    change : float
+        Fitted change of the closure (Q_hot − Q_cold)/mean over the span [-]; negative: the cold side reads more
+        duty as time goes on.
+    t_stat : float
+        The slope over its standard error (rows taken as independent, so it overstates the evidence for serially
+        correlated data; the ``tolerance`` on the size is what guards against that).
+    tolerance : float
+        Smallest change flagged [-].
+    span : float
+        Time covered by the rows tested [s].
+    rows : int
+        Rows tested.
+    side : str or None
+        ``"shell"`` or ``"tube"``: the side whose temperatures are suspect, when the closure follows that side's
+        m·cp·t pattern clearly better than the other's (the two sides' flows must vary differently for the data to
+        tell); None otherwise.
+    kelvin : float or None
+        Change over the span of that side's measured temperature difference |T_in − T_out| that the trend implies
+        [K]; positive: the side reads more duty as time goes on.
+    evidence : float
+        n·ln(RSS_other / RSS_best) of the two one-side drift fits (an AIC difference; >= 10 names the side).
+    reason : str
+        One sentence for the report.
+    """
+
+    detected: bool
+    change: float
+    t_stat: float
+    tolerance: float
+    span: float
+    rows: int
+    side: str | None = None
+    kelvin: float | None = None
+    evidence: float = 0.0
+    reason: str = ""
+
+
+def _line(x, y):
+    """Least-squares y = a + b·x: (b, standard error of b, residual sum of squares)."""
+    xc = x - x.mean()
+    sxx = float(np.sum(xc * xc))
+    if sxx <= 0:
+        return 0.0, np.inf, float(np.sum((y - y.mean()) ** 2))
+    b = float(np.sum(xc * (y - y.mean())) / sxx)
+    rss = float(np.sum((y - y.mean() - b * xc) ** 2))
+    se = np.sqrt(rss / max(x.size - 2, 1) / sxx)
+    return b, se, rss
+
+
+def balance_drift(t, duty_shell, duty_tube, shell_hot, c_shell, c_tube, tolerance: float = 0.02,
+                  evidence: float = 10.0) -> BalanceDrift:
+    """Test the heat-balance closure for a trend over time, and name the suspect side when the data allow.
+
+    Fouling lowers the duty of both sides alike, so the closure of a sound set of instruments scatters about a
+    constant; a drifting sensor makes it trend. A temperature on one side drifting by δ(t) changes that side's duty
+    by C·δ(t) (C = m·cp of the side), so a linear drift δ = k·t adds ±C·k·t to Q_hot − Q_cold. Each side's pattern
+    is fitted in turn; the side whose pattern fits clearly better (by ``evidence`` in n·ln(RSS ratio), an AIC
+    difference; Burnham & Anderson 2002 read > 10 as no support for the other) is named. With flows that move
+    together (or not at all) the two patterns are alike and no side is named. The rule is common practice in
+    plant-data work, with no single source; a flow-meter drift (a pattern Q·t) is not told apart from a temperature
+    drift on the same side.
+
+    Parameters
+    ----------
+    t : array_like
+        Time of each row [s].
+    duty_shell, duty_tube : array_like
+        Measured duty of each side, magnitudes [W].
+    shell_hot : array_like of bool
+        True where the shell side is the hot side.
+    c_shell, c_tube : array_like
+        m·cp of each side [W/K].
+    tolerance : float
+        Smallest change of the closure over the span that is flagged [-].
+    evidence : float
+        AIC difference needed to name a side.
+
+    Returns
+    -------
+    BalanceDrift
+
+    References
+    ----------
+    Burnham, K. P., Anderson, D. R. (2002). Model Selection and Multimodel Inference, 2nd ed. Springer.
+    """
+    t, qs, qt, c_s, c_t = (np.asarray(a, dtype=float) for a in (t, duty_shell, duty_tube, c_shell, c_tube))
+    hot_s = np.asarray(shell_hot, dtype=bool)
+    hot, cold = np.where(hot_s, qs, qt), np.where(hot_s, qt, qs)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        err = (hot - cold) / (0.5 * (hot + cold))
+    ok = np.isfinite(t) & np.isfinite(err) & np.isfinite(c_s) & np.isfinite(c_t)
+    n = int(ok.sum())
+    span = float(np.ptp(t[ok])) if n else 0.0
+    if n < 10 or span <= 0:
+        return BalanceDrift(False, 0.0, 0.0, tolerance, span, n, reason=f"not tested ({n} rows)")
+    t, err, hot, cold, c_s, c_t, hot_s = (a[ok] for a in (t, err, hot, cold, c_s, c_t, hot_s))
+    b, se, _ = _line(t, err)
+    change, t_stat = b * span, (b / se if se > 0 else np.inf)
+    days = span / 86400.0
+    detected = abs(change) >= tolerance and abs(t_stat) >= 4.0
+    head = f"heat-balance closure moved by {change:+.1%} over {days:.0f} days"
+    if not detected:
+        return BalanceDrift(False, change, t_stat, tolerance, span, n,
+                            reason=f"{head} (flagged from {tolerance:.0%}): no drift flagged")
+    r = hot - cold
+    tt = t - t.min()
+    fits = {}
+    for side, c, sign in (("shell", c_s, np.where(hot_s, 1.0, -1.0)), ("tube", c_t, np.where(hot_s, -1.0, 1.0))):
+        k, _, rss = _line(sign * c * tt, r)  # Q_hot − Q_cold = a + sign·C·k·t
+        fits[side] = (k * span, max(rss, 1e-300))
+    best = min(fits, key=lambda k: fits[k][1])
+    other = "tube" if best == "shell" else "shell"
+    ev = float(n * np.log(fits[other][1] / fits[best][1]))
+    if ev >= evidence:
+        kelvin = float(fits[best][0])
+        return BalanceDrift(True, change, t_stat, tolerance, span, n, best, kelvin, ev,
+                            f"{head}: a sensor drift is likely; the {best}-side temperatures are suspect (the "
+                            f"closure follows that side's m·cp; its temperature difference drifted by "
+                            f"{kelvin:+.2g} K). Fouling figures from these rows are biased")
+    return BalanceDrift(True, change, t_stat, tolerance, span, n, None, None, ev,
+                        f"{head}: a sensor drift is likely, but the data cannot tell which side (the two flows do "
+                        f"not vary differently enough); check both sides' thermocouples and flow meters. Fouling "
+                        f"figures from these rows are biased")

@@ -80,8 +80,8 @@ CSV_HEAD_BYTES = 1 << 20
 _TZ_RE = re.compile(r"(Z|[+-]\d\d:?\d\d)$")
 
 
-def _csv_head(full: Path):
-    """The header and the first data rows of a CSV, reading at most :data:`CSV_HEAD_BYTES` (a UTF-8 byte-order mark,
+def _csv_head(full: Path, delimiter: str = ","):
+    """The header, the first data rows and the first six lines of a CSV, reading at most :data:`CSV_HEAD_BYTES` (a UTF-8 byte-order mark,
     as spreadsheet programs write, is dropped, as pandas does). Raises ValueError with the reason."""
     import io
 
@@ -92,27 +92,63 @@ def _csv_head(full: Path):
     lines = text.splitlines()
     if len(head) == CSV_HEAD_BYTES and lines:
         lines = lines[:-1]  # a partly read last line
-    rows = list(csv.reader(io.StringIO("\n".join(lines[:1000]))))
+    rows = list(csv.reader(io.StringIO("\n".join(lines[:1000])), delimiter=delimiter))
     if not rows:
         raise ValueError(f"must have a header row within its first {CSV_HEAD_BYTES // 1024} KiB")
-    return [h.strip() for h in rows[0]], rows[1:]
+    return [h.strip() for h in rows[0]], rows[1:], lines[:6]
+
+
+DIALECT_KEYS = ("delimiter", "decimal", "timestamp_format", "dayfirst", "timezone")
+
+
+def _is_date(text) -> bool:
+    from datetime import datetime
+
+    try:
+        datetime.fromisoformat(str(text).strip())
+    except ValueError:
+        try:
+            import pandas
+
+            return pandas.notna(pandas.Timestamp(str(text)))
+        except (ValueError, TypeError):
+            return False
+    return True
 
 
 def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
     full, reason = _safe_file(pd["file"], base)
     if reason:
         return [Problem(_path(parts + ["file"]), pd["file"], reason)]
+    from ..monitoring.data import CsvDialect, dialect_problem  # pandas: imported only when a file has plant data
+
     out = []
+    dialect = {k: pd[k] for k in DIALECT_KEYS if k in pd}
     try:
-        header, rows = _csv_head(full)
+        CsvDialect.make(dialect)
+    except InputError as exc:
+        out.append(Problem(_path(parts + [exc.field]), _show(exc.value), f"must be {exc.allowed}"))
+        dialect = {}
+    for i, when in enumerate(pd.get("cleanings") or []):
+        if not _is_date(when):
+            out.append(Problem(_path(parts + ["cleanings", i]), _show(when), "must be a date, e.g. '2031-04-10 12:00'"))
+    try:
+        header, rows, lines = _csv_head(full, dialect.get("delimiter", ","))
     except (OSError, UnicodeDecodeError, csv.Error) as exc:
-        return [Problem(_path(parts + ["file"]), pd["file"], f"must be a readable UTF-8 CSV file ({exc.__class__.__name__}: "
-                                                             f"{str(exc)[:80]})")]
+        return out + [Problem(_path(parts + ["file"]), pd["file"], f"must be a readable UTF-8 CSV file "
+                                                                   f"({exc.__class__.__name__}: {str(exc)[:80]})")]
     except ValueError as exc:
-        return [Problem(_path(parts + ["file"]), pd["file"], str(exc))]
+        return out + [Problem(_path(parts + ["file"]), pd["file"], str(exc))]
     if not any(any(cell.strip() for cell in row) for row in rows):
         out.append(Problem(_path(parts + ["file"]), pd["file"], "must hold at least one data row below its header"))
     cols = pd.get("columns") if isinstance(pd.get("columns"), dict) else {}
+    names = [s if isinstance(s, str) else s.get("column") for s in (cols.get(std, std) for std in STANDARD_COLUMNS)]
+    names = [n for n in names if isinstance(n, str)]
+    if any(n not in header for n in names):
+        problem = dialect_problem(lines, names, dialect)
+        if problem is not None:  # one problem naming the separator, not one per column
+            return out + [Problem(_path(parts + ["delimiter"]), _show(pd.get("delimiter", ",")),
+                                  f"must be {problem.allowed}")]
     for std, kind in STANDARD_COLUMNS.items():
         spec = cols.get(std, std)
         name, unit = (spec, None) if isinstance(spec, str) else (spec.get("column"), spec.get("unit"))
@@ -394,7 +430,10 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
             cols[std] = (spec, None) if isinstance(spec, str) else (spec["column"], spec.get("unit"))
         plant = PlantData(file=full, columns=cols, uncertainty=dict(pd.get("uncertainty") or {}),
                           fouling_side=pd.get("fouling_side"), run_length=pd.get("run_length"),
-                          cleaning_downtime=pd.get("cleaning_downtime"))
+                          cleaning_downtime=pd.get("cleaning_downtime"),
+                          dialect={k: pd[k] for k in DIALECT_KEYS if k in pd}, steady=pd.get("steady"),
+                          cleanings=tuple(pd["cleanings"]) if "cleanings" in pd else None,
+                          drift_tolerance=pd.get("drift_tolerance"))
     economics = _guard(problems, f"{pre}.options", _economics, econ, capex, rv.get("capacity_flow"),
                        si.get("value_basis"))
     if len(problems) > start:

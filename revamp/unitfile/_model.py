@@ -75,6 +75,21 @@ class PlantData:
     fouling_side: str | None = None        #: "shell" or "tube" as the file says; None: not given (inferred)
     run_length: float | None = None        #: [s] this exchanger's own, overriding the unit's economics
     cleaning_downtime: float | None = None  #: [s] this exchanger's own, overriding the unit's economics
+    dialect: dict = field(default_factory=dict)  #: CSV dialect settings given (delimiter, decimal, timestamp_format, ...)
+    steady: dict | bool | None = None      #: steady-state filter settings in SI, False for none, None: defaults
+    cleanings: tuple | None = None         #: cleaning dates as written; None: found in the data
+    drift_tolerance: float | None = None   #: [-] smallest closure change flagged as a drift; None: default
+
+    def monitor_options(self) -> dict:
+        """Keyword arguments of :func:`revamp.monitor` that this section gives (the run length is the case's)."""
+        out = {"columns": self.columns, "uncertainty": self.uncertainty or None, "dialect": dict(self.dialect)}
+        if self.steady is not None:
+            out["steady"] = False if self.steady is False else ({} if self.steady is True else dict(self.steady))
+        if self.cleanings is not None:
+            out["cleanings"] = list(self.cleanings)
+        if self.drift_tolerance is not None:
+            out["drift_tolerance"] = self.drift_tolerance
+        return out
 
 
 @dataclass(frozen=True)
