@@ -129,10 +129,12 @@ def clean_linearized(exchanger, service, x0, u0, xd, rf0, side, chunk=None):
 
 _GRAD_COLS = (0, 1, 3, 4)
 
-#: Most Monte Carlo cases (draws × rows) held in memory at once by :func:`mc_band`. A case costs about 0.6 kB at
+#: Most Monte Carlo cases (draws × rows) held in memory at once by :func:`mc_band`. A case costs about 0.3 kB at
 #: the peak of a block (the drawn and reconciled measurements, the reconciliation's work arrays, U and Rf of the
-#: draws, the sort for the percentiles), so a block stays near 150 MB whatever the number of rows.
-MC_BLOCK_CASES = 250_000
+#: draws, the sort for the percentiles), so a block stays near 10 MB whatever the number of rows; blocks this small
+#: also run faster than one large array (they stay in cache, and a block's reconciliation stops when its own rows
+#: have closed).
+MC_BLOCK_CASES = 25_000
 
 
 @dataclass(frozen=True)
