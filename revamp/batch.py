@@ -4,16 +4,29 @@
 processes, with a progress bar), converts each executed notebook to HTML without its code cells, and writes
 ``DIR/<safe tag>.html``, ``DIR/index.html`` and ``DIR/plotly.min.js`` (the reports open offline). One exchanger's
 failure (an invalid entry in the file, or an error while running its study) is recorded in the index with its reason
-and never stops the others. Every file is written atomically.
+and never stops the others; a report left from an earlier run of a failed exchanger is removed, so that no older
+report stands beside an index that says the exchanger failed.
+
+Workers write into a temporary ``DIR/.run-*`` folder; each finished report is moved into ``DIR`` atomically and the
+index rewritten, so the folder is consistent at every moment: the index names the reports of this run, and says so
+while the run is still going. An interrupt (Ctrl-C, or SIGTERM as ``timeout`` and job schedulers send) stops the
+workers and their kernels, removes the temporaries and leaves either the folder as it was (nothing finished yet) or an
+index that states the run was interrupted and which reports are from it; :class:`BatchInterrupted` is then raised.
+Workers also die with the batch's main process when it is killed outright (they watch their parent).
 """
 from __future__ import annotations
 
+import datetime as _dt
 import json
+import operator
 import os
 import shutil
+import signal
 import tempfile
+import threading
 import time
 from concurrent.futures import ProcessPoolExecutor, as_completed
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from multiprocessing import get_context
 from pathlib import Path
@@ -21,7 +34,8 @@ from pathlib import Path
 from . import report
 from .errors import InputError
 
-__all__ = ["SUMMARY_FIELDS", "BatchResult", "notebook_path", "render_notebook", "run_batch"]
+__all__ = ["SUMMARY_FIELDS", "BatchInterrupted", "BatchResult", "available_cores", "notebook_path",
+           "render_notebook", "run_batch"]
 
 
 def notebook_path(name: str = "exchanger_study.ipynb") -> Path:
@@ -34,13 +48,33 @@ def notebook_path(name: str = "exchanger_study.ipynb") -> Path:
 
 @dataclass
 class BatchResult:
-    """What a batch wrote: the index, each report by tag, the failures by tag with their reason, the timings [s]."""
+    """What a batch wrote: the index, each report by tag, the failures by tag with their reason, the timings [s],
+    and notes on how it ran (e.g. ``--jobs`` capped to the cores available)."""
 
     index_path: Path
     reports: dict = field(default_factory=dict)
     failures: dict = field(default_factory=dict)
     seconds: float = 0.0
     per_exchanger: dict = field(default_factory=dict)
+    notes: list = field(default_factory=list)
+
+
+class BatchInterrupted(KeyboardInterrupt):
+    """A batch stopped by SIGINT (Ctrl-C) or SIGTERM, after its workers and kernels were stopped and its temporaries
+    removed. ``signum`` is the signal, ``index_path`` the index stating the interruption (None when nothing of the run
+    was written: the output folder is then as it was), ``done``/``total`` the exchangers finished and planned."""
+
+    def __init__(self, signum: int, index_path=None, done: int = 0, total: int = 0):
+        self.signum, self.index_path, self.done, self.total = signum, index_path, done, total
+        super().__init__(self.message)
+
+    @property
+    def message(self) -> str:
+        name = signal.Signals(self.signum).name if self.signum in set(signal.Signals) else str(self.signum)
+        if self.index_path is None:
+            return f"batch interrupted ({name}) before any report was finished; the output folder is as it was"
+        return (f"batch interrupted ({name}): {self.done} of {self.total} exchanger(s) done in this run; "
+                f"the index says which: {self.index_path}")
 
 
 def _drop_noise(nb):
@@ -70,7 +104,12 @@ def _one_line(text: str, limit: int = 300) -> str:
 
 
 def _run_one(job: dict) -> dict:
-    """Run the study notebook for one exchanger; write its report. Runs in a worker process."""
+    """Run the study notebook for one exchanger; write its report into the run's temporary folder (the main process
+    moves it into place). Runs in a worker process. A ``kind: train`` job writes the unit's train page instead."""
+    if job.get("kind") == "train":
+        from .batch_train import run_train_page
+
+        return {**run_train_page(job), "kind": "train", "tag": job["tag"]}
     import nbformat
     import papermill as pm
 
@@ -79,8 +118,8 @@ def _run_one(job: dict) -> dict:
         devnull = os.open(os.devnull, os.O_WRONLY)
         os.dup2(devnull, 2)
         os.close(devnull)
-    tag, out = job["tag"], Path(job["out"])
-    work = Path(tempfile.mkdtemp(prefix=".run-", dir=out))
+    tag, stage = job["tag"], Path(job["stage"])
+    work = Path(tempfile.mkdtemp(prefix="job-", dir=stage))
     summary_path, executed = work / "summary.json", work / "executed.ipynb"
     status, reason = "ok", ""
     try:
@@ -98,7 +137,7 @@ def _run_one(job: dict) -> dict:
             summary = json.loads(summary_path.read_text(encoding="utf-8"))
         except ValueError:
             summary = {}
-    report_file = None
+    staged = None
     try:
         if executed.is_file():
             nb = nbformat.read(executed, as_version=4)
@@ -110,14 +149,151 @@ def _run_one(job: dict) -> dict:
             if status == "failed":
                 body = (f'<p class="rv-status-failed">This study stopped with an error: {report.esc(reason)}</p>'
                         + body)
-            report.write_atomic(out / job["file"], report.page(title, body, prov))
-            report_file = job["file"]
+            staged = str(report.write_atomic(stage / job["file"], report.page(title, body, prov)))
     except Exception as exc:
         status, reason = "failed", reason or _one_line(f"report not written: {exc.__class__.__name__}: {exc}")
     finally:
         shutil.rmtree(work, ignore_errors=True)
-    return {"tag": tag, "status": status, "reason": reason, "summary": summary, "file": report_file,
+    return {"tag": tag, "status": status, "reason": reason, "summary": summary, "staged": staged,
             "seconds": time.perf_counter() - start}
+
+
+# ----------------------------------------------------------------------------------- workers and their lifetime
+def available_cores() -> int:
+    """Cores this process may run on (its CPU affinity where the system tells it, else the CPU count)."""
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except (AttributeError, OSError):
+        return max(1, os.cpu_count() or 1)
+
+
+def _stop_processes(procs, grace: float = 3.0) -> None:
+    """SIGTERM the processes, then SIGKILL whatever is still there after ``grace`` seconds."""
+    import psutil
+
+    procs = [p for p in procs if p is not None]
+    for p in procs:
+        try:
+            p.terminate()
+        except psutil.Error:
+            pass
+    _, alive = psutil.wait_procs(procs, timeout=grace)
+    for p in alive:
+        try:
+            p.kill()
+        except psutil.Error:
+            pass
+    psutil.wait_procs(alive, timeout=grace)
+
+
+def _process_tree(pids) -> list:
+    """The processes ``pids`` and all their descendants (kernels started by a worker), as psutil handles."""
+    import psutil
+
+    out = []
+    for pid in pids:
+        try:
+            proc = psutil.Process(pid)
+            out += proc.children(recursive=True) + [proc]
+        except psutil.Error:
+            pass
+    return out
+
+
+def _worker_exit(signum=None, frame=None) -> None:
+    """End this worker and the kernel it started (a kernel runs in its own session: it must be stopped by name)."""
+    try:
+        _stop_processes(_process_tree([os.getpid()])[:-1], grace=1.0)
+    finally:
+        os._exit(1)
+
+
+def _watch_parent(parent_pid: int, period: float = 0.5) -> None:
+    while True:
+        time.sleep(period)
+        if os.getppid() != parent_pid:  # the batch's main process is gone (killed outright): do not go on alone
+            _worker_exit()
+
+
+def _worker_init(parent_pid: int) -> None:
+    """Set up a worker: interrupts are the main process's business (it stops the workers in order), SIGTERM ends the
+    worker with its kernel, and a watcher thread ends both when the main process disappears."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    signal.signal(signal.SIGTERM, _worker_exit)
+    threading.Thread(target=_watch_parent, args=(parent_pid,), name="watch-parent", daemon=True).start()
+
+
+class _Stopped(KeyboardInterrupt):
+    def __init__(self, signum: int):
+        self.signum = signum
+        super().__init__(signum)
+
+
+@contextmanager
+def _sigterm_interrupts():
+    """Inside the block SIGTERM interrupts like Ctrl-C (main thread only; the previous handler is restored)."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+
+    def handler(signum, frame):
+        raise _Stopped(signum)
+
+    old = signal.signal(signal.SIGTERM, handler)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, old)
+
+
+@contextmanager
+def _no_interrupts(deliver: bool = True):
+    """Hold SIGINT and SIGTERM off for a short step that must not be cut in half (main thread only).
+
+    With ``deliver`` a signal that came meanwhile interrupts right after the step; without, it is dropped (the
+    clean-up after an interrupt).
+    """
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    pending = []
+    old = {sig: signal.signal(sig, lambda signum, frame: pending.append(signum))
+           for sig in (signal.SIGINT, signal.SIGTERM)}
+    try:
+        yield
+    finally:
+        for sig, handler in old.items():
+            signal.signal(sig, handler)
+    if pending and deliver:
+        raise _Stopped(pending[0])
+
+
+def _execute(jobs_list: list, workers: int, on_result) -> None:
+    """Run each job in worker processes; call ``on_result(result)`` in this process as each one ends.
+
+    An interrupt (KeyboardInterrupt, or SIGTERM inside :func:`_sigterm_interrupts`) stops every worker and its
+    kernel before it propagates. Always in worker processes: a worker silences its own stderr, never ours.
+    """
+    pool = ProcessPoolExecutor(max_workers=workers, mp_context=get_context("spawn"), initializer=_worker_init,
+                               initargs=(os.getpid(),))
+    try:
+        futures = {pool.submit(_run_one, job): job for job in jobs_list}
+        for fut in as_completed(futures):
+            job = futures[fut]
+            try:
+                res = fut.result()
+            except Exception as exc:  # a worker that died: that exchanger fails, the others go on
+                res = {"tag": job["tag"], "kind": job.get("kind"), "status": "failed", "staged": None, "summary": {},
+                       "seconds": 0.0, "file": None,
+                       "reason": _one_line(f"{exc.__class__.__name__}: {exc}")}
+            on_result(res)
+    except BaseException:
+        with _no_interrupts(deliver=False):
+            procs = getattr(pool, "_processes", None) or {}
+            _stop_processes(_process_tree(list(procs)))
+            pool.shutdown(wait=False, cancel_futures=True)
+        raise
+    pool.shutdown(wait=True)
 
 
 #: columns of the index table: (summary key, header, formatter)
@@ -131,7 +307,7 @@ SUMMARY_FIELDS = [
 ]
 
 
-def _index_html(unit, rows: list[dict], prov: dict, train: dict | None = None) -> str:
+def _index_html(unit, rows: list[dict], prov: dict, progress: str = "", train: dict | None = None) -> str:
     header = ["exchanger", "description", "status"] + [h for _, h, _ in SUMMARY_FIELDS] + ["reason"]
     lines = ['<section id="summary"><h2>Exchangers</h2><table class="rv-table"><thead><tr>'
              + "".join(f"<th>{report.esc(h)}</th>" for h in header) + "</tr></thead><tbody>"]
@@ -154,13 +330,16 @@ def _index_html(unit, rows: list[dict], prov: dict, train: dict | None = None) -
                                       for i, c in enumerate(cells)) + "</tr>")
     lines.append("</tbody></table></section>")
     chart = _index_chart(rows)
-    failed = sum(r["status"] != "ok" for r in rows)
-    intro = (f"<p>{len(rows)} exchanger(s), {len(rows) - failed} report(s) written, {failed} failed. "
-             f"{report.esc(unit.description) if unit else ''}</p>")
+    failed = sum(r["status"] == "failed" for r in rows)
+    waiting = sum(r["status"] == NOT_RUN for r in rows)
+    intro = (f"<p>{len(rows)} exchanger(s), {len(rows) - failed - waiting} report(s) written, {failed} failed"
+             + (f", {waiting} not run" if waiting else "") + ". "
+             + f"{report.esc(unit.description) if unit else ''}</p>")
+    state = f'<p class="rv-status-failed" id="run-state">{report.esc(progress)}</p>' if progress else ""
     from .batch_train import index_section
 
     return report.page(f"{unit.name if unit else 'Unit'} — revamp study",
-                       intro + index_section(train) + "".join(lines) + chart, prov)
+                       state + intro + index_section(train) + "".join(lines) + chart, prov)
 
 
 def _index_chart(rows) -> str:
@@ -182,6 +361,103 @@ def _index_chart(rows) -> str:
     return '<section id="chart"><h2>Duties</h2>' + report.figure_html(fig, "unit-duties") + "</section>"
 
 
+#: status of an exchanger whose study this run has not (yet) finished
+NOT_RUN = "not run"
+
+
+class _Run:
+    """One batch run's output folder: its temporary folder, the index rows, and the moves that keep them consistent.
+
+    Every change of the folder goes through :meth:`settle` (a report moved in atomically, or an older report of a
+    failed exchanger removed) followed by an index rewrite, so a reader (or a kill) never finds an index that
+    disagrees with the reports beside it.
+    """
+
+    def __init__(self, out: Path, unit, rows: list, params: dict, unit_file: Path):
+        self.out, self.unit, self.rows, self.params, self.unit_file = out, unit, rows, params, unit_file
+        self.by_tag = {r["tag"]: r for r in rows}
+        self.started = _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M:%S UTC")
+        self.stage = Path(tempfile.mkdtemp(prefix=".run-", dir=out))
+        self.index_written = False
+        self.train = None
+
+    def settle(self, res: dict) -> None:
+        """Take one finished exchanger into the folder: move its report in, or remove an older one if it failed."""
+        if res.get("kind") == "train":  # the train page: written by its job, linked from the index
+            self.train = res
+            return
+        row = self.by_tag[res["tag"]]
+        row.update({k: res[k] for k in ("status", "reason", "summary")})
+        target = self.out / row["fname"]
+        if res.get("staged"):
+            os.replace(res["staged"], target)
+            row["file"] = row["fname"]
+        else:
+            self._drop_stale(row)
+
+    def _drop_stale(self, row) -> None:
+        if row["status"] == "failed" and not row.get("file"):
+            (self.out / row["fname"]).unlink(missing_ok=True)  # an older report must not stand beside "failed"
+
+    def write_index(self, progress: str = "") -> Path:
+        if not self.index_written:  # failures known from the file: their older reports go with the first index
+            for row in self.rows:
+                self._drop_stale(row)
+        prov = report.provenance(self.unit_file, None, parameters=self.params)
+        path = report.write_atomic(self.out / "index.html", _index_html(self.unit, self.rows, prov, progress, self.train))
+        self.index_written = True
+        return path
+
+    def counts(self) -> tuple:
+        done = sum(r["status"] != NOT_RUN for r in self.rows)
+        return done, len(self.rows)
+
+    def running_text(self) -> str:
+        done, total = self.counts()
+        return (f"Batch run started {self.started}: {done} of {total} exchanger(s) done so far. If no batch is "
+                f"running any more, this run stopped before it finished: only the exchangers with a status other "
+                f"than '{NOT_RUN}' are from it, and a report of a '{NOT_RUN}' exchanger in this folder is from an "
+                f"earlier run.")
+
+    def interrupted_text(self, signum: int) -> str:
+        done, total = self.counts()
+        name = signal.Signals(signum).name if signum in set(signal.Signals) else str(signum)
+        when = _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M:%S UTC")
+        return (f"This batch run (started {self.started}) was interrupted ({name}) at {when}: {done} of {total} "
+                f"exchanger(s) were done and are listed with their status and report; the exchangers marked "
+                f"'{NOT_RUN}' were not studied in this run, and a report of theirs in this folder, if any, is from "
+                f"an earlier run.")
+
+    def cleanup(self) -> None:
+        shutil.rmtree(self.stage, ignore_errors=True)
+
+
+def _plan(unit, problems, entries, out: Path, nb_path: Path, unit_file: Path, timeout, units):
+    """The index rows (one per exchanger, failed already when the file has problems with it) and the worker jobs."""
+    taken, rows, jobs_list = [], [], []
+    for tag, i in entries:
+        fname = report.safe_name(tag, taken) + ".html"
+        taken.append(fname[:-5])
+        own = [p for p in problems if p.path.startswith(f"exchangers[{i}]")]
+        desc = ""
+        raw = (unit.raw.get("exchangers") or [])[i]
+        if isinstance(raw, dict) and isinstance(raw.get("description"), str):
+            desc = raw["description"]
+        row = {"tag": tag, "description": desc, "file": None, "fname": fname, "status": NOT_RUN, "reason": "",
+               "summary": {}}
+        rows.append(row)
+        if own:
+            row.update(status="failed", reason=_one_line("; ".join(str(p) for p in own[:3])
+                                                         + (f" (+{len(own) - 3} more)" if len(own) > 3 else "")))
+            continue
+        case = unit.exchanger(tag)
+        extra = [case.plant_data.file] if case.plant_data else []
+        jobs_list.append({"tag": tag, "notebook": str(nb_path), "unit_file": str(unit_file),
+                          "file": fname, "description": desc, "timeout": timeout, "units": units,
+                          "extra_files": [str(e) for e in extra], "inputs": raw})
+    return rows, jobs_list
+
+
 def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = True, notebook=None,
               timeout: float = 900, units: str = "SI") -> BatchResult:
     """Write one report per exchanger of ``unit_file`` into ``out_dir`` and an index.
@@ -194,15 +470,30 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     out_dir : path
         Output folder, created if needed.
     jobs : int
-        Notebooks run at the same time (worker processes).
+        Notebooks run at the same time (worker processes); capped to the cores available (:func:`available_cores`),
+        with a note in :attr:`BatchResult.notes`.
     only : list of str, optional
         Tags to run (others are left out of the index).
+
+    Raises
+    ------
+    BatchInterrupted
+        On Ctrl-C or SIGTERM, once the workers and their kernels are stopped and the temporaries removed.
     """
     from .unitfile import UnitFileError, load_partial
 
-    start = time.perf_counter()
-    if int(jobs) < 1:
-        raise InputError("jobs", jobs, "an integer >= 1")
+    start, given_jobs = time.perf_counter(), jobs
+    try:
+        jobs = operator.index(jobs) if not isinstance(jobs, bool) else None
+    except TypeError:
+        jobs = None
+    if jobs is None or jobs < 1:
+        raise InputError("jobs", given_jobs, "an integer >= 1")
+    notes, cores = [], available_cores()
+    if jobs > cores:
+        notes.append(f"--jobs {jobs} capped to {cores}: the cores available to this process (each worker runs a "
+                     f"notebook kernel of its own; more workers than cores only add memory)")
+        jobs = cores
     unit_file = Path(unit_file).resolve()
     unit, problems, entries = load_partial(unit_file)
     if unit is None:
@@ -217,62 +508,46 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     out.mkdir(parents=True, exist_ok=True)
     report.copy_plotly_js(out)
     nb_path = Path(notebook) if notebook else notebook_path()
-    taken, rows, jobs_list = [], [], []
-    for tag, i in entries:
-        fname = report.safe_name(tag, taken) + ".html"
-        taken.append(fname[:-5])
-        own = [p for p in problems if p.path.startswith(f"exchangers[{i}]")]
-        desc = ""
-        raw = (unit.raw.get("exchangers") or [])[i]
-        if isinstance(raw, dict) and isinstance(raw.get("description"), str):
-            desc = raw["description"]
-        row = {"tag": tag, "description": desc, "file": None, "status": "ok", "reason": "", "summary": {}}
-        rows.append(row)
-        if own:
-            row.update(status="failed", reason=_one_line("; ".join(str(p) for p in own[:3])
-                                                         + (f" (+{len(own) - 3} more)" if len(own) > 3 else "")))
-            continue
-        case = unit.exchanger(tag)
-        extra = [case.plant_data.file] if case.plant_data else []
-        jobs_list.append({"tag": tag, "out": str(out), "notebook": str(nb_path), "unit_file": str(unit_file),
-                          "file": fname, "description": desc, "timeout": timeout, "units": units,
-                          "extra_files": [str(e) for e in extra], "inputs": raw})
-    by_tag = {r["tag"]: r for r in rows}
+    rows, jobs_list = _plan(unit, problems, entries, out, nb_path, unit_file, timeout, units)
+    if getattr(unit, "network", None) is not None and not only:  # the train page, beside the exchanger studies
+        jobs_list.insert(0, {"kind": "train", "tag": "(train)", "unit_file": str(unit_file), "out": str(out)})
+    params = {"jobs": jobs, "only": " ".join(only or []) or "all", "units": units}
+    run = _Run(out, unit, rows, params, unit_file)
     from tqdm.auto import tqdm
 
     bar = tqdm(total=len(jobs_list), desc="reports", unit="exchanger", disable=not progress)
-    results, train = [], None
-    if jobs_list:  # always in worker processes: a worker silences its own stderr, never ours
-        with ProcessPoolExecutor(max_workers=min(int(jobs), len(jobs_list)), mp_context=get_context("spawn")) as pool:
-            from .batch_train import run_train_page
-
-            # a unit with a network gets its train page, computed in a worker beside the exchanger studies
-            train_fut = (pool.submit(run_train_page, {"unit_file": str(unit_file), "out": str(out)})
-                         if getattr(unit, "network", None) is not None and not only else None)
-            futures = {pool.submit(_run_one, job): job for job in jobs_list}
-            for fut in as_completed(futures):
-                job = futures[fut]
-                try:
-                    results.append(fut.result())
-                except Exception as exc:  # a worker that died: that exchanger fails, the others go on
-                    results.append({"tag": job["tag"], "status": "failed", "file": None, "summary": {},
-                                    "reason": _one_line(f"{exc.__class__.__name__}: {exc}"), "seconds": 0.0})
-                bar.update(1)
-            if train_fut is not None:
-                try:
-                    train = train_fut.result()
-                except Exception as exc:  # a worker that died: the index says so, the reports stand
-                    train = {"status": "failed", "reason": _one_line(f"{exc.__class__.__name__}: {exc}"),
-                             "file": None, "summary": {}}
-    bar.close()
     per = {}
-    for res in results:
-        by_tag[res["tag"]].update({k: res[k] for k in ("status", "reason", "summary", "file")})
+
+    def on_result(res):
+        with _no_interrupts():  # a report moved in and the index that lists it go together
+            run.settle(res)
+            run.write_index(run.running_text())
         per[res["tag"]] = res["seconds"]
-    prov = report.provenance(unit_file, None, parameters={"jobs": jobs, "only": " ".join(only or []) or "all",
-                                                          "units": units})
-    index = report.write_atomic(out / "index.html", _index_html(unit, rows, prov, train))
+        bar.update(1)
+
+    try:
+        with _sigterm_interrupts():
+            if jobs_list:
+                for job in jobs_list:
+                    job["stage"] = str(run.stage)
+                _execute(jobs_list, min(jobs, len(jobs_list)), on_result)
+            with _no_interrupts():
+                for row in rows:  # every job settled; anything still open was lost with its worker
+                    if row["status"] == NOT_RUN:
+                        row.update(status="failed", reason="no result came back from the worker")
+                index = run.write_index()
+    except KeyboardInterrupt as exc:
+        bar.close()
+        with _no_interrupts(deliver=False):
+            signum = getattr(exc, "signum", signal.SIGINT)
+            index = run.write_index(run.interrupted_text(signum)) if run.index_written else None
+            run.cleanup()
+            done, total = run.counts()
+        raise BatchInterrupted(signum, index, done, total) from None
+    finally:
+        bar.close()
+        run.cleanup()
     return BatchResult(index_path=index.resolve(),
                        reports={r["tag"]: (out / r["file"]).resolve() for r in rows if r.get("file")},
                        failures={r["tag"]: r["reason"] for r in rows if r["status"] != "ok"},
-                       seconds=time.perf_counter() - start, per_exchanger=per)
+                       seconds=time.perf_counter() - start, per_exchanger=per, notes=notes)

@@ -156,6 +156,8 @@ def _cmd_batch(args) -> int:
 
     result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet)
     print(result.index_path)
+    for note in result.notes:
+        print(f"note: {note}", file=sys.stderr)
     for tag, reason in result.failures.items():
         print(f"{tag}: FAILED: {reason}", file=sys.stderr)
     return 1 if result.failures else 0
@@ -200,6 +202,9 @@ def main(argv=None) -> int:
     args = _parser().parse_args(argv)
     try:
         return args.func(args)
+    except KeyboardInterrupt as exc:  # Ctrl-C or SIGTERM: one line, no traceback (a batch has cleaned up first)
+        print(f"revamp: {getattr(exc, 'message', None) or 'interrupted'}", file=sys.stderr)
+        return 128 + int(getattr(exc, "signum", 2))
     except Exception as exc:  # one clear line per error; the traceback only on request
         if args.debug:
             raise

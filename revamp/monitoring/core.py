@@ -13,9 +13,10 @@ reconcile the heat balance (:mod:`.reconcile`), then
   steps (one vectorized call each, 3-5 in all). A rating with no fouling at the same flows and inlets gives the
   duty a clean exchanger would have (``duty_clean``, and the duty lost to fouling);
 - a Monte Carlo band: ``mc_draws`` copies of the measurements with Gaussian errors of the stated standard deviations
-  go through the same reconciliation and NTU inversion (all draws × rows in one array) and the clean U (first-order
-  sensitivities from one stacked rating by default, or every draw rated, stacked in chunks); Rf_low/Rf_high are
-  percentiles of the draws;
+  go through the same reconciliation and NTU inversion and the clean U (first-order sensitivities from one stacked
+  rating by default, or every draw rated, stacked in chunks), streamed in blocks of rows so that only the
+  percentiles of each row are kept (memory bounded whatever the number of rows); Rf_low/Rf_high are those
+  percentiles;
 - fouling trend models fitted to the steady, unflagged rows (:mod:`revamp.fouling.models`, chosen by AIC);
 - duty and cost lost to fouling to date; projection of Rf and duty; the optimal cleaning interval (:mod:`.cleaning`).
 
@@ -255,7 +256,7 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
             mc_draws: int = 200, band=(5.0, 95.0), seed=0, run_start=None, run_length=None, models=None,
             fouling_side: str = "tube", beta: float = -0.66, E=None, cleaning=None, duty_value=None,
             sort: bool = False, flat_rows: int = 6, clean_u: str = "operating", mc_clean: str = "linear",
-            mc_chunk: int = 400_000, dialect=None, cleanings=None, drift_tolerance: float = 0.02) -> Monitoring:
+            mc_chunk: int = 100_000, dialect=None, cleanings=None, drift_tolerance: float = 0.02) -> Monitoring:
     """Measured U and fouling of an exchanger from plant data.
 
     Parameters
@@ -319,7 +320,9 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         How the draws' clean U is found: ``"linear"`` from first-order sensitivities (one stacked rating of the rows
         with each input nudged; fast), ``"full"`` by rating every draw × row (stacked, in chunks; ~20 µs a case).
     mc_chunk : int
-        Largest number of cases per rating call.
+        Largest number of cases per rating call (a case costs about 1 kB at the peak of a rating call). The Monte
+        Carlo draws are streamed in blocks of rows (:data:`revamp.monitoring.engine.MC_BLOCK_CASES` draws × rows at
+        a time), so that memory grows with the rows (about 1 kB a row for the table) but not with rows × draws.
     dialect : CsvDialect, dict or None
         How the CSV file is written (``delimiter``, ``decimal``, ``timestamp_format``, ``dayfirst``, ``timezone``);
         see :class:`revamp.monitoring.CsvDialect`. With a ``timezone`` the times (and ``run_start``, when written
@@ -347,6 +350,8 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
         raise InputError("clean_u", clean_u, "'operating' or 'clean'")
     if mc_clean not in ("linear", "full"):
         raise InputError("mc_clean", mc_clean, "'linear' or 'full'")
+    if isinstance(mc_draws, bool) or not isinstance(mc_draws, (int, np.integer)) or mc_draws < 0:
+        raise InputError("mc_draws", mc_draws, "a whole number of Monte Carlo draws >= 0")
     drift_tolerance = float(require(to_si(drift_tolerance, "dimensionless", "drift_tolerance"), "drift_tolerance",
                                     gt=0))
     if steady is not False and steady is not None and not isinstance(steady, dict):
@@ -432,30 +437,18 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     counts[text_r] = int(no_rating.sum())
     counts[text_u] = int(no_u.sum())
 
-    # Monte Carlo band
+    # Monte Carlo band: streamed in blocks of rows (engine.MC_BLOCK_CASES draws × rows at a time)
     rf_low = rf_high = np.full(n, np.nan)
     u_low = u_high = np.full(n, np.nan)
     rows = np.flatnonzero(np.isfinite(rf))
     if mc_draws and rows.size:
-        rng = np.random.default_rng(seed)
-        xs = x[rows][None] + rng.standard_normal((int(mc_draws), rows.size, 6)) * sig[rows][None]
-        # closure to 1e-7 of the duty is ample for a band; start from the reconciled rows (fewer steps)
-        hb_d = reconcile_heat_balance(xs, sig[rows][None], cp_s[rows], cp_t[rows], tol=1e-7, start=hb.x[rows][None])
-        u_d, _ = _e.u_actual(hb_d.x, hb_d.duty, cp_s[rows], cp_t[rows], area, arr_name, shells)
-        if mc_clean == "full":
-            rf_d0 = np.broadcast_to(rf_rated[rows], hb_d.x.shape[:-1])
-            uc_d = _e.rate_clean(exchanger, service, hb_d.x, max(mc_chunk, 1), rf_d0,
-                               fouling_side)[0]["U_clean"]
-        else:
-            uc_d = _e.clean_linearized(exchanger, service, hb.x[rows], state["U_clean"][rows], hb_d.x, rf_rated[rows],
-                                     fouling_side)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            rf_d = 1.0 / u_d - 1.0 / uc_d
-        lo, hi = band
+        mc = _e.mc_band(exchanger, service, x[rows], sig[rows], cp_s[rows], cp_t[rows], hb.x[rows],
+                        state["U_clean"][rows], rf_rated[rows], draws=mc_draws, band=band, seed=seed, area=area,
+                        arrangement=arr_name, shells=shells, mc_clean=mc_clean, chunk=max(mc_chunk, 1),
+                        side=fouling_side)
         rf_low, rf_high = np.full(n, np.nan), np.full(n, np.nan)
         u_low, u_high = np.full(n, np.nan), np.full(n, np.nan)
-        rf_low[rows], rf_high[rows] = _e.nan_percentiles(rf_d, (lo, hi))
-        u_low[rows], u_high[rows] = _e.nan_percentiles(u_d, (lo, hi))
+        rf_low[rows], rf_high[rows], u_low[rows], u_high[rows] = mc.rf_low, mc.rf_high, mc.u_low, mc.u_high
     tab["Rf_low"], tab["Rf_high"], tab["U_low"], tab["U_high"] = rf_low, rf_high, u_low, u_high
 
     # steady filter and the rows used

@@ -4,12 +4,15 @@ the duty-vs-fouling curve and the summary. No I/O.
 """
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 import pandas as pd
 
 from ..errors import InputError
 from ..units import require, to_si
 from .data import COLUMNS
+from .reconcile import reconcile_heat_balance
 
 DEFAULT_UNCERTAINTY = {"flow": 0.02, "temperature": 0.5}
 _X = list(COLUMNS[1:])  # shell_flow, shell_t_in, shell_t_out, tube_flow, tube_t_in, tube_t_out
@@ -89,26 +92,149 @@ def rate_clean(exchanger, service, xr, chunk, rf=None, side="tube"):
     return {k: v.reshape(xr.shape[:-1]) for k, v in out.items()}, list(dict.fromkeys(warnings))
 
 
-def clean_linearized(exchanger, service, x0, u0, xd, rf0, side):
+def clean_gradient(exchanger, service, x0, u0, rf0, side, chunk=None):
+    """Sensitivities dU_clean/dx [W/m²K per unit of x] of the clean U at the reconciled rows, shape (4, rows).
+
+    One stacked rating of the rows with each of the four rating inputs (shell flow, shell inlet, tube flow, tube
+    inlet) nudged in turn (0.1 % of a flow, 0.05 K), by forward differences, rated ``chunk`` cases at a time
+    (default: all 4 × rows at once).
+    """
+    steps = np.array([1e-3 * x0[:, 0], np.full(len(x0), 0.05), 1e-3 * x0[:, 3], np.full(len(x0), 0.05)])
+    stack = np.repeat(x0[None], 4, axis=0)
+    for k, j in enumerate(_GRAD_COLS):
+        stack[k, :, j] += steps[k]
+    size = chunk if chunk else stack.shape[0] * stack.shape[1]
+    u_p = rate_clean(exchanger, service, stack, max(int(size), 1), np.repeat(rf0[None], 4, axis=0), side)[0]["U_clean"]
+    return (u_p - u0[None]) / steps
+
+
+def apply_gradient(u0, grad, x0, xd):
+    """Clean U of draws ``xd`` (..., rows, 6) to first order: U0 + Σ dU/dx_j·(x_j − x0_j)."""
+    out = np.broadcast_to(u0, xd.shape[:-1]).copy()
+    for k, j in enumerate(_GRAD_COLS):
+        out += grad[k] * (xd[..., j] - x0[:, j])
+    return out
+
+
+def clean_linearized(exchanger, service, x0, u0, xd, rf0, side, chunk=None):
     """Clean U of the Monte Carlo draws from its first-order sensitivities at the reconciled rows.
 
     One stacked rating of the rows with each of the four rating inputs (shell flow, shell inlet, tube flow, tube
-    inlet) nudged in turn (0.1 % of a flow, 0.05 K) gives dU/dx by forward differences; a draw's clean U is
-    U0 + Σ dU/dx_j·(x_j − x0_j). For measurement errors of a few per cent the neglected second-order term is below
-    1e-4 of U (h ∝ m^0.8: ½·0.8·0.2·0.02² = 3e-5).
+    inlet) nudged in turn (0.1 % of a flow, 0.05 K) gives dU/dx by forward differences (:func:`clean_gradient`); a
+    draw's clean U is U0 + Σ dU/dx_j·(x_j − x0_j). For measurement errors of a few per cent the neglected
+    second-order term is below 1e-4 of U (h ∝ m^0.8: ½·0.8·0.2·0.02² = 3e-5).
     """
-    cols = (0, 1, 3, 4)
-    steps = np.array([1e-3 * x0[:, 0], np.full(len(x0), 0.05), 1e-3 * x0[:, 3], np.full(len(x0), 0.05)])
-    stack = np.repeat(x0[None], 4, axis=0)
-    for k, j in enumerate(cols):
-        stack[k, :, j] += steps[k]
-    u_p = rate_clean(exchanger, service, stack, stack.shape[0] * stack.shape[1], np.repeat(rf0[None], 4, axis=0),
-                      side)[0]["U_clean"]
-    grad = (u_p - u0[None]) / steps  # (4, rows)
-    out = np.broadcast_to(u0, xd.shape[:-1]).copy()
-    for k, j in enumerate(cols):
-        out += grad[k] * (xd[..., j] - x0[:, j])
-    return out
+    return apply_gradient(u0, clean_gradient(exchanger, service, x0, u0, rf0, side, chunk), x0, xd)
+
+
+_GRAD_COLS = (0, 1, 3, 4)
+
+#: Most Monte Carlo cases (draws × rows) held in memory at once by :func:`mc_band`. A case costs about 0.3 kB at
+#: the peak of a block (the drawn and reconciled measurements, the reconciliation's work arrays, U and Rf of the
+#: draws, the sort for the percentiles), so a block stays near 10 MB whatever the number of rows; blocks this small
+#: also run faster than one large array (they stay in cache, and a block's reconciliation stops when its own rows
+#: have closed).
+MC_BLOCK_CASES = 25_000
+
+
+@dataclass(frozen=True)
+class Band:
+    """Percentile band of the Monte Carlo draws, one value per row given to :func:`mc_band`.
+
+    Attributes
+    ----------
+    rf_low, rf_high : ndarray
+        Fouling resistance at the lower and upper percentile [m²K/W, outside area].
+    u_low, u_high : ndarray
+        Measured U at the lower and upper percentile [W/m²K, outside area].
+    blocks : int
+        Blocks of rows the draws were streamed in.
+    """
+
+    rf_low: np.ndarray
+    rf_high: np.ndarray
+    u_low: np.ndarray
+    u_high: np.ndarray
+    blocks: int
+
+
+def mc_band(exchanger, service, x, sig, cp_s, cp_t, x_rec, u_clean, rf_rated, *, draws, band, seed, area,
+            arrangement, shells, mc_clean="linear", chunk=100_000, side="tube", block_cases=None) -> Band:
+    """Monte Carlo band of U and Rf per row, streamed in blocks of rows so that memory does not grow with rows.
+
+    Each row gets ``draws`` copies of its measurements with Gaussian errors (standard deviations ``sig``); the
+    copies go through the heat-balance reconciliation, the effectiveness-NTU inversion and the clean U (first
+    order from :func:`clean_gradient`, or every copy rated for ``mc_clean="full"``), and only the percentiles of
+    each row are kept. Rows are taken in blocks of at most ``block_cases`` draws × rows (default
+    :data:`MC_BLOCK_CASES`); the draws are made row after row from one generator, so the band is the same, to the
+    last bit, whatever the block size.
+
+    Parameters
+    ----------
+    x, sig : ndarray, shape (rows, 6)
+        Measurements and their standard deviations (SI: kg/s, K).
+    cp_s, cp_t : ndarray, shape (rows,)
+        Heat capacity of each side [J/kg/K].
+    x_rec, u_clean, rf_rated : ndarray
+        Reconciled measurements (rows, 6), clean U [W/m²K] and the fouling it was rated at [m²K/W] of each row.
+    draws : int
+        Draws per row.
+    band : (float, float)
+        Percentiles [%].
+    seed : int
+        Seed of the generator.
+    area : float
+        Outside area [m²].
+    arrangement, shells
+        As :func:`revamp.rating.arrangement` gives them.
+    mc_clean : {"linear", "full"}
+    chunk : int
+        Largest number of cases per rating call.
+    side : {"tube", "shell"}
+        Side the fouling ``rf_rated`` is put on when rating.
+    block_cases : int or None
+        Most draws × rows held at once.
+
+    Returns
+    -------
+    Band
+
+    References
+    ----------
+    Narasimhan, S., Jordache, C. (2000). Data Reconciliation and Gross Error Detection. Gulf Publishing (the
+    reconciliation each draw goes through).
+    """
+    n, draws = x.shape[0], int(draws)
+    per = max(1, int(block_cases or MC_BLOCK_CASES) // max(draws, 1))  # rows per block
+    chunk = max(int(chunk), 1)
+    rng = np.random.default_rng(seed)
+    out = [np.full(n, np.nan) for _ in range(4)]
+    grad = clean_gradient(exchanger, service, x_rec, u_clean, rf_rated, side, chunk) if mc_clean == "linear" else None
+    blocks = 0
+    for start in range(0, n, per):
+        s = slice(start, min(start + per, n))
+        # (rows, draws, 6) row after row from one generator: the stream does not depend on the block size
+        z = np.swapaxes(rng.standard_normal((s.stop - s.start, draws, 6)), 0, 1)
+        xs = x[s][None] + z * sig[s][None]
+        del z
+        # closure to 1e-7 of the duty is ample for a band; start from the reconciled rows (fewer steps)
+        hb = reconcile_heat_balance(xs, sig[s][None], cp_s[s], cp_t[s], tol=1e-7, start=x_rec[s][None])
+        del xs
+        u_d, _ = u_actual(hb.x, hb.duty, cp_s[s], cp_t[s], area, arrangement, shells)
+        if grad is None:
+            rf0 = np.broadcast_to(rf_rated[s], hb.x.shape[:-1])
+            uc_d = rate_clean(exchanger, service, hb.x, chunk, rf0, side)[0]["U_clean"]
+        else:
+            uc_d = apply_gradient(u_clean[s], grad[:, s], x_rec[s], hb.x)
+        del hb
+        with np.errstate(divide="ignore", invalid="ignore"):
+            rf_d = 1.0 / u_d - 1.0 / uc_d
+        del uc_d
+        lo, hi = band
+        out[0][s], out[1][s] = nan_percentiles(rf_d, (lo, hi))
+        out[2][s], out[3][s] = nan_percentiles(u_d, (lo, hi))
+        blocks += 1
+    return Band(rf_low=out[0], rf_high=out[1], u_low=out[2], u_high=out[3], blocks=blocks)
 
 
 def nan_percentiles(a, qs):
