@@ -25,10 +25,10 @@ __all__ = ["SUMMARY_FIELDS", "BatchResult", "notebook_path", "render_notebook", 
 
 
 def notebook_path(name: str = "exchanger_study.ipynb") -> Path:
-    """A notebook of the repository's ``notebooks/`` folder."""
-    path = Path(__file__).resolve().parent.parent / "notebooks" / name
+    """A notebook shipped with the package (``revamp/notebooks``; in a checkout a link to ``notebooks/``)."""
+    path = Path(__file__).resolve().parent / "notebooks" / name
     if not path.is_file():
-        raise InputError("notebook", str(path), "present: the notebooks ship with the source tree")
+        raise InputError("notebook", str(path), "present: the notebooks ship inside the package (reinstall revamp)")
     return path
 
 

@@ -22,13 +22,13 @@ __all__ = ["demo_unit_path", "format_rating", "main"]
 
 
 def demo_unit_path() -> Path:
-    """The demo unit file shipped in the repository (``data/demo/unit.yaml``)."""
+    """The demo unit file shipped with the package (``revamp/demo/unit.yaml``; in a checkout a link to ``data/demo``)."""
     here = Path(__file__).resolve().parent
-    for candidate in (here.parent / "data" / "demo" / "unit.yaml", here / "data" / "demo" / "unit.yaml"):
+    for candidate in (here / "demo" / "unit.yaml", here.parent / "data" / "demo" / "unit.yaml"):
         if candidate.is_file():
             return candidate
     raise InputError("demo", str(here.parent / "data" / "demo" / "unit.yaml"),
-                     "present: the demo unit ships with the source tree (clone the repository)")
+                     "present: the demo unit ships inside the package (reinstall revamp)")
 
 
 # rows of the rating printout: (label, Rating attribute, quantity kind)
