@@ -115,6 +115,10 @@ def _run_one(job: dict) -> dict:
     except Exception as exc:
         status, reason = "failed", reason or _one_line(f"report not written: {exc.__class__.__name__}: {exc}")
     finally:
+        if (work / "tables").is_dir():  # the report's tables as CSV (the notebook wrote them), kept per exchanger
+            shutil.rmtree(out / "tables" / Path(job["file"]).stem, ignore_errors=True)
+            (out / "tables").mkdir(exist_ok=True)
+            shutil.move(str(work / "tables"), str(out / "tables" / Path(job["file"]).stem))
         shutil.rmtree(work, ignore_errors=True)
     return {"tag": tag, "status": status, "reason": reason, "summary": summary, "file": report_file,
             "seconds": time.perf_counter() - start}
@@ -258,6 +262,9 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     prov = report.provenance(unit_file, None, parameters={"jobs": jobs, "only": " ".join(only or []) or "all",
                                                           "units": units})
     index = report.write_atomic(out / "index.html", _index_html(unit, rows, prov))
+    from .report.export import write_batch_workbook  # one workbook: a sheet per table of every report
+
+    write_batch_workbook(out / "tables", out / "tables.xlsx", [Path(r["file"]).stem for r in rows if r.get("file")])
     return BatchResult(index_path=index.resolve(),
                        reports={r["tag"]: (out / r["file"]).resolve() for r in rows if r.get("file")},
                        failures={r["tag"]: r["reason"] for r in rows if r["status"] != "ok"},

@@ -3,9 +3,9 @@
 Usage::
 
     revamp check FILE
-    revamp rate FILE --tag TAG [--units SI|US] [--revamp]
-    revamp batch FILE --out DIR [--jobs N] [--only TAG ...]
-    revamp demo [--out DIR] [--jobs N]
+    revamp rate FILE --tag TAG [--units SI|US] [--revamp] [--csv FILE]
+    revamp batch FILE --out DIR [--jobs N] [--only TAG ...] [--units SI|US]
+    revamp demo [--out DIR] [--jobs N] [--units SI|US]
 
 Errors are printed one per line, without a traceback unless ``--debug`` is given; the exit code is 1 when there is
 any problem.
@@ -94,6 +94,16 @@ def _cmd_rate(args) -> int:
     service = case.revamp_service if args.revamp else case.service
     result = rating_mod.rate(case.exchanger, service)
     when = f"revamp conditions (throughput x{case.throughput:g})" if args.revamp else "today's conditions"
+    if args.csv:  # the same numbers as a table: quantity, value, unit (display units of --units)
+        from .report.export import rating_frame
+
+        frame = rating_frame(result, args.units)
+        if args.csv == "-":
+            frame.to_csv(sys.stdout, index=False)
+        else:
+            frame.to_csv(args.csv, index=False, encoding="utf-8")
+            print(Path(args.csv).resolve())
+        return 0
     print(format_rating(result, args.units, f"{case.tag}: {case.description} - {when}"))
     return 0
 
@@ -101,7 +111,8 @@ def _cmd_rate(args) -> int:
 def _cmd_batch(args) -> int:
     from .batch import run_batch
 
-    result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet)
+    result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet,
+                       units=args.units)
     print(result.index_path)
     for tag, reason in result.failures.items():
         print(f"{tag}: FAILED: {reason}", file=sys.stderr)
@@ -126,6 +137,7 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--tag", required=True)
     p.add_argument("--units", choices=["SI", "US"], default="SI")
     p.add_argument("--revamp", action="store_true", help="rate at the revamp conditions instead of today's")
+    p.add_argument("--csv", metavar="FILE", help="write the rating as CSV (quantity, value, unit) to FILE ('-': print)")
     p.set_defaults(func=_cmd_rate)
     for name, helptext in (("batch", "write one comparison report per exchanger and an index"),
                            ("demo", "batch on the demo unit into ./reports")):
@@ -138,6 +150,7 @@ def _parser() -> argparse.ArgumentParser:
             p.add_argument("--out", default="reports", help="output folder (default: reports)")
         p.add_argument("--jobs", type=int, default=2, help="notebooks run in parallel (default 2)")
         p.add_argument("--quiet", action="store_true", help="no progress bar")
+        p.add_argument("--units", choices=["SI", "US"], default="SI", help="display units of the reports")
         p.set_defaults(func=_cmd_batch if name == "batch" else _cmd_demo)
     return top
 

@@ -229,3 +229,80 @@ def page(title: str, body_html: str, prov: dict | None = None, plotly_src: str |
     return "\n".join(p for p in parts if p)
 
 
+
+
+def frame_html(df, cls: str = "rv-table", digits: int = 3) -> str:
+    """A pandas table as a reader sees it: display labels and units (:mod:`.labels`), engineering precision, numbers
+    right-aligned, no ``True``/``<NA>``/``inf``; every cell escaped."""
+    import numbers as _numbers
+
+    from .labels import display_frame, format_value
+
+    shown = display_frame(df)
+    out = [f'<table class="{esc(cls)}"><thead><tr><th>{esc(shown.index.name or "")}</th>']
+    out += [f"<th>{esc(c)}</th>" for c in shown.columns]
+    out.append("</tr></thead><tbody>")
+    for label, row in zip(shown.index, shown.itertuples(index=False)):
+        cells = [f"<th>{esc(label)}</th>"]
+        for v in row:
+            num = isinstance(v, _numbers.Number) and not isinstance(v, bool)
+            cells.append(f'<td class="num">{esc(format_value(v, digits))}</td>' if num
+                         else f"<td>{esc(format_value(v, digits))}</td>")
+        out.append("<tr>" + "".join(cells) + "</tr>")
+    out.append("</tbody></table>")
+    return "".join(out)
+
+
+def polish_figure(fig, system: str = "SI"):
+    """Apply the display conventions to a figure made elsewhere (in place; returns it): each resistance's own colour,
+    legend names and axis units in their display form (kW -> MW), the resistance axis in ``system`` units."""
+    from ..units import from_si
+    from .labels import RESISTANCE_COLOURS, display_name, rescale, split_label
+
+    res_fig = False
+    for tr in fig.data:
+        name = getattr(tr, "name", None)
+        if name in RESISTANCE_COLOURS and tr.type == "bar":
+            tr.marker.color = RESISTANCE_COLOURS[name]
+            res_fig = True
+        elif name and split_label(name)[1]:
+            factor, _ = rescale(split_label(name)[1])
+            if factor != 1.0 and tr.y is not None:
+                tr.y = [None if v is None else float(v) * factor for v in tr.y]
+            tr.name = display_name(name)
+    ytitle = fig.layout.yaxis.title.text or ""
+    if res_fig and system == "US" and "10⁻⁴ m²·K/W" in ytitle:
+        factor = 1e-4 * from_si(1.0, "fouling", "US")[0] * 1e3
+        for tr in fig.data:
+            tr.y = [float(v) * factor for v in tr.y]
+        fig.layout.yaxis.title.text = ytitle.replace("10⁻⁴ m²·K/W", "10⁻³ h·ft²·°F/Btu")
+    elif ytitle and rescale(ytitle.strip())[0] != 1.0:  # an axis titled by its bare unit ("kW")
+        fig.layout.yaxis.title.text = f"duty [{rescale(ytitle.strip())[1]}]" if ytitle.strip() in ("kW", "W") \
+            else rescale(ytitle.strip())[1]
+    return fig
+
+
+def _notes_html(text: str) -> str:
+    """A sentence-list string ("Notes ...: a; b; c") as a heading line and a bulleted list."""
+    head, _, rest = text.partition(": ")
+    items = [s.strip() for s in rest.split("; ") if s.strip()]
+    return f"<p>{esc(head)}:</p><ul>" + "".join(f"<li>{esc(i)}</li>" for i in items) + "</ul>"
+
+
+def show(obj, interactive: bool = False, units: str = "SI"):
+    """Display a plotly figure, a table or a line of text in a notebook, in the report's display conventions: live
+    plotly in JupyterLab, offline HTML for the static reports."""
+    from IPython.display import HTML, display
+
+    if hasattr(obj, "to_plotly_json"):
+        polish_figure(obj, units)
+        if interactive:
+            obj.show()
+        else:
+            display(HTML(figure_html(obj)))
+    elif hasattr(obj, "to_html"):
+        display(HTML(frame_html(obj)))
+    elif isinstance(obj, str) and obj.startswith("Notes from the analysis: ") and "; " in obj:
+        display(HTML(_notes_html(obj)))
+    else:
+        display(HTML(f"<p>{esc(obj)}</p>"))
