@@ -144,3 +144,23 @@ def test_rating_frame_and_cli_csv(tmp_path):
     assert main(["rate", str(unit), "--tag", "E-1", "--csv", str(out), "--units", "US"]) == 0
     rows = list(csv.DictReader(out.open(encoding="utf-8")))
     assert rows[0]["quantity"] == "duty" and rows[0]["unit"] == "MMBtu/h"
+
+
+def test_demo_caution_only_on_the_demo(tmp_path):
+    from revamp.cli import demo_unit_path
+    from revamp.report.pages import DEMO_CAUTION, cautions_html, provenance
+
+    other = tmp_path / "unit.yaml"
+    other.write_text("version: 1\n", encoding="utf-8")
+    assert DEMO_CAUTION not in cautions_html(provenance(other)) and DEMO_CAUTION not in cautions_html()
+    assert DEMO_CAUTION in cautions_html(provenance(demo_unit_path()))
+
+
+def test_plant_data_findings_in_us_units():
+    # a finding given in SI (monitoring summary) shown in US units: 0.000352 m²K/W × 5.678263 = 0.0019988
+    # h·ft²·°F/Btu (NIST SP 811 factor); 100 °C = 212 °F
+    f = labels.display_frame(pd.DataFrame({"value": ["0.000352", "100"]}, index=["Rf now [m2K/W]", "t [°C]"]),
+                             system="US")
+    assert list(f.index) == ["fouling resistance now (outside area) [h·ft²·°F/Btu]", "t [°F]"]
+    assert f.iloc[0, 0] == pytest.approx(0.000352 * 5.678263, rel=1e-6)
+    assert f.iloc[1, 0] == pytest.approx(212.0)

@@ -89,7 +89,7 @@ def report_tables(result, system: str = "SI") -> dict:
     if mon is not None:
         findings = {str(k): v for k, v in mon.summary.items() if not str(k).startswith("rows: ") and k != "warnings"}
         t = display_frame(pd.DataFrame({"value": list(findings.values())}, index=list(findings)).T,
-                          rows_are_quantities=False).T
+                          rows_are_quantities=False, system=system).T
         t.index.name = "finding"
         tables["plant data"] = t
         rows = {str(k)[len("rows: "):]: int(v) for k, v in mon.summary.items() if str(k).startswith("rows: ")}

@@ -19,7 +19,7 @@ import math
 import numbers
 import re
 
-__all__ = ["NAMES", "RESISTANCES", "RESISTANCE_COLOURS", "SPELLING", "display_frame", "display_name",
+__all__ = ["to_system", "NAMES", "RESISTANCES", "RESISTANCE_COLOURS", "SPELLING", "display_frame", "display_name",
            "format_frame", "format_value", "rescale", "resistance_axis", "split_label", "unit_of"]
 
 #: the five series resistances, in the order heat crosses them from the shell side
@@ -51,6 +51,7 @@ NAMES = {
     "fouling rate now": "fouling rate now", "projection run time": "run length projected",
     "Rf at end of run": "fouling resistance at end of run", "duty at end of run": "duty at end of run",
     "energy lost to fouling to date": "energy lost to fouling to date", "model (lowest AIC)": "fouling model (lowest AIC)",
+    "dp shell": "shell pressure drop", "dp tube": "tube pressure drop",
 }
 
 #: one spelling per unit (left: spellings met in tables and inputs; right: the one shown)
@@ -91,6 +92,40 @@ def rescale(unit: str) -> tuple:
     """(factor, display unit) for a unit a table arrives in: kW -> MW, J -> GJ, Btu/h -> MMBtu/h, Pa -> kPa."""
     unit = unit_of(unit)
     return _RESCALE.get(unit, (1.0, unit))
+
+
+#: SI display units that a US report shows in US units: unit -> (quantity kind, factor to SI, offset to SI)
+_SI_UNITS = {"m²·K/W": ("fouling", 1.0, 0.0), "W/m²·K": ("htc", 1.0, 0.0), "MW": ("power", 1e6, 0.0),
+             "kW": ("power", 1e3, 0.0), "W": ("power", 1.0, 0.0), "kPa": ("pressure", 1e3, 0.0),
+             "°C": ("temperature", 1.0, 273.15), "m/s": ("velocity", 1.0, 0.0), "m²": ("area", 1.0, 0.0),
+             "kg/s": ("mass_flow", 1.0, 0.0), "mm": ("length", 1e-3, 0.0)}
+_MMBTU_IN_GJ = 1.05505585262  # 1 MMBtu (International Table Btu) = 1.05505585262 GJ (NIST SP 811)
+
+
+def to_system(unit: str, system: str = "SI") -> tuple:
+    """(convert(value) -> value, unit shown) that takes a number in the SI display ``unit`` to ``system``.
+
+    >>> f, u = to_system("°C", "US"); round(f(100.0), 6), u
+    (212.0, '°F')
+    """
+    unit = unit_of(unit)
+    if system != "US":
+        return (lambda v: v), unit
+    if unit == "GJ":
+        return (lambda v: v / _MMBTU_IN_GJ), "MMBtu"
+    base, _, per = unit.partition(" per ")
+    if base not in _SI_UNITS:
+        return (lambda v: v), unit
+    from ..units import from_si
+
+    kind, factor, offset = _SI_UNITS[base]
+    shown = unit_of(from_si(1.0, kind, "US")[1])
+    f2, shown = rescale(shown)
+
+    def convert(v):
+        return float(from_si(float(v) * factor + offset, kind, "US")[0]) * f2
+
+    return convert, shown + (f" per {per}" if per else "")
 
 
 def display_name(label, rescale_units: bool = True) -> str:
@@ -141,12 +176,13 @@ def format_value(value, digits: int = 3) -> str:
     return str(value)
 
 
-def display_frame(df, rows_are_quantities: bool | None = None):
+def display_frame(df, rows_are_quantities: bool | None = None, system: str = "SI"):
     """A copy of a table with display labels and values in the display unit of each quantity (numbers stay numbers).
 
     Labels ``"identifier [unit]"`` are looked up on the columns and on the index; a column (or row) whose unit is
     rescaled (kW -> MW) has its numbers multiplied by the factor. ``rows_are_quantities`` forces the orientation;
-    by default rows are quantities when the index carries units and the columns do not.
+    by default rows are quantities when the index carries units and the columns do not. Numbers written as text
+    become numbers. ``system="US"`` moves what is still in SI units (the plant-data findings) to US units.
     """
     import pandas as pd
 
@@ -155,30 +191,35 @@ def display_frame(df, rows_are_quantities: bool | None = None):
     if rows_are_quantities is None:
         rows_are_quantities = has_units(out.index) and not has_units(out.columns)
     if rows_are_quantities:
-        return display_frame(out.T, False).T
+        return display_frame(out.T, False, system).T
     new_cols = []
     for j, col in enumerate(list(out.columns)):
-        factor = rescale(split_label(col)[1])[0]
-        if factor != 1.0:
-            out[out.columns[j]] = out.iloc[:, j].map(lambda v: _scaled(v, factor)).astype(object)
-        new_cols.append(display_name(col))
+        name, unit = split_label(col)
+        factor, shown = rescale(unit) if unit else (1.0, "")
+        convert, shown = to_system(shown, system) if unit else ((lambda v: v), "")
+        out[out.columns[j]] = out.iloc[:, j].map(lambda v: _scaled(v, factor, convert)).astype(object)
+        words = display_name(name)
+        new_cols.append(f"{words} [{shown}]" if shown else words)
     out.columns = new_cols
     out.index = [display_name(i, rescale_units=False) if isinstance(i, str) and "[" in i else i for i in out.index]
     out.index.name = display_name(df.index.name) if df.index.name else None
     return out
 
 
-def _scaled(value, factor):
-    """A cell times ``factor`` when it is a number (or a string of one); anything else unchanged."""
-    if isinstance(value, bool):
+def _scaled(value, factor, convert=None):
+    """A cell times ``factor`` (then ``convert``) when it is a number or a string of one; anything else unchanged."""
+    if isinstance(value, bool) or type(value).__name__ == "bool_":
         return value
     if isinstance(value, str):
         try:
             value = float(value.replace(",", ""))
         except ValueError:
             return value
+    if isinstance(value, numbers.Integral) and factor == 1.0 and convert is None:
+        return value
     if isinstance(value, numbers.Real):
-        return float(value) * factor
+        v = float(value) * factor
+        return convert(v) if convert is not None and math.isfinite(v) else v
     return value
 
 

@@ -28,8 +28,10 @@ CAUTIONS = (
     "Mechanical design, flow-induced vibration and code compliance of any change must be verified by licensed "
     "engineers under the local codes before anything is built or operated; the vibration screen can flag a design, "
     "never clear it.",
-    "Costs and prices are the user's inputs (the demo's figures are invented), not estimates made by this tool.",
+    "Costs and prices are the user's inputs, not estimates made by this tool.",
 )
+#: added to the cautions of a report made from the demo unit file shipped with revamp
+DEMO_CAUTION = "This report is made from the demo unit file shipped with revamp: its plant, data, prices and costs are invented."
 
 #: packages whose versions a report records
 PACKAGES = ("revamp", "numpy", "scipy", "pandas", "plotly", "pint", "CoolProp", "papermill", "nbconvert", "PyYAML")
@@ -194,8 +196,18 @@ def provenance_html(prov: dict) -> str:
             + table_html(rows, ["item", "value"]) + inputs + "</section>")
 
 
-def cautions_html() -> str:
-    items = "".join(f"<li>{esc(c)}</li>" for c in CAUTIONS)
+def _is_demo(prov) -> bool:
+    """Whether the report's unit file is the demo's (same SHA-256 as the demo unit file shipped with revamp)."""
+    digests = set((prov or {}).get("inputs_sha256", {}).values())
+    if not digests:
+        return False
+    demo = Path(__file__).resolve().parent.parent / "demo" / "unit.yaml"
+    return demo.is_file() and file_sha256(demo) in digests
+
+
+def cautions_html(prov: dict | None = None) -> str:
+    """The standing cautions; the demo's line only when ``prov`` (a :func:`provenance`) shows the demo unit file."""
+    items = "".join(f"<li>{esc(c)}</li>" for c in CAUTIONS + ((DEMO_CAUTION,) if _is_demo(prov) else ()))
     return f'<section class="rv-cautions" id="cautions"><h2>Cautions</h2><ul>{items}</ul></section>'
 
 
@@ -209,6 +221,9 @@ table.dataframe td{text-align:right}table.dataframe th{text-align:left}
 .rv-cautions{background:#fff7e0;border-left:4px solid #d90;padding:.4rem 1rem;margin:1rem 0}
 .rv-provenance{font-size:.8rem;color:#444}.rv-status-ok{color:#161}.rv-status-failed{color:#a11;font-weight:600}
 .jp-InputPrompt,.jp-OutputPrompt,.prompt{display:none}pre{white-space:pre-wrap}
+table.rv-table{max-width:100%}table.rv-table thead th{max-width:7.5em;white-space:normal;overflow-wrap:break-word;
+font-weight:600;vertical-align:bottom}table.rv-table td{overflow-wrap:break-word}
+.rv-scroll{max-width:100%;overflow-x:auto}.rv-note{color:#555;font-size:.85rem}
 @media print{.plotly-graph-div{page-break-inside:avoid}}
 """
 
@@ -224,22 +239,22 @@ def page(title: str, body_html: str, prov: dict | None = None, plotly_src: str |
     parts = ["<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
              '<meta name="viewport" content="width=device-width, initial-scale=1">',
              f"<title>{esc(title)}</title>", f"<style>{_CSS}</style>", script, "</head><body>",
-             f"<h1>{esc(title)}</h1>", cautions_html() if cautions else "", body_html,
+             f"<h1>{esc(title)}</h1>", cautions_html(prov) if cautions else "", body_html,
              provenance_html(prov) if prov else "", "</body></html>"]
     return "\n".join(p for p in parts if p)
 
 
 
 
-def frame_html(df, cls: str = "rv-table", digits: int = 3) -> str:
+def frame_html(df, cls: str = "rv-table", digits: int = 3, system: str = "SI") -> str:
     """A pandas table as a reader sees it: display labels and units (:mod:`.labels`), engineering precision, numbers
     right-aligned, no ``True``/``<NA>``/``inf``; every cell escaped."""
     import numbers as _numbers
 
     from .labels import display_frame, format_value
 
-    shown = display_frame(df)
-    out = [f'<table class="{esc(cls)}"><thead><tr><th>{esc(shown.index.name or "")}</th>']
+    shown = display_frame(df, system=system)
+    out = [f'<div class="rv-scroll"><table class="{esc(cls)}"><thead><tr><th>{esc(shown.index.name or "")}</th>']
     out += [f"<th>{esc(c)}</th>" for c in shown.columns]
     out.append("</tr></thead><tbody>")
     for label, row in zip(shown.index, shown.itertuples(index=False)):
@@ -249,7 +264,7 @@ def frame_html(df, cls: str = "rv-table", digits: int = 3) -> str:
             cells.append(f'<td class="num">{esc(format_value(v, digits))}</td>' if num
                          else f"<td>{esc(format_value(v, digits))}</td>")
         out.append("<tr>" + "".join(cells) + "</tr>")
-    out.append("</tbody></table>")
+    out.append("</tbody></table></div>")
     return "".join(out)
 
 
@@ -301,7 +316,7 @@ def show(obj, interactive: bool = False, units: str = "SI"):
         else:
             display(HTML(figure_html(obj)))
     elif hasattr(obj, "to_html"):
-        display(HTML(frame_html(obj)))
+        display(HTML(frame_html(obj, system=units)))
     elif isinstance(obj, str) and obj.startswith("Notes from the analysis: ") and "; " in obj:
         display(HTML(_notes_html(obj)))
     else:
