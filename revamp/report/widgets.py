@@ -403,39 +403,63 @@ def primer_sweep(rating):
     return pd.DataFrame(rows).T
 
 
-def primer_widget(rating):
-    """Sliders for each resistance of one rating; the bar chart and U update in place."""
+def primer_widget(rating, system: str = "SI"):
+    """Sliders for each resistance of one rating; the bar chart and U update in place.
+
+    The fouling sliders are on each side's own surface (tube fouling on the inside area); the chart refers every
+    resistance to the outside area (tube fouling × do/di), as every resistance chart of the reports does.
+    """
     import ipywidgets as w
+    import plotly.graph_objects as go
     from IPython.display import display
+
+    from ..units import from_si
+    from .labels import RESISTANCE_COLOURS, resistance_axis, unit_of
 
     ratio = rating.exchanger.tube_od / rating.exchanger.tube_id
     fs = float(rating.resistances["shell fouling"])
     ft = float(rating.resistances["tube fouling"]) / ratio
-    st = dict(continuous_update=False, style={"description_width": "14em"}, layout=w.Layout(width="34em"))
-    c = {"scale_h_shell": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="shell film h ×", **st),
-         "scale_h_tube": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="tube film h ×", **st),
-         "fouling_shell": w.FloatSlider(value=fs * 1e4, min=0, max=max(10, 3 * fs * 1e4), step=0.25,
-                                        description="shell fouling [1e-4 m²K/W]", **st),
-         "fouling_tube": w.FloatSlider(value=ft * 1e4, min=0, max=max(10, 3 * ft * 1e4), step=0.25,
-                                       description="tube fouling [1e-4 m²K/W]", **st),
+    factor, r_unit = resistance_axis(system)
+    u_factor, u_unit = from_si(1.0, "htc", system)
+    u_unit = unit_of(u_unit)
+    st = dict(continuous_update=False, style={"description_width": "17em"}, layout=w.Layout(width="40em"))
+    fouling = lambda v, d: w.FloatSlider(value=v * factor, min=0, max=max(10.0, 3 * v * factor), step=0.25,
+                                         description=d, readout_format=".2f", **st)
+    c = {"scale_h_shell": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="shell film coefficient ×",
+                                        **st),
+         "scale_h_tube": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="tube film coefficient ×",
+                                       **st),
+         "fouling_shell": fouling(fs, f"shell fouling [{r_unit}]"),
+         "fouling_tube": fouling(ft, f"tube fouling, inside area [{r_unit}]"),
          "wall_factor": w.FloatSlider(value=1, min=0.2, max=5, step=0.1, description="wall conductivity ×", **st)}
-    out, label = w.Output(), w.HTML()
+    label = w.HTML()
+    hide_hint = _live_hint()
+    names = list(rating.resistances.index)
+    fig = go.Figure(go.Bar(x=names, y=[0.0] * len(names), marker_color=[RESISTANCE_COLOURS.get(n, "#888")
+                                                                           for n in names]))
+    fig.update_layout(yaxis_title=f"resistance [{r_unit}, outside area]", height=360, margin={"t": 20},
+                      template="simple_white")
+    live = _figure_widget(fig)
+    out = live if live is not None else w.Output(layout=w.Layout(min_height="380px"))
 
     def redraw(_=None):
-        import plotly.graph_objects as go
+        r = _primer_u(rating, c["scale_h_shell"].value, c["scale_h_tube"].value, c["fouling_shell"].value / factor,
+                      c["fouling_tube"].value / factor, c["wall_factor"].value)
+        label.value = (f"<b>U = {u_factor / float(r.sum()):,.0f} {esc(u_unit)}</b> (as rated: "
+                       f"{u_factor * float(rating.U_service):,.0f}); controlling: {esc(r.idxmax())}. Tube fouling "
+                       f"{c['fouling_tube'].value:.2f} on the inside area is {c['fouling_tube'].value * ratio:.2f} "
+                       f"on the outside area of the chart.{hide_hint}")
+        y = (r * factor).tolist()
+        if live is not None:
+            live.data[0].y = y
+        else:
+            fig.data[0].y = y
+            with out:
+                out.clear_output(wait=True)
+                fig.show()
 
-        r = _primer_u(rating, c["scale_h_shell"].value, c["scale_h_tube"].value, c["fouling_shell"].value * 1e-4,
-                      c["fouling_tube"].value * 1e-4, c["wall_factor"].value)
-        label.value = (f"<b>U = {1 / float(r.sum()):.0f} W/m²·K</b> (as rated: {float(rating.U_service):.0f}); "
-                       f"controlling: {esc(r.idxmax())}")
-        fig = go.Figure(go.Bar(x=list(r.index), y=(r * 1e4).tolist()))
-        fig.update_layout(yaxis_title="resistance [10⁻⁴ m²·K/W]", height=360, margin={"t": 20})
-        with out:
-            out.clear_output(wait=True)
-            fig.show()
-
-    for s in c.values():
-        s.observe(redraw, names="value")
+    for s_ in c.values():
+        s_.observe(redraw, names="value")
     box = w.VBox([*c.values(), label, out])
     redraw()
     display(box)
