@@ -5,7 +5,11 @@ BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed
 TSTAMP := $(VENV)/.installed-test
 
-.PHONY: demo test lab bench clean
+LAB    ?= lab
+# JupyterLab refuses to run as root unless told; containers often run as root
+ROOTOK := $(shell [ "$$(id -u)" = 0 ] && echo --allow-root)
+
+.PHONY: demo test lab lab-reset bench clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -25,8 +29,15 @@ demo: $(STAMP)  ## rate the demo unit and write one comparison report per exchan
 test: $(TSTAMP)  ## unit tests, doctests, notebooks
 	$(BIN)/python -m pytest
 
-lab: $(STAMP)  ## JupyterLab on the notebooks
-	$(BIN)/jupyter lab notebooks/
+lab: $(STAMP)  ## JupyterLab on a working copy of the notebooks in ./lab (the committed ones stay clean)
+	@mkdir -p $(LAB)
+	@for f in notebooks/*.ipynb; do \
+	  if [ -e "$(LAB)/$${f##*/}" ]; then echo "keeping your working copy $(LAB)/$${f##*/} (make lab-reset to start over)"; \
+	  else cp "$$f" "$(LAB)/"; fi; done
+	$(BIN)/jupyter lab $(ROOTOK) --notebook-dir=$(LAB)
+
+lab-reset:  ## drop the working copies of the notebooks (./lab); the next `make lab` copies them afresh
+	rm -rf $(LAB)
 
 bench: $(STAMP)  ## benchmarks (figures printed, nothing asserted)
 	$(BIN)/python benchmarks/run_all.py

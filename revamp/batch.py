@@ -39,10 +39,10 @@ __all__ = ["SUMMARY_FIELDS", "BatchInterrupted", "BatchResult", "available_cores
 
 
 def notebook_path(name: str = "exchanger_study.ipynb") -> Path:
-    """A notebook of the repository's ``notebooks/`` folder."""
-    path = Path(__file__).resolve().parent.parent / "notebooks" / name
+    """A notebook shipped with the package (``revamp/notebooks``; in a checkout a link to ``notebooks/``)."""
+    path = Path(__file__).resolve().parent / "notebooks" / name
     if not path.is_file():
-        raise InputError("notebook", str(path), "present: the notebooks ship with the source tree")
+        raise InputError("notebook", str(path), "present: the notebooks ship inside the package (reinstall revamp)")
     return path
 
 
@@ -121,7 +121,7 @@ def _run_one(job: dict) -> dict:
     tag, stage = job["tag"], Path(job["stage"])
     work = Path(tempfile.mkdtemp(prefix="job-", dir=stage))
     summary_path, executed = work / "summary.json", work / "executed.ipynb"
-    status, reason = "ok", ""
+    status, reason, staged_tables = "ok", "", None
     try:
         pm.execute_notebook(str(job["notebook"]), str(executed), parameters={
             "unit_file": job["unit_file"], "tag": tag, "interactive": False, "summary_path": str(summary_path),
@@ -153,9 +153,14 @@ def _run_one(job: dict) -> dict:
     except Exception as exc:
         status, reason = "failed", reason or _one_line(f"report not written: {exc.__class__.__name__}: {exc}")
     finally:
+        if (work / "tables").is_dir():  # the report's tables as CSV (the notebook wrote them), staged like the report
+            staged_tables = stage / f"tables-{Path(job['file']).stem}"
+            shutil.rmtree(staged_tables, ignore_errors=True)
+            shutil.move(str(work / "tables"), str(staged_tables))
+            staged_tables = str(staged_tables)
         shutil.rmtree(work, ignore_errors=True)
     return {"tag": tag, "status": status, "reason": reason, "summary": summary, "staged": staged,
-            "seconds": time.perf_counter() - start}
+            "staged_tables": staged_tables, "seconds": time.perf_counter() - start}
 
 
 # ----------------------------------------------------------------------------------- workers and their lifetime
@@ -392,6 +397,11 @@ class _Run:
         if res.get("staged"):
             os.replace(res["staged"], target)
             row["file"] = row["fname"]
+        if res.get("staged_tables"):  # the report's tables as CSV, one folder per exchanger
+            tables = self.out / "tables" / Path(row["fname"]).stem
+            shutil.rmtree(tables, ignore_errors=True)
+            tables.parent.mkdir(exist_ok=True)
+            os.replace(res["staged_tables"], tables)
         else:
             self._drop_stale(row)
 
@@ -536,6 +546,10 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
                     if row["status"] == NOT_RUN:
                         row.update(status="failed", reason="no result came back from the worker")
                 index = run.write_index()
+                from .report.export import write_batch_workbook  # one workbook: a sheet per table of every report
+
+                write_batch_workbook(out / "tables", out / "tables.xlsx",
+                                     [Path(r["file"]).stem for r in rows if r.get("file")])
     except KeyboardInterrupt as exc:
         bar.close()
         with _no_interrupts(deliver=False):

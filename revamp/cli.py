@@ -3,9 +3,9 @@
 Usage::
 
     revamp check FILE
-    revamp rate FILE --tag TAG [--units SI|US] [--revamp]
-    revamp batch FILE --out DIR [--jobs N] [--only TAG ...]
-    revamp demo [--out DIR] [--jobs N]
+    revamp rate FILE --tag TAG [--units SI|US] [--revamp] [--csv FILE]
+    revamp batch FILE --out DIR [--jobs N] [--only TAG ...] [--units SI|US]
+    revamp demo [--out DIR] [--jobs N] [--units SI|US]
 
 Errors are printed one per line, without a traceback unless ``--debug`` is given; the exit code is 1 when there is
 any problem.
@@ -22,13 +22,13 @@ __all__ = ["demo_unit_path", "format_rating", "main"]
 
 
 def demo_unit_path() -> Path:
-    """The demo unit file shipped in the repository (``data/demo/unit.yaml``)."""
+    """The demo unit file shipped with the package (``revamp/demo/unit.yaml``; in a checkout a link to ``data/demo``)."""
     here = Path(__file__).resolve().parent
-    for candidate in (here.parent / "data" / "demo" / "unit.yaml", here / "data" / "demo" / "unit.yaml"):
+    for candidate in (here / "demo" / "unit.yaml", here.parent / "data" / "demo" / "unit.yaml"):
         if candidate.is_file():
             return candidate
     raise InputError("demo", str(here.parent / "data" / "demo" / "unit.yaml"),
-                     "present: the demo unit ships with the source tree (clone the repository)")
+                     "present: the demo unit ships inside the package (reinstall revamp)")
 
 
 # rows of the rating printout: (label, Rating attribute, quantity kind)
@@ -125,6 +125,16 @@ def _cmd_rate(args) -> int:
     service = case.revamp_service if args.revamp else case.service
     result = rating_mod.rate(case.exchanger, service)
     when = f"revamp conditions (throughput x{case.throughput:g})" if args.revamp else "today's conditions"
+    if args.csv:  # the same numbers as a table: quantity, value, unit (display units of --units)
+        from .report.export import rating_frame
+
+        frame = rating_frame(result, args.units)
+        if args.csv == "-":
+            frame.to_csv(sys.stdout, index=False)
+        else:
+            frame.to_csv(args.csv, index=False, encoding="utf-8")
+            print(Path(args.csv).resolve())
+        return 0
     print(_shown(format_rating(result, args.units, f"{case.tag}: {case.description} - {when}")))
     return 0
 
@@ -154,7 +164,8 @@ def _cmd_batch(args) -> int:
 
     _cap_jobs(args)
 
-    result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet)
+    result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet,
+                       units=args.units)
     print(result.index_path)
     for note in result.notes:
         print(f"note: {note}", file=sys.stderr)
@@ -181,6 +192,7 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--tag", required=True)
     p.add_argument("--units", choices=["SI", "US"], default="SI")
     p.add_argument("--revamp", action="store_true", help="rate at the revamp conditions instead of today's")
+    p.add_argument("--csv", metavar="FILE", help="write the rating as CSV (quantity, value, unit) to FILE ('-': print)")
     p.set_defaults(func=_cmd_rate)
     for name, helptext in (("batch", "write one comparison report per exchanger and an index"),
                            ("demo", "batch on the demo unit into ./reports")):
@@ -193,6 +205,7 @@ def _parser() -> argparse.ArgumentParser:
             p.add_argument("--out", default="reports", help="output folder (default: reports)")
         p.add_argument("--jobs", type=int, default=2, help="notebooks run in parallel (default 2)")
         p.add_argument("--quiet", action="store_true", help="no progress bar")
+        p.add_argument("--units", choices=["SI", "US"], default="SI", help="display units of the reports")
         p.set_defaults(func=_cmd_batch if name == "batch" else _cmd_demo)
     return top
 

@@ -12,6 +12,7 @@ import math
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
+from .report.labels import RESISTANCE_COLOURS, rescale, resistance_axis
 from .screening import DEFAULT_DP_LIQUID
 from .units import from_si, to_si
 
@@ -22,8 +23,8 @@ _LAYOUT = {"template": "simple_white", "font": {"size": 14},
                "margin": {"l": 70, "r": 30, "t": 110, "b": 40}}
 _STATUS_COLOUR = {"ok": "#4d7ea8", "warn": "#e0a030", "fail": "#b03030", "n/a": "#999999"}
 _PATTERN = {"ok": "", "warn": "/", "fail": "x", "n/a": "."}
-_RES_COLOUR = {"shell film": "#1b4f72", "shell fouling": "#a04000", "wall": "#7f8c8d", "tube fouling": "#e67e22",
-               "tube film": "#5dade2"}
+_RES_COLOUR = RESISTANCE_COLOURS
+_STATUS_WORDS = {"ok": "within limits", "warn": "near a limit", "fail": "over a limit", "n/a": "not screened"}
 
 
 def _text(label) -> str:
@@ -37,8 +38,11 @@ def _labels(index) -> list:
 
 
 def _conv(values, kind, units):
+    """Values [SI] in the display unit of their quantity (kW -> MW, Btu/h -> MMBtu/h, see report.labels)."""
     mag, label = from_si(list(values), kind, units)
-    return list(mag) if hasattr(mag, "__len__") else [mag], label
+    factor, label = rescale(label)
+    mag = [float(v) * factor for v in (mag if hasattr(mag, "__len__") else [mag])]
+    return mag, label
 
 
 def _allowed(study, side):
@@ -61,22 +65,32 @@ def option_comparison(study, units="SI") -> go.Figure:
     fig = make_subplots(rows=1, cols=2, subplot_titles=("Duty", "Pressure drop"), horizontal_spacing=0.12)
     duty, dlabel = _conv(t["duty"], "power", units)
     status = list(t["screening"])
-    fig.add_trace(go.Bar(x=labels, y=duty, name="duty", showlegend=False,
-                         marker={"color": [_STATUS_COLOUR[s] for s in status],
-                                     "pattern": {"shape": [_PATTERN[s] for s in status]}},
-                         text=[s for s in status], textposition="outside"), row=1, col=1)
+    # one trace per status, each with one colour and one pattern (a pattern over a list of colours makes plotly.js
+    # log "Invalid color specifier" and may draw the bars black); offsetgroup keeps them in one slot per option
+    for st in [s for s in _STATUS_COLOUR if s in status]:
+        ys = [d if s == st else None for d, s in zip(duty, status)]
+        fig.add_trace(go.Bar(x=labels, y=ys, name=_STATUS_WORDS[st], offsetgroup="duty", legendgroup="status",
+                             marker={"color": _STATUS_COLOUR[st], "pattern": {"shape": _PATTERN[st]}},
+                             text=[_STATUS_WORDS[st] if s == st else "" for s in status], textposition="outside",
+                             cliponaxis=False), row=1, col=1)
     if study.target is not None and study.target.kind == "duty":
         tv, _ = _conv([study.target.value], "power", units)
         fig.add_hline(y=tv[0], line={"dash": "dash", "color": "black", "width": 2}, opacity=1.0,
                       annotation_text="target", row=1, col=1)
+    allowed = {side: _conv([_allowed(study, side)], "pressure", units)[0][0] for side in ("shell", "tube")}
+    same = math.isclose(allowed["shell"], allowed["tube"], rel_tol=1e-9)
     for side, colour, pattern in (("shell", "#1b4f72", ""), ("tube", "#5dade2", "/")):
         dp, plabel = _conv(t[f"dp_{side}"], "pressure", units)
-        fig.add_trace(go.Bar(x=labels, y=dp, name=f"ΔP {side}", marker={"color": colour, "pattern_shape": pattern}),
-                      row=1, col=2)
-        allowed, _ = _conv([_allowed(study, side)], "pressure", units)
+        fig.add_trace(go.Bar(x=labels, y=dp, name=f"ΔP {side}", marker={"color": colour, "pattern_shape": pattern},
+                             offsetgroup=side), row=1, col=2)
+        if same and side == "tube":
+            continue  # one line for both sides: two labels on one line would overlap
         # width and opacity given: the simple_white template draws shapes with no line (width 0) at 30 % opacity
-        fig.add_hline(y=allowed[0], line={"dash": "dot" if side == "shell" else "dash", "color": colour, "width": 2},
-                      opacity=1.0, annotation_text=f"allowed {side}", row=1, col=2)
+        text = "allowed, both sides" if same else f"allowed {side}"
+        fig.add_hline(y=allowed[side], line={"dash": "dot" if side == "shell" else "dash",
+                                             "color": "black" if same else colour, "width": 2},
+                      opacity=1.0, annotation_text=text,
+                      annotation_position="top left" if side == "shell" else "top right", row=1, col=2)
     fig.update_yaxes(title_text=f"duty [{dlabel}]", row=1, col=1)
     fig.update_yaxes(title_text=f"ΔP [{plabel}]", row=1, col=2)
     title = "Options at the revamp conditions"
@@ -87,23 +101,25 @@ def option_comparison(study, units="SI") -> go.Figure:
     return fig
 
 
-def resistance_breakdown(study, share=False) -> go.Figure:
+def resistance_breakdown(study, share=False, units="SI") -> go.Figure:
     """Stacked bars of the five series resistances per case (outside basis): which resistance each option attacks.
 
     Parameters
     ----------
     study : Study
     share : bool
-        Plot each resistance's share of the total instead of its value [m²K/W].
+        Plot each resistance's share of the total instead of its value (on the same axis unit as every resistance
+        chart of the reports: 10⁻⁴ m²·K/W in SI, 10⁻³ h·ft²·°F/Btu in US units).
+    units : {"SI", "US"}
     """
     r = study.resistances
-    if share:
-        r = r.div(r.sum(axis=1), axis=0)
+    factor, unit = resistance_axis(units)
+    r = r.div(r.sum(axis=1), axis=0) if share else r * factor
     fig = go.Figure()
     for name in r.columns:
         fig.add_trace(go.Bar(x=_labels(r.index), y=list(r[name]), name=name, marker_color=_RES_COLOUR.get(name)))
     fig.update_layout(barmode="stack", title="Resistance breakdown (outside area basis)",
-                      yaxis_title="share of 1/U [-]" if share else "resistance [m²·K/W]", **_LAYOUT)
+                      yaxis_title="share of 1/U [-]" if share else f"resistance [{unit}, outside area]", **_LAYOUT)
     fig.update_xaxes(tickangle=-30, automargin=True)
     return fig
 

@@ -21,6 +21,7 @@ import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
 from .errors import InputError
+from .report.labels import rescale, unit_of
 from .units import from_si
 
 __all__ = ["duty_lost", "fouling_trend", "heat_balance"]
@@ -67,7 +68,7 @@ def fouling_trend(mon, units: str = "SI", run_length=None, resample="D") -> go.F
     tab = mon.table
     used = tab[tab["used"]]
     conv = lambda v: from_si(np.asarray(v, dtype=float), "fouling", units)[0]
-    label = from_si(1.0, "fouling", units)[1]
+    label = unit_of(from_si(1.0, "fouling", units)[1])
     other = tab[~tab["used"] & np.isfinite(tab["Rf"])]
     if resample:
         pts, other_pts = _per(used, ["Rf", "Rf_low", "Rf_high"], resample), _per(other, ["Rf"], resample)
@@ -102,7 +103,7 @@ def fouling_trend(mon, units: str = "SI", run_length=None, resample="D") -> go.F
                                  line={"color": "black", "dash": "dash"}, name="projection"))
     _earlier_runs(fig, mon, tab, conv)
     fig.update_layout(title="Fouling resistance from plant data" + what, xaxis_title="time",
-                      yaxis_title=f"Rf, outside area [{label}]", legend={"orientation": "h", "y": -0.2})
+                      yaxis_title=f"fouling resistance, outside area [{label}]", legend={"orientation": "h", "y": -0.2})
     return fig
 
 
@@ -183,7 +184,7 @@ def heat_balance(mon, tolerance=None, resample="D") -> go.Figure:
         side = f", {drift.side}-side temperatures suspect" if drift.side else ", side not identifiable"
         title += f"<br><sub>sensor drift: the closure moved by {drift.change:+.1%} over the data{side}</sub>"
     fig.update_layout(title=title, xaxis_title="time",
-                      yaxis_title="(Q_hot − Q_cold) / mean [%]")
+                      yaxis_title="hot-side minus cold-side duty, over their mean [%]")
     return fig
 
 
@@ -198,19 +199,25 @@ def duty_lost(mon, units: str = "SI", resample="D") -> go.Figure:
     valid = tab[np.isfinite(tab["duty_lost"]) & (tab["flag"] == "")]
     day = _daily(valid, ["duty_lost"])
     p, plabel = from_si(day["duty_lost"].to_numpy(), "power", units)
+    factor, plabel = rescale(plabel)  # kW -> MW, Btu/h -> MMBtu/h
+    p = np.asarray(p, dtype=float) * factor
+    e_factor, elabel = (1e-9, "GJ") if units == "SI" else (1.0 / 1.05505585262e9, "MMBtu")  # 1 MMBtu = 1.055 GJ
     fig = make_subplots(specs=[[{"secondary_y": True}]])
     fig.add_trace(go.Bar(x=day.index, y=p, name=f"duty lost, daily median [{plabel}]"), secondary_y=False)
     if len(valid) > 1:
         t = valid["run_time"].to_numpy()
         dt = np.diff(t, prepend=t[0])
         dt = np.minimum(dt, 3 * np.median(dt[1:]) if len(dt) > 1 else dt)
-        energy = pd.Series(np.cumsum(valid["duty_lost"].to_numpy() * dt) / 1e9,
+        energy = pd.Series(np.cumsum(valid["duty_lost"].to_numpy() * dt) * e_factor,
                            index=pd.DatetimeIndex(valid["timestamp"]))
         if resample:
             energy = energy[energy.index.notna()].resample(resample).last().dropna()
-        fig.add_trace(go.Scatter(x=energy.index, y=energy.to_numpy(), mode="lines", name="energy lost to date [GJ]"),
-                      secondary_y=True)
+        fig.add_trace(go.Scatter(x=energy.index, y=energy.to_numpy(), mode="lines",
+                                 name=f"energy lost to date [{elabel}]"), secondary_y=True)
     fig.update_layout(title="Duty lost to fouling", xaxis_title="time", legend={"orientation": "h", "y": -0.2})
-    fig.update_yaxes(title_text=f"duty lost [{plabel}]", secondary_y=False)
-    fig.update_yaxes(title_text="energy lost [GJ]", secondary_y=True)
+    fig.update_yaxes(title_text=f"duty lost [{unit_of(plabel)}]", secondary_y=False, rangemode="tozero",
+                     tickformat=",~r")
+    # whole numbers with separators from zero up (plotly's default SI suffixes gave ticks such as -0.68k, 3.96k)
+    fig.update_yaxes(title_text=f"energy lost to date [{elabel}]", secondary_y=True, rangemode="tozero",
+                     tickformat=",~r", showgrid=False)
     return fig

@@ -24,31 +24,68 @@ def study():
                                      "capex": {"clean both sides": 30e3, "add 1 shell in series": 600e3}})
 
 
+def _duty_bars(fig):
+    """The duty of each option, read off the per-status duty traces (one value per x, the others None)."""
+    traces = [t for t in fig.data if t.offsetgroup == "duty"]
+    return [next(t.y[i] for t in traces if t.y[i] is not None) for i in range(len(traces[0].x))], traces
+
+
 def test_option_comparison(study):
     fig = plots.option_comparison(study)
-    duty = fig.data[0]
-    assert list(duty.x) == list(study.table.index)
-    # SI display of power is kW (pint conversion of W)
-    assert list(duty.y) == pytest.approx([ureg.Quantity(v, "W").to("kW").magnitude for v in study.table["duty"]])
+    duty, traces = _duty_bars(fig)
+    assert list(traces[0].x) == list(study.table.index)
+    # SI display of a duty is MW (pint conversion of W)
+    assert duty == pytest.approx([ureg.Quantity(v, "W").to("MW").magnitude for v in study.table["duty"]])
     dp_tube = next(t for t in fig.data if t.name == "ΔP tube")
     assert list(dp_tube.y) == pytest.approx(list(study.table["dp_tube"] / 1e3))
     lines = [s for s in fig.layout.shapes if s.type == "line"]
-    assert any(s.y0 == pytest.approx(1600.0) for s in lines)  # the target, kW
+    assert any(s.y0 == pytest.approx(1.6) for s in lines)  # the target, MW
     assert any(s.y0 == pytest.approx(100.0) for s in lines)   # allowed tube dp, kPa
     # the simple_white template's shape default is a line of width 0 (plotly's template): each line must set its own
     assert fig.layout.template.layout.shapedefaults.line.width == 0
     assert all(s.line.width and s.line.width > 0 and s.opacity == 1.0 for s in lines)
     us = plots.option_comparison(study, units="US")
-    assert list(us.data[0].y) == pytest.approx([ureg.Quantity(v, "W").to("BTU/h").magnitude
-                                                for v in study.table["duty"]])
+    assert _duty_bars(us)[0] == pytest.approx([ureg.Quantity(v, "W").to("MMBtu/h").magnitude
+                                               for v in study.table["duty"]])
+    assert us.layout.yaxis.title.text == "duty [MMBtu/h]"
+
+
+def test_option_bars_have_one_colour_each(study):
+    # plotly.js reads marker.pattern with a list of marker colours as an invalid colour (it logs "Invalid color
+    # specifier" and may draw black bars); every bar trace must carry a single colour string
+    for fig in (plots.option_comparison(study), plots.option_comparison(study, "US")):
+        for tr in fig.data:
+            if tr.type == "bar":
+                assert isinstance(tr.marker.color, str), tr.name
+
+
+def test_allowed_lines_do_not_share_a_label():
+    # equal allowed pressure drops on both sides: one line, one label (two labels on one line overlap)
+    s = rv.compare(EX, SVC, [op.Clean()], limits={"dp_tube": "70 kPa", "dp_shell": "70 kPa"})
+    fig = plots.option_comparison(s)
+    texts = [a.text for a in fig.layout.annotations if a.text and a.text.startswith("allowed")]
+    assert texts == ["allowed, both sides"]
+    s2 = rv.compare(EX, SVC, [op.Clean()], limits={"dp_tube": "70 kPa", "dp_shell": "50 kPa"})
+    anns = [a for a in plots.option_comparison(s2).layout.annotations if a.text and a.text.startswith("allowed")]
+    assert sorted(a.text for a in anns) == ["allowed shell", "allowed tube"]
+    assert anns[0].xanchor != anns[1].xanchor  # one label at each end of the subplot
 
 
 def test_resistance_breakdown(study):
+    from revamp.report.labels import RESISTANCE_COLOURS
+
     fig = plots.resistance_breakdown(study)
     assert [t.name for t in fig.data] == list(study.resistances.columns)
     assert fig.layout.barmode == "stack"
     total = [sum(t.y[i] for t in fig.data) for i in range(len(study.table))]
-    assert total == pytest.approx(list(1 / study.table["U_service"]))
+    # axis in 10^-4 m²·K/W: 1/U [m²K/W] × 1e4
+    assert total == pytest.approx(list(1e4 / study.table["U_service"]))
+    assert "10⁻⁴ m²·K/W" in fig.layout.yaxis.title.text
+    assert [t.marker.color for t in fig.data] == [RESISTANCE_COLOURS[t.name] for t in fig.data]
+    us = plots.resistance_breakdown(study, units="US")
+    # 1 m²K/W = 5.678263 h·ft²·°F/Btu (NIST SP 811 factor for the reciprocal of W/m²K to Btu/h·ft²·°F), axis x1e3
+    total_us = [sum(t.y[i] for t in us.data) for i in range(len(study.table))]
+    assert total_us == pytest.approx([5.678263e3 / u for u in study.table["U_service"]], rel=1e-5)
     shares = plots.resistance_breakdown(study, share=True)
     assert [sum(t.y[i] for t in shares.data) for i in range(len(study.table))] == pytest.approx([1.0] * 3)
 
@@ -67,7 +104,9 @@ def test_economics_chart_without_economics_says_so():
     s = rv.compare(EX, SVC, [op.Clean()])
     fig = plots.economics_chart(s)
     assert len(fig.data) == 0 and "No economics" in fig.layout.annotations[0].text
-    assert len(plots.option_comparison(s).data) == 3  # duty, ΔP shell, ΔP tube
+    # duty (one trace per screening status present), ΔP shell, ΔP tube
+    n_status = len(set(s.table["screening"]))
+    assert len(plots.option_comparison(s).data) == n_status + 2
 
 
 def test_figures_are_self_contained(study):

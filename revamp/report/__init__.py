@@ -14,7 +14,6 @@ from .case import (
                    recommendation_html,
                    rf_figure,
                    run_case,
-                   show,
                    study_items,
                    study_money_table,
                    study_table,
@@ -23,6 +22,7 @@ from .case import (
                    unit_table,
                    write_summary,
 )
+from .export import rating_frame, report_tables, write_csv, write_workbook
 from .pages import (
                    CAUTIONS,
                    PACKAGES,
@@ -30,13 +30,16 @@ from .pages import (
                    copy_plotly_js,
                    esc,
                    figure_html,
+                   frame_html,
                    file_sha256,
                    page,
                    plot_text,
                    plotly_js_source,
+                   polish_figure,
                    provenance,
                    provenance_html,
                    safe_name,
+                   show,
                    table_html,
                    write_atomic,
 )
@@ -51,9 +54,11 @@ from .widgets import (
 
 __all__ = [
     "CAUTIONS", "PACKAGES", "RATING_COLUMNS", "breakdown_figure", "case_header_html", "cautions_html", "cycle_text",
-    "copy_plotly_js", "esc", "figure_html", "file_sha256", "monitoring_items", "notes_legend", "option_breakdown_figure", "page",
+    "copy_plotly_js", "esc", "figure_html", "frame_html", "polish_figure", "file_sha256", "monitoring_items",
+    "notes_legend", "option_breakdown_figure", "page",
     "plot_text", "plotly_js_source", "primer_sweep", "primer_table", "primer_widget", "provenance",
     "provenance_html", "rating_items", "ratings_table", "recommendation_html", "rf_figure", "run_case", "safe_name", "show",
     "study_items", "study_money_table", "study_table", "summary", "table_html", "unit_figure", "unit_table",
     "what_if", "what_if_widget", "widgets_available", "write_atomic", "write_summary",
+    "rating_frame", "report_tables", "write_csv", "write_workbook",
 ]

@@ -28,8 +28,10 @@ CAUTIONS = (
     "Mechanical design, flow-induced vibration and code compliance of any change must be verified by licensed "
     "engineers under the local codes before anything is built or operated; the vibration screen can flag a design, "
     "never clear it.",
-    "Costs and prices are the user's inputs (the demo's figures are invented), not estimates made by this tool.",
+    "Costs and prices are the user's inputs, not estimates made by this tool.",
 )
+#: added to the cautions of a report made from the demo unit file shipped with revamp
+DEMO_CAUTION = "This report is made from the demo unit file shipped with revamp: its plant, data, prices and costs are invented."
 
 #: packages whose versions a report records
 PACKAGES = ("revamp", "numpy", "scipy", "pandas", "plotly", "pint", "CoolProp", "papermill", "nbconvert", "PyYAML")
@@ -194,8 +196,18 @@ def provenance_html(prov: dict) -> str:
             + table_html(rows, ["item", "value"]) + inputs + "</section>")
 
 
-def cautions_html() -> str:
-    items = "".join(f"<li>{esc(c)}</li>" for c in CAUTIONS)
+def _is_demo(prov) -> bool:
+    """Whether the report's unit file is the demo's (same SHA-256 as the demo unit file shipped with revamp)."""
+    digests = set((prov or {}).get("inputs_sha256", {}).values())
+    if not digests:
+        return False
+    demo = Path(__file__).resolve().parent.parent / "demo" / "unit.yaml"
+    return demo.is_file() and file_sha256(demo) in digests
+
+
+def cautions_html(prov: dict | None = None) -> str:
+    """The standing cautions; the demo's line only when ``prov`` (a :func:`provenance`) shows the demo unit file."""
+    items = "".join(f"<li>{esc(c)}</li>" for c in CAUTIONS + ((DEMO_CAUTION,) if _is_demo(prov) else ()))
     return f'<section class="rv-cautions" id="cautions"><h2>Cautions</h2><ul>{items}</ul></section>'
 
 
@@ -209,6 +221,9 @@ table.dataframe td{text-align:right}table.dataframe th{text-align:left}
 .rv-cautions{background:#fff7e0;border-left:4px solid #d90;padding:.4rem 1rem;margin:1rem 0}
 .rv-provenance{font-size:.8rem;color:#444}.rv-status-ok{color:#161}.rv-status-failed{color:#a11;font-weight:600}
 .jp-InputPrompt,.jp-OutputPrompt,.prompt{display:none}pre{white-space:pre-wrap}
+table.rv-table{max-width:100%}table.rv-table thead th{max-width:7.5em;white-space:normal;overflow-wrap:break-word;
+font-weight:600;vertical-align:bottom}table.rv-table td{overflow-wrap:break-word}
+.rv-scroll{max-width:100%;overflow-x:auto}.rv-note{color:#555;font-size:.85rem}
 @media print{.plotly-graph-div{page-break-inside:avoid}}
 """
 
@@ -224,8 +239,85 @@ def page(title: str, body_html: str, prov: dict | None = None, plotly_src: str |
     parts = ["<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
              '<meta name="viewport" content="width=device-width, initial-scale=1">',
              f"<title>{esc(title)}</title>", f"<style>{_CSS}</style>", script, "</head><body>",
-             f"<h1>{esc(title)}</h1>", cautions_html() if cautions else "", body_html,
+             f"<h1>{esc(title)}</h1>", cautions_html(prov) if cautions else "", body_html,
              provenance_html(prov) if prov else "", "</body></html>"]
     return "\n".join(p for p in parts if p)
 
 
+
+
+def frame_html(df, cls: str = "rv-table", digits: int = 3, system: str = "SI") -> str:
+    """A pandas table as a reader sees it: display labels and units (:mod:`.labels`), engineering precision, numbers
+    right-aligned, no ``True``/``<NA>``/``inf``; every cell escaped."""
+    import numbers as _numbers
+
+    from .labels import display_frame, format_value
+
+    shown = display_frame(df, system=system)
+    out = [f'<div class="rv-scroll"><table class="{esc(cls)}"><thead><tr><th>{esc(shown.index.name or "")}</th>']
+    out += [f"<th>{esc(c)}</th>" for c in shown.columns]
+    out.append("</tr></thead><tbody>")
+    for label, row in zip(shown.index, shown.itertuples(index=False)):
+        cells = [f"<th>{esc(label)}</th>"]
+        for v in row:
+            num = isinstance(v, _numbers.Number) and not isinstance(v, bool)
+            cells.append(f'<td class="num">{esc(format_value(v, digits))}</td>' if num
+                         else f"<td>{esc(format_value(v, digits))}</td>")
+        out.append("<tr>" + "".join(cells) + "</tr>")
+    out.append("</tbody></table></div>")
+    return "".join(out)
+
+
+def polish_figure(fig, system: str = "SI"):
+    """Apply the display conventions to a figure made elsewhere (in place; returns it): each resistance's own colour,
+    legend names and axis units in their display form (kW -> MW), the resistance axis in ``system`` units."""
+    from ..units import from_si
+    from .labels import RESISTANCE_COLOURS, display_name, rescale, split_label
+
+    res_fig = False
+    for tr in fig.data:
+        name = getattr(tr, "name", None)
+        if name in RESISTANCE_COLOURS and tr.type == "bar":
+            tr.marker.color = RESISTANCE_COLOURS[name]
+            res_fig = True
+        elif name and split_label(name)[1]:
+            factor, _ = rescale(split_label(name)[1])
+            if factor != 1.0 and tr.y is not None:
+                tr.y = [None if v is None else float(v) * factor for v in tr.y]
+            tr.name = display_name(name)
+    ytitle = fig.layout.yaxis.title.text or ""
+    if res_fig and system == "US" and "10⁻⁴ m²·K/W" in ytitle:
+        factor = 1e-4 * from_si(1.0, "fouling", "US")[0] * 1e3
+        for tr in fig.data:
+            tr.y = [float(v) * factor for v in tr.y]
+        fig.layout.yaxis.title.text = ytitle.replace("10⁻⁴ m²·K/W", "10⁻³ h·ft²·°F/Btu")
+    elif ytitle and rescale(ytitle.strip())[0] != 1.0:  # an axis titled by its bare unit ("kW")
+        fig.layout.yaxis.title.text = f"duty [{rescale(ytitle.strip())[1]}]" if ytitle.strip() in ("kW", "W") \
+            else rescale(ytitle.strip())[1]
+    return fig
+
+
+def _notes_html(text: str) -> str:
+    """A sentence-list string ("Notes ...: a; b; c") as a heading line and a bulleted list."""
+    head, _, rest = text.partition(": ")
+    items = [s.strip() for s in rest.split("; ") if s.strip()]
+    return f"<p>{esc(head)}:</p><ul>" + "".join(f"<li>{esc(i)}</li>" for i in items) + "</ul>"
+
+
+def show(obj, interactive: bool = False, units: str = "SI"):
+    """Display a plotly figure, a table or a line of text in a notebook, in the report's display conventions: live
+    plotly in JupyterLab, offline HTML for the static reports."""
+    from IPython.display import HTML, display
+
+    if hasattr(obj, "to_plotly_json"):
+        polish_figure(obj, units)
+        if interactive:
+            obj.show()
+        else:
+            display(HTML(figure_html(obj)))
+    elif hasattr(obj, "to_html"):
+        display(HTML(frame_html(obj, system=units)))
+    elif isinstance(obj, str) and obj.startswith("Notes from the analysis: ") and "; " in obj:
+        display(HTML(_notes_html(obj)))
+    else:
+        display(HTML(f"<p>{esc(obj)}</p>"))

@@ -1,6 +1,8 @@
 """Interactive controls for JupyterLab (ipywidgets): re-rate and redraw in place; static stand-ins for reports."""
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 from .case import breakdown_figure, ratings_table
 from .pages import esc
 
@@ -40,46 +42,322 @@ def what_if(case, throughput=1.0, fouling_shell=None, fouling_tube=None, twist_r
     return out
 
 
-def what_if_widget(case, system: str = "SI"):
-    """ipywidgets controls (throughput, fouling on each side, twist ratio, shells) that re-rate and redraw in place."""
+#: the what-if controls: name -> (lowest, highest, step) of the slider, SI (fouling [m²K/W] on its own surface)
+_FOULING_STEP = 0.25e-4
+
+
+@dataclass(frozen=True)
+class WhatIfPoint:
+    """One what-if case as the table and chart need it (a scalar slice of a vectorized rating).
+
+    Numeric fields as :class:`revamp.rating.Rating` names them [SI]; ``resistances`` the five series resistances
+    [m²K/W, outside-area basis]."""
+
+    duty: float
+    t_out_shell: float
+    t_out_tube: float
+    U_clean: float
+    U_service: float
+    h_shell: float
+    h_tube: float
+    dp_shell: float
+    dp_tube: float
+    velocity_tube: float
+    velocity_shell: float
+    resistances: object
+
+
+def _points(rating, n: int) -> list:
+    """Scalar slices of a rating over ``n`` cases."""
+    import numpy as np
+
+    cols = {f: np.broadcast_to(np.asarray(getattr(rating, f), dtype=float), (n,))
+            for f in WhatIfPoint.__dataclass_fields__ if f != "resistances"}
+    res = rating.resistances
+    rows = [res.iloc[i] if hasattr(res, "iloc") and getattr(res, "ndim", 1) == 2 else res for i in range(n)]
+    return [WhatIfPoint(**{f: float(v[i]) for f, v in cols.items()}, resistances=rows[i].astype(float))
+            for i in range(n)]
+
+
+class WhatIf:
+    """What-if ratings of one exchanger (as is, with twisted tapes, with N shells in series), cached.
+
+    A miss rates the whole range of the slider that moved in one vectorized :func:`revamp.rate` call per case
+    (throughput, shell fouling or tube fouling as an array of the service), so the next positions of that slider are
+    already rated; the twist ratio and the shell count change the exchanger, so they cost one scalar rating.
+
+    Parameters
+    ----------
+    case : Exchanger case of a unit file (``exchanger``, ``service``, ``throughput``, ``limits``).
+    throughputs, foulings : ndarray
+        The slider positions: throughput factors [-] and fouling resistances [m²K/W].
+    """
+
+    def __init__(self, case, throughputs, foulings_shell, foulings_tube):
+        import numpy as np
+
+        self.case = case
+        self.grid = {"throughput": np.asarray(throughputs, float), "fouling_shell": np.asarray(foulings_shell, float),
+                     "fouling_tube": np.asarray(foulings_tube, float)}
+        self._cache: dict = {}
+        self.ratings_run = 0  # vectorized or scalar rate() calls made (for the benchmark)
+
+    @staticmethod
+    def _key(x) -> float:
+        return round(float(x), 9)
+
+    def _rate(self, kind, throughput, fs, ft, twist_ratio, shells, along):
+        import revamp as rv
+
+        from ..options import TwistedTape
+
+        values = {"throughput": throughput, "fouling_shell": fs, "fouling_tube": ft}
+        if along is not None:
+            values[along] = self.grid[along]
+        svc = self.case.service.scaled(throughput=values["throughput"]).replace(
+            fouling_shell=values["fouling_shell"], fouling_tube=values["fouling_tube"])
+        ex = self.case.exchanger
+        if kind == "tape":
+            ex, svc = TwistedTape(twist_ratio=twist_ratio).apply(ex, svc)
+        elif kind == "shells":
+            ex = ex.replace(shells=int(shells))
+        rating = rv.rate(ex, svc)
+        self.ratings_run += 1
+        n = len(self.grid[along]) if along is not None else 1
+        for i, pt in enumerate(_points(rating, n)):
+            v = dict(values)
+            if along is not None:
+                v[along] = self.grid[along][i]
+            self._cache[self._cache_key(kind, v["throughput"], v["fouling_shell"], v["fouling_tube"], twist_ratio,
+                                        shells)] = pt
+
+    def _cache_key(self, kind, throughput, fs, ft, twist_ratio, shells):
+        k = self._key
+        return (kind, k(throughput), k(fs), k(ft), k(twist_ratio) if kind == "tape" else 0.0,
+                int(shells) if kind == "shells" else 0)
+
+    def point(self, kind, throughput, fs, ft, twist_ratio=4.0, shells=1, along=None) -> WhatIfPoint:
+        """One case at these settings; on a miss the whole range of ``along`` (a slider name) is rated at once."""
+        key = self._cache_key(kind, throughput, fs, ft, twist_ratio, shells)
+        if key not in self._cache:
+            at = {"throughput": throughput, "fouling_shell": fs, "fouling_tube": ft}
+            on_grid = along in self.grid and bool((abs(self.grid[along] - at[along]) < 1e-12).any())
+            try:
+                self._rate(kind, throughput, fs, ft, twist_ratio, shells, along if on_grid else None)
+            except Exception:  # a setting elsewhere on the slider that cannot be rated: rate this one alone
+                if not on_grid:
+                    raise
+                self._rate(kind, throughput, fs, ft, twist_ratio, shells, None)
+        return self._cache[key]
+
+    def cases(self, throughput, fs, ft, twist_ratio=4.0, shells=None, along="throughput") -> dict:
+        """``{label: WhatIfPoint}``: as is, with twisted tapes, and with ``shells`` in series when it differs."""
+        ex = self.case.exchanger
+        out = {"as is": self.point("as is", throughput, fs, ft, along=along),
+               f"twisted tape y={twist_ratio:g}": self.point("tape", throughput, fs, ft, twist_ratio, along=along)}
+        n = int(shells or ex.shells)
+        if n != ex.shells:
+            out[f"{n} shell(s) in series"] = self.point("shells", throughput, fs, ft, shells=n, along=along)
+        return out
+
+
+def _limits_row(case, points: dict, system: str) -> list:
+    """One cell per case: which pressure drop is over the allowed (the unit file's, or the screening default)."""
+    from ..screening import DEFAULT_DP_LIQUID
+    from ..units import from_si
+    from .labels import format_value
+
+    limits = getattr(case, "limits", None) or {}
+    cells = []
+    for pt in points.values():
+        over = []
+        for side in ("shell", "tube"):
+            allowed = float(limits.get(f"dp_{side}", DEFAULT_DP_LIQUID))
+            dp = getattr(pt, f"dp_{side}")
+            if dp > allowed:
+                (a, unit), b = from_si(allowed, "pressure", system), from_si(dp, "pressure", system)[0]
+                over.append(f"{side} ΔP {format_value(b)} > {format_value(a)} {unit} allowed")
+        cells.append("over: " + "; ".join(over) if over else "within allowed ΔP")
+    return cells
+
+
+class _Affine:
+    """SI -> display unit of one quantity kind as ``a + b·x`` (found once with pint, then plain arithmetic)."""
+
+    def __init__(self, kind: str, system: str):
+        from ..units import from_si
+        from .labels import rescale
+
+        zero, unit = from_si(0.0, kind, system)
+        one = from_si(1.0, kind, system)[0]
+        factor, self.unit = rescale(unit)
+        self.a, self.b = zero * factor, (one - zero) * factor
+
+    def __call__(self, x: float) -> float:
+        return self.a + self.b * x
+
+
+def what_if_table_html(case, points: dict, system: str = "SI", _conv: dict | None = None) -> str:
+    """The what-if table: the main results of each case in display units (the rows of the reports' ratings table),
+    and a row flagging pressure drops over the allowed. Built without pandas or pint in the loop (a slider move
+    redraws it)."""
+    from .case import RATING_COLUMNS
+    from .labels import display_name, format_value
+
+    conv = _conv if _conv is not None else {kind: _Affine(kind, system) for _, kind in RATING_COLUMNS}
+    head = "".join(f"<th>{esc(k)}</th>" for k in points)
+    rows = []
+    for attr, kind in RATING_COLUMNS:
+        c = conv[kind]
+        cells = "".join(f'<td class="num">{esc(format_value(c(getattr(p, attr))))}</td>' for p in points.values())
+        rows.append(f"<tr><th>{esc(display_name(f'{attr} [{c.unit}]', rescale_units=False))}</th>{cells}</tr>")
+    flags = _limits_row(case, points, system)
+    rows.append("<tr><th>pressure drop vs allowed</th>" + "".join(
+        f'<td class="{"rv-status-failed" if f.startswith("over") else "rv-status-ok"}">{esc(f)}</td>'
+        for f in flags) + "</tr>")
+    return (f'<div class="rv-scroll"><table class="rv-table"><thead><tr><th></th>{head}</tr></thead><tbody>'
+            + "".join(rows) + "</tbody></table></div>")
+
+
+def _breakdown_traces(points: dict, system: str):
+    """x labels, {resistance: y values} and the axis unit of the resistance chart (shared with the reports)."""
+    from .labels import RESISTANCES, resistance_axis
+    from .pages import plot_text
+
+    factor, unit = resistance_axis(system)
+    labels = [plot_text(k) for k in points]
+    return labels, {n: [float(p.resistances[n]) * factor for p in points.values()] for n in RESISTANCES}, unit
+
+
+def _live_hint():
+    """A plain hint shown where the controls are not live (a saved notebook reopened: 'model not found'); the
+    controls, once drawn by a running kernel, carry a style that hides it."""
+    from IPython.display import HTML, display
+
+    display(HTML('<p class="rv-widget-hint" style="color:#8a5a00">The controls below are live only while this '
+                 "notebook's kernel runs. If they show an error (e.g. after reopening a saved notebook), run all "
+                 "cells again (Run &gt; Run All Cells).</p>"))
+    return "<style>.rv-widget-hint{display:none}</style>"
+
+
+def _figure_widget(fig):
+    """A plotly FigureWidget (updated in place) when anywidget is installed, else None."""
+    try:
+        import plotly.graph_objects as go
+
+        return go.FigureWidget(fig)
+    except ImportError:
+        return None
+
+
+def what_if_widget(case, system: str = "SI", debounce: float = 0.03):
+    """Controls (throughput, fouling on each side, twist ratio, shells) that re-rate and update the table and the
+    chart in place.
+
+    Moves closer together than ``debounce`` [s] are rated once, at the last position. The fouling sliders are on
+    each side's own surface (tube fouling on the inside area, as a unit file gives it); the chart beside them refers
+    every resistance to the outside area, so the tube fouling there is the slider's value × do/di.
+    """
+    import asyncio
+    import time
+
     import ipywidgets as w
+    import numpy as np
+    import plotly.graph_objects as go
     from IPython.display import display
 
+    from ..units import from_si
+    from .labels import RESISTANCE_COLOURS, unit_of
+
+    ex = case.exchanger
     f_s, f_t = float(case.service.fouling_shell), float(case.service.fouling_tube)
-    slider = dict(continuous_update=False, style={"description_width": "11em"}, layout=w.Layout(width="32em"))
+    top = max(10e-4, 3 * max(f_s, f_t))
+    foulings = np.round(np.arange(0.0, top + _FOULING_STEP / 2, _FOULING_STEP), 9)
+    throughputs = np.round(np.arange(0.6, 1.6 + 1e-9, 0.05), 9)
+    engine = WhatIf(case, throughputs, foulings, foulings)
+    f_factor, f_unit = from_si(1.0, "fouling", system)
+    f_unit = unit_of(f_unit)
+    scale = 1e4 if system == "SI" else 1e3  # slider in 10⁻⁴ m²·K/W, or 10⁻³ h·ft²·°F/Btu
+    f_label = ("10⁻⁴ " if system == "SI" else "10⁻³ ") + f_unit
+    shown = lambda si: float(si) * f_factor * scale
+    slider = dict(continuous_update=False, style={"description_width": "15em"}, layout=w.Layout(width="40em"))
+    snap = lambda v: float(foulings[np.argmin(np.abs(foulings - v))])
     controls = {
-        "throughput": w.FloatSlider(value=case.throughput, min=0.6, max=1.6, step=0.05,
-                                    description="throughput factor", **slider),
-        "fouling_shell": w.FloatSlider(value=f_s * 1e4, min=0, max=max(10.0, 3 * f_s * 1e4), step=0.25,
-                                       description="shell fouling [1e-4 m²K/W]", **slider),
-        "fouling_tube": w.FloatSlider(value=f_t * 1e4, min=0, max=max(10.0, 3 * f_t * 1e4), step=0.25,
-                                      description="tube fouling [1e-4 m²K/W]", **slider),
-        "twist_ratio": w.FloatSlider(value=4.0, min=2.5, max=10, step=0.5, description="twist ratio y", **slider),
-        "shells": w.IntSlider(value=int(case.exchanger.shells), min=1, max=4, description="shells in series",
-                              **slider),
+        "throughput": w.FloatSlider(value=float(throughputs[np.argmin(np.abs(throughputs - case.throughput))]),
+                                    min=0.6, max=1.6, step=0.05, description="throughput (both flows) ×", **slider),
+        "fouling_shell": w.SelectionSlider(options=[(f"{shown(v):.3g}", float(v)) for v in foulings],
+                                           value=snap(f_s), description=f"shell fouling [{f_label}]", **slider),
+        "fouling_tube": w.SelectionSlider(options=[(f"{shown(v):.3g}", float(v)) for v in foulings],
+                                          value=snap(f_t), description=f"tube fouling, inside area [{f_label}]",
+                                          **slider),
+        "twist_ratio": w.FloatSlider(value=4.0, min=2.5, max=10, step=0.5, description="twisted tape: twist ratio y",
+                                     **slider),
+        "shells": w.IntSlider(value=int(ex.shells), min=1, max=4, description="shells in series", **slider),
     }
-    table, plot, status = w.HTML(), w.Output(), w.HTML()
+    basis = w.HTML()
+    table, status = w.HTML(layout=w.Layout(min_height="22em")), w.HTML()
+    from .case import RATING_COLUMNS
 
-    def redraw(_=None):
-        import time
+    conv = {kind: _Affine(kind, system) for _, kind in RATING_COLUMNS}
+    hide_hint = _live_hint()
 
+    def current(along="throughput"):
+        c = {k: v.value for k, v in controls.items()}
+        return engine.cases(c["throughput"], c["fouling_shell"], c["fouling_tube"], c["twist_ratio"], c["shells"],
+                            along=along)
+
+    points = current()
+    labels, ys, r_unit = _breakdown_traces(points, system)
+    fig = go.Figure([go.Bar(name=n, x=labels, y=y, marker_color=RESISTANCE_COLOURS[n]) for n, y in ys.items()])
+    fig.update_layout(barmode="stack", title="Where the resistance to heat transfer lies (what if)", height=420,
+                      yaxis_title=f"resistance [{r_unit}, outside area]", margin={"t": 50},
+                      legend={"orientation": "h", "y": -0.2}, template="simple_white")
+    live = _figure_widget(fig)
+    plot = live if live is not None else w.Output(layout=w.Layout(min_height="440px"))
+    ratio = float(ex.tube_od) / float(ex.tube_id)
+    state = {"handle": None, "along": "throughput"}
+
+    def redraw():
         start = time.perf_counter()
+        state["handle"] = None
         try:
-            ratings = what_if(case, controls["throughput"].value, controls["fouling_shell"].value * 1e-4,
-                              controls["fouling_tube"].value * 1e-4, controls["twist_ratio"].value,
-                              controls["shells"].value)
+            pts = current(state["along"])
         except Exception as exc:  # an infeasible setting: say why, keep the last picture
             status.value = f"<p class='rv-status-failed'>{esc(exc)}</p>"
             return
-        table.value = ratings_table(ratings, system).to_html(escape=True, border=0)
-        with plot:
-            plot.clear_output(wait=True)
-            breakdown_figure(ratings).show()
-        status.value = f"<small>re-rated in {1e3 * (time.perf_counter() - start):.0f} ms</small>"
+        table.value = what_if_table_html(case, pts, system, conv)
+        labels, ys, _ = _breakdown_traces(pts, system)
+        if live is not None:
+            with live.batch_update():
+                for tr in live.data:
+                    tr.x, tr.y = labels, ys[tr.name]
+        else:  # no anywidget: redraw the figure in an output of fixed height (the page does not jump)
+            for tr in fig.data:
+                tr.x, tr.y = labels, ys[tr.name]
+            with plot:
+                plot.clear_output(wait=True)
+                fig.show()
+        ft = controls["fouling_tube"].value
+        basis.value = (f"<small>Tube fouling {shown(ft):.3g} {esc(f_label)} on the inside area is "
+                       f"{shown(ft * ratio):.3g} on the outside area of the chart (× do/di = {ratio:.3f}).</small>")
+        status.value = (f"<small>updated in {1e3 * (time.perf_counter() - start):.0f} ms{hide_hint}</small>")
+
+    def changed(change):
+        for name, control in controls.items():
+            if control is change["owner"] and name in engine.grid:
+                state["along"] = name  # the next miss rates this slider's whole range
+        try:
+            loop = asyncio.get_running_loop()
+        except RuntimeError:  # no event loop (called directly): at once
+            redraw()
+            return
+        if state["handle"] is not None:
+            state["handle"].cancel()
+        state["handle"] = loop.call_later(debounce, redraw)
 
     for c in controls.values():
-        c.observe(redraw, names="value")
-    box = w.VBox([w.HTML(f"<b>What if: {esc(case.tag)}</b>"), *controls.values(), status, table, plot])
+        c.observe(changed, names="value")
+    box = w.VBox([w.HTML(f"<b>What if: {esc(case.tag)}</b>"), *controls.values(), basis, status, table, plot])
     redraw()
     display(box)
     return box
@@ -125,39 +403,63 @@ def primer_sweep(rating):
     return pd.DataFrame(rows).T
 
 
-def primer_widget(rating):
-    """Sliders for each resistance of one rating; the bar chart and U update in place."""
+def primer_widget(rating, system: str = "SI"):
+    """Sliders for each resistance of one rating; the bar chart and U update in place.
+
+    The fouling sliders are on each side's own surface (tube fouling on the inside area); the chart refers every
+    resistance to the outside area (tube fouling × do/di), as every resistance chart of the reports does.
+    """
     import ipywidgets as w
+    import plotly.graph_objects as go
     from IPython.display import display
+
+    from ..units import from_si
+    from .labels import RESISTANCE_COLOURS, resistance_axis, unit_of
 
     ratio = rating.exchanger.tube_od / rating.exchanger.tube_id
     fs = float(rating.resistances["shell fouling"])
     ft = float(rating.resistances["tube fouling"]) / ratio
-    st = dict(continuous_update=False, style={"description_width": "14em"}, layout=w.Layout(width="34em"))
-    c = {"scale_h_shell": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="shell film h ×", **st),
-         "scale_h_tube": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="tube film h ×", **st),
-         "fouling_shell": w.FloatSlider(value=fs * 1e4, min=0, max=max(10, 3 * fs * 1e4), step=0.25,
-                                        description="shell fouling [1e-4 m²K/W]", **st),
-         "fouling_tube": w.FloatSlider(value=ft * 1e4, min=0, max=max(10, 3 * ft * 1e4), step=0.25,
-                                       description="tube fouling [1e-4 m²K/W]", **st),
+    factor, r_unit = resistance_axis(system)
+    u_factor, u_unit = from_si(1.0, "htc", system)
+    u_unit = unit_of(u_unit)
+    st = dict(continuous_update=False, style={"description_width": "17em"}, layout=w.Layout(width="40em"))
+    fouling = lambda v, d: w.FloatSlider(value=v * factor, min=0, max=max(10.0, 3 * v * factor), step=0.25,
+                                         description=d, readout_format=".2f", **st)
+    c = {"scale_h_shell": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="shell film coefficient ×",
+                                        **st),
+         "scale_h_tube": w.FloatSlider(value=1, min=0.25, max=4, step=0.05, description="tube film coefficient ×",
+                                       **st),
+         "fouling_shell": fouling(fs, f"shell fouling [{r_unit}]"),
+         "fouling_tube": fouling(ft, f"tube fouling, inside area [{r_unit}]"),
          "wall_factor": w.FloatSlider(value=1, min=0.2, max=5, step=0.1, description="wall conductivity ×", **st)}
-    out, label = w.Output(), w.HTML()
+    label = w.HTML()
+    hide_hint = _live_hint()
+    names = list(rating.resistances.index)
+    fig = go.Figure(go.Bar(x=names, y=[0.0] * len(names), marker_color=[RESISTANCE_COLOURS.get(n, "#888")
+                                                                           for n in names]))
+    fig.update_layout(yaxis_title=f"resistance [{r_unit}, outside area]", height=360, margin={"t": 20},
+                      template="simple_white")
+    live = _figure_widget(fig)
+    out = live if live is not None else w.Output(layout=w.Layout(min_height="380px"))
 
     def redraw(_=None):
-        import plotly.graph_objects as go
+        r = _primer_u(rating, c["scale_h_shell"].value, c["scale_h_tube"].value, c["fouling_shell"].value / factor,
+                      c["fouling_tube"].value / factor, c["wall_factor"].value)
+        label.value = (f"<b>U = {u_factor / float(r.sum()):,.0f} {esc(u_unit)}</b> (as rated: "
+                       f"{u_factor * float(rating.U_service):,.0f}); controlling: {esc(r.idxmax())}. Tube fouling "
+                       f"{c['fouling_tube'].value:.2f} on the inside area is {c['fouling_tube'].value * ratio:.2f} "
+                       f"on the outside area of the chart.{hide_hint}")
+        y = (r * factor).tolist()
+        if live is not None:
+            live.data[0].y = y
+        else:
+            fig.data[0].y = y
+            with out:
+                out.clear_output(wait=True)
+                fig.show()
 
-        r = _primer_u(rating, c["scale_h_shell"].value, c["scale_h_tube"].value, c["fouling_shell"].value * 1e-4,
-                      c["fouling_tube"].value * 1e-4, c["wall_factor"].value)
-        label.value = (f"<b>U = {1 / float(r.sum()):.0f} W/m²·K</b> (as rated: {float(rating.U_service):.0f}); "
-                       f"controlling: {esc(r.idxmax())}")
-        fig = go.Figure(go.Bar(x=list(r.index), y=(r * 1e4).tolist()))
-        fig.update_layout(yaxis_title="resistance [10⁻⁴ m²·K/W]", height=360, margin={"t": 20})
-        with out:
-            out.clear_output(wait=True)
-            fig.show()
-
-    for s in c.values():
-        s.observe(redraw, names="value")
+    for s_ in c.values():
+        s_.observe(redraw, names="value")
     box = w.VBox([*c.values(), label, out])
     redraw()
     display(box)
