@@ -167,7 +167,7 @@ def _cmd_batch(args) -> int:
     result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet,
                        units=args.units)
     print(result.index_path)
-    for note in result.notes:
+    for note in getattr(result, "notes", ()):
         print(f"note: {note}", file=sys.stderr)
     for tag, reason in result.failures.items():
         print(f"{tag}: FAILED: {reason}", file=sys.stderr)

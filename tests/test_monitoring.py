@@ -383,7 +383,7 @@ def test_figures_build():
     assert "Rf, steady rows" in names and any(n and n.startswith("fit:") for n in names) and "projection" in names
     assert len(pm.heat_balance(m).data) >= 1
     us = pm.duty_lost(m, units="US")
-    assert "BTU/h" in us.data[0].name
+    assert "MMBtu/h" in us.data[0].name  # US display unit of a duty
     with pytest.raises(InputError, match="monitoring"):
         pm.fouling_trend(object())
 
@@ -431,7 +431,7 @@ def test_figures_draw_daily_points_or_every_row():
     dl = pm.duty_lost(m)
     valid = tab[np.isfinite(tab["duty_lost"]) & (tab["flag"] == "")]
     lost = by_day(valid)["duty_lost"].median().dropna()
-    assert np.asarray(dl.data[0].y, float) == pytest.approx(lost.to_numpy() / 1e3, rel=1e-12)  # kW
+    assert np.asarray(dl.data[0].y, float) == pytest.approx(lost.to_numpy() / 1e6, rel=1e-12)  # MW (display unit)
     energy_daily, energy_all = dl.data[1], pm.duty_lost(m, resample=None).data[1]
     assert len(energy_all.y) == len(valid) and len(energy_daily.y) == len(lost)
     # the daily line is the running total at each day's last row

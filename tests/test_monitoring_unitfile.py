@@ -19,7 +19,9 @@ def _unit(tmp_path, **plant):
     (tmp_path / "plant").mkdir(exist_ok=True)
     path = tmp_path / "plant" / "e1.csv"
     if not path.exists():
-        path.write_text(CSV_HEADER.replace(",", plant.get("delimiter", ",")))
+        d = plant.get("delimiter", ",")  # one placeholder row (check wants data below the header); the tests
+        path.write_text(CSV_HEADER.replace(",", d)  # write the real rows from the exchanger once it is built
+                        + d.join(["2031-03-01 00:00", "10", "420", "400", "12", "300", "320"]) + "\n")
     doc = make_unit()
     doc["exchangers"][0]["plant_data"] = {"file": "plant/e1.csv", "fouling_side": "tube", **plant}
     return write_unit(tmp_path / "unit.yaml", doc), path
