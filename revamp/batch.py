@@ -388,7 +388,11 @@ class _Run:
 
     def settle(self, res: dict) -> None:
         """Take one finished exchanger into the folder: move its report in, or remove an older one if it failed."""
-        if res.get("kind") == "train":  # the train page: written by its job, linked from the index
+        if res.get("kind") == "train":  # the train page: staged by its job, moved in, linked from the index
+            if res.get("staged") and Path(res["staged"]).parent != self.out:
+                from .batch_train import TRAIN_FILE
+
+                os.replace(res["staged"], self.out / TRAIN_FILE)
             self.train = res
             return
         row = self.by_tag[res["tag"]]

@@ -41,12 +41,13 @@ def run_train_page(job: dict) -> dict:
         prov = report.provenance(job["unit_file"], None, parameters={"page": "train", "tol": PAGE_TOL})
         html = train_page(f"{unit.name} — preheat train", today, study, throughput, unit.network_throughput,
                           unit.economics.currency, prov)
-        report.write_atomic(out / TRAIN_FILE, html)
+        # into the run's temporary folder when there is one: the batch moves it in beside the index that links it
+        staged = report.write_atomic(Path(job["stage"]) / TRAIN_FILE if job.get("stage") else out / TRAIN_FILE, html)
         base = study.table.loc["base"]
         summary = {"furnace_inlet": today.furnace_inlet, "furnace_duty": today.furnace_duty,
                    "furnace_duty_revamp": float(base["furnace_duty"]), "max_throughput": throughput.factor,
                    "binding": ", ".join(throughput.binding), "limits_revamp": base["limits"]}
-        return {"status": "ok", "reason": "", "file": TRAIN_FILE, "summary": summary,
+        return {"status": "ok", "reason": "", "file": TRAIN_FILE, "summary": summary, "staged": str(staged),
                 "seconds": time.perf_counter() - start}
     except Exception as exc:  # recorded in the index, never stops the batch
         return {"status": "failed", "reason": f"{exc.__class__.__name__}: {exc}"[:300], "file": None, "summary": {},

@@ -31,7 +31,8 @@ GONE_WITHIN = 30.0  # s
 
 
 def _reports(out: Path) -> set:
-    return {p.name for p in out.glob("*.html") if p.name != "index.html"}
+    """The exchanger reports (the index and the unit's train page, linked from its own section, are not)."""
+    return {p.name for p in out.glob("*.html") if p.name not in ("index.html", "train.html")}
 
 
 def _linked(index_text: str) -> set:
