@@ -182,24 +182,36 @@ def _stop_processes(procs, grace: float = 3.0) -> None:
     psutil.wait_procs(alive, timeout=grace)
 
 
-def _process_tree(pids) -> list:
-    """The processes ``pids`` and all their descendants (kernels started by a worker), as psutil handles."""
+def _stop_workers(workers, grace: float = 3.0) -> None:
+    """Stop the pool's worker processes and the kernels they started.
+
+    The kernels (grandchildren, each in its own session) are stopped through psutil; the workers (children) through
+    their multiprocessing handles, which must be the ones to reap them, or the pool would wait for them forever.
+    """
     import psutil
 
-    out = []
-    for pid in pids:
+    kernels = []
+    for w in workers:
         try:
-            proc = psutil.Process(pid)
-            out += proc.children(recursive=True) + [proc]
+            kernels += psutil.Process(w.pid).children(recursive=True)
         except psutil.Error:
             pass
-    return out
+    for w in workers:
+        w.terminate()  # the worker's own SIGTERM handler stops its kernel too
+    _stop_processes(kernels, grace)
+    for w in workers:
+        w.join(grace)
+        if w.is_alive():
+            w.kill()
+            w.join(grace)
 
 
 def _worker_exit(signum=None, frame=None) -> None:
     """End this worker and the kernel it started (a kernel runs in its own session: it must be stopped by name)."""
+    import psutil
+
     try:
-        _stop_processes(_process_tree([os.getpid()])[:-1], grace=1.0)
+        _stop_processes(psutil.Process().children(recursive=True), grace=1.0)
     finally:
         os._exit(1)
 
@@ -284,8 +296,7 @@ def _execute(jobs_list: list, workers: int, on_result) -> None:
             on_result(res)
     except BaseException:
         with _no_interrupts(deliver=False):
-            procs = getattr(pool, "_processes", None) or {}
-            _stop_processes(_process_tree(list(procs)))
+            _stop_workers(list((getattr(pool, "_processes", None) or {}).values()))
             pool.shutdown(wait=False, cancel_futures=True)
         raise
     pool.shutdown(wait=True)
@@ -373,27 +384,31 @@ class _Run:
         self.stage = Path(tempfile.mkdtemp(prefix=".run-", dir=out))
         self.index_written = False
 
-    def settle(self, res: dict) -> None:
-        """Take one finished exchanger into the folder: move its report in, or remove an older one if it failed."""
+    def settle(self, res: dict) -> Path:
+        """Take one finished exchanger into the folder and rewrite the index: its report moved in, or an older report
+        of it removed if it failed. The index is rendered before the move, so that the two land a moment apart."""
         row = self.by_tag[res["tag"]]
         row.update({k: res[k] for k in ("status", "reason", "summary")})
-        target = self.out / row["fname"]
         if res.get("staged"):
-            os.replace(res["staged"], target)
             row["file"] = row["fname"]
-        else:
-            self._drop_stale(row)
-
-    def _drop_stale(self, row) -> None:
-        if row["status"] == "failed" and not row.get("file"):
-            (self.out / row["fname"]).unlink(missing_ok=True)  # an older report must not stand beside "failed"
+        text = self._index_text(self.running_text())
+        if res.get("staged"):
+            os.replace(res["staged"], self.out / row["fname"])
+        return self._write(text)
 
     def write_index(self, progress: str = "") -> Path:
-        if not self.index_written:  # failures known from the file: their older reports go with the first index
-            for row in self.rows:
-                self._drop_stale(row)
+        """Rewrite the index; ``progress`` is a statement on the run shown at its top (none once it is complete)."""
+        return self._write(self._index_text(progress))
+
+    def _index_text(self, progress: str) -> str:
         prov = report.provenance(self.unit_file, None, parameters=self.params)
-        path = report.write_atomic(self.out / "index.html", _index_html(self.unit, self.rows, prov, progress))
+        return _index_html(self.unit, self.rows, prov, progress)
+
+    def _write(self, text: str) -> Path:
+        for row in self.rows:  # an older report must not stand beside an index that says the exchanger failed
+            if row["status"] == "failed" and not row.get("file"):
+                (self.out / row["fname"]).unlink(missing_ok=True)
+        path = report.write_atomic(self.out / "index.html", text)
         self.index_written = True
         return path
 
@@ -508,7 +523,6 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     def on_result(res):
         with _no_interrupts():  # a report moved in and the index that lists it go together
             run.settle(res)
-            run.write_index(run.running_text())
         per[res["tag"]] = res["seconds"]
         bar.update(1)
 

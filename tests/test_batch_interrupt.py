@@ -51,7 +51,8 @@ def _start_and_stop(tmp_path, how: str):
     try:
         main = psutil.Process(proc.pid)
         deadline = time.monotonic() + FIRST_REPORT_WITHIN
-        while not (out.is_dir() and _reports(out)):
+        # the first report and the index that lists it (a kill cannot be held off: the two land a moment apart)
+        while not (out.is_dir() and _reports(out) and (out / "index.html").is_file()):
             assert proc.poll() is None, f"the batch ended before its first report: {proc.communicate()}"
             assert time.monotonic() < deadline, "no report within the time allowed"
             try:
