@@ -369,6 +369,29 @@ def _index_chart(rows) -> str:
 NOT_RUN = "not run"
 
 
+def _stage_prefix() -> str:
+    """``.run-<host>-``: a run's temporary folder is named by its host and process id, so that a later run can tell
+    one abandoned by a killed batch (its process gone) from one still in use."""
+    import socket
+
+    return f".run-{report.safe_name(socket.gethostname())}-"
+
+
+def _remove_abandoned_stages(out: Path) -> None:
+    """Remove the temporary folders that batches on this host left in ``out`` when they were killed outright."""
+    prefix = _stage_prefix()
+    for path in out.glob(prefix + "*"):
+        pid = path.name[len(prefix):].split("-", 1)[0]
+        if not (path.is_dir() and pid.isdigit()):
+            continue
+        try:
+            os.kill(int(pid), 0)
+        except ProcessLookupError:
+            shutil.rmtree(path, ignore_errors=True)
+        except OSError:  # alive (owned by someone else): leave it
+            pass
+
+
 class _Run:
     """One batch run's output folder: its temporary folder, the index rows, and the moves that keep them consistent.
 
@@ -381,7 +404,8 @@ class _Run:
         self.out, self.unit, self.rows, self.params, self.unit_file = out, unit, rows, params, unit_file
         self.by_tag = {r["tag"]: r for r in rows}
         self.started = _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M:%S UTC")
-        self.stage = Path(tempfile.mkdtemp(prefix=".run-", dir=out))
+        _remove_abandoned_stages(out)
+        self.stage = Path(tempfile.mkdtemp(prefix=f"{_stage_prefix()}{os.getpid()}-", dir=out))
         self.index_written = False
 
     def settle(self, res: dict) -> Path:
@@ -436,7 +460,7 @@ class _Run:
         shutil.rmtree(self.stage, ignore_errors=True)
 
 
-def _plan(unit, problems, entries, out: Path, nb_path: Path, unit_file: Path, timeout, units):
+def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, units):
     """The index rows (one per exchanger, failed already when the file has problems with it) and the worker jobs."""
     taken, rows, jobs_list = [], [], []
     for tag, i in entries:
@@ -512,13 +536,13 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     out.mkdir(parents=True, exist_ok=True)
     report.copy_plotly_js(out)
     nb_path = Path(notebook) if notebook else notebook_path()
-    rows, jobs_list = _plan(unit, problems, entries, out, nb_path, unit_file, timeout, units)
+    rows, jobs_list = _plan(unit, problems, entries, nb_path, unit_file, timeout, units)
     params = {"jobs": jobs, "only": " ".join(only or []) or "all", "units": units}
-    run = _Run(out, unit, rows, params, unit_file)
     from tqdm.auto import tqdm
 
     bar = tqdm(total=len(jobs_list), desc="reports", unit="exchanger", disable=not progress)
     per = {}
+    run = _Run(out, unit, rows, params, unit_file)  # makes the run's temporary folder: the try below removes it
 
     def on_result(res):
         with _no_interrupts():  # a report moved in and the index that lists it go together
