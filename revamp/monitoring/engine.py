@@ -1,7 +1,6 @@
 """The vectorized pieces behind :func:`revamp.monitoring.monitor`: measurement uncertainties, U from the reconciled
-duty by effectiveness-NTU, batched ratings of many cases, the Monte Carlo band (streamed in blocks of rows, with the linearized clean U of the
-draws), percentiles,
-the duty-vs-fouling curve and the summary. No I/O.
+duty by effectiveness-NTU, batched ratings of many cases, the Monte Carlo band (streamed in blocks of rows, with the
+linearized clean U of the draws), percentiles, the duty-vs-fouling curve and the summary. No I/O.
 """
 from __future__ import annotations
 
