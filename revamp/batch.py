@@ -232,6 +232,8 @@ def _worker_init(parent_pid: int) -> None:
 
 
 class _Stopped(KeyboardInterrupt):
+    """SIGTERM (or a signal held off during a step) turned into an interrupt, with its number."""
+
     def __init__(self, signum: int):
         self.signum = signum
         super().__init__(signum)
