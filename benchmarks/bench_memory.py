@@ -3,7 +3,8 @@
 For each size (50k, 200k, 525k rows: a year of one-minute data is 525,600 rows) a fresh Python process copies the
 demo unit into a temporary folder, writes an invented one-minute CSV for one exchanger (the demo's hourly series
 interpolated to minutes, with sensor noise) and runs the study the batch's notebook runs for it,
-``report.run_case`` (ratings, ``monitor()`` with 100 Monte Carlo draws for the band, the options). The child reports
+``report.run_case`` (ratings, ``monitor()`` with 100 Monte Carlo draws for the band, the options), and builds what
+the notebook displays of it (tables and figures of the plant data and the options). The child reports
 its peak resident memory (``resource.getrusage``: the whole process, imports included) and the time of the study,
 wall and CPU (the CPU time is the steadier figure on a shared machine).
 
@@ -50,6 +51,7 @@ start, cpu = time.perf_counter(), time.process_time()
 with warnings.catch_warnings():
     warnings.simplefilter("ignore")
     result = report.run_case(case)
+    shown = report.monitoring_items(result) + report.study_items(result)  # what the notebook displays
 seconds, cpu = time.perf_counter() - start, time.process_time() - cpu
 mon = result["monitoring"]
 print(json.dumps({"seconds": seconds, "cpu": cpu, "peak_kb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,

@@ -191,24 +191,36 @@ def _stop_processes(procs, grace: float = 3.0) -> None:
     psutil.wait_procs(alive, timeout=grace)
 
 
-def _process_tree(pids) -> list:
-    """The processes ``pids`` and all their descendants (kernels started by a worker), as psutil handles."""
+def _stop_workers(workers, grace: float = 3.0) -> None:
+    """Stop the pool's worker processes and the kernels they started.
+
+    The kernels (grandchildren, each in its own session) are stopped through psutil; the workers (children) through
+    their multiprocessing handles, which must be the ones to reap them, or the pool would wait for them forever.
+    """
     import psutil
 
-    out = []
-    for pid in pids:
+    kernels = []
+    for w in workers:
         try:
-            proc = psutil.Process(pid)
-            out += proc.children(recursive=True) + [proc]
+            kernels += psutil.Process(w.pid).children(recursive=True)
         except psutil.Error:
             pass
-    return out
+    for w in workers:
+        w.terminate()  # the worker's own SIGTERM handler stops its kernel too
+    _stop_processes(kernels, grace)
+    for w in workers:
+        w.join(grace)
+        if w.is_alive():
+            w.kill()
+            w.join(grace)
 
 
 def _worker_exit(signum=None, frame=None) -> None:
     """End this worker and the kernel it started (a kernel runs in its own session: it must be stopped by name)."""
+    import psutil
+
     try:
-        _stop_processes(_process_tree([os.getpid()])[:-1], grace=1.0)
+        _stop_processes(psutil.Process().children(recursive=True), grace=1.0)
     finally:
         os._exit(1)
 
@@ -229,6 +241,8 @@ def _worker_init(parent_pid: int) -> None:
 
 
 class _Stopped(KeyboardInterrupt):
+    """SIGTERM (or a signal held off during a step) turned into an interrupt, with its number."""
+
     def __init__(self, signum: int):
         self.signum = signum
         super().__init__(signum)
@@ -294,8 +308,7 @@ def _execute(jobs_list: list, workers: int, on_result) -> None:
             on_result(res)
     except BaseException:
         with _no_interrupts(deliver=False):
-            procs = getattr(pool, "_processes", None) or {}
-            _stop_processes(_process_tree(list(procs)))
+            _stop_workers(list((getattr(pool, "_processes", None) or {}).values()))
             pool.shutdown(wait=False, cancel_futures=True)
         raise
     pool.shutdown(wait=True)
@@ -370,6 +383,29 @@ def _index_chart(rows) -> str:
 NOT_RUN = "not run"
 
 
+def _stage_prefix() -> str:
+    """``.run-<host>-``: a run's temporary folder is named by its host and process id, so that a later run can tell
+    one abandoned by a killed batch (its process gone) from one still in use."""
+    import socket
+
+    return f".run-{report.safe_name(socket.gethostname())}-"
+
+
+def _remove_abandoned_stages(out: Path) -> None:
+    """Remove the temporary folders that batches on this host left in ``out`` when they were killed outright."""
+    prefix = _stage_prefix()
+    for path in out.glob(prefix + "*"):
+        pid = path.name[len(prefix):].split("-", 1)[0]
+        if not (path.is_dir() and pid.isdigit()):
+            continue
+        try:
+            os.kill(int(pid), 0)
+        except ProcessLookupError:
+            shutil.rmtree(path, ignore_errors=True)
+        except OSError:  # alive (owned by someone else): leave it
+            pass
+
+
 class _Run:
     """One batch run's output folder: its temporary folder, the index rows, and the moves that keep them consistent.
 
@@ -382,43 +418,50 @@ class _Run:
         self.out, self.unit, self.rows, self.params, self.unit_file = out, unit, rows, params, unit_file
         self.by_tag = {r["tag"]: r for r in rows}
         self.started = _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M:%S UTC")
-        self.stage = Path(tempfile.mkdtemp(prefix=".run-", dir=out))
+        _remove_abandoned_stages(out)
+        self.stage = Path(tempfile.mkdtemp(prefix=f"{_stage_prefix()}{os.getpid()}-", dir=out))
         self.index_written = False
         self.train = None
 
-    def settle(self, res: dict) -> None:
-        """Take one finished exchanger into the folder: move its report in, or remove an older one if it failed."""
-        if res.get("kind") == "train":  # the train page: staged by its job, moved in, linked from the index
+    def settle(self, res: dict) -> Path:
+        """Take one finished exchanger into the folder and rewrite the index: its report moved in, or an older report
+        of it removed if it failed. The index is rendered before the move, so that the two land a moment apart.
+        The train page (a job of kind ``train``) is moved in the same way and linked from its own section."""
+        if res.get("kind") == "train":
+            self.train = res
+            text = self._index_text(self.running_text())
             if res.get("staged") and Path(res["staged"]).parent != self.out:
                 from .batch_train import TRAIN_FILE
 
                 os.replace(res["staged"], self.out / TRAIN_FILE)
-            self.train = res
-            return
+            return self._write(text)
         row = self.by_tag[res["tag"]]
         row.update({k: res[k] for k in ("status", "reason", "summary")})
-        target = self.out / row["fname"]
         if res.get("staged"):
-            os.replace(res["staged"], target)
             row["file"] = row["fname"]
+        text = self._index_text(self.running_text())
+        if res.get("staged"):
+            os.replace(res["staged"], self.out / row["fname"])
         if res.get("staged_tables"):  # the report's tables as CSV, one folder per exchanger
             tables = self.out / "tables" / Path(row["fname"]).stem
             shutil.rmtree(tables, ignore_errors=True)
             tables.parent.mkdir(exist_ok=True)
             os.replace(res["staged_tables"], tables)
-        else:
-            self._drop_stale(row)
-
-    def _drop_stale(self, row) -> None:
-        if row["status"] == "failed" and not row.get("file"):
-            (self.out / row["fname"]).unlink(missing_ok=True)  # an older report must not stand beside "failed"
+        return self._write(text)
 
     def write_index(self, progress: str = "") -> Path:
-        if not self.index_written:  # failures known from the file: their older reports go with the first index
-            for row in self.rows:
-                self._drop_stale(row)
+        """Rewrite the index; ``progress`` is a statement on the run shown at its top (none once it is complete)."""
+        return self._write(self._index_text(progress))
+
+    def _index_text(self, progress: str) -> str:
         prov = report.provenance(self.unit_file, None, parameters=self.params)
-        path = report.write_atomic(self.out / "index.html", _index_html(self.unit, self.rows, prov, progress, self.train))
+        return _index_html(self.unit, self.rows, prov, progress, self.train)
+
+    def _write(self, text: str) -> Path:
+        for row in self.rows:  # an older report must not stand beside an index that says the exchanger failed
+            if row["status"] == "failed" and not row.get("file"):
+                (self.out / row["fname"]).unlink(missing_ok=True)
+        path = report.write_atomic(self.out / "index.html", text)
         self.index_written = True
         return path
 
@@ -446,7 +489,7 @@ class _Run:
         shutil.rmtree(self.stage, ignore_errors=True)
 
 
-def _plan(unit, problems, entries, out: Path, nb_path: Path, unit_file: Path, timeout, units):
+def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, units):
     """The index rows (one per exchanger, failed already when the file has problems with it) and the worker jobs."""
     taken, rows, jobs_list = [], [], []
     for tag, i in entries:
@@ -522,20 +565,19 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     out.mkdir(parents=True, exist_ok=True)
     report.copy_plotly_js(out)
     nb_path = Path(notebook) if notebook else notebook_path()
-    rows, jobs_list = _plan(unit, problems, entries, out, nb_path, unit_file, timeout, units)
+    rows, jobs_list = _plan(unit, problems, entries, nb_path, unit_file, timeout, units)
     if getattr(unit, "network", None) is not None and not only:  # the train page, beside the exchanger studies
         jobs_list.insert(0, {"kind": "train", "tag": "(train)", "unit_file": str(unit_file), "out": str(out)})
     params = {"jobs": jobs, "only": " ".join(only or []) or "all", "units": units}
-    run = _Run(out, unit, rows, params, unit_file)
     from tqdm.auto import tqdm
 
     bar = tqdm(total=len(jobs_list), desc="reports", unit="exchanger", disable=not progress)
     per = {}
+    run = _Run(out, unit, rows, params, unit_file)  # makes the run's temporary folder: the try below removes it
 
     def on_result(res):
         with _no_interrupts():  # a report moved in and the index that lists it go together
             run.settle(res)
-            run.write_index(run.running_text())
         per[res["tag"]] = res["seconds"]
         bar.update(1)
 

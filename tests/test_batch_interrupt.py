@@ -52,7 +52,8 @@ def _start_and_stop(tmp_path, how: str):
     try:
         main = psutil.Process(proc.pid)
         deadline = time.monotonic() + FIRST_REPORT_WITHIN
-        while not (out.is_dir() and _reports(out)):
+        # the first report and the index that lists it (a kill cannot be held off: the two land a moment apart)
+        while not (out.is_dir() and _reports(out) and (out / "index.html").is_file()):
             assert proc.poll() is None, f"the batch ended before its first report: {proc.communicate()}"
             assert time.monotonic() < deadline, "no report within the time allowed"
             try:
@@ -213,3 +214,19 @@ def test_available_cores_is_what_this_process_may_use():
     # the CPU affinity mask is the operating system's own statement of it (Linux: sched_getaffinity(2))
     expected = len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else os.cpu_count()
     assert batch.available_cores() == expected
+
+
+def test_a_later_run_removes_the_temporaries_of_a_killed_one(tmp_path, monkeypatch):
+    path = write_unit(tmp_path / "u.yaml", make_unit("E-1"))
+    out = tmp_path / "out"
+    out.mkdir()
+    dead = subprocess.Popen([sys.executable, "-c", "pass"])
+    dead.wait()  # a process id that no longer exists (the batch killed outright)
+    abandoned = out / f"{batch._stage_prefix()}{dead.pid}-abc"
+    in_use = out / f"{batch._stage_prefix()}{os.getpid()}-def"  # this process is alive: its folder stays
+    elsewhere = out / ".run-otherhost-1-ghi"  # another host's run: not ours to judge
+    for d in (abandoned, in_use, elsewhere):
+        (d / "job-1").mkdir(parents=True)
+    monkeypatch.setattr(batch, "_execute", _fake_execute([("E-1", "ok")]))
+    batch.run_batch(path, out, jobs=1, progress=False)
+    assert not abandoned.exists() and in_use.is_dir() and elsewhere.is_dir()

@@ -129,3 +129,20 @@ def test_mc_draws_must_be_a_whole_number(bad):
 def test_no_draws_no_band():
     t = rv.monitor(HX, SERVICE, DATA, mc_draws=0, **KW).table
     assert np.isnan(t[BAND].to_numpy()).all() and np.isfinite(t["Rf"].to_numpy()[4:]).all()
+
+
+def test_a_plant_data_failure_is_stated_in_the_report(monkeypatch):
+    # the plant-data section is evidence, not a precondition: when monitor() fails (here out of memory) the study
+    # goes on, and the section says why it has no analysis instead of disappearing
+    from revamp import report, unitfile
+    from revamp.cli import demo_unit_path
+
+    def no_memory(*args, **kwargs):
+        raise MemoryError("Unable to allocate 8.94 GiB for an array with shape (100, 1999771, 6)")
+
+    monkeypatch.setattr(rv, "monitor", no_memory)
+    unit, _, _ = unitfile.load_partial(demo_unit_path(), only=["E-104"])
+    result = report.run_case(unit.exchanger("E-104"))
+    assert result["monitoring"] is None and result["study"] is not None
+    items = report.monitoring_items(result)
+    assert items[0].startswith("No plant-data analysis: MemoryError: Unable to allocate"), items[0]

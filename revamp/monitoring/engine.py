@@ -1,6 +1,6 @@
 """The vectorized pieces behind :func:`revamp.monitoring.monitor`: measurement uncertainties, U from the reconciled
-duty by effectiveness-NTU, batched ratings of many cases, the linearized clean U of Monte Carlo draws, percentiles,
-the duty-vs-fouling curve and the summary. No I/O.
+duty by effectiveness-NTU, batched ratings of many cases, the Monte Carlo band (streamed in blocks of rows, with the
+linearized clean U of the draws), percentiles, the duty-vs-fouling curve and the summary. No I/O.
 """
 from __future__ import annotations
 
@@ -92,12 +92,17 @@ def rate_clean(exchanger, service, xr, chunk, rf=None, side="tube"):
     return {k: v.reshape(xr.shape[:-1]) for k, v in out.items()}, list(dict.fromkeys(warnings))
 
 
+_GRAD_COLS = (0, 1, 3, 4)  # the rating inputs among the six measurements: shell flow and inlet, tube flow and inlet
+
+
 def clean_gradient(exchanger, service, x0, u0, rf0, side, chunk=None):
     """Sensitivities dU_clean/dx [W/m²K per unit of x] of the clean U at the reconciled rows, shape (4, rows).
 
     One stacked rating of the rows with each of the four rating inputs (shell flow, shell inlet, tube flow, tube
     inlet) nudged in turn (0.1 % of a flow, 0.05 K), by forward differences, rated ``chunk`` cases at a time
-    (default: all 4 × rows at once).
+    (default: all 4 × rows at once). A draw's clean U is then U0 + Σ dU/dx_j·(x_j − x0_j) (:func:`apply_gradient`):
+    for measurement errors of a few per cent the neglected second-order term is below 1e-4 of U
+    (h ∝ m^0.8: ½·0.8·0.2·0.02² = 3e-5).
     """
     steps = np.array([1e-3 * x0[:, 0], np.full(len(x0), 0.05), 1e-3 * x0[:, 3], np.full(len(x0), 0.05)])
     stack = np.repeat(x0[None], 4, axis=0)
@@ -116,18 +121,6 @@ def apply_gradient(u0, grad, x0, xd):
     return out
 
 
-def clean_linearized(exchanger, service, x0, u0, xd, rf0, side, chunk=None):
-    """Clean U of the Monte Carlo draws from its first-order sensitivities at the reconciled rows.
-
-    One stacked rating of the rows with each of the four rating inputs (shell flow, shell inlet, tube flow, tube
-    inlet) nudged in turn (0.1 % of a flow, 0.05 K) gives dU/dx by forward differences (:func:`clean_gradient`); a
-    draw's clean U is U0 + Σ dU/dx_j·(x_j − x0_j). For measurement errors of a few per cent the neglected
-    second-order term is below 1e-4 of U (h ∝ m^0.8: ½·0.8·0.2·0.02² = 3e-5).
-    """
-    return apply_gradient(u0, clean_gradient(exchanger, service, x0, u0, rf0, side, chunk), x0, xd)
-
-
-_GRAD_COLS = (0, 1, 3, 4)
 
 #: Most Monte Carlo cases (draws × rows) held in memory at once by :func:`mc_band`. A case costs about 0.3 kB at
 #: the peak of a block (the drawn and reconciled measurements, the reconciliation's work arrays, U and Rf of the
