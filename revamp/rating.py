@@ -295,9 +295,9 @@ def _reshape_fields(res, shape):
     return dataclasses.replace(res, **changes)
 
 
-@dataclass(frozen=True)
+@dataclass(slots=True)
 class _Eval:
-    """One evaluation of the outlet map at a state (internal)."""
+    """One evaluation of the outlet map at a state (internal, never leaves :func:`rate`)."""
 
     to_s: np.ndarray
     to_t: np.ndarray
