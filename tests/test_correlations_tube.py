@@ -217,3 +217,14 @@ def test_swamee_jain_accuracy_as_stated_against_colebrook():
                 worst = max(worst, abs(friction_darcy(Re, e) / Colebrook(Re, e) - 1))
         assert friction_darcy(5000.0, 0.01) / Colebrook(5000.0, 0.01) - 1 == pytest.approx(0.028, abs=1e-3)
     assert worst < 0.03
+
+
+def test_kernels_equal_the_public_functions_across_the_regimes():
+    # the rating loop's kernels must give what the documented public functions give (same published forms)
+    from revamp.correlations.tube import _friction_kernel, _nu_tube_kernel, friction_darcy, nu_tube
+
+    Re = np.geomspace(50.0, 2e6, 400)
+    Pr = np.linspace(0.7, 400.0, 400)
+    assert np.allclose(_nu_tube_kernel(Re, Pr, 0.004, "sieder-tate"), nu_tube(Re, Pr, 0.004), rtol=1e-13)
+    assert np.allclose(_nu_tube_kernel(Re, Pr, 0.004, "hausen"), nu_tube(Re, Pr, 0.004, "hausen"), rtol=1e-13)
+    assert np.allclose(_friction_kernel(Re, 1e-4), friction_darcy(Re, 1e-4), rtol=1e-13)
