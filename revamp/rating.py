@@ -11,8 +11,12 @@ viscosity correction at the wall temperature from the resistance split, iteratin
 5. effectiveness-NTU for the exchanger's arrangement (``revamp.thermal``): duty and outlets;
 6. wall temperatures from the resistance split, for the next pass.
 
-Every input may be an array (flows, inlet temperatures, fouling): the whole sweep runs in one call, with no Python
-loop over cases. Numbers outside a correlation's published range come back with a warning in ``Rating.warnings``.
+Inputs are checked once; the loop calls unchecked array kernels and stops each case when its outlets have
+converged (Anderson-accelerated substitution, see :func:`rate`). The shell type (TEMA E, F, J, X) selects the
+effectiveness relation and the shell-side adaptation (:func:`arrangement`). Every input may be an array (flows,
+inlet temperatures, fouling): the whole sweep runs in one call, with no Python loop over cases, and no single case
+can make it fail (a close approach is rated; a stream that would boil or freeze is NaN with a warning). Numbers
+outside a correlation's published range come back with a warning in ``Rating.warnings``.
 
 References
 ----------
@@ -21,6 +25,8 @@ Taborek, J. (1983). Shell-and-tube heat exchangers: single-phase flow. *Heat Exc
 Hemisphere (Bell-Delaware).
 Gnielinski, V. (1976). New equations for heat and mass transfer in turbulent pipe and channel flow.
 *Int. Chem. Eng.* 16:359-368.
+Shah, R. K., Sekulić, D. P. (2003). *Fundamentals of Heat Exchanger Design*, Wiley, ch. 3 (TEMA F, J and X shells).
+Anderson, D. G. (1965). Iterative procedures for nonlinear integral equations. *J. ACM* 12(4):547-560.
 """
 from __future__ import annotations
 
