@@ -52,6 +52,7 @@ SHELL_METHODS = shell_corr.SHELL_METHODS
 
 _MAX_ITER = 60
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
+_SEAM_STEP_K = 1e-3  # a case at a seam stops when its halved step moves it by less than this [K]
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
 _ANDERSON_FROM = 2  # iteration from which the Anderson step is tried (plain substitution before)
 _SEAM_FROM = 4  # iteration from which a residual that changes sign without shrinking marks a seam
@@ -243,6 +244,16 @@ def _tail(v, na):
 
 
 _RESISTANCE_INDEX = pd.Index(TUBE_LAYERS)
+
+
+#: Reynolds numbers where Taborek's ideal-bank fits change coefficients (Taborek 1983): the map may jump there
+_SEAM_RE = np.array([10.0, 100.0, 1e3, 1e4])
+
+
+def _near_seam(Re):
+    """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits."""
+    Re = np.asarray(Re, dtype=float)
+    return np.min(np.abs(np.log(Re[..., None] / _SEAM_RE)), axis=-1) < 0.05
 
 
 def _accepts(fn, name: str) -> bool:
@@ -455,6 +466,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
                      shell_min=shell_min, R=R, tube=tube, shell=shell, rho_s=rho_s, rho_t=rho_t,
                      Pr_s=cp_s * mu_s / k_s, mu_ratio_t=mu_t / mu_wt)
 
+    seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
     S = np.empty((4, n))
@@ -476,9 +488,12 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
         conv = r < _TOL_K
         rp, om = r_prev[active], omega[active]
-        # a seam: the outlet residual changes sign without shrinking (no fixed point there): halve the step
+        # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
+        # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
+        # the step is halved at each change of sign, so that the case settles at the edge.
+        edge = _near_seam(ev.shell.Re) if seams else np.zeros(r.shape, dtype=bool)
         s_now = np.sign(f[1])
-        flip = (it >= _SEAM_FROM) & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
+        flip = (it >= _SEAM_FROM) & edge & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
         dm = damped[active] | flip
         om = np.where(flip, 0.5 * om, om)
         if it >= _ANDERSON_FROM:
@@ -486,14 +501,14 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             den = np.einsum("ij,ij->j", df, df)
             with np.errstate(divide="ignore", invalid="ignore"):
                 gam = np.einsum("ij,ij->j", f, df) / den
-            gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp), gam, 0.0)  # residual grew: plain step
+            gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp) & ~edge, gam, 0.0)  # else a plain step
             Xn = G - gam * (G - g_prev[:, active])
         else:
             Xn = G
         if dm.any():
             Xn = np.where(dm, X + om * f, Xn)
         Xn = np.clip(Xn, t_lo[active], t_hi[active])  # outlets and walls stay between the inlets
-        stop = conv | (dm & (om * r < _TOL_K))
+        stop = conv | (dm & (om * r < _SEAM_STEP_K))
         Xn = np.where(stop, X, Xn)
         if full_set:
             S, f_prev, g_prev = Xn, f, G
