@@ -369,9 +369,10 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     Inputs are checked once here; the loop calls unvalidated kernels. Fluid properties are taken at the mean bulk
     temperature of each side and the wall viscosity at the wall temperature from the resistance split; the
     outlet and wall temperatures are found per case by an Anderson-accelerated (depth one) substitution that
-    stops each case when it has converged (1e-6 K). Where the map jumps at a correlation's band edge and the
-    residual changes sign without shrinking, that case's step is halved at each change of sign, so it settles at
-    the edge; it is reported if its outlets then differ from the map by more than 0.05 K.
+    stops each case when it has converged (1e-6 K). Within 5 % of a band edge of Taborek's fits (where the map
+    jumps) a case takes plain steps, and where its residual there changes sign without shrinking (no fixed point)
+    its step is halved at each change of sign, so it settles at the edge; it is reported if its outlets then
+    differ from the map by more than 0.05 K.
 
     A close temperature approach is physics, not an error: the duty tends to eps Cmin dTmax, the terminal
     differences are computed from 1 - eps without cancellation, F = (Q/UA)/LMTD is never above 1 (exactly 1 in
