@@ -65,7 +65,8 @@ def arrangement(exchanger) -> tuple[str, int]:
     two or more passes use the 1-2N relation, identical shells in series by the series formula. F shell: two tube
     passes are pure counterflow; four or more are two 1-2N shells in series per F shell (no leakage or heat
     conduction across the longitudinal baffle). J shell: the J 1-1, 1-2 or 1-4 relation (six or more passes use
-    1-4). X shell: single-pass crossflow with both fluids unmixed, per shell. Names are keys of
+    1-4); with two or more tube passes that relation passes a maximum in NTU (a temperature cross in the second
+    pass), so a longer J shell can give less duty. X shell: single-pass crossflow with both fluids unmixed, per shell. Names are keys of
     :data:`revamp.thermal.EFFECTIVENESS_ARRANGEMENTS`.
     """
     kind = getattr(exchanger, "shell_type", "E")

@@ -399,7 +399,8 @@ def effectiveness(NTU, Cr, arrangement="E", shells=1, shell_is_cmin=True):
       eps = (1/(Cr NTU)) sum_n [1 - e^{-NTU} sum_{m<=n} NTU^m/m!] [1 - e^{-Cr NTU} sum_{m<=n} (Cr NTU)^m/m!];
     - J1, J2, J4 (TEMA J, divided flow, shell fluid mixed, with 1, 2 and 4 tube passes): the P1-NTU1 relations of
       the shell fluid in Shah & Sekulić (2003), Table 3.6, turned into eps = P1 C_shell / Cmin; they depend on which
-      stream is on the shell side (``shell_is_cmin``);
+      stream is on the shell side (``shell_is_cmin``); with 2 and 4 passes P1 passes a maximum in NTU and falls
+      beyond it (a temperature cross in the second pass, Shah & Sekulić 2003 §3.6);
     - N units in series (overall counterflow), NTU1 = NTU/N:
       eps = {[(1 - eps1 Cr)/(1 - eps1)]^N - 1} / {[(1 - eps1 Cr)/(1 - eps1)]^N - Cr}; Cr = 1: N eps1/(1 + (N-1) eps1).
 

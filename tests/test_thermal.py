@@ -211,12 +211,14 @@ def test_shapes_scalar_list_array():
 @given(st.floats(0.0, 60.0), st.floats(0.0, 60.0), crs, st.sampled_from(th.EFFECTIVENESS_ARRANGEMENTS), shells_st,
        st.booleans())
 def test_every_arrangement_bounded_monotone_and_complement_consistent(n1, n2, cr, arr, shells, smin):
-    # 0 <= eps <= 1 and eps non-decreasing in NTU (Kays & London 1984: more area never less duty); the kernel's
-    # 1 - eps agrees with the subtraction where that has its digits
+    # 0 <= eps <= 1 and eps non-decreasing in NTU (Kays & London 1984: more area never less duty), except the J
+    # shells with two or more tube passes, whose published P1 passes a maximum and falls (a temperature cross in the
+    # second pass: Shah & Sekulić 2003 §3.6; ht's TEMA J gives 0.462 at NTU1 = 1 and 0.458 at 15 for R1 = 1); the
+    # kernel's 1 - eps agrees with the subtraction where that has its digits
     e1 = th.effectiveness(n1, cr, arr, shells, smin)
     e2 = th.effectiveness(n2, cr, arr, shells, smin)
     assert 0.0 <= e1 <= 1.0 and 0.0 <= e2 <= 1.0
-    if n2 > n1:
+    if n2 > n1 and arr not in ("J2", "J4"):
         assert e2 >= e1 - 1e-12
     eps, w = th.effectiveness_kernel(np.array(n1), np.array(cr), arr, shells, np.array(smin))
     assert float(w) == pytest.approx(1.0 - float(eps), abs=1e-12)
