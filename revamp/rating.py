@@ -519,7 +519,8 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
             r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
         last_full = full_set and bool(stop.all())
-        active = active[~stop]
+        if stop.sum() >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
+            active = active[~stop]
 
     # every case stopped at the state of its last evaluation: evaluate once more, all together (skipped when that
     # last evaluation was already of every case at once)
