@@ -11,8 +11,12 @@ viscosity correction at the wall temperature from the resistance split, iteratin
 5. effectiveness-NTU for the exchanger's arrangement (``revamp.thermal``): duty and outlets;
 6. wall temperatures from the resistance split, for the next pass.
 
-Every input may be an array (flows, inlet temperatures, fouling): the whole sweep runs in one call, with no Python
-loop over cases. Numbers outside a correlation's published range come back with a warning in ``Rating.warnings``.
+Inputs are checked once; the loop calls unchecked array kernels and stops each case when its outlets have
+converged (Anderson-accelerated substitution, see :func:`rate`). The shell type (TEMA E, F, J, X) selects the
+effectiveness relation and the shell-side adaptation (:func:`arrangement`). Every input may be an array (flows,
+inlet temperatures, fouling): the whole sweep runs in one call, with no Python loop over cases, and no single case
+can make it fail (a close approach is rated; a stream that would boil or freeze is NaN with a warning). Numbers
+outside a correlation's published range come back with a warning in ``Rating.warnings``.
 
 References
 ----------
@@ -21,6 +25,8 @@ Taborek, J. (1983). Shell-and-tube heat exchangers: single-phase flow. *Heat Exc
 Hemisphere (Bell-Delaware).
 Gnielinski, V. (1976). New equations for heat and mass transfer in turbulent pipe and channel flow.
 *Int. Chem. Eng.* 16:359-368.
+Shah, R. K., Sekulić, D. P. (2003). *Fundamentals of Heat Exchanger Design*, Wiley, ch. 3 (TEMA F, J and X shells).
+Anderson, D. G. (1965). Iterative procedures for nonlinear integral equations. *J. ACM* 12(4):547-560.
 """
 from __future__ import annotations
 
@@ -45,8 +51,8 @@ __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"
 SHELL_METHODS = shell_corr.SHELL_METHODS
 
 _MAX_ITER = 60
-_DEBUG = False
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
+_SEAM_STEP_K = 1e-3  # a case at a seam stops when its halved step moves it by less than this [K]
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
 _ANDERSON_FROM = 2  # iteration from which the Anderson step is tried (plain substitution before)
 _SEAM_FROM = 4  # iteration from which a residual that changes sign without shrinking marks a seam
@@ -59,7 +65,8 @@ def arrangement(exchanger) -> tuple[str, int]:
     two or more passes use the 1-2N relation, identical shells in series by the series formula. F shell: two tube
     passes are pure counterflow; four or more are two 1-2N shells in series per F shell (no leakage or heat
     conduction across the longitudinal baffle). J shell: the J 1-1, 1-2 or 1-4 relation (six or more passes use
-    1-4). X shell: single-pass crossflow with both fluids unmixed, per shell. Names are keys of
+    1-4); with two or more tube passes that relation passes a maximum in NTU (a temperature cross in the second
+    pass), so a longer J shell can give less duty. X shell: single-pass crossflow with both fluids unmixed, per shell. Names are keys of
     :data:`revamp.thermal.EFFECTIVENESS_ARRANGEMENTS`.
     """
     kind = getattr(exchanger, "shell_type", "E")
@@ -225,6 +232,31 @@ def _below(t_max):
     return t_max - 1e-6 * t_max if np.isfinite(t_max) else t_max
 
 
+def _head(v, na):
+    """The first ``na`` values of a property array (a constant is returned as it is)."""
+    v = np.asarray(v, dtype=float)
+    return v[:na] if v.ndim else v
+
+
+def _tail(v, na):
+    """The values after the first ``na`` of a property array (a constant is returned as it is)."""
+    v = np.asarray(v, dtype=float)
+    return v[na:] if v.ndim else v
+
+
+_RESISTANCE_INDEX = pd.Index(TUBE_LAYERS)
+
+
+#: Reynolds numbers where Taborek's ideal-bank fits change coefficients (Taborek 1983): the map may jump there
+_SEAM_RE = np.array([10.0, 100.0, 1e3, 1e4])
+
+
+def _near_seam(Re):
+    """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits."""
+    Re = np.asarray(Re, dtype=float)
+    return np.min(np.abs(np.log(Re[..., None] / _SEAM_RE)), axis=-1) < 0.05
+
+
 def _accepts(fn, name: str) -> bool:
     try:
         return name in inspect.signature(fn).parameters
@@ -281,9 +313,9 @@ def _reshape_fields(res, shape):
     return dataclasses.replace(res, **changes)
 
 
-@dataclass(frozen=True)
+@dataclass(slots=True)
 class _Eval:
-    """One evaluation of the outlet map at a state (internal)."""
+    """One evaluation of the outlet map at a state (internal, never leaves :func:`rate`)."""
 
     to_s: np.ndarray
     to_t: np.ndarray
@@ -338,9 +370,10 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     Inputs are checked once here; the loop calls unvalidated kernels. Fluid properties are taken at the mean bulk
     temperature of each side and the wall viscosity at the wall temperature from the resistance split; the
     outlet and wall temperatures are found per case by an Anderson-accelerated (depth one) substitution that
-    stops each case when it has converged (1e-6 K). Where the map jumps at a correlation's band edge and the
-    residual changes sign without shrinking, that case's step is halved at each change of sign, so it settles at
-    the edge; it is reported if its outlets then differ from the map by more than 0.05 K.
+    stops each case when it has converged (1e-6 K). Within 5 % of a band edge of Taborek's fits (where the map
+    jumps) a case takes plain steps, and where its residual there changes sign without shrinking (no fixed point)
+    its step is halved at each change of sign, so it settles at the edge; it is reported if its outlets then
+    differ from the map by more than 0.05 K.
 
     A close temperature approach is physics, not an error: the duty tends to eps Cmin dTmax, the terminal
     differences are computed from 1 - eps without cancellation, F = (Q/UA)/LMTD is never above 1 (exactly 1 in
@@ -410,12 +443,10 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
         ps = s_fluid.props(np.clip(np.concatenate((tm_s, tws)), s_lo, s_hi))
         pt = t_fluid.props(np.clip(np.concatenate((tm_t, twt)), t_lo_f, t_hi_f))
-        rho_s, cp_s, mu_s, k_s = (np.broadcast_to(v, (2 * na,))[:na] for v in
-                                  (ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity))
-        mu_ws = np.broadcast_to(ps.viscosity, (2 * na,))[na:]
-        rho_t, cp_t, mu_t, k_t = (np.broadcast_to(v, (2 * na,))[:na] for v in
-                                  (pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
-        mu_wt = np.broadcast_to(pt.viscosity, (2 * na,))[na:]
+        rho_s, cp_s, mu_s, k_s, rho_t, cp_t, mu_t, k_t = (_head(v, na) for v in (
+            ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity,
+            pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
+        mu_ws, mu_wt = _tail(ps.viscosity, na), _tail(pt.viscosity, na)
         tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
                                           insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=False)
         shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **shell_kw)
@@ -437,10 +468,12 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
                      shell_min=shell_min, R=R, tube=tube, shell=shell, rho_s=rho_s, rho_t=rho_t,
                      Pr_s=cp_s * mu_s / k_s, mu_ratio_t=mu_t / mu_wt)
 
-    # ---- the property iteration, per case
-    xs, xt = ts_in.copy(), tt_in.copy()  # first pass: properties at the inlets
-    tws = 0.5 * (ts_in + tt_in)
-    twt = tws.copy()
+    seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
+    # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
+    # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
+    S = np.empty((4, n))
+    S[0], S[1] = ts_in, tt_in
+    S[2] = S[3] = 0.5 * (ts_in + tt_in)
     f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
     r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
     omega, damped = np.ones(n), np.zeros(n, dtype=bool)
@@ -449,43 +482,51 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     for it in range(_MAX_ITER):
         if active.size == 0:
             break
-        sel = None if active.size == n else active
-        X = np.stack((xs, xt, tws, twt)) if sel is None else np.stack((xs[sel], xt[sel], tws[sel], twt[sel]))
-        ev = evaluate(sel, *X)
+        full_set = active.size == n
+        X = S if full_set else S[:, active]
+        ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3])
         G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
         f = G - X
         r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
         conv = r < _TOL_K
         rp, om = r_prev[active], omega[active]
-        # a seam: the outlet residual changes sign without shrinking (no fixed point there): halve the step
+        # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
+        # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
+        # the step is halved at each change of sign, so that the case settles at the edge.
+        edge = _near_seam(ev.shell.Re) if seams else np.zeros(r.shape, dtype=bool)
         s_now = np.sign(f[1])
-        flip = (it >= _SEAM_FROM) & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
+        flip = (it >= _SEAM_FROM) & edge & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
         dm = damped[active] | flip
         om = np.where(flip, 0.5 * om, om)
         if it >= _ANDERSON_FROM:
             df = f - f_prev[:, active]
-            den = np.sum(df * df, axis=0)
+            den = np.einsum("ij,ij->j", df, df)
             with np.errstate(divide="ignore", invalid="ignore"):
-                gam = np.sum(f * df, axis=0) / den
-            gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp), gam, 0.0)  # residual grew: plain step
+                gam = np.einsum("ij,ij->j", f, df) / den
+            gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp) & ~edge, gam, 0.0)  # else a plain step
             Xn = G - gam * (G - g_prev[:, active])
         else:
             Xn = G
-        Xn = np.where(dm, X + om * f, Xn)
+        if dm.any():
+            Xn = np.where(dm, X + om * f, Xn)
         Xn = np.clip(Xn, t_lo[active], t_hi[active])  # outlets and walls stay between the inlets
-        stop = conv | (dm & (om * r < _TOL_K))
+        stop = conv | (dm & (om * r < _SEAM_STEP_K))
         Xn = np.where(stop, X, Xn)
-        xs[active], xt[active], tws[active], twt[active] = Xn
-        f_prev[:, active], g_prev[:, active] = f, G
-        r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
-        last_full = sel is None and bool(np.all(stop))
-        if _DEBUG: print(it, active.size, r[:3], gam[:3] if it >= _ANDERSON_FROM else None, dm[:3], om[:3])
-        active = active[~stop]
+        if full_set:
+            S, f_prev, g_prev = Xn, f, G
+            r_prev, s_prev, omega, damped = r, s_now, om, dm
+        else:
+            S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
+            r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
+        last_full = full_set and bool(stop.all())
+        if stop.sum() >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
+            active = active[~stop]
 
     # every case stopped at the state of its last evaluation: evaluate once more, all together (skipped when that
     # last evaluation was already of every case at once)
     if not last_full:
-        ev = evaluate(None, xs, xt, tws, twt)
+        ev = evaluate(None, S[0], S[1], S[2], S[3])
+    xs, xt = S[0], S[1]
     to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
     residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))
     unsettled = residual > _SETTLED_K
@@ -498,8 +539,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         if np.any(out):
             t_bad = np.where(t_o >= fluid.t_max, t_o, np.where(t_i >= fluid.t_max, t_i, np.minimum(t_i, t_o)))
             if shape == ():
-                where = "outlet" if not (fluid.t_min <= t_i[0] < fluid.t_max) else "outlet"
-                where = "inlet" if not (fluid.t_min <= t_i[0] < fluid.t_max) else where
+                where = "outlet" if fluid.t_min <= t_i[0] < fluid.t_max else "inlet"
                 raise InputError(f"service.{side}", f"{fluid.name} at its {where}, {float(t_bad[0]):.1f} K",
                                  f"within the fluid's single-phase range {fluid.t_min:.1f}..{fluid.t_max:.1f} K "
                                  "(the stream would boil or freeze: this rating does not apply)")
@@ -561,18 +601,25 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         Pr_shell=ev.Pr_s, t_wall_tube=ev.tw_t, t_wall_shell=ev.tw_s, shear_tube=shear, rho_tube=ev.rho_t,
         rho_shell=ev.rho_s, C_shell=ev.C_s * n_par, C_tube=ev.C_t * n_par,
     )
+    any_invalid = bool(invalid.any())
     for key, value in fields.items():
-        value = np.broadcast_to(np.asarray(value, dtype=float), (n,))
-        if np.any(invalid):
+        value = np.asarray(value, dtype=float)
+        if shape == () and not any_invalid:
+            fields[key] = float(value.reshape(-1)[0])
+            continue
+        value = np.broadcast_to(value, (n,))
+        if any_invalid:
             value = np.where(invalid, np.nan, value)
         fields[key] = as_out(value.reshape(shape))
     if shape == ():
-        resistances = pd.Series({k: float(v[0]) for k, v in res_cols.items()}, name="resistance [m²K/W]")
+        resistances = pd.Series(np.array([float(v[0]) for v in res_cols.values()]), index=_RESISTANCE_INDEX,
+                                name="resistance [m²K/W]")
     else:
         resistances = pd.DataFrame({k: np.where(invalid, np.nan, v) for k, v in res_cols.items()})
     return Rating(
         **fields, area=hx.area_outside, area_inside=hx.area_inside, resistances=resistances,
-        tube_side=_reshape_fields(dataclasses.replace(tube, warnings=tube_warnings), shape), shell_side=_reshape_fields(ev.shell, shape),
+        tube_side=_reshape_fields(dataclasses.replace(tube, warnings=tube_warnings), shape),
+        shell_side=_reshape_fields(ev.shell, shape),
         warnings=tuple(dict.fromkeys(warnings)), defaults=tuple(getattr(hx, "defaults_used", ())), exchanger=hx,
         service=service, shell_method=shell_method,
     )

@@ -289,15 +289,22 @@ def _eps_crossflow(ntu, cr):
     n_ = ntu.ravel()
     c_ = cr.ravel()
     y = c_ * n_
-    total = np.zeros(n_.shape)
-    # the product of the tails is below 1e-17 of the sum once n passes the smaller mean by 12 standard deviations
-    need = np.ceil(np.minimum(n_, y) + 12.0 * np.sqrt(np.minimum(n_, y)) + 40.0).astype(int)
+    # Both tails are 1 to within e^-72 while n is more than 12 standard deviations below the smaller mean m, and
+    # their product is negligible once n is as far above it: those first terms are counted, the rest summed.
+    m = np.minimum(n_, y)
+    start = np.floor(np.maximum(m - 12.0 * np.sqrt(m) - 40.0, 0.0))
+    total = start.copy()
+    width = np.ceil(24.0 * np.sqrt(m) + 80.0).astype(int)
     live = np.flatnonzero((y > 0) & (n_ > 0))
-    n = 0
-    while live.size:
-        total[live] += gammainc(n + 1, n_[live]) * gammainc(n + 1, y[live])
-        n += 1
-        live = live[need[live] > n]
+    k0 = 0
+    while live.size:  # blocks of terms, all live cases at once
+        block = int(min(64, width[live].max() - k0))
+        k = k0 + np.arange(block)
+        a = start[live, None] + (k + 1)
+        terms = gammainc(a, n_[live, None]) * gammainc(a, y[live, None])
+        total[live] += np.sum(np.where(k < width[live, None], terms, 0.0), axis=1)
+        k0 += block
+        live = live[width[live] > k0]
     with np.errstate(divide="ignore", invalid="ignore"):
         eps = np.where(y > 0, total / np.where(y > 0, y, 1.0), -np.expm1(-n_))  # Cr = 0: 1 - e^{-NTU}
     eps = np.minimum(eps, 1.0).reshape(shape)
@@ -392,7 +399,8 @@ def effectiveness(NTU, Cr, arrangement="E", shells=1, shell_is_cmin=True):
       eps = (1/(Cr NTU)) sum_n [1 - e^{-NTU} sum_{m<=n} NTU^m/m!] [1 - e^{-Cr NTU} sum_{m<=n} (Cr NTU)^m/m!];
     - J1, J2, J4 (TEMA J, divided flow, shell fluid mixed, with 1, 2 and 4 tube passes): the P1-NTU1 relations of
       the shell fluid in Shah & Sekulić (2003), Table 3.6, turned into eps = P1 C_shell / Cmin; they depend on which
-      stream is on the shell side (``shell_is_cmin``);
+      stream is on the shell side (``shell_is_cmin``); with 2 and 4 passes P1 passes a maximum in NTU and falls
+      beyond it (a temperature cross in the second pass, Shah & Sekulić 2003 §3.6);
     - N units in series (overall counterflow), NTU1 = NTU/N:
       eps = {[(1 - eps1 Cr)/(1 - eps1)]^N - 1} / {[(1 - eps1 Cr)/(1 - eps1)]^N - Cr}; Cr = 1: N eps1/(1 + (N-1) eps1).
 

@@ -198,3 +198,33 @@ def test_tube_side_large_array():
     m = np.linspace(0.5, 60.0, 10_000)
     r = T.tube_side(m, 120, 0.0198, 6.0, 2, **WATER, mu_wall=0.6e-3)
     assert r.h.shape == (10_000,) and np.all(np.isfinite(r.h)) and np.all(np.diff(r.dp) > 0)
+
+
+def test_swamee_jain_accuracy_as_stated_against_colebrook():
+    # the friction_darcy docstring: within 3 % of Colebrook for 5000 < Re < 1e8, 1e-6 < e/d < 1e-2, 2.8 % at
+    # Re = 5000, e/d = 0.01 (fluids.friction.Colebrook, an independent implementation)
+    import warnings
+
+    from fluids.friction import Colebrook
+
+    from revamp.correlations.tube import friction_darcy
+
+    worst = 0.0
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", RuntimeWarning)
+        for Re in np.geomspace(5000, 1e8, 25):
+            for e in np.geomspace(1e-6, 1e-2, 9):
+                worst = max(worst, abs(friction_darcy(Re, e) / Colebrook(Re, e) - 1))
+        assert friction_darcy(5000.0, 0.01) / Colebrook(5000.0, 0.01) - 1 == pytest.approx(0.028, abs=1e-3)
+    assert worst < 0.03
+
+
+def test_kernels_equal_the_public_functions_across_the_regimes():
+    # the rating loop's kernels must give what the documented public functions give (same published forms)
+    from revamp.correlations.tube import _friction_kernel, _nu_tube_kernel, friction_darcy, nu_tube
+
+    Re = np.geomspace(50.0, 2e6, 400)
+    Pr = np.linspace(0.7, 400.0, 400)
+    assert np.allclose(_nu_tube_kernel(Re, Pr, 0.004, "sieder-tate"), nu_tube(Re, Pr, 0.004), rtol=1e-13)
+    assert np.allclose(_nu_tube_kernel(Re, Pr, 0.004, "hausen"), nu_tube(Re, Pr, 0.004, "hausen"), rtol=1e-13)
+    assert np.allclose(_friction_kernel(Re, 1e-4), friction_darcy(Re, 1e-4), rtol=1e-13)

@@ -204,3 +204,36 @@ def test_shapes_scalar_list_array():
     assert np.allclose(th.ntu_from_effectiveness(a, 0.4, "E", 2), ntu)
     big = th.effectiveness(np.linspace(0, 5, 10_000), np.linspace(0, 1, 10_000), "E", 3)
     assert big.shape == (10_000,) and np.all(np.isfinite(big))
+
+
+# ------------------------------------------------------------------------------ shell types and stated accuracies
+@settings(max_examples=40, deadline=None)
+@given(st.floats(0.0, 60.0), st.floats(0.0, 60.0), crs, st.sampled_from(th.EFFECTIVENESS_ARRANGEMENTS), shells_st,
+       st.booleans())
+def test_every_arrangement_bounded_monotone_and_complement_consistent(n1, n2, cr, arr, shells, smin):
+    # 0 <= eps <= 1 and eps non-decreasing in NTU (Kays & London 1984: more area never less duty), except the J
+    # shells with two or more tube passes, whose published P1 passes a maximum and falls (a temperature cross in the
+    # second pass: Shah & Sekulić 2003 §3.6; ht's TEMA J gives 0.462 at NTU1 = 1 and 0.458 at 15 for R1 = 1); the
+    # kernel's 1 - eps agrees with the subtraction where that has its digits
+    e1 = th.effectiveness(n1, cr, arr, shells, smin)
+    e2 = th.effectiveness(n2, cr, arr, shells, smin)
+    assert 0.0 <= e1 <= 1.0 and 0.0 <= e2 <= 1.0
+    if n2 > n1 and arr not in ("J2", "J4"):
+        assert e2 >= e1 - 1e-12
+    eps, w = th.effectiveness_kernel(np.array(n1), np.array(cr), arr, shells, np.array(smin))
+    assert float(w) == pytest.approx(1.0 - float(eps), abs=1e-12)
+
+
+def test_one_two_N_formula_for_four_passes_within_stated_gap():
+    # the F_1_2N docstring: within 0.6 % of the exact 1-4 relation where F >= 0.8 (ht's TEMA E, four passes)
+    from ht.hx import temperature_effectiveness_TEMA_E
+    worst = 0.0
+    for R in np.linspace(0.05, 4.0, 40):
+        for N in np.geomspace(0.05, 10.0, 60):
+            P = temperature_effectiveness_TEMA_E(R, N, Ntp=4)
+            e, cr = (P, R) if R <= 1 else (P * R, 1 / R)
+            F_exact = th.ntu_from_effectiveness(e, cr, "counterflow") / (N if R <= 1 else N * R)
+            F_12 = th.F_1_2N(R, P)
+            if F_exact >= 0.8 and np.isfinite(F_12):
+                worst = max(worst, abs(F_12 / F_exact - 1))
+    assert 1e-3 < worst < 6e-3

@@ -472,22 +472,20 @@ def tube_side_warnings(Re, Pr, mu_ratio=None, insert=None) -> list[str]:
 
 
 def _nu_tube_kernel(Re, Pr, dl, laminar):
-    """:func:`nu_tube` on float arrays, each branch evaluated once."""
-    lam_fn = LAMINAR_METHODS[laminar]
-    nu_lam_end = lam_fn(RE_LAMINAR, Pr, dl)
-    nu_turb_start = nu_gnielinski(RE_TURBULENT, Pr, d_over_L=dl)
+    """:func:`nu_tube` on float arrays with one evaluation of each correlation: the laminar form at min(Re, 2300)
+    and Gnielinski at max(Re, 1e4) are the blend's end values inside the transition and the values themselves
+    outside it, where the weight is 0 or 1."""
     g = np.clip((Re - RE_LAMINAR) / (RE_TURBULENT - RE_LAMINAR), 0.0, 1.0)
-    nu = np.where(Re <= RE_LAMINAR, lam_fn(np.minimum(Re, RE_LAMINAR), Pr, dl),
-                  (1.0 - g) * nu_lam_end + g * nu_turb_start)
-    return np.where(Re >= RE_TURBULENT, nu_gnielinski(np.maximum(Re, RE_TURBULENT), Pr, d_over_L=dl), nu)
+    lam = LAMINAR_METHODS[laminar](np.minimum(Re, RE_LAMINAR), Pr, dl)
+    turb = nu_gnielinski(np.maximum(Re, RE_TURBULENT), Pr, d_over_L=dl)
+    return (1.0 - g) * lam + g * turb
 
 
 def _friction_kernel(Re, rr):
-    """:func:`friction_darcy` on float arrays."""
-    f_turb = _swamee_jain(np.maximum(Re, RE_FRICTION_TURBULENT), rr)
+    """:func:`friction_darcy` on float arrays, each law evaluated once (the same end-value argument)."""
     g = np.clip((Re - RE_LAMINAR) / (RE_FRICTION_TURBULENT - RE_LAMINAR), 0.0, 1.0)
-    f_mid = (1.0 - g) * (64.0 / RE_LAMINAR) + g * _swamee_jain(RE_FRICTION_TURBULENT, rr)
-    return np.where(Re <= RE_LAMINAR, 64.0 / Re, np.where(Re >= RE_FRICTION_TURBULENT, f_turb, f_mid))
+    return (1.0 - g) * (64.0 / np.minimum(Re, RE_LAMINAR)) + g * _swamee_jain(np.maximum(Re, RE_FRICTION_TURBULENT),
+                                                                               rr)
 
 
 def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.0, insert=None, d_nozzle=None,
