@@ -451,3 +451,12 @@ def test_every_provider_meets_the_protocol():
         assert isinstance(f, Fluid)
         assert isinstance(f.name, str) and f.t_min < f.t_max
         assert isinstance(f.check(350.0), list)
+
+
+def test_every_check_reports_once_over_several_arrays():
+    # a rating checks inlet and outlet temperatures together: one line per warning, counting all of them
+    cold, hot = np.array([250.0, 260.0]), np.array([600.0, 700.0, 800.0])
+    for f in (water("10 bar"), pure("Toluene", "2 bar"), _sheet()):
+        w = f.check(cold, hot)
+        assert len(w) == 1 and "of 5" in w[0], (f.name, w)
+    assert constant(900.0, 2000.0, 1e-3, 0.13).check(cold, hot) == []

@@ -55,7 +55,7 @@ import numpy as np
 from ..correlations._validity import range_warning
 from ..errors import InputError
 from ..units import to_si
-from .base import Props, as_temperature, range_check
+from .base import Props, as_temperature, joined_temperatures, range_check
 
 __all__ = ["BTU_LB_F", "RHO_WATER_60F", "PetroleumFluid", "petroleum", "riazi_daubert_1980"]
 
@@ -234,9 +234,7 @@ class PetroleumFluid:
         One warning per quantity, however many temperatures or arrays are passed (e.g. ``check(t_in, t_out)``),
         each with the range and the count of temperatures outside it.
         """
-        parts = [np.ravel(np.asarray(to_si(t, "temperature", "T") if isinstance(t, str) else t, dtype=float))
-                 for t in T]
-        arr = np.concatenate(parts) if parts else np.array([])
+        arr = joined_temperatures(*T)
         arr = arr[np.isfinite(arr)]
         n = self.name
         w = range_check(f"{n}: overall range (0 °F to min(700 °F, 0.95 Tc))", arr, self.t_min, self.t_max)
