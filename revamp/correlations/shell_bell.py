@@ -45,8 +45,9 @@ _EDGES = np.array([10.0, 100.0, 1e3, 1e4])
 _LAMINAR_RE = 100.0
 # Seams. Taborek's method switches abruptly at band edges (the ideal-bank fits, a few per cent apart there) and at
 # Re = 100 between its laminar and turbulent constants (Jb, Rb, Js, Rs and the window pressure drop, which can differ
-# several-fold there). A rating swept in flow must not see a step, so each switch is replaced by a blend that is
-# linear in ln Re, geometric in the blended value, over a band centred (in ln Re) on the published switch point:
+# several-fold there). A rating swept in flow must not see a step, so each switch is replaced by a blend, geometric
+# in the blended value with a smoothstep weight in ln Re (value and slope continuous), over a band centred (in ln Re)
+# on the published switch point:
 # a factor 1.25 either side of each fit edge, a factor 2.5 either side of Re = 100 (40 to 250). Outside these bands
 # the published values are used unchanged. The blend and its widths are our choice (no published source). The
 # window pressure drop, whose laminar and turbulent forms can differ up to about 7 times at Re = 100, is
@@ -56,8 +57,10 @@ _SWITCH_BLEND = 2.5
 
 
 def _weight(Re, edge, factor):
-    """Blend weight of the upper side: 0 below ``edge/factor``, 1 above ``edge*factor``, linear in ln Re between."""
-    return np.clip(0.5 + np.log(np.asarray(Re, dtype=float) / edge) / (2.0 * math.log(factor)), 0.0, 1.0)
+    """Blend weight of the upper side: 0 below ``edge/factor``, 1 above ``edge*factor``, between a smoothstep
+    ``3u² - 2u³`` of u linear in ln Re (so the blended value has a continuous slope too)."""
+    u = np.clip(0.5 + np.log(np.asarray(Re, dtype=float) / edge) / (2.0 * math.log(factor)), 0.0, 1.0)
+    return u * u * (3.0 - 2.0 * u)
 
 
 def _log_blend(lower, upper, w):
@@ -92,8 +95,8 @@ def ideal_j(Re, pitch_ratio, layout):
     """Ideal tube-bank Colburn factor j_i (Taborek's fit) [-].
 
     ``j = a1 (1.33/(Pt/do))^a Re^a2`` with ``a = a3 / (1 + 0.14 Re^a4)``; within a factor 1.25 of a band edge
-    (Re = 10, 100, 1e3, 1e4) the two bands' values are blended geometrically, linear in ln Re, so that j is
-    continuous (the fits differ by up to a few per cent at the edges).
+    (Re = 10, 100, 1e3, 1e4) the two bands' values are blended geometrically (smoothstep weight in ln Re), so that j is
+    continuous with a continuous slope (the fits differ by up to a few per cent at the edges).
 
     Parameters
     ----------
@@ -246,7 +249,7 @@ def correction_factors(geom, Re):
         Shell geometry.
     Re : float or array_like
         Shell-side Reynolds number [-]. Below Re = 40 the laminar constants apply, above 250 the turbulent
-        ones; between, the two factors are blended geometrically, linear in ln Re (our choice, no published
+        ones; between, the two factors are blended geometrically, smoothstep in ln Re (our choice, no published
         source: Taborek switches at Re = 100, which makes h and Δp jump).
 
     Returns
@@ -290,7 +293,7 @@ def correction_factors(geom, Re):
 
 def _window_dp(geom, Gw, Re, rho, mu):
     """Ideal window pressure drop [Pa]: Taborek's laminar form below the switch band, turbulent above, and across
-    the band a geometric interpolation, linear in ln Re, from the laminar value at the band's lower end to the
+    the band a geometric interpolation, smoothstep in ln Re, from the laminar value at the band's lower end to the
     turbulent value at its upper end (both at this fluid's properties). That rises with flow whenever the turbulent
     value at the upper end exceeds the laminar one at the lower end, i.e. while the laminar/turbulent ratio at
     Re = 100 stays below ``_SWITCH_BLEND**3`` (15.6; about 7 seen in practical bundles)."""
@@ -404,7 +407,7 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_
         ``h = j_i cp (m/Sm) Pr^(-2/3) (μ/μw)^0.14 Jc Jl Jb Js Jr``; ``dp = Δpc + Δpw + Δpe`` with
         Δpbi = 2 f_i Nc (m/Sm)²/ρ (μw/μ)^0.14, Δpc = (Nb - 1) Δpbi Rb Rl, Δpw = Nb Δpwi Rl,
         Δpwi = (2 + 0.6 Ncw) mw²/(2ρ) for Re >= 250 and 26 μ mw/ρ [Ncw/(Pt - do) + Lbc/Dw²] + mw²/ρ below 40
-        (Taborek switches at 100; between, a geometric interpolation of the band-end values, linear in ln Re),
+        (Taborek switches at 100; between, a geometric interpolation of the band-end values, smoothstep in ln Re),
         mw = m/sqrt(Sm Sw), Δpe = 2 Δpbi (1 + Ncw/Nc) Rb Rs.
 
     Notes
