@@ -212,9 +212,9 @@ class PetroleumFluid:
 
         Raises InputError at or above the pseudo-critical temperature (not a liquid).
         """
-        if (isinstance(T, float) or type(T) is int) and T > 0.0 and math.isfinite(T):
-            arr, scalar = np.asarray(float(T)), True
-        elif isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim and np.isfinite(T).all() and T.min() > 0:
+        if (isinstance(T, float) or type(T) is int) and 0.0 < T < self.tc:  # scalar fast path
+            return self._props_scalar(float(T))
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim and np.isfinite(T).all() and T.min() > 0:
             arr, scalar = T, False
         else:
             arr, scalar = as_temperature(T)
@@ -227,6 +227,24 @@ class PetroleumFluid:
         if scalar:
             return Props(float(rho), float(cp), float(mu), float(k))
         return Props(rho, cp, mu, k)
+
+    def _props_scalar(self, T: float) -> Props:
+        # the same formulas as the array methods, on Python floats (a scalar rating calls this many times)
+        tc = self.tc
+        rho = self.rho60 * self.z_ra ** ((1.0 - T_60F / tc) ** (2.0 / 7.0) - (1.0 - T / tc) ** (2.0 / 7.0))
+        sg, k = self.sg, self.watson_k
+        a1 = -1.17126 + (0.023722 + 0.024907 * sg) * k + (1.14982 - 0.046535 * k) / sg
+        a2 = 1e-4 * (1.0 + 0.82463 * k) * (1.12172 - 0.27634 / sg)
+        a3 = -1e-8 * (1.0 + 0.82463 * k) * (2.9027 - 0.70958 / sg)
+        t_r = T * 1.8
+        cp = (a1 + (a2 + a3 * t_r) * t_r) * BTU_LB_F
+        tr, tr100 = T / tc, T_100F / tc
+        k100 = 0.813 / sg * (1.0 - 0.0003 * (100.0 - 32.0)) * BTU_IN_H_FT2_F
+        kc = k100 * ((1.0 - tr) ** 0.38 / tr ** (1.0 / 6.0)) / ((1.0 - tr100) ** 0.38 / tr100 ** (1.0 / 6.0))
+        y = min(self.walther_a - self.walther_b * math.log10(T), _LOGLOG_MAX)
+        x = 10.0 ** (10.0 ** y) - 0.7
+        nu = (x - math.exp(-0.7487 - 3.295 * x + 0.6119 * x * x - 0.3193 * x * x * x)) * 1e-6
+        return Props(rho, cp, nu * rho, kc)
 
     def check(self, *T) -> list[str]:
         """Warnings for every method used outside its stated range at these temperatures [K].
