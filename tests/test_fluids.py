@@ -460,3 +460,19 @@ def test_every_check_reports_once_over_several_arrays():
         w = f.check(cold, hot)
         assert len(w) == 1 and "of 5" in w[0], (f.name, w)
     assert constant(900.0, 2000.0, 1e-3, 0.13).check(cold, hot) == []
+
+
+@HYP
+@given(api=st.floats(8.0, 60.0), k=st.floats(10.5, 12.8), nu40=st.floats(1.5, 2000.0), ratio=st.floats(1.5, 15.0))
+def test_petroleum_hot_properties_behave_physically(api, k, nu40, ratio):
+    try:
+        f = petroleum(api=api, watson_k=k, viscosity=[("40 degC", nu40 * 1e-6), ("100 degC", nu40 / ratio * 1e-6)])
+    except InputError as err:  # an API/K pair no fraction has
+        assert err.field == "petroleum.watson_k"
+        return
+    T = np.linspace(f.t_min, f.t_max, 200)
+    p = f.props(T)
+    # liquids expand, conduct less and flow more easily when hotter; cp rises (physical expectation, no source)
+    assert np.all(np.diff(p.density) < 0) and np.all(np.diff(p.conductivity) < 0)
+    assert np.all(np.diff(p.viscosity) <= 0) and np.all(np.diff(p.heat_capacity) > 0)
+    assert np.all(np.isfinite(p.viscosity)) and np.all(p.density > 0) and np.all(p.conductivity > 0)
