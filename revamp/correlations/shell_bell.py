@@ -68,24 +68,28 @@ def _log_blend(lower, upper, w):
     return np.where(w <= 0.0, lower, np.where(w >= 1.0, upper, lower ** (1.0 - w) * upper ** w))
 
 
-def _fit_band(Re, c1s, c2s, band):
-    return np.asarray(c1s)[band] * Re ** np.asarray(c2s)[band]
+_LN_EDGES = np.log(_EDGES)
+_HALF_BAND = 2.0 * math.log(_FIT_BLEND)
 
 
 def _fit(Re, pitch_ratio, layout, kind):
     c = TABOREK_FITS[int(layout)]
     k1, k2, k3, k4 = ("a1", "a2", "a3", "a4") if kind == "j" else ("b1", "b2", "b3", "b4")
+    c1, c2 = np.asarray(c[k1]), np.asarray(c[k2])
     Re = np.asarray(Re, dtype=float)
+    lr = np.log(Re)
     band = np.searchsorted(_EDGES, Re, side="right")
-    core = _fit_band(Re, c[k1], c[k2], band)
-    # near an edge, blend with the neighbouring band's fit (see _FIT_BLEND)
-    for i, edge in enumerate(_EDGES):
-        w = _weight(Re, edge, _FIT_BLEND)
-        near = (w > 0.0) & (w < 1.0)
-        if np.any(near):
-            lower = _fit_band(Re, c[k1], c[k2], np.full(Re.shape, i))
-            upper = _fit_band(Re, c[k1], c[k2], np.full(Re.shape, i + 1))
-            core = np.where(near, _log_blend(lower, upper, w), core)
+    core = c1[band] * np.exp(c2[band] * lr)
+    # near an edge, blend with the neighbouring band's fit (see _FIT_BLEND); the edges are a decade apart, so at
+    # most one (the nearest in log) is near
+    edge = np.clip(np.rint(lr / math.log(10.0)) - 1, 0, len(_EDGES) - 1).astype(int)
+    u = 0.5 + (lr - _LN_EDGES[edge]) / _HALF_BAND
+    near = (u > 0.0) & (u < 1.0)
+    if np.any(near):
+        w = u * u * (3.0 - 2.0 * u)
+        ln_lower = np.log(c1[edge]) + c2[edge] * lr
+        ln_upper = np.log(c1[edge + 1]) + c2[edge + 1] * lr
+        core = np.where(near, np.exp((1.0 - w) * ln_lower + w * ln_upper), core)
     expo = c[k3] / (1.0 + 0.14 * Re ** c[k4])
     out = core * (1.33 / pitch_ratio) ** expo
     return float(out) if out.ndim == 0 else out
