@@ -182,8 +182,10 @@ def test_petroleum_critical_constants_against_coolprop(fluid):
     assert f.omega == pytest.approx(CP.PropsSI("acentric", fluid), abs=0.05)
 
 
-@pytest.mark.parametrize("fluid, t_c", [(fl, t) for fl in ("n-Decane", "n-Dodecane") for t in (20.0, 100.0, 150.0, 200.0)]
-                         + [("n-Dodecane", 250.0)])  # up to Tr = 0.8 (decane at 250 °C is Tr = 0.85)
+_ALKANE_CASES = [(fl, t) for fl in ("n-Decane", "n-Dodecane") for t in (20.0, 100.0, 150.0, 200.0)]
+
+
+@pytest.mark.parametrize("fluid, t_c", _ALKANE_CASES + [("n-Dodecane", 250.0)])  # to Tr = 0.8 (n-decane, 250 °C: 0.85)
 def test_petroleum_hot_properties_against_coolprop(fluid, t_c):
     tb, sg, f = _alkane(fluid)
     T = t_c + 273.15

@@ -468,6 +468,7 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_
     scalar = scalar and (rho_nozzle is None or np.ndim(rho_nozzle) == 0)
     s = lambda x: _scalar(x, scalar)  # noqa: E731
     return ShellSideResult(
-        h=s(h), dp=s(dp_c + dp_w + dp_e + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=s(dp_c), dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
+        h=s(h), dp=s(dp_c + dp_w + dp_e + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=s(dp_c),
+        dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
         velocity_crossflow=s(G / rho), j_ideal=s(j), f_ideal=s(f), Jc=s(c["Jc"]), Jl=s(c["Jl"]), Jb=s(c["Jb"]),
         Js=s(c["Js"]), Jr=s(c["Jr"]), Rl=s(c["Rl"]), Rb=s(c["Rb"]), Rs=s(c["Rs"]), warnings=warnings)
