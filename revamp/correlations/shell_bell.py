@@ -59,12 +59,17 @@ _SWITCH_BLEND = 2.5
 def _weight(Re, edge, factor):
     """Blend weight of the upper side: 0 below ``edge/factor``, 1 above ``edge*factor``, between a smoothstep
     ``3u² - 2u³`` of u linear in ln Re (so the blended value has a continuous slope too)."""
-    u = np.clip(0.5 + np.log(np.asarray(Re, dtype=float) / edge) / (2.0 * math.log(factor)), 0.0, 1.0)
+    u = np.minimum(np.maximum(0.5 + np.log(np.asarray(Re, dtype=float) / edge) / (2.0 * math.log(factor)), 0.0), 1.0)
     return u * u * (3.0 - 2.0 * u)
 
 
 def _log_blend(lower, upper, w):
     """Geometric blend ``lower^(1-w) upper^w`` of two positive values (w = 0: lower, w = 1: upper)."""
+    w = np.asarray(w)
+    if np.all(w >= 1.0):  # the common cases: every Re on one side of the band
+        return upper + np.zeros_like(w)
+    if np.all(w <= 0.0):
+        return lower + np.zeros_like(w)
     return np.where(w <= 0.0, lower, np.where(w >= 1.0, upper, lower ** (1.0 - w) * upper ** w))
 
 
@@ -72,11 +77,27 @@ _LN_EDGES = np.log(_EDGES)
 _HALF_BAND = 2.0 * math.log(_FIT_BLEND)
 
 
+def _fit_scalar(Re, pitch_ratio, c1, c2, c3, c4):
+    lr = math.log(Re)
+    band = int(np.searchsorted(_EDGES, Re, side="right"))
+    core = c1[band] * math.exp(c2[band] * lr)
+    edge = min(max(int(round(lr / math.log(10.0))) - 1, 0), len(_EDGES) - 1)
+    u = 0.5 + (lr - _LN_EDGES[edge]) / _HALF_BAND
+    if 0.0 < u < 1.0:
+        w = u * u * (3.0 - 2.0 * u)
+        ln_lower = math.log(c1[edge]) + c2[edge] * lr
+        ln_upper = math.log(c1[edge + 1]) + c2[edge + 1] * lr
+        core = math.exp((1.0 - w) * ln_lower + w * ln_upper)
+    return core * (1.33 / pitch_ratio) ** (c3 / (1.0 + 0.14 * Re ** c4))
+
+
 def _fit(Re, pitch_ratio, layout, kind):
     c = TABOREK_FITS[int(layout)]
     k1, k2, k3, k4 = ("a1", "a2", "a3", "a4") if kind == "j" else ("b1", "b2", "b3", "b4")
-    c1, c2 = np.asarray(c[k1]), np.asarray(c[k2])
     Re = np.asarray(Re, dtype=float)
+    if Re.ndim == 0:  # the same formulas on Python floats (a scalar rating calls this in its loop)
+        return _fit_scalar(float(Re), pitch_ratio, c[k1], c[k2], c[k3], c[k4])
+    c1, c2 = np.asarray(c[k1]), np.asarray(c[k2])
     lr = np.log(Re)
     band = np.searchsorted(_EDGES, Re, side="right")
     core = c1[band] * np.exp(c2[band] * lr)
@@ -310,6 +331,10 @@ def _window_dp(geom, Gw, Re, rho, mu):
         return (2.0 + 0.6 * geom.Ncw) * g ** 2 / (2.0 * rho)
 
     w = _weight(Re, _LAMINAR_RE, _SWITCH_BLEND)
+    if np.all(w >= 1.0):
+        return turb(Gw)
+    if np.all(w <= 0.0):
+        return lam(Gw)
     lo, hi = _LAMINAR_RE / _SWITCH_BLEND, _LAMINAR_RE * _SWITCH_BLEND
     band = _log_blend(lam(Gw * lo / Re), turb(Gw * hi / Re), w)
     return np.where(w <= 0.0, lam(Gw), np.where(w >= 1.0, turb(Gw), band))
