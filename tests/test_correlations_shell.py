@@ -485,3 +485,21 @@ def test_shell_nozzle_loss_broadcasts():
 def test_bad_nozzle_input_names_the_field(kw):
     with pytest.raises(InputError, match="nozzle"):
         bell_delaware(hx().bell(), 20.0, **PROPS, **kw)
+
+
+def test_rated_duty_never_falls_as_shell_flow_rises_through_the_switch():
+    import revamp as rv
+
+    # a viscous oil on the shell side (constant properties: only the method can make a seam), water in the tubes;
+    # the shell flows span Re_shell ~ 30 to ~ 400 across the laminar/turbulent switch at Re = 100
+    oil = rv.fluids.constant(density=880.0, heat_capacity=2000.0, viscosity=0.08, conductivity=0.12)
+    cw = rv.fluids.constant(density=995.0, heat_capacity=4180.0, viscosity=7.5e-4, conductivity=0.62)
+    ex = hx(tube_count=120, baffle_spacing="0.3 m")
+    g = ex.bell()
+    m100 = 100.0 * 0.08 * g.Sm / g.tube_od
+    flows = m100 * np.geomspace(0.3, 4.0, 120)
+    r = rv.rate(ex, rv.Service(shell=rv.Stream(oil, flows, 420.0), tube=rv.Stream(cw, 30.0, 300.0)))
+    assert r.Re_shell.min() < 40 and r.Re_shell.max() > 250
+    # more flow never gives less duty or less shell dp (physical expectation; a 1.2 % flow rise once cost 2 % duty)
+    assert np.all(np.diff(r.duty) > 0)
+    assert np.all(np.diff(r.dp_shell) > 0)

@@ -137,61 +137,151 @@ def test_petroleum_heat_capacity_kesler_lee_and_watson_nelson():
     assert f.props((200.0 - 32.0) / 1.8 + 273.15).heat_capacity / 4186.8 == pytest.approx(0.52, rel=0.05)
 
 
-def test_petroleum_conductivity_cragoe():
+def test_petroleum_conductivity_cragoe_at_100F():
     from pint import UnitRegistry
 
     ureg = UnitRegistry()
     f = petroleum(**GAS_OIL)
     sg = 141.5 / 161.5
-    for t_f in (100.0, 300.0):
-        # Cragoe (1929): k = 0.813/SG (1 - 0.0003 (t - 32)) BTU·in/(h·ft²·°F), t in °F
-        k_us = 0.813 / sg * (1.0 - 0.0003 * (t_f - 32.0))
-        k_si = ureg.Quantity(k_us, "Btu * inch / (hour * foot**2 * delta_degF)").to("W/m/K").magnitude
-        T = (t_f - 32.0) / 1.8 + 273.15
-        assert f.props(T).conductivity == pytest.approx(k_si, rel=2e-5)  # pint's Btu (ISO) vs the IT Btu: 1e-6
+    # Cragoe (1929): k = 0.813/SG (1 - 0.0003 (t - 32)) BTU·in/(h·ft²·°F), t in °F, taken at 100 °F
+    k_us = 0.813 / sg * (1.0 - 0.0003 * (100.0 - 32.0))
+    k_si = ureg.Quantity(k_us, "Btu * inch / (hour * foot**2 * delta_degF)").to("W/m/K").magnitude
+    assert f.props((100.0 - 32.0) / 1.8 + 273.15).conductivity == pytest.approx(k_si, rel=2e-5)  # pint's Btu: 1e-6
+    # Latini et al. (1977) temperature function k ∝ (1 - Tr)^0.38 / Tr^(1/6) (Poling, Prausnitz & O'Connell 2001,
+    # §10-9), by hand at 250 °C with the fluid's own Tc
+    T0, T = (100.0 - 32.0) / 1.8 + 273.15, 523.15
+    shape = lambda t: (1 - t / f.tc) ** 0.38 / (t / f.tc) ** (1 / 6)  # noqa: E731
+    assert f.props(T).conductivity == pytest.approx(k_si * shape(T) / shape(T0), rel=2e-5)
 
 
-def test_petroleum_walther_passes_through_points_and_third_point():
-    f = petroleum(**GAS_OIL)
-    assert f.kinematic_viscosity(313.15) == pytest.approx(8e-6, rel=1e-12)
-    assert f.kinematic_viscosity(373.15) == pytest.approx(2.5e-6, rel=1e-12)
-    # ASTM D341: log10 log10(nu + 0.7) = A - B log10 T, solved by hand through the two points, evaluated at 70 °C
-    l1, l2 = math.log10(math.log10(8.7)), math.log10(math.log10(3.2))
-    B = (l1 - l2) / (math.log10(373.15) - math.log10(313.15))
-    A = l1 + B * math.log10(313.15)
-    nu70 = 10 ** (10 ** (A - B * math.log10(343.15))) - 0.7
-    assert f.kinematic_viscosity(343.15) * 1e6 == pytest.approx(nu70, rel=1e-10)
-    assert 2.5 < nu70 < 8.0
-    # dynamic = kinematic x density
-    p = f.props(343.15)
-    assert p.viscosity == pytest.approx(nu70 * 1e-6 * p.density, rel=1e-10)
+def _alkane(fluid):
+    """Tb [K] and SG (60/60 °F) of a CoolProp n-alkane, and a petroleum() fraction with the same Tb and SG."""
+    tb = CP.PropsSI("T", "P", 101325.0, "Q", 0, fluid)
+    t60 = (60.0 - 32.0) / 1.8 + 273.15
+    sg = CP.PropsSI("D", "T", t60, "P", 101325.0, fluid) / CP.PropsSI("D", "T", t60, "P", 101325.0, "Water")
+    k = (tb * 1.8) ** (1 / 3) / sg  # Watson K = Tb^(1/3)/SG, Tb in °R (Watson & Nelson 1933)
+    return tb, sg, petroleum(api=141.5 / sg - 131.5, watson_k=k, viscosity=[("40 degC", "1.2 cSt"),
+                                                                            ("100 degC", "0.6 cSt")])
 
 
-def test_petroleum_density_expansion_rule():
+def _cp_liquid(fluid, T, what):
+    p = max(2e5, 1.5 * CP.PropsSI("P", "T", T, "Q", 0, fluid))  # compressed liquid, just above saturation
+    return CP.PropsSI(what, "T", T, "P", p, fluid)
+
+
+@pytest.mark.parametrize("fluid", ["n-Decane", "n-Dodecane"])
+def test_petroleum_critical_constants_against_coolprop(fluid):
+    tb, sg, f = _alkane(fluid)
+    # Watson K round trip: Tb from K and SG reproduces the boiling point (definition)
+    assert f.tb == pytest.approx(tb, rel=1e-9)
+    # Riazi & Daubert (1980) from Tb and SG against the pure fluid's critical point (CoolProp): within 1 % (Tc)
+    # and 6 % (Pc); their paper reports average errors of about 1 % and 3-4 % for hydrocarbons (from memory)
+    assert f.tc == pytest.approx(CP.PropsSI("Tcrit", fluid), rel=0.01)
+    assert f.pc == pytest.approx(CP.PropsSI("pcrit", fluid), rel=0.06)
+    # Edmister (1958) acentric factor against CoolProp's: within 0.05
+    assert f.omega == pytest.approx(CP.PropsSI("acentric", fluid), abs=0.05)
+
+
+_ALKANE_CASES = [(fl, t) for fl in ("n-Decane", "n-Dodecane") for t in (20.0, 100.0, 150.0, 200.0)]
+
+
+@pytest.mark.parametrize("fluid, t_c", _ALKANE_CASES + [("n-Dodecane", 250.0)])  # to Tr = 0.8 (n-decane, 250 °C: 0.85)
+def test_petroleum_hot_properties_against_coolprop(fluid, t_c):
+    tb, sg, f = _alkane(fluid)
+    T = t_c + 273.15
+    assert T / f.tc <= 0.82
+    p = f.props(T)
+    # CoolProp (reference equations of state) for the pure alkane of the same Tb and SG
+    assert p.density == pytest.approx(_cp_liquid(fluid, T, "D"), rel=0.01)  # Rackett anchored at SG
+    assert p.heat_capacity == pytest.approx(_cp_liquid(fluid, T, "C"), rel=0.04)  # Kesler & Lee (1976)
+    # conductivity: Cragoe's magnitude (fitted to petroleum oils) overstates n-alkanes by 20-30 %, so check the
+    # temperature function, the ratio to 100 °F, against CoolProp's ratio
+    T0 = (100.0 - 32.0) / 1.8 + 273.15
+    ratio = p.conductivity / f.props(T0).conductivity
+    assert ratio == pytest.approx(_cp_liquid(fluid, T, "L") / _cp_liquid(fluid, T0, "L"), rel=0.05)
+
+
+def test_petroleum_density_near_the_volume_correction_tables_in_their_range():
     f = petroleum(**GAS_OIL)
     sg = 141.5 / 161.5
     # at 60 °F the density is SG x water at 60 °F; water at 60 °F, 1 atm from IAPWS-95 (iapws): 999.0 kg/m³
     rho_w60 = iapws.IAPWS95(T=(60.0 - 32.0) / 1.8 + 273.15, P=0.101325).rho
     assert f.props((60.0 - 32.0) / 1.8 + 273.15).density == pytest.approx(sg * rho_w60, rel=2e-5)
-    # API MPMS 11.1 / ASTM D1250-80 generalized crude (K0 = 341.0957, from memory) at 200 °F, by hand
+    # Rackett (Spencer & Danner 1972, Z_RA of Yamada & Gunn 1973) by hand with the fluid's Tc and omega
+    T = (200.0 - 32.0) / 1.8 + 273.15
+    z = 0.29056 - 0.08775 * f.omega
+    tr60, tr = ((60.0 - 32.0) / 1.8 + 273.15) / f.tc, T / f.tc
+    assert f.props(T).density == pytest.approx(sg * 999.016 * z ** ((1 - tr60) ** (2 / 7) - (1 - tr) ** (2 / 7)))
+    # API MPMS 11.1 / ASTM D1250-80 generalized crude (K0 = 341.0957, from memory) at 200 °F, in its range: the two
+    # methods agree within 1.5 %
     rho60 = sg * 999.016
     a = 341.0957 / rho60**2
     dt = 140.0
-    expected = rho60 * math.exp(-a * dt * (1 + 0.8 * a * dt))
-    assert f.props((200.0 - 32.0) / 1.8 + 273.15).density == pytest.approx(expected, rel=1e-12)
-    # and a plausible expansion, about 0.0007-0.0009 per K for a 30 °API oil (common practice, no source)
-    beta = (1 - expected / rho60) / (dt / 1.8)
-    assert 6e-4 < beta < 1e-3
+    mpms = rho60 * math.exp(-a * dt * (1 + 0.8 * a * dt))
+    assert f.props(T).density == pytest.approx(mpms, rel=0.015)
 
 
-def test_petroleum_check_warnings():
+def test_petroleum_d341_passes_through_points_and_third_point():
+    f = petroleum(**GAS_OIL)
+    # D341's forward Z(nu) and its inverse nu(Z) are fits of each other, consistent to about 2e-5 (D341)
+    assert f.kinematic_viscosity(313.15) == pytest.approx(8e-6, rel=1e-4)
+    assert f.kinematic_viscosity(373.15) == pytest.approx(2.5e-6, rel=1e-4)
+    # ASTM D341: log10 log10 Z = A - B log10 T, Z = nu + 0.7 + exp(-1.47 - 1.84 nu - 0.51 nu²), inverse
+    # nu = (Z - 0.7) - exp(-0.7487 - 3.295 (Z - 0.7) + 0.6119 (Z - 0.7)² - 0.3193 (Z - 0.7)³) (from memory; the same
+    # constants appear in several public implementations), solved by hand through the two points, at 70 °C and 250 °C
+    zf = lambda nu: nu + 0.7 + math.exp(-1.47 - 1.84 * nu - 0.51 * nu ** 2)  # noqa: E731
+    l1, l2 = math.log10(math.log10(zf(8.0))), math.log10(math.log10(zf(2.5)))
+    B = (l1 - l2) / (math.log10(373.15) - math.log10(313.15))
+    A = l1 + B * math.log10(313.15)
+    for T in (343.15, 523.15):
+        z = 10 ** (10 ** (A - B * math.log10(T)))
+        nu = (z - 0.7) - math.exp(-0.7487 - 3.295 * (z - 0.7) + 0.6119 * (z - 0.7) ** 2 - 0.3193 * (z - 0.7) ** 3)
+        assert f.kinematic_viscosity(T) * 1e6 == pytest.approx(nu, rel=1e-9)
+    # dynamic = kinematic x density
+    p = f.props(343.15)
+    assert p.viscosity == pytest.approx(f.kinematic_viscosity(343.15) * p.density, rel=1e-10)
+
+
+def test_steep_viscosity_line_stays_finite():
+    # a steep two-point line (383.9 K / 3.51 cSt, 419 K / 0.513 cSt) overflowed to mu = inf below 292 K
+    f = petroleum(api=30.0, watson_k=11.8, viscosity=[(383.9, "3.51 cSt"), (419.0, "0.513 cSt")])
+    T = np.array([250.0, 280.0, 292.0, 300.0, 350.0, 383.9, 419.0, 450.0])
+    p = f.props(T)
+    assert np.all(np.isfinite(p.viscosity)) and np.all(p.viscosity > 0)
+    assert np.all(np.diff(p.viscosity) <= 0)  # never rises with temperature (physical expectation)
+    # held at the top of the ASTM D341 chart, 2e7 cSt (from memory)
+    assert f.kinematic_viscosity(250.0) == pytest.approx(20.0, rel=1e-6)  # 2e7 cSt = 20 m²/s
+    assert f.kinematic_viscosity(383.9) == pytest.approx(3.51e-6, rel=1e-4)
+    w = f.check(T)
+    assert any("extrapolated" in x for x in w) and any("D341" in x and "2e+07" in x for x in w)
+
+
+def test_petroleum_check_reports_each_quantity_once():
     f = petroleum(**GAS_OIL)
     assert f.check((150.0 - 32.0) / 1.8 + 273.15) == []
-    hot = f.check((600.0 - 32.0) / 1.8 + 273.15)
-    assert any("density" in w for w in hot) and any("Cragoe" in w for w in hot)
-    assert any("D341" in w for w in hot)  # a gas oil at 600 °F is below 2 cSt
-    assert f.check((800.0 - 32.0) / 1.8 + 273.15)  # beyond 700 °F
     assert f.check("100 degC") == []
+    # a rating passes inlet and outlet arrays: one line per quantity, with the range and the count of cases
+    t_in = np.full(500, 265.0 + 273.15)
+    t_out = np.linspace(150.0, 200.0, 500) + 273.15
+    w = f.check(t_in, t_out)
+    assert len(w) == len({x.split(":")[1] for x in w})  # one line per method/quantity
+    assert len(w) == 1 and "extrapolated" in w[0] and "1000 of 1000" in w[0]
+    # hot but valid: 265 °C gas oil and 330 °C residue need no density, cp or conductivity warnings
+    residue = petroleum(api=12.0, watson_k=11.6, viscosity=[("100 degC", "150 cSt"), ("150 degC", "30 cSt")])
+    for fluid, t in ((f, 265.0), (residue, 330.0)):
+        w = fluid.check(np.linspace(150.0, t, 50) + 273.15)
+        assert not [x for x in w if "density" in x or "cp" in x or "conductivity" in x], w
+    # beyond the ranges: 690 °F gas oil is past Tr = 0.8 for conductivity; 800 °F past everything
+    assert any("conductivity" in x for x in f.check((690.0 - 32.0) / 1.8 + 273.15))
+    assert any("overall range" in x for x in f.check((800.0 - 32.0) / 1.8 + 273.15))
+
+
+def test_petroleum_is_not_a_liquid_above_its_critical_temperature():
+    f = petroleum(**GAS_OIL)
+    with pytest.raises(InputError) as err:
+        f.props(f.tc + 1.0)
+    assert err.value.field == "T"
+    assert f.t_max < f.tc
 
 
 @pytest.mark.parametrize("kwargs, field", [
@@ -199,6 +289,7 @@ def test_petroleum_check_warnings():
     (dict(GAS_OIL, api="thirty"), "petroleum.api"),
     (dict(GAS_OIL, watson_k=5.0), "petroleum.watson_k"),
     (dict(GAS_OIL, viscosity=[("40 degC", "2 cSt"), ("100 degC", "5 cSt")]), "petroleum.viscosity"),
+    (dict(GAS_OIL, viscosity=[("40 degC", "2 cSt"), ("100 degC", "0.1 cSt")]), "petroleum.viscosity[1][1]"),
     (dict(GAS_OIL, viscosity=[("40 degC", "8 cSt")]), "petroleum.viscosity"),
     (dict(GAS_OIL, viscosity=[("40 degC", "8 cP"), ("100 degC", "2.5 cSt")]), "petroleum.viscosity[0][1]"),
     (dict(GAS_OIL, viscosity=[("40 degC", "8 cSt"), ("40 degC", "2.5 cSt")]), "petroleum.viscosity"),
@@ -308,11 +399,15 @@ def test_water_viscosity_falls(t1, dt):
 @given(api=st.floats(5.0, 80.0), k=st.floats(10.0, 13.0), nu1=st.floats(1.0, 500.0), ratio=st.floats(1.2, 20.0),
        t1=st.floats(260.0, 640.0), t2=st.floats(260.0, 640.0))
 def test_liquid_viscosity_falls_petroleum(api, k, nu1, ratio, t1, t2):
-    f = petroleum(api=api, watson_k=k, viscosity=[("40 degC", nu1 * ratio * 1e-6), ("100 degC", nu1 * 1e-6)])
-    lo, hi = sorted((t1, t2))
+    try:
+        f = petroleum(api=api, watson_k=k, viscosity=[("40 degC", nu1 * ratio * 1e-6), ("100 degC", nu1 * 1e-6)])
+    except InputError as err:  # API/K pairs no petroleum fraction has (e.g. API 5 with K 13: Tb ~ 1360 K)
+        assert err.field == "petroleum.watson_k" and api < 25
+        return
+    lo, hi = sorted(min(t, f.t_max) for t in (t1, t2))
     if hi - lo < 0.1:
         return
-    assert f.props(hi).viscosity < f.props(lo).viscosity
+    assert f.props(hi).viscosity <= f.props(lo).viscosity
     assert f.props(hi).density < f.props(lo).density  # thermal expansion
 
 
@@ -358,3 +453,28 @@ def test_every_provider_meets_the_protocol():
         assert isinstance(f, Fluid)
         assert isinstance(f.name, str) and f.t_min < f.t_max
         assert isinstance(f.check(350.0), list)
+
+
+def test_every_check_reports_once_over_several_arrays():
+    # a rating checks inlet and outlet temperatures together: one line per warning, counting all of them
+    cold, hot = np.array([250.0, 260.0]), np.array([600.0, 700.0, 800.0])
+    for f in (water("10 bar"), pure("Toluene", "2 bar"), _sheet()):
+        w = f.check(cold, hot)
+        assert len(w) == 1 and "of 5" in w[0], (f.name, w)
+    assert constant(900.0, 2000.0, 1e-3, 0.13).check(cold, hot) == []
+
+
+@HYP
+@given(api=st.floats(8.0, 60.0), k=st.floats(10.5, 12.8), nu40=st.floats(3.0, 2000.0), ratio=st.floats(1.5, 10.0))
+def test_petroleum_hot_properties_behave_physically(api, k, nu40, ratio):
+    try:
+        f = petroleum(api=api, watson_k=k, viscosity=[("40 degC", nu40 * 1e-6), ("100 degC", nu40 / ratio * 1e-6)])
+    except InputError as err:  # an API/K pair no fraction has
+        assert err.field == "petroleum.watson_k"
+        return
+    T = np.linspace(f.t_min, f.t_max, 200)
+    p = f.props(T)
+    # liquids expand, conduct less and flow more easily when hotter; cp rises (physical expectation, no source)
+    assert np.all(np.diff(p.density) < 0) and np.all(np.diff(p.conductivity) < 0)
+    assert np.all(np.diff(p.viscosity) <= 0) and np.all(np.diff(p.heat_capacity) > 0)
+    assert np.all(np.isfinite(p.viscosity)) and np.all(p.density > 0) and np.all(p.conductivity > 0)

@@ -45,8 +45,9 @@ _EDGES = np.array([10.0, 100.0, 1e3, 1e4])
 _LAMINAR_RE = 100.0
 # Seams. Taborek's method switches abruptly at band edges (the ideal-bank fits, a few per cent apart there) and at
 # Re = 100 between its laminar and turbulent constants (Jb, Rb, Js, Rs and the window pressure drop, which can differ
-# several-fold there). A rating swept in flow must not see a step, so each switch is replaced by a blend that is
-# linear in ln Re, geometric in the blended value, over a band centred (in ln Re) on the published switch point:
+# several-fold there). A rating swept in flow must not see a step, so each switch is replaced by a blend, geometric
+# in the blended value with a smoothstep weight in ln Re (value and slope continuous), over a band centred (in ln Re)
+# on the published switch point:
 # a factor 1.25 either side of each fit edge, a factor 2.5 either side of Re = 100 (40 to 250). Outside these bands
 # the published values are used unchanged. The blend and its widths are our choice (no published source). The
 # window pressure drop, whose laminar and turbulent forms can differ up to about 7 times at Re = 100, is
@@ -56,33 +57,60 @@ _SWITCH_BLEND = 2.5
 
 
 def _weight(Re, edge, factor):
-    """Blend weight of the upper side: 0 below ``edge/factor``, 1 above ``edge*factor``, linear in ln Re between."""
-    return np.clip(0.5 + np.log(np.asarray(Re, dtype=float) / edge) / (2.0 * math.log(factor)), 0.0, 1.0)
+    """Blend weight of the upper side: 0 below ``edge/factor``, 1 above ``edge*factor``, between a smoothstep
+    ``3u² - 2u³`` of u linear in ln Re (so the blended value has a continuous slope too)."""
+    u = np.minimum(np.maximum(0.5 + np.log(np.asarray(Re, dtype=float) / edge) / (2.0 * math.log(factor)), 0.0), 1.0)
+    return u * u * (3.0 - 2.0 * u)
 
 
 def _log_blend(lower, upper, w):
     """Geometric blend ``lower^(1-w) upper^w`` of two positive values (w = 0: lower, w = 1: upper)."""
+    w = np.asarray(w)
+    if np.all(w >= 1.0):  # the common cases: every Re on one side of the band
+        return upper + np.zeros_like(w)
+    if np.all(w <= 0.0):
+        return lower + np.zeros_like(w)
     return np.where(w <= 0.0, lower, np.where(w >= 1.0, upper, lower ** (1.0 - w) * upper ** w))
 
 
-def _fit_band(Re, c1s, c2s, band):
-    return np.asarray(c1s)[band] * Re ** np.asarray(c2s)[band]
+_LN_EDGES = np.log(_EDGES)
+_HALF_BAND = 2.0 * math.log(_FIT_BLEND)
+
+
+def _fit_scalar(Re, pitch_ratio, c1, c2, c3, c4):
+    lr = math.log(Re)
+    band = int(np.searchsorted(_EDGES, Re, side="right"))
+    core = c1[band] * math.exp(c2[band] * lr)
+    edge = min(max(int(round(lr / math.log(10.0))) - 1, 0), len(_EDGES) - 1)
+    u = 0.5 + (lr - _LN_EDGES[edge]) / _HALF_BAND
+    if 0.0 < u < 1.0:
+        w = u * u * (3.0 - 2.0 * u)
+        ln_lower = math.log(c1[edge]) + c2[edge] * lr
+        ln_upper = math.log(c1[edge + 1]) + c2[edge + 1] * lr
+        core = math.exp((1.0 - w) * ln_lower + w * ln_upper)
+    return core * (1.33 / pitch_ratio) ** (c3 / (1.0 + 0.14 * Re ** c4))
 
 
 def _fit(Re, pitch_ratio, layout, kind):
     c = TABOREK_FITS[int(layout)]
     k1, k2, k3, k4 = ("a1", "a2", "a3", "a4") if kind == "j" else ("b1", "b2", "b3", "b4")
     Re = np.asarray(Re, dtype=float)
+    if Re.ndim == 0:  # the same formulas on Python floats (a scalar rating calls this in its loop)
+        return _fit_scalar(float(Re), pitch_ratio, c[k1], c[k2], c[k3], c[k4])
+    c1, c2 = np.asarray(c[k1]), np.asarray(c[k2])
+    lr = np.log(Re)
     band = np.searchsorted(_EDGES, Re, side="right")
-    core = _fit_band(Re, c[k1], c[k2], band)
-    # near an edge, blend with the neighbouring band's fit (see _FIT_BLEND)
-    for i, edge in enumerate(_EDGES):
-        w = _weight(Re, edge, _FIT_BLEND)
-        near = (w > 0.0) & (w < 1.0)
-        if np.any(near):
-            lower = _fit_band(Re, c[k1], c[k2], np.full(Re.shape, i))
-            upper = _fit_band(Re, c[k1], c[k2], np.full(Re.shape, i + 1))
-            core = np.where(near, _log_blend(lower, upper, w), core)
+    core = c1[band] * np.exp(c2[band] * lr)
+    # near an edge, blend with the neighbouring band's fit (see _FIT_BLEND); the edges are a decade apart, so at
+    # most one (the nearest in log) is near
+    edge = np.clip(np.rint(lr / math.log(10.0)) - 1, 0, len(_EDGES) - 1).astype(int)
+    u = 0.5 + (lr - _LN_EDGES[edge]) / _HALF_BAND
+    near = (u > 0.0) & (u < 1.0)
+    if np.any(near):
+        w = u * u * (3.0 - 2.0 * u)
+        ln_lower = np.log(c1[edge]) + c2[edge] * lr
+        ln_upper = np.log(c1[edge + 1]) + c2[edge + 1] * lr
+        core = np.where(near, np.exp((1.0 - w) * ln_lower + w * ln_upper), core)
     expo = c[k3] / (1.0 + 0.14 * Re ** c[k4])
     out = core * (1.33 / pitch_ratio) ** expo
     return float(out) if out.ndim == 0 else out
@@ -92,8 +120,8 @@ def ideal_j(Re, pitch_ratio, layout):
     """Ideal tube-bank Colburn factor j_i (Taborek's fit) [-].
 
     ``j = a1 (1.33/(Pt/do))^a Re^a2`` with ``a = a3 / (1 + 0.14 Re^a4)``; within a factor 1.25 of a band edge
-    (Re = 10, 100, 1e3, 1e4) the two bands' values are blended geometrically, linear in ln Re, so that j is
-    continuous (the fits differ by up to a few per cent at the edges).
+    (Re = 10, 100, 1e3, 1e4) the two bands' values are blended geometrically (smoothstep weight in ln Re), so that j is
+    continuous with a continuous slope (the fits differ by up to a few per cent at the edges).
 
     Parameters
     ----------
@@ -246,7 +274,7 @@ def correction_factors(geom, Re):
         Shell geometry.
     Re : float or array_like
         Shell-side Reynolds number [-]. Below Re = 40 the laminar constants apply, above 250 the turbulent
-        ones; between, the two factors are blended geometrically, linear in ln Re (our choice, no published
+        ones; between, the two factors are blended geometrically, smoothstep in ln Re (our choice, no published
         source: Taborek switches at Re = 100, which makes h and Δp jump).
 
     Returns
@@ -290,7 +318,7 @@ def correction_factors(geom, Re):
 
 def _window_dp(geom, Gw, Re, rho, mu):
     """Ideal window pressure drop [Pa]: Taborek's laminar form below the switch band, turbulent above, and across
-    the band a geometric interpolation, linear in ln Re, from the laminar value at the band's lower end to the
+    the band a geometric interpolation, smoothstep in ln Re, from the laminar value at the band's lower end to the
     turbulent value at its upper end (both at this fluid's properties). That rises with flow whenever the turbulent
     value at the upper end exceeds the laminar one at the lower end, i.e. while the laminar/turbulent ratio at
     Re = 100 stays below ``_SWITCH_BLEND**3`` (15.6; about 7 seen in practical bundles)."""
@@ -303,6 +331,10 @@ def _window_dp(geom, Gw, Re, rho, mu):
         return (2.0 + 0.6 * geom.Ncw) * g ** 2 / (2.0 * rho)
 
     w = _weight(Re, _LAMINAR_RE, _SWITCH_BLEND)
+    if np.all(w >= 1.0):
+        return turb(Gw)
+    if np.all(w <= 0.0):
+        return lam(Gw)
     lo, hi = _LAMINAR_RE / _SWITCH_BLEND, _LAMINAR_RE * _SWITCH_BLEND
     band = _log_blend(lam(Gw * lo / Re), turb(Gw * hi / Re), w)
     return np.where(w <= 0.0, lam(Gw), np.where(w >= 1.0, turb(Gw), band))
@@ -404,7 +436,7 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_
         ``h = j_i cp (m/Sm) Pr^(-2/3) (μ/μw)^0.14 Jc Jl Jb Js Jr``; ``dp = Δpc + Δpw + Δpe`` with
         Δpbi = 2 f_i Nc (m/Sm)²/ρ (μw/μ)^0.14, Δpc = (Nb - 1) Δpbi Rb Rl, Δpw = Nb Δpwi Rl,
         Δpwi = (2 + 0.6 Ncw) mw²/(2ρ) for Re >= 250 and 26 μ mw/ρ [Ncw/(Pt - do) + Lbc/Dw²] + mw²/ρ below 40
-        (Taborek switches at 100; between, a geometric interpolation of the band-end values, linear in ln Re),
+        (Taborek switches at 100; between, a geometric interpolation of the band-end values, smoothstep in ln Re),
         mw = m/sqrt(Sm Sw), Δpe = 2 Δpbi (1 + Ncw/Nc) Rb Rs.
 
     Notes
@@ -461,6 +493,7 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_
     scalar = scalar and (rho_nozzle is None or np.ndim(rho_nozzle) == 0)
     s = lambda x: _scalar(x, scalar)  # noqa: E731
     return ShellSideResult(
-        h=s(h), dp=s(dp_c + dp_w + dp_e + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=s(dp_c), dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
+        h=s(h), dp=s(dp_c + dp_w + dp_e + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=s(dp_c),
+        dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
         velocity_crossflow=s(G / rho), j_ideal=s(j), f_ideal=s(f), Jc=s(c["Jc"]), Jl=s(c["Jl"]), Jb=s(c["Jb"]),
         Js=s(c["Js"]), Jr=s(c["Jr"]), Rl=s(c["Rl"]), Rb=s(c["Rb"]), Rs=s(c["Rs"]), warnings=warnings)

@@ -102,6 +102,7 @@ def kern(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_nozzle=No
     scalar = scalar and (rho_nozzle is None or np.ndim(rho_nozzle) == 0)
     nan = _scalar(np.full(np.shape(Re + dp_n), np.nan), scalar)
     s = lambda x: _scalar(x, scalar)  # noqa: E731
-    return ShellSideResult(h=s(h), dp=s(dp + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=nan, dp_window=nan, dp_ends=nan, Re=s(Re),
+    return ShellSideResult(h=s(h), dp=s(dp + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=nan,
+                           dp_window=nan, dp_ends=nan, Re=s(Re),
                            velocity_crossflow=s(G / rho), j_ideal=nan, f_ideal=s(f), Jc=nan, Jl=nan, Jb=nan,
                            Js=nan, Jr=nan, Rl=nan, Rb=nan, Rs=nan, warnings=warnings, method="kern")

@@ -13,7 +13,7 @@ import numpy as np
 from ..errors import InputError
 from ..units import to_si
 
-__all__ = ["Fluid", "Props", "as_temperature", "range_check"]
+__all__ = ["Fluid", "Props", "as_temperature", "joined_temperatures", "range_check"]
 
 
 @dataclass(frozen=True)
@@ -55,7 +55,7 @@ class Fluid(Protocol):
 
     def props(self, T) -> Props: ...
 
-    def check(self, T) -> list[str]: ...
+    def check(self, *T) -> list[str]: ...
 
 
 def as_temperature(T, field: str = "T"):
@@ -90,3 +90,10 @@ def range_check(name: str, T, t_min: float, t_max: float, what: str = "valid ran
     count = f" ({n} of {arr.size} temperatures)" if arr.size > 1 else ""
     return [f"{name}: T = {shown:.2f} K is outside its {what} {t_min:.2f} to {t_max:.2f} K{count}"]
 
+
+
+def joined_temperatures(*T) -> np.ndarray:
+    """Several temperature inputs (numbers, arrays, strings with units) as one flat array [K], for a ``check``
+    that reports each warning once over all of them (e.g. ``fluid.check(t_in, t_out)``)."""
+    parts = [np.ravel(np.asarray(to_si(t, "temperature", "T") if isinstance(t, str) else t, dtype=float)) for t in T]
+    return np.concatenate(parts) if parts else np.array([])

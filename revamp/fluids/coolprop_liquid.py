@@ -21,7 +21,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..units import require, to_si
-from .base import Props, as_temperature, range_check
+from .base import Props, as_temperature, joined_temperatures, range_check
 
 __all__ = ["GRID_STEP", "INTERPOLATION_ERROR", "CoolPropLiquid", "pure", "water"]
 
@@ -158,9 +158,10 @@ class CoolPropLiquid:
         raise InputError("T", f"{lo:.6g} K", f"at least {self.t_min:.2f} K (lower limit of the "
                          f"{self.fluid} liquid table)")
 
-    def check(self, T) -> list[str]:
-        """Warnings for temperatures outside [t_min, t_max) (props raises for those)."""
-        return range_check(self.name, T, self.t_min, np.nextafter(self.t_max, 0.0), "liquid range")
+    def check(self, *T) -> list[str]:
+        """Warnings for temperatures outside [t_min, t_max) (props raises for those); one line for all of ``T``."""
+        return range_check(self.name, joined_temperatures(*T), self.t_min, np.nextafter(self.t_max, 0.0),
+                           "liquid range")
 
 
 def _liquid(fluid: str, pressure, field_prefix: str, label: str, t_low_override=None) -> CoolPropLiquid:

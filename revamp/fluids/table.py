@@ -9,7 +9,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..units import to_si
-from .base import Props, as_temperature, range_check
+from .base import Props, as_temperature, joined_temperatures, range_check
 
 __all__ = ["ConstantFluid", "TableFluid", "constant", "table"]
 
@@ -82,9 +82,10 @@ class TableFluid:
             return Props(float(out[0][0]), float(out[1][0]), float(out[2][0]), float(out[3][0]))
         return Props(*(o.reshape(arr.shape) for o in out))
 
-    def check(self, T) -> list[str]:
-        """A warning ("extrapolated") when any temperature lies outside the tabulated range."""
-        return range_check(f"{self.name}: extrapolated", T, self.t_min, self.t_max, "tabulated range")
+    def check(self, *T) -> list[str]:
+        """A warning ("extrapolated") when any temperature lies outside the tabulated range; one for all of ``T``."""
+        return range_check(f"{self.name}: extrapolated", joined_temperatures(*T), self.t_min, self.t_max,
+                           "tabulated range")
 
 
 def table(T, density, heat_capacity, viscosity, conductivity, name: str = "table") -> TableFluid:
@@ -170,7 +171,7 @@ class ConstantFluid:
         return Props(np.full(arr.shape, self.density), np.full(arr.shape, self.heat_capacity),
                      np.full(arr.shape, self.viscosity), np.full(arr.shape, self.conductivity))
 
-    def check(self, T) -> list[str]:
+    def check(self, *T) -> list[str]:
         """Always ``[]``: a constant fluid has no range."""
         return []
 
