@@ -180,3 +180,14 @@ def test_the_recommendation_points_at_the_notes_of_the_first_ranked_option(resul
     for n in notes:
         if n.source == best:
             assert f"[{marks[n]}]" in html
+
+
+def test_the_index_summary_carries_the_decision_bases():
+    import json
+
+    econ = rv.economics.Economics(value_basis="throughput", capacity_flow=1.0, capacity_margin=0.01,
+                                  discount_rate=0.1, capex={o.label: 1e5 for o in OPTIONS})
+    res = study_exchanger(make_case(economics=econ), mc_draws=0)
+    out = json.loads(json.dumps(report.summary(res)))
+    assert out["value_basis"] == "throughput" and out["rank_by"] == "npv" and out["judged_on"] == "end_of_run"
+    assert out["warnings"] == sum(1 for n in res.notes if n.severity == "warning") > 0

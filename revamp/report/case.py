@@ -184,8 +184,11 @@ def summary(result) -> dict:
     out = {"tag": case.tag, "duty_today": float(today.duty), "duty_revamp": float(rev.duty), "target": text,
            "target_duty": target.get("duty"), "meets_target": meets, "recommendation": ""}
     study = result.study
+    out["warnings"] = sum(1 for n in result.notes if n.severity == "warning")
     if study is not None:
         out["recommendation"] = str(study.recommendation or "")
+        out["judged_on"], out["rank_by"] = study.basis, study.rank_by
+        out["value_basis"] = getattr(study.economics, "value_basis", None)
         if "meets_target" in study.table and "base" in study.table.index and target:
             out["meets_target"] = bool(study.table.loc["base", "meets_target"])
         if "screening" in study.table and "base" in study.table.index:
