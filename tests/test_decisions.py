@@ -7,6 +7,8 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 import revamp as rv
 from revamp import economics as ec
@@ -252,3 +254,30 @@ def test_unit_file_refuses_an_unknown_basis_by_path(tmp_path):
     problems = unitfile.check(write_unit(tmp_path / "unit.yaml", doc))
     paths = {p.path for p in problems}
     assert "exchangers[0].value_basis" in paths and "economics.rank_by" in paths
+
+
+# ------------------------------------------------------------------------------------------------- invariants
+@settings(max_examples=6, deadline=None)
+@given(capex=st.lists(st.floats(1e3, 2e6), min_size=3, max_size=3), dp_factor=st.floats(0.8, 3.0))
+def test_rank_classes_hold_whatever_the_prices_and_the_limit(capex, dp_factor):
+    # limits before target before NPV, for any capex and any tube-side Δp limit (the stated rule, no source)
+    opts = [op.TwistedTape(3.0), op.AddShells(1), op.AddShells(1, "parallel")]
+    econ = {"energy_price": 8.0, "discount_rate": 0.1, "horizon": 10,
+            "capex": {o.label: c for o, c in zip(opts, capex)}}
+    dp = dp_factor * float(direct(EX, SVC).dp_tube)
+    s = rv.compare(EX, SVC, opts, target=1.3 * float(direct(EX, SVC).duty), economics=econ,
+                   limits=dict(NO_VIB, dp_tube=dp))
+    r = s.ranked()
+    key = list(zip(r["screening"] == "fail", ~r["meets_target"].astype(bool)))
+    assert key == sorted(key)
+    for _, group in r.groupby([r["screening"] == "fail", r["meets_target"]], sort=False):
+        assert list(group["npv"]) == sorted(group["npv"], reverse=True)
+
+
+@settings(max_examples=25, deadline=None)
+@given(gain=st.floats(0.0, 1e8), price=st.floats(0.0, 50.0))
+def test_a_coolers_extra_duty_alone_never_earns_money(gain, price):
+    # a cooler's duty replaces no fuel: without lifting a limit its value is never positive (the stated basis)
+    e = ec.Economics(energy_price=10.0, value_basis="cooling", utility_price=price)
+    assert e.value(gain) <= 0.0
+    assert ec.Economics(value_basis="throughput").value(gain) == 0.0

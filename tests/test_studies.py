@@ -166,3 +166,28 @@ def test_the_report_states_the_basis_the_value_and_the_ranking_rule():
     assert "never ranks above" in text and "net present value" in text
     money = report.study_money_table(res.study)
     assert (money["value basis"].iloc[1:] == "fuel").all() and "rank (by npv)" in money.columns
+
+
+def test_the_recommendation_points_at_the_notes_of_the_first_ranked_option(result):
+    from revamp.report.case import notes_legend
+
+    best = str(result.study.ranked().index[0])
+    rows = {str(i) for i in result.study.table.index}
+    notes = [n for n in result.notes if n.source in rows]
+    marks, _ = notes_legend(notes)
+    html = report.recommendation_html(result)
+    assert result.study.ratings[best].warnings  # the premise: the first-ranked option's rating warns
+    for n in notes:
+        if n.source == best:
+            assert f"[{marks[n]}]" in html
+
+
+def test_the_index_summary_carries_the_decision_bases():
+    import json
+
+    econ = rv.economics.Economics(value_basis="throughput", capacity_flow=1.0, capacity_margin=0.01,
+                                  discount_rate=0.1, capex={o.label: 1e5 for o in OPTIONS})
+    res = study_exchanger(make_case(economics=econ), mc_draws=0)
+    out = json.loads(json.dumps(report.summary(res)))
+    assert out["value_basis"] == "throughput" and out["rank_by"] == "npv" and out["judged_on"] == "end_of_run"
+    assert out["warnings"] == sum(1 for n in res.notes if n.severity == "warning") > 0

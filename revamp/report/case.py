@@ -184,8 +184,11 @@ def summary(result) -> dict:
     out = {"tag": case.tag, "duty_today": float(today.duty), "duty_revamp": float(rev.duty), "target": text,
            "target_duty": target.get("duty"), "meets_target": meets, "recommendation": ""}
     study = result.study
+    out["warnings"] = sum(1 for n in result.notes if n.severity == "warning")
     if study is not None:
         out["recommendation"] = str(study.recommendation or "")
+        out["judged_on"], out["rank_by"] = study.basis, study.rank_by
+        out["value_basis"] = getattr(study.economics, "value_basis", None)
         if "meets_target" in study.table and "base" in study.table.index and target:
             out["meets_target"] = bool(study.table.loc["base", "meets_target"])
         if "screening" in study.table and "base" in study.table.index:
@@ -419,9 +422,22 @@ def study_money_table(study):
 
 
 def recommendation_html(result) -> str:
+    """The recommendation, followed by the numbers of the notes that qualify the first-ranked option's rating
+    (the same numbers as the options section's legend)."""
     study = result.study
     if study is None:
         return "<p>No option to compare.</p>"
-    return f'<p class="rv-recommendation"><b>{esc(study.recommendation)}</b></p>'
+    html = f'<p class="rv-recommendation"><b>{esc(study.recommendation)}</b></p>'
+    ranked = study.ranked() if len(study.table.index) > 1 else None
+    if ranked is not None and len(ranked):
+        best = str(ranked.index[0])
+        rows = {str(i) for i in study.table.index}
+        notes = [n for n in result.notes if n.source in rows]
+        marks, _ = notes_legend(notes)
+        own = sorted({marks[n] for n in notes if n.source == best and n.severity != "info"})
+        if own:
+            html += (f"<p>Read it with the notes on the rating of {esc(best)}: "
+                     f"{esc(', '.join(f'[{m}]' for m in own))} (see the options section).</p>")
+    return html
 
 
