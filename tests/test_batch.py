@@ -22,7 +22,9 @@ def batch_run(tmp_path_factory):
     doc = make_unit(NASTY, "E-2", "E-3")
     doc["unit"]["name"] = "Unit <b>bold</b> & co"
     doc["exchangers"][1]["tube_side"]["flow"] = "-5 kg/s"            # refused by the file check
-    doc["exchangers"][2]["tube_side"]["t_in"] = "150 degC"           # equal inlets: the rating refuses it
+    # water at 1 bar heated to a mean above its boiling point (99.6 degC): passes the file check, the rating refuses it
+    doc["exchangers"][2]["tube_side"].update(fluid={"kind": "water", "pressure": "1 bar"}, t_in="95 degC",
+                                             flow="0.5 kg/s")
     unit_path = write_unit(root / "unit.yaml", doc)
     out = root / "out"
     proc = subprocess.run([sys.executable, "-m", "revamp.cli", "batch", unit_path, "--out", str(out),
@@ -102,7 +104,7 @@ def test_failures_recorded_in_index_and_others_go_on(batch_run):
     good, file_bad, run_bad = body
     assert "rv-status-ok" in good and f'href="{report.safe_name(NASTY)}.html"' in good
     assert "rv-status-failed" in file_bad and "must be &gt; 0" in file_bad and "href=" not in file_bad
-    assert "rv-status-failed" in run_bad and "inlet" in run_bad and 'href="E-3.html"' in run_bad
+    assert "rv-status-failed" in run_bad and "single-phase" in run_bad and 'href="E-3.html"' in run_bad
     failed_report = (batch_run["out"] / "E-3.html").read_text(encoding="utf-8")
     assert "stopped with an error" in failed_report
 

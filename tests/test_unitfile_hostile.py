@@ -187,10 +187,20 @@ def test_check_refuses_what_the_study_would(tmp_path, change, path, words):
     problems = unitfile.check(_unit_with(tmp_path, change))
     hits = [str(p) for p in problems if p.path == path]
     assert any(words in h for h in hits), [str(p) for p in problems]
-    # the other exchanger is untouched and still built for the batch
+    # for the batch: the other exchanger is untouched; a wrong option leaves out that option only
     unit, _, _ = unitfile.load_partial(tmp_path / "unit.yaml")
-    if not path.startswith("economics"):
+    if ".options[" in path:
+        assert unit.tags == ["E-1", "E-2"]
+        case = unit.exchanger("E-1")
+        assert path in {p.path for p in case.refused_options}
+        refused = {int(p.path.split(".options[")[1].split("]")[0]) for p in case.refused_options}
+        assert len(case.options) == len(_doc_options(tmp_path)) - len(refused)
+    elif not path.startswith("economics"):
         assert unit.tags == ["E-2"]
+
+
+def _doc_options(tmp_path):
+    return yaml.safe_load((tmp_path / "unit.yaml").read_text())["exchangers"][0]["options"]
 
 
 # ---------------------------------------------------------------------------------------- silently wrong inputs

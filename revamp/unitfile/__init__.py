@@ -17,11 +17,12 @@ checked against its bounds), then cross-field rules, file paths and the model co
 """
 from __future__ import annotations
 
+import dataclasses
 import hashlib
 import re
 from pathlib import Path
 
-from ._building import _build_exchanger, _exchanger_rules
+from ._building import OPTION_PATH, _build_exchanger, _exchanger_rules
 from ._model import (
     SCHEMA_PATH,
     STANDARD_COLUMNS,
@@ -100,11 +101,13 @@ def _validate(path, build: bool, only=None):
         run_length=e.get("run_length"), cleaning_downtime=e.get("cleaning_downtime"))
     built = []
     for i, x in enumerate(exchangers):
-        if _owned(problems, i) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):
+        own = [p for p in problems if _owned([p], i)]
+        refused = {int(m.group(2)) for p in own if (m := OPTION_PATH.match(p.path))}
+        if len(refused) < len(own) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):
             continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
-        case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ)
-        if case is not None:
-            built.append(case)
+        case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ, refused=refused)
+        if case is not None:  # built without its wrong options, which keep their problems
+            built.append(dataclasses.replace(case, refused_options=tuple(p for p in problems if _owned([p], i))))
     problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc)

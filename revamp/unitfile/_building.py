@@ -210,6 +210,8 @@ def _guard(problems: list, prefix: str, func, *args, field_of=None):
     return None
 
 
+#: the path of one option's problem (``exchangers[2].options[1].tube_pitch``); group 1 is the exchanger, 2 the option
+OPTION_PATH = re.compile(r"^exchangers\[(\d+)\]\.options\[(\d+)\]")
 #: option labels the study uses for its own rows (``revamp.study`` refuses them as option labels)
 RESERVED_LABELS = frozenset({"base", "today", "today (clean)", "revamp", "revamp (clean)"})
 #: an insert's field (as its model names it) -> the option field the unit file writes
@@ -303,7 +305,10 @@ def _economics(econ: UnitEconomics, capex: dict, capacity_flow):
 
 
 def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
-                     econ: UnitEconomics) -> ExchangerCase | None:
+                     econ: UnitEconomics, refused=frozenset()) -> ExchangerCase | None:
+    """The exchanger's model objects, or None when any of its inputs is wrong. An option that is wrong (``refused``:
+    indices already refused by the earlier passes, or refused here) is left out and only its own problem recorded:
+    the exchanger is still built, so that a batch may show that option's row as failed and rate the others."""
     from .. import geometry
     from .. import service as rating
 
@@ -350,6 +355,8 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         _target_rule(rv.get("target") or {}, revamp_service, f"{pre}.revamp.target", problems)
     opts, capex, labels = [], {}, {}
     for j, spec in enumerate(si.get("options") or []):
+        if j in refused:
+            continue
         obj = _guard(problems, f"{pre}.options[{j}]", _build_option, spec)
         if obj is None:
             continue
@@ -384,7 +391,7 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
                           fouling_side=pd.get("fouling_side"), run_length=pd.get("run_length"),
                           cleaning_downtime=pd.get("cleaning_downtime"))
     economics = _guard(problems, f"{pre}.options", _economics, econ, capex, rv.get("capacity_flow"))
-    if len(problems) > start:
+    if any(not OPTION_PATH.match(p.path) for p in problems[start:]):
         return None
     limits = {f"dp_{side}": si[f"{side}_side"]["dp_allowed"] for side in ("shell", "tube")
               if "dp_allowed" in si[f"{side}_side"]}

@@ -87,6 +87,10 @@ class ExchangerCase:
     ``fouling_side`` (``"shell"``/``"tube"``), ``run_length`` and ``cleaning_downtime`` [s] are what the file says
     for this exchanger's fouling cycle (the exchanger's ``plant_data`` first, then the unit's ``economics``), None
     where it says nothing; ``cycle_from`` names the file path each given value came from.
+
+    ``refused_options`` lists the :class:`Problem` of each option that is wrong (a repeated label, a pitch below the
+    tube od...): :func:`load_partial` still builds the exchanger without those options, so that a batch can show
+    each as a failed row and compare the others (:func:`load` and :func:`check` report them as problems).
     """
 
     index: int
@@ -107,6 +111,7 @@ class ExchangerCase:
     cleaning_downtime: float | None = None
     cycle_from: dict = field(default_factory=dict)
     raw: dict = field(repr=False, default_factory=dict)
+    refused_options: tuple = ()  #: Problems of the options left out (each under ``exchangers[i].options[j]``)
 
 
 @dataclass(frozen=True)
