@@ -301,8 +301,8 @@ def filed_cycle(tmp_path_factory):
     doc = make_unit("E-1")
     doc["economics"].update(run_length="400 day", cleaning_downtime="6 day")
     doc["exchangers"][0]["plant_data"] = {"file": "plant.csv", "fouling_side": "tube", "run_length": "200 day"}
-    # plant data need the file to exist before the load: write it from the exchanger as built
-    (root / "plant.csv").write_text(CSV_HEADER)
+    # plant data need the file (with a data row) to exist before the load: a placeholder, then the real data
+    (root / "plant.csv").write_text(CSV_HEADER + "2030-01-01T00:00:00,10,423.15,400,12,303.15,320\n")
     path = write_unit(root / "unit.yaml", doc)
     case = unitfile.load(path).exchanger("E-1")
     gen = _plant_generator()
