@@ -270,9 +270,24 @@ def test_unprintable_tags_are_refused_and_escaped(tmp_path, tag, words):
     assert hits and words in hits[0].message, [str(p) for p in problems]
     for p in problems:  # every problem prints and encodes as UTF-8
         assert str(p).isprintable() and str(p).encode("utf-8")
-    # the batch names the refused exchanger by its place, never by the unprintable tag
-    _, _, entries = unitfile.load_partial(path)
-    assert entries[0] == ("exchangers[0]", 0)
+    # the batch names the refused exchanger by its tag shown escaped, never by the unprintable text itself
+    unit, _, entries = unitfile.load_partial(path)
+    assert entries[0][1] == 0 and entries[0][0] != tag
+    assert entries[0][0].isprintable() and entries[0][0].encode("utf-8")
+    assert unit.tags == ["E-2"]
+
+
+def test_unprintable_description_is_refused_and_kept_printable_for_the_index(tmp_path):
+    """A lone surrogate in a description crashed the batch index write (UnicodeEncodeError): the exchanger is
+    refused, and the parsed document kept for display holds only text that encodes."""
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][0]["description"] = "pump \ud800 around\x1b[2J"
+    path = tmp_path / "unit.yaml"
+    path.write_text(json.dumps(doc), encoding="utf-8")
+    unit, problems, _ = unitfile.load_partial(path)
+    assert [p.path for p in problems] == ["exchangers[0].description"]
+    shown = unit.raw["exchangers"][0]["description"]
+    assert shown.encode("utf-8") and shown.isprintable() and "\\ud800" in shown
 
 
 @pytest.mark.parametrize("text, path, words", [

@@ -33,7 +33,7 @@ from ._model import (
     UnitEconomics,
     UnitFileError,
 )
-from ._reading import _bad_text, _read_file, _read_yaml, _schema_problems, _show, _text_problems, _walk, schema
+from ._reading import _bad_text, _cleaned, _read_file, _read_yaml, _schema_problems, _show, _text_problems, _walk, schema
 
 __all__ = [
     "SCHEMA_PATH",
@@ -73,7 +73,10 @@ def _validate(path, build: bool, only=None):
     if problems and doc is None:
         return None, problems
     problems += _schema_problems(doc)
-    problems += _text_problems(doc)
+    text_problems = _text_problems(doc)
+    if text_problems:
+        problems += text_problems
+        doc = _cleaned(doc)
     if not isinstance(doc, dict):
         return None, _sorted(problems)
     econ = doc.get("economics") if isinstance(doc.get("economics"), dict) else {}

@@ -293,6 +293,19 @@ def _text_problems(node, parts=()) -> list[Problem]:
     return out
 
 
+def _cleaned(node):
+    """``node`` with every string that :func:`_bad_text` refuses shown escaped (keys too), so that the parsed
+    document kept for display (``Unit.raw``: a failed exchanger's description in a batch index) can always be
+    printed and encoded; the problems are reported all the same."""
+    if isinstance(node, dict):
+        return {_cleaned(k): _cleaned(v) for k, v in node.items()}
+    if isinstance(node, list):
+        return [_cleaned(v) for v in node]
+    if isinstance(node, str) and _bad_text(node, True):
+        return printable(node, limit=max(len(node) * 10, 10))
+    return node
+
+
 # ------------------------------------------------------------------------------------------------ pass 3: quantities
 _NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
 
