@@ -323,6 +323,8 @@ def test_csv_with_a_byte_order_mark_reads_like_pandas(tmp_path):
      + "2030-01-01T01:00:00,10,423.15,400,12,303.15,320\n", "one time zone"),  # aware and naive mixed
     (CSV_HEADER + "2030-03-31T01:00:00+01:00,10,423.15,400,12,303.15,320\n"
      + "2030-03-31T03:00:00+02:00,10,423.15,400,12,303.15,320\n", "one time zone"),  # two offsets
+    (CSV_HEADER + "2030-01-01T00:00:00+01:00,10,423.15,400,12,303.15,320\n" * 5000
+     + "2030-07-01T00:00:00+02:00,10,423.15,400,12,303.15,320\n", "one time zone"),  # summer time months in
 ])
 def test_csv_problems_are_named_by_path(tmp_path, content, words):
     problems = _with_csv(tmp_path, content)
