@@ -102,7 +102,8 @@ def test_hostile_strings_are_refused_quickly_in_a_subprocess():
     code = ("import json, sys\nfrom revamp.units import to_si\nfrom revamp.errors import InputError\nout = []\n"
             "for s in json.loads(sys.stdin.read()):\n"
             "    try:\n        to_si(s, 'temperature' if s.endswith('K') else 'length', 'f'); out.append('accepted')\n"
-            "    except InputError as e:\n        out.append('refused' if str(e).startswith('f: ') else 'bad message')\n"
+            "    except InputError as e:\n"
+            "        out.append('refused' if str(e).startswith('f: ') else 'bad message')\n"
             "    except BaseException as e:\n        out.append(type(e).__name__)\n"
             "print(json.dumps(out))\n")
     proc = subprocess.run([sys.executable, "-c", code], input=json.dumps(HOSTILE), capture_output=True, text=True,

@@ -33,7 +33,17 @@ from ._model import (
     UnitEconomics,
     UnitFileError,
 )
-from ._reading import _bad_text, _cleaned, _read_file, _read_yaml, _schema_problems, _show, _text_problems, _walk, schema
+from ._reading import (
+    _bad_text,
+    _cleaned,
+    _read_file,
+    _read_yaml,
+    _schema_problems,
+    _show,
+    _text_problems,
+    _walk,
+    schema,
+)
 
 __all__ = [
     "SCHEMA_PATH",

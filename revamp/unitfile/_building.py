@@ -126,8 +126,8 @@ def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
     try:
         header, rows = _csv_head(full)
     except (OSError, UnicodeDecodeError, csv.Error) as exc:
-        return [Problem(_path(parts + ["file"]), pd["file"], f"must be a readable UTF-8 CSV file ({exc.__class__.__name__}: "
-                                                             f"{str(exc)[:80]})")]
+        why = f"{exc.__class__.__name__}: {str(exc)[:80]}"
+        return [Problem(_path(parts + ["file"]), pd["file"], f"must be a readable UTF-8 CSV file ({why})")]
     except ValueError as exc:
         return [Problem(_path(parts + ["file"]), pd["file"], str(exc))]
     if not any(any(cell.strip() for cell in row) for row in rows):
@@ -241,7 +241,8 @@ MAX_RELATIVE_ROUGHNESS = 0.05
 
 
 def _option_field(field: str) -> str:
-    field = field.split(".", 1)[1] if re.match(r"^(NewBundle|Retube|TwistedTape|WireCoil|BaffleChange)\.", field) else field
+    if re.match(r"^(NewBundle|Retube|TwistedTape|WireCoil|BaffleChange)\.", field):
+        field = field.split(".", 1)[1]
     return _INSERT_FIELDS.get(field, field)
 
 
@@ -256,8 +257,8 @@ def _fluid_at_inlet(problems: list, where: str, fluid, t_in):
     except (ArithmeticError, ValueError, FloatingPointError) as exc:
         lo, hi = getattr(fluid, "t_min", None), getattr(fluid, "t_max", None)
         span = f" ({lo - 273.15:.0f} to {hi - 273.15:.0f} degC)" if lo is not None and hi is not None else ""
-        problems.append(Problem(where, f"{t_in:.6g} K", f"must be a temperature the fluid's property model covers{span}; "
-                                                        f"it fails there ({exc.__class__.__name__})"))
+        problems.append(Problem(where, f"{t_in:.6g} K", f"must be a temperature the fluid's property model covers"
+                                                        f"{span}; it fails there ({exc.__class__.__name__})"))
     return None
 
 
@@ -269,10 +270,11 @@ def _bore_rule(exchanger, g: dict, where: str, problems: list):
     rel = float(exchanger.tube_roughness) / float(exchanger.tube_id)
     if rel > MAX_RELATIVE_ROUGHNESS:
         field = "tube_roughness" if "tube_roughness" in g else "tube_wall"
+        bore, rough = exchanger.tube_id * 1e3, exchanger.tube_roughness * 1e3
         problems.append(Problem(f"{where}.{field}", _show(g.get(field)),
-                                f"must leave a bore large against the tube roughness: bore {exchanger.tube_id * 1e3:.3g} "
-                                f"mm, roughness {exchanger.tube_roughness * 1e3:.3g} mm, relative roughness {rel:.3g} > "
-                                f"{MAX_RELATIVE_ROUGHNESS} (end of the Moody chart)"))
+                                f"must leave a bore large against the tube roughness: bore {bore:.3g} mm, roughness "
+                                f"{rough:.3g} mm, relative roughness {rel:.3g} > {MAX_RELATIVE_ROUGHNESS} (end of the "
+                                "Moody chart)"))
 
 
 def _inlets_rule(service, where: str, problems: list) -> bool:
@@ -292,7 +294,8 @@ def _target_rule(target: dict, service, where: str, problems: list):
         key = f"t_out_{side}"
         if target.get(key) is None:
             continue
-        own, other = float(getattr(service, side).t_in), float(getattr(service, "tube" if side == "shell" else "shell").t_in)
+        own = float(getattr(service, side).t_in)
+        other = float(getattr(service, "tube" if side == "shell" else "shell").t_in)
         lo, hi = sorted((own, other))
         if not lo < float(target[key]) < hi:
             verb = "cooled" if own > other else "heated"
