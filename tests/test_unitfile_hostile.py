@@ -266,10 +266,14 @@ def test_unprintable_tags_are_refused_and_escaped(tmp_path, tag, words):
     # JSON is YAML: its escapes carry a lone surrogate or NUL that a YAML writer would not
     path.write_text(json.dumps(doc), encoding="utf-8")
     problems = unitfile.check(path)
-    hits = [p for p in problems if p.path == "exchangers[0].tag"]
-    assert hits and words in hits[0].message, [str(p) for p in problems]
     for p in problems:  # every problem prints and encodes as UTF-8
         assert str(p).isprintable() and str(p).encode("utf-8")
+    if "\ud800" in tag and problems and problems[0].path.startswith("(line"):
+        # libyaml (PyYAML's C parser) refuses a surrogate escape itself; the pure-Python parser lets it through
+        assert "valid YAML" in problems[0].message
+        return
+    hits = [p for p in problems if p.path == "exchangers[0].tag"]
+    assert hits and words in hits[0].message, [str(p) for p in problems]
     # the batch names the refused exchanger by its tag shown escaped, never by the unprintable text itself
     unit, _, entries = unitfile.load_partial(path)
     assert entries[0][1] == 0 and entries[0][0] != tag
@@ -281,13 +285,19 @@ def test_unprintable_description_is_refused_and_kept_printable_for_the_index(tmp
     """A lone surrogate in a description crashed the batch index write (UnicodeEncodeError): the exchanger is
     refused, and the parsed document kept for display holds only text that encodes."""
     doc = make_unit("E-1", "E-2")
-    doc["exchangers"][0]["description"] = "pump \ud800 around\x1b[2J"
+    doc["exchangers"][0]["description"] = "pump \x00 around\x1b[2J"
     path = tmp_path / "unit.yaml"
     path.write_text(json.dumps(doc), encoding="utf-8")
     unit, problems, _ = unitfile.load_partial(path)
     assert [p.path for p in problems] == ["exchangers[0].description"]
     shown = unit.raw["exchangers"][0]["description"]
-    assert shown.encode("utf-8") and shown.isprintable() and "\\ud800" in shown
+    assert shown.encode("utf-8") and shown.isprintable() and "\\x1b" in shown
+    # a lone surrogate (which the pure-Python YAML parser lets through) is refused and cleaned the same way
+    from revamp.unitfile._reading import _cleaned, _text_problems
+
+    raw = {"exchangers": [{"tag": "E-1", "description": "pump \ud800 around"}]}
+    assert [p.path for p in _text_problems(raw)] == ["exchangers[0].description"]
+    assert _cleaned(raw)["exchangers"][0]["description"] == "pump \\ud800 around"
 
 
 @pytest.mark.parametrize("text, path, words", [

@@ -76,7 +76,11 @@ def _read_file(path):
         os.close(fd)
 
 
-class _Loader(yaml.SafeLoader):
+# libyaml (the C parser) when PyYAML was built with it: the same safe constructor, a parser several times faster
+_SafeBase = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
+
+
+class _Loader(_SafeBase):
     """The safe loader, plus a check for duplicated keys (silently last-wins in plain YAML) and for keys that are
     not text (a list as a key, ``1:``, ``null:``)."""
 
@@ -93,7 +97,7 @@ def _construct_mapping(loader, node, deep=False):
         seen[key] = True
     if loader.bad_keys:
         return {}
-    return yaml.SafeLoader.construct_mapping(loader, node, deep)
+    return yaml.constructor.SafeConstructor.construct_mapping(loader, node, deep)
 
 
 _Loader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_MAPPING_TAG, _construct_mapping)
@@ -109,7 +113,7 @@ def _check_depth(text: str):
     """Walk the YAML events (the parser is not recursive) and refuse nesting deeper than :data:`MAX_DEPTH` before
     the recursive composer could overflow the stack."""
     depth = 0
-    for event in yaml.parse(text, Loader=yaml.SafeLoader):
+    for event in yaml.parse(text, Loader=_SafeBase):
         if isinstance(event, yaml.CollectionStartEvent):
             depth += 1
             if depth > MAX_DEPTH:
