@@ -28,8 +28,8 @@ class Problem:
     message: str
 
     def __post_init__(self):  # a path or value from the file may hold terminal escapes, NUL or lone surrogates
-        for name in ("path", "value", "message"):
-            object.__setattr__(self, name, printable(getattr(self, name), limit=400))
+        for name, limit in (("path", 400), ("value", 400), ("message", 4000)):
+            object.__setattr__(self, name, printable(getattr(self, name), limit=limit))
 
     def __str__(self) -> str:
         return f"{self.path}: {self.value}: {self.message}"
