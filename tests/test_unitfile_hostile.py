@@ -155,6 +155,7 @@ REFUSED = [
     (_opt({"type": "wire_coil", "pitch": "20 mm", "wire_diameter": "8 mm"}),
      "exchangers[0].options[2].wire_diameter", "wire ratio"),
     (_opt({"type": "retube", "material": -1}), "exchangers[0].options[2].tube_material", "conductivity > 0"),
+    (_opt({"type": "retube", "tube_wall": "9.5 mm"}), "exchangers[0].options[2].tube_wall", "bore"),
     (_opt({"type": "combined", "options": [{"type": "clean", "side": "tube"}, {"type": "retube", "material": -1}]}),
      "exchangers[0].options[2].tube_material", "conductivity > 0"),
     # equal inlets give no driving force (second law)

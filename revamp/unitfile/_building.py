@@ -395,9 +395,15 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         labels[label] = j
         # apply it once to the exchanger and the revamp service (no rating): what the study would refuse,
         # check refuses first (a pitch below the tube od, an insert thicker than the bore, a bad material)
-        if exchanger is not None and revamp_service is not None and _guard(
-                problems, f"{pre}.options[{j}]", obj.apply, exchanger, revamp_service, field_of=_option_field) is None:
-            continue
+        if exchanger is not None and revamp_service is not None:
+            before = len(problems)
+            applied = _guard(problems, f"{pre}.options[{j}]", obj.apply, exchanger, revamp_service,
+                             field_of=_option_field)
+            if applied is not None:  # a new bundle or a retube may leave too small a bore
+                _bore_rule(applied[0], {k: spec[k] for k in ("tube_wall",) if k in spec}, f"{pre}.options[{j}]",
+                           problems)
+            if len(problems) > before:
+                continue
         opts.append(obj)
         capex[label] = spec.get("capex")
     plant = None
