@@ -59,23 +59,29 @@ def test_exploding_quantity_strings_are_refused_quickly(tmp_path, where, value, 
     assert [p for p in problems if p[0] == path], problems
 
 
-def _alias_bomb(depth: int) -> str:
-    """A small YAML block whose combined options double at every level through aliases (2**depth leaves)."""
+def _alias_bomb(depth: int, width: int = 2) -> str:
+    """A small YAML block whose combined options multiply by ``width`` at every level through aliases."""
     lines = ["x-anchors:", "  - &a0 {type: clean}"]
-    lines += [f"  - &a{n} {{type: combined, options: [*a{n - 1}, *a{n - 1}]}}" for n in range(1, depth + 1)]
+    lines += [f"  - &a{n} {{type: combined, options: [{', '.join([f'*a{n - 1}'] * width)}]}}"
+              for n in range(1, depth + 1)]
     return "\n".join(lines) + "\n"
 
 
-def test_alias_bomb_is_refused_quickly(tmp_path):
-    """Depth 16 was still running after 180 s: the expanded size is counted (linearly) before anything walks it."""
+@pytest.mark.parametrize("depth, width, words", [
+    (16, 2, "levels deep (aliases included)"),   # 2**16 leaves, 33 levels: the depth check stops it first
+    (8, 4, "aliases are expanded"),              # 4**8 = 65,536 leaves in 19 levels: the size check stops it
+])
+def test_alias_bomb_is_refused_quickly(tmp_path, depth, width, words):
+    """Depth 16 was still running after 180 s: depth and expanded size are measured (linearly) before anything
+    walks the document."""
     doc = make_unit()
     doc["exchangers"][0]["options"] = ["BOMB"]
-    text = _alias_bomb(16) + yaml.safe_dump(doc, sort_keys=False).replace("BOMB", "*a16")
+    text = _alias_bomb(depth, width) + yaml.safe_dump(doc, sort_keys=False).replace("BOMB", f"*a{depth}")
     path = tmp_path / "bomb.yaml"
     path.write_text(text)
     assert len(text) < 4096
     problems = _check_in_subprocess(path, timeout=30)
-    assert any("aliases are expanded" in p[2] for p in problems), problems
+    assert any(words in p[2] for p in problems), problems
 
 
 def test_recursive_alias_is_refused(tmp_path):
@@ -84,6 +90,15 @@ def test_recursive_alias_is_refused(tmp_path):
     problems = unitfile.check(path)
     assert problems and problems[0].path.startswith("(line"), [str(p) for p in problems]
     assert "must not contain itself" in problems[0].message or "alias" in problems[0].message
+
+
+def test_nesting_through_aliases_is_refused(tmp_path):
+    """A chain of anchors each holding the previous one nests 300 levels with a flat text."""
+    lines = ["x-chain:", "  - &a0 [x]"] + [f"  - &a{n} [*a{n - 1}]" for n in range(1, 300)]
+    path = tmp_path / "chain.yaml"
+    path.write_text("\n".join(lines) + "\nunit: {name: x}\nexchangers: [*a299]\n")
+    problems = unitfile.check(path)
+    assert len(problems) == 1 and "aliases included" in problems[0].message, [str(p) for p in problems]
 
 
 def test_deep_nesting_is_refused_without_a_recursion_error(tmp_path):

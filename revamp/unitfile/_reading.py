@@ -125,10 +125,13 @@ def _check_depth(text: str):
 
 def _check_size(node):
     """Count the values of the document with its aliases expanded (each node counted once per use, memoized, so
-    that the count itself stays linear); refuse an alias that contains itself and more than :data:`MAX_NODES`."""
+    that the count itself stays linear) and its nesting depth through aliases (``&a1 [*a0]``, ``&a2 [*a1]``...
+    nests without nesting in the text); refuse an alias that contains itself, more than :data:`MAX_NODES` values
+    and more than :data:`MAX_DEPTH` levels. Anchors precede their aliases in the text, and the walk follows the
+    text, so an alias always meets a node already counted: the walk itself recurses only as deep as the text."""
     memo, active = {}, set()
 
-    def size(n):
+    def measure(n):
         key = id(n)
         if key in memo:
             return memo[key]
@@ -136,16 +139,23 @@ def _check_size(node):
             raise _TooBig(n.start_mark.line + 1, "(an alias)", "must not contain itself (a recursive alias)")
         active.add(key)
         if isinstance(n, yaml.SequenceNode):
-            total = 1 + sum(size(c) for c in n.value)
+            parts = [measure(c) for c in n.value]
         elif isinstance(n, yaml.MappingNode):
-            total = 1 + sum(size(k) + size(v) for k, v in n.value)
+            parts = [measure(c) for pair in n.value for c in pair]
         else:
-            total = 1
+            parts = None
         active.discard(key)
-        memo[key] = total = min(total, MAX_NODES + 1)
-        return total
+        if parts is None:
+            size, depth = 1, 0
+        else:
+            size, depth = 1 + sum(p[0] for p in parts), 1 + max((p[1] for p in parts), default=0)
+        if depth > MAX_DEPTH:
+            raise _TooBig(n.start_mark.line + 1, f"{depth} levels", f"must nest mappings and lists at most "
+                                                                   f"{MAX_DEPTH} levels deep (aliases included)")
+        memo[key] = out = (min(size, MAX_NODES + 1), depth)
+        return out
 
-    if node is not None and size(node) > MAX_NODES:
+    if node is not None and measure(node)[0] > MAX_NODES:
         raise _TooBig(1, "(the whole file)", f"must hold at most {MAX_NODES:,} values once its aliases are expanded")
 
 
