@@ -226,6 +226,10 @@ SILENT = [
     (lambda d, x: x["revamp"].__setitem__("t_in", {"shell": 420}), "exchangers[0].revamp.t_in.shell", "'420 degC'"),
     (lambda d, x: x["revamp"].__setitem__("target", {"t_out_tube": "350"}), "exchangers[0].revamp.target.t_out_tube",
      "bare number"),
+    (lambda d, x: x["shell_side"].__setitem__("fluid", {
+        "kind": "table", "T": [300, "500 K"], "density": [850, 800], "heat_capacity": [2000, 2400],
+        "viscosity": [0.004, 0.001], "conductivity": [0.13, 0.11]}), "exchangers[0].shell_side.fluid.T[0]",
+     "'300 degC'"),
     # a target on the impossible side of its inlet: the hot shell side (150 degC in) cannot leave at 160 degC, and
     # the cold tube side (30 degC in) cannot leave above the hot inlet (second law)
     (lambda d, x: x["revamp"].__setitem__("target", {"t_out_shell": "160 degC"}),
