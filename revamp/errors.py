@@ -9,9 +9,23 @@ __all__ = ["InputError", "RangeWarning", "describe_value", "printable"]
 
 
 def printable(text: str, limit: int = 200) -> str:
-    """``text`` safe to print on a terminal or write to a file: control characters (terminal escapes, NUL), lone
-    surrogates and other unprintable characters shown as ``\\x1b``-style escapes, cut to ``limit`` characters.
+    """``text`` safe to print on a terminal or write to a file.
 
+    Parameters
+    ----------
+    text : str
+        Any text (anything else is turned into one with ``str``).
+    limit : int
+        The most characters kept [-]; a longer text is cut and ends with ``...``.
+
+    Returns
+    -------
+    str
+        The text with control characters (terminal escapes, NUL), lone surrogates and other unprintable
+        characters shown as ``\\x1b``-style escapes: it prints as one line and always encodes as UTF-8.
+
+    Examples
+    --------
     >>> printable("E-1\\x1b[31m")
     'E-1\\\\x1b[31m'
     """

@@ -25,7 +25,42 @@ from .errors import InputError
 
 __all__ = ["ureg", "to_si", "DIMENSIONS", "from_si", "DISPLAY_UNITS", "format_quantity"]
 
-ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+#: the longest expression the shared registry parses [characters] (API calls that hand pint a string directly)
+MAX_EXPRESSION_LENGTH = 400
+_EXPONENT_RE = re.compile(r"(?:\*\*|\^)\s*\(?\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)")
+_TOWER_RE = re.compile(r"(?:\*\*|\^)\s*\(?\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*\)*\s*(?:\*\*|\^)")
+_LITERAL_RE = re.compile(r"(?<![\w.])(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?")
+
+
+def _guard_expression(text: str) -> str:
+    """A pint preprocessor that refuses expressions whose evaluation could explode, before pint evaluates them.
+
+    pint evaluates ``**`` with Python integers: ``9**9**9`` runs for hours and ``10**400`` overflows a float. Every
+    string the shared registry parses (``ureg.Quantity("...")``, ``ureg.Quantity(x, "unit")``, from any module)
+    passes here: at most :data:`MAX_EXPRESSION_LENGTH` characters, the product of its powers at most 1000, and no
+    number raised past 1e300. The unit-file and :func:`to_si` path is stricter still (:func:`_split_quantity`).
+    """
+    if len(text) > MAX_EXPRESSION_LENGTH:
+        raise ValueError(f"a unit expression longer than {MAX_EXPRESSION_LENGTH} characters")
+    exponents = [abs(float(m.group(1))) for m in _EXPONENT_RE.finditer(text)]
+    if not exponents:
+        return text
+    if _TOWER_RE.search(text):  # a**b**c is a**(b**c): a power of a power is refused outright
+        raise ValueError(f"{text[:40]!r} raises a power to a power (write the number, e.g. '1e6 W')")
+    product = 1.0
+    for e in exponents:
+        product *= max(e, 1.0)
+    if product > 1000.0:
+        raise ValueError(f"powers in {text[:40]!r} are too large (write the number, e.g. '1e6 W')")
+    powered = {m.start(1) for m in _EXPONENT_RE.finditer(text)}
+    bases = [abs(float(m.group())) for m in _LITERAL_RE.finditer(text) if m.start() not in powered]
+    biggest = max((np.log10(b) for b in bases if b > 1.0), default=0.0)
+    if biggest * product > 300.0:
+        raise ValueError(f"{text[:40]!r} raises a number past 1e300 (write the number, e.g. '1e6 W')")
+    return text
+
+
+ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True, preprocessors=[_guard_expression])
 ureg.define("BTU = Btu")  # spelling used on data sheets
 ureg.define("MMBTU = 1e6 * BTU = MMBtu")  # million BTU, the usual unit of fuel prices
 

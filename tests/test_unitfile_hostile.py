@@ -59,23 +59,29 @@ def test_exploding_quantity_strings_are_refused_quickly(tmp_path, where, value, 
     assert [p for p in problems if p[0] == path], problems
 
 
-def _alias_bomb(depth: int) -> str:
-    """A small YAML block whose combined options double at every level through aliases (2**depth leaves)."""
+def _alias_bomb(depth: int, width: int = 2) -> str:
+    """A small YAML block whose combined options multiply by ``width`` at every level through aliases."""
     lines = ["x-anchors:", "  - &a0 {type: clean}"]
-    lines += [f"  - &a{n} {{type: combined, options: [*a{n - 1}, *a{n - 1}]}}" for n in range(1, depth + 1)]
+    lines += [f"  - &a{n} {{type: combined, options: [{', '.join([f'*a{n - 1}'] * width)}]}}"
+              for n in range(1, depth + 1)]
     return "\n".join(lines) + "\n"
 
 
-def test_alias_bomb_is_refused_quickly(tmp_path):
-    """Depth 16 was still running after 180 s: the expanded size is counted (linearly) before anything walks it."""
+@pytest.mark.parametrize("depth, width, words", [
+    (16, 2, "levels deep (aliases included)"),   # 2**16 leaves, 33 levels: the depth check stops it first
+    (8, 4, "aliases are expanded"),              # 4**8 = 65,536 leaves in 19 levels: the size check stops it
+])
+def test_alias_bomb_is_refused_quickly(tmp_path, depth, width, words):
+    """Depth 16 was still running after 180 s: depth and expanded size are measured (linearly) before anything
+    walks the document."""
     doc = make_unit()
     doc["exchangers"][0]["options"] = ["BOMB"]
-    text = _alias_bomb(16) + yaml.safe_dump(doc, sort_keys=False).replace("BOMB", "*a16")
+    text = _alias_bomb(depth, width) + yaml.safe_dump(doc, sort_keys=False).replace("BOMB", f"*a{depth}")
     path = tmp_path / "bomb.yaml"
     path.write_text(text)
     assert len(text) < 4096
     problems = _check_in_subprocess(path, timeout=30)
-    assert any("aliases are expanded" in p[2] for p in problems), problems
+    assert any(words in p[2] for p in problems), problems
 
 
 def test_recursive_alias_is_refused(tmp_path):
@@ -84,6 +90,15 @@ def test_recursive_alias_is_refused(tmp_path):
     problems = unitfile.check(path)
     assert problems and problems[0].path.startswith("(line"), [str(p) for p in problems]
     assert "must not contain itself" in problems[0].message or "alias" in problems[0].message
+
+
+def test_nesting_through_aliases_is_refused(tmp_path):
+    """A chain of anchors each holding the previous one nests 300 levels with a flat text."""
+    lines = ["x-chain:", "  - &a0 [x]"] + [f"  - &a{n} [*a{n - 1}]" for n in range(1, 300)]
+    path = tmp_path / "chain.yaml"
+    path.write_text("\n".join(lines) + "\nunit: {name: x}\nexchangers: [*a299]\n")
+    problems = unitfile.check(path)
+    assert len(problems) == 1 and "aliases included" in problems[0].message, [str(p) for p in problems]
 
 
 def test_deep_nesting_is_refused_without_a_recursion_error(tmp_path):
@@ -155,6 +170,7 @@ REFUSED = [
     (_opt({"type": "wire_coil", "pitch": "20 mm", "wire_diameter": "8 mm"}),
      "exchangers[0].options[2].wire_diameter", "wire ratio"),
     (_opt({"type": "retube", "material": -1}), "exchangers[0].options[2].tube_material", "conductivity > 0"),
+    (_opt({"type": "retube", "tube_wall": "9.5 mm"}), "exchangers[0].options[2].tube_wall", "bore"),
     (_opt({"type": "combined", "options": [{"type": "clean", "side": "tube"}, {"type": "retube", "material": -1}]}),
      "exchangers[0].options[2].tube_material", "conductivity > 0"),
     # equal inlets give no driving force (second law)
@@ -187,10 +203,20 @@ def test_check_refuses_what_the_study_would(tmp_path, change, path, words):
     problems = unitfile.check(_unit_with(tmp_path, change))
     hits = [str(p) for p in problems if p.path == path]
     assert any(words in h for h in hits), [str(p) for p in problems]
-    # the other exchanger is untouched and still built for the batch
+    # for the batch: the other exchanger is untouched; a wrong option leaves out that option only
     unit, _, _ = unitfile.load_partial(tmp_path / "unit.yaml")
-    if not path.startswith("economics"):
+    if ".options[" in path:
+        assert unit.tags == ["E-1", "E-2"]
+        case = unit.exchanger("E-1")
+        assert path in {p.path for p in case.refused_options}
+        refused = {int(p.path.split(".options[")[1].split("]")[0]) for p in case.refused_options}
+        assert len(case.options) == len(_doc_options(tmp_path)) - len(refused)
+    elif not path.startswith("economics"):
         assert unit.tags == ["E-2"]
+
+
+def _doc_options(tmp_path):
+    return yaml.safe_load((tmp_path / "unit.yaml").read_text())["exchangers"][0]["options"]
 
 
 # ---------------------------------------------------------------------------------------- silently wrong inputs
@@ -200,6 +226,10 @@ SILENT = [
     (lambda d, x: x["revamp"].__setitem__("t_in", {"shell": 420}), "exchangers[0].revamp.t_in.shell", "'420 degC'"),
     (lambda d, x: x["revamp"].__setitem__("target", {"t_out_tube": "350"}), "exchangers[0].revamp.target.t_out_tube",
      "bare number"),
+    (lambda d, x: x["shell_side"].__setitem__("fluid", {
+        "kind": "table", "T": [300, "500 K"], "density": [850, 800], "heat_capacity": [2000, 2400],
+        "viscosity": [0.004, 0.001], "conductivity": [0.13, 0.11]}), "exchangers[0].shell_side.fluid.T[0]",
+     "'300 degC'"),
     # a target on the impossible side of its inlet: the hot shell side (150 degC in) cannot leave at 160 degC, and
     # the cold tube side (30 degC in) cannot leave above the hot inlet (second law)
     (lambda d, x: x["revamp"].__setitem__("target", {"t_out_shell": "160 degC"}),
@@ -256,13 +286,38 @@ def test_unprintable_tags_are_refused_and_escaped(tmp_path, tag, words):
     # JSON is YAML: its escapes carry a lone surrogate or NUL that a YAML writer would not
     path.write_text(json.dumps(doc), encoding="utf-8")
     problems = unitfile.check(path)
-    hits = [p for p in problems if p.path == "exchangers[0].tag"]
-    assert hits and words in hits[0].message, [str(p) for p in problems]
     for p in problems:  # every problem prints and encodes as UTF-8
         assert str(p).isprintable() and str(p).encode("utf-8")
-    # the batch names the refused exchanger by its place, never by the unprintable tag
-    _, _, entries = unitfile.load_partial(path)
-    assert entries[0] == ("exchangers[0]", 0)
+    if "\ud800" in tag and problems and problems[0].path.startswith("(line"):
+        # libyaml (PyYAML's C parser) refuses a surrogate escape itself; the pure-Python parser lets it through
+        assert "valid YAML" in problems[0].message
+        return
+    hits = [p for p in problems if p.path == "exchangers[0].tag"]
+    assert hits and words in hits[0].message, [str(p) for p in problems]
+    # the batch names the refused exchanger by its tag shown escaped, never by the unprintable text itself
+    unit, _, entries = unitfile.load_partial(path)
+    assert entries[0][1] == 0 and entries[0][0] != tag
+    assert entries[0][0].isprintable() and entries[0][0].encode("utf-8")
+    assert unit.tags == ["E-2"]
+
+
+def test_unprintable_description_is_refused_and_kept_printable_for_the_index(tmp_path):
+    """A lone surrogate in a description crashed the batch index write (UnicodeEncodeError): the exchanger is
+    refused, and the parsed document kept for display holds only text that encodes."""
+    doc = make_unit("E-1", "E-2")
+    doc["exchangers"][0]["description"] = "pump \x00 around\x1b[2J"
+    path = tmp_path / "unit.yaml"
+    path.write_text(json.dumps(doc), encoding="utf-8")
+    unit, problems, _ = unitfile.load_partial(path)
+    assert [p.path for p in problems] == ["exchangers[0].description"]
+    shown = unit.raw["exchangers"][0]["description"]
+    assert shown.encode("utf-8") and shown.isprintable() and "\\x1b" in shown
+    # a lone surrogate (which the pure-Python YAML parser lets through) is refused and cleaned the same way
+    from revamp.unitfile._reading import _cleaned, _text_problems
+
+    raw = {"exchangers": [{"tag": "E-1", "description": "pump \ud800 around"}]}
+    assert [p.path for p in _text_problems(raw)] == ["exchangers[0].description"]
+    assert _cleaned(raw)["exchangers"][0]["description"] == "pump \\ud800 around"
 
 
 @pytest.mark.parametrize("text, path, words", [
@@ -298,6 +353,8 @@ def test_csv_with_a_byte_order_mark_reads_like_pandas(tmp_path):
      + "2030-01-01T01:00:00,10,423.15,400,12,303.15,320\n", "one time zone"),  # aware and naive mixed
     (CSV_HEADER + "2030-03-31T01:00:00+01:00,10,423.15,400,12,303.15,320\n"
      + "2030-03-31T03:00:00+02:00,10,423.15,400,12,303.15,320\n", "one time zone"),  # two offsets
+    (CSV_HEADER + "2030-01-01T00:00:00+01:00,10,423.15,400,12,303.15,320\n" * 5000
+     + "2030-07-01T00:00:00+02:00,10,423.15,400,12,303.15,320\n", "one time zone"),  # summer time months in
 ])
 def test_csv_problems_are_named_by_path(tmp_path, content, words):
     problems = _with_csv(tmp_path, content)

@@ -102,7 +102,8 @@ def test_hostile_strings_are_refused_quickly_in_a_subprocess():
     code = ("import json, sys\nfrom revamp.units import to_si\nfrom revamp.errors import InputError\nout = []\n"
             "for s in json.loads(sys.stdin.read()):\n"
             "    try:\n        to_si(s, 'temperature' if s.endswith('K') else 'length', 'f'); out.append('accepted')\n"
-            "    except InputError as e:\n        out.append('refused' if str(e).startswith('f: ') else 'bad message')\n"
+            "    except InputError as e:\n"
+            "        out.append('refused' if str(e).startswith('f: ') else 'bad message')\n"
             "    except BaseException as e:\n        out.append(type(e).__name__)\n"
             "print(json.dumps(out))\n")
     proc = subprocess.run([sys.executable, "-c", code], input=json.dumps(HOSTILE), capture_output=True, text=True,
@@ -158,3 +159,29 @@ def test_any_short_string_parses_or_is_refused(text):
         assert str(exc).startswith("t_in: ")
     else:
         assert np.isfinite(out)
+
+
+def test_shared_registry_refuses_exploding_expressions_from_any_caller():
+    """Modules that hand pint a string directly (a study's U·A target, a plant-data column unit) go through the
+    registry's preprocessor: a power of a power and a number raised past 1e300 are refused before evaluation.
+    In a subprocess with a time limit: the failure this guards against is a hang."""
+    import subprocess
+    import sys
+
+    code = (
+        "import numpy as np\n"
+        "from revamp.units import ureg\nfrom revamp.errors import InputError\nfrom revamp.study import Target\n"
+        "out = []\n"
+        "for s in ['9**9**9 K', 'K**9**9**9', '9^9^9 K', '10**400 K', 'm**5000', 'K' * 500]:\n"
+        "    try:\n        ureg.Quantity(s); out.append('accepted')\n"
+        "    except ValueError:\n        out.append('refused')\n"
+        "try:\n    Target('UA', '9**9**9 kW/K'); out.append('accepted')\n"
+        "except InputError:\n    out.append('refused')\n"
+        "try:\n    ureg.Quantity(np.ones(2), 'K**9**9**9'); out.append('accepted')\n"  # as plant-data columns do
+        "except ValueError:\n    out.append('refused')\n"
+        "out.append(str(ureg.Quantity('2**10 W').to('W').magnitude))\n"
+        "print(' '.join(out))\n")
+    proc = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120, check=False)
+    assert proc.returncode == 0, proc.stderr[-2000:]
+    # 2**10 = 1024: a small power of a number is still read
+    assert proc.stdout.split() == ["refused"] * 8 + ["1024"]

@@ -17,11 +17,12 @@ checked against its bounds), then cross-field rules, file paths and the model co
 """
 from __future__ import annotations
 
+import dataclasses
 import hashlib
 import re
 from pathlib import Path
 
-from ._building import _build_exchanger, _exchanger_rules
+from ._building import OPTION_PATH, _build_exchanger, _exchanger_rules
 from ._network import build_network, network_quantities, network_rules
 from ._model import (
     SCHEMA_PATH,
@@ -33,7 +34,17 @@ from ._model import (
     UnitEconomics,
     UnitFileError,
 )
-from ._reading import _bad_text, _read_file, _read_yaml, _schema_problems, _show, _text_problems, _walk, schema
+from ._reading import (
+    _bad_text,
+    _cleaned,
+    _read_file,
+    _read_yaml,
+    _schema_problems,
+    _show,
+    _text_problems,
+    _walk,
+    schema,
+)
 
 __all__ = [
     "SCHEMA_PATH",
@@ -73,7 +84,10 @@ def _validate(path, build: bool, only=None):
     if problems and doc is None:
         return None, problems
     problems += _schema_problems(doc)
-    problems += _text_problems(doc)
+    text_problems = _text_problems(doc)
+    if text_problems:
+        problems += text_problems
+        doc = _cleaned(doc)
     if not isinstance(doc, dict):
         return None, _sorted(problems)
     econ = doc.get("economics") if isinstance(doc.get("economics"), dict) else {}
@@ -105,11 +119,13 @@ def _validate(path, build: bool, only=None):
         judge_on=e.get("judge_on"))
     built = []
     for i, x in enumerate(exchangers):
-        if _owned(problems, i) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):
+        own = [p for p in problems if _owned([p], i)]
+        refused = {int(m.group(2)) for p in own if (m := OPTION_PATH.match(p.path))}
+        if len(refused) < len(own) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):
             continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
-        case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ)
-        if case is not None:
-            built.append(case)
+        case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ, refused=refused)
+        if case is not None:  # built without its wrong options, which keep their problems
+            built.append(dataclasses.replace(case, refused_options=tuple(p for p in problems if _owned([p], i))))
     network = build_network(si, doc, tuple(built), problems) if only is None else None
     problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),

@@ -76,7 +76,7 @@ def _safe_file(text: str, base: Path):
 
 
 #: how much of a plant-data CSV ``check`` reads for its header and first rows [bytes]
-CSV_HEAD_BYTES = 1 << 20
+CSV_HEAD_BYTES = 1 << 18
 _TZ_RE = re.compile(r"(Z|[+-]\d\d:?\d\d)$")
 
 
@@ -114,6 +114,26 @@ def _is_date(text) -> bool:
         except (ValueError, TypeError):
             return False
     return True
+
+
+#: how much of a plant-data CSV the time-zone check reads [bytes] (a year of minute data is about 40 MB)
+CSV_SCAN_BYTES = 64 << 20
+_TZ_TAIL_RE = re.compile(rb"(Z|[+-]\d\d:?\d\d)$")
+
+
+def _time_zones(full: Path, j: int, delimiter: str = ",") -> set:
+    """The distinct zone suffixes (``"Z"``, ``"+01:00"``, None for naive) of the timestamp column ``j`` over the
+    first :data:`CSV_SCAN_BYTES` of the file (a switch to summer time may come months in). Rows are split on commas
+    (a quoted timestamp holding a comma is not expected) and only the distinct last six characters are examined."""
+    with open(full, "rb") as fh:
+        lines = fh.read(CSV_SCAN_BYTES).split(b"\n")[1:]
+    sep = delimiter.encode("utf-8")
+    if j == 0:
+        cells = [line.partition(sep)[0] for line in lines]
+    else:
+        cells = [parts[j] for parts in (line.split(sep, j + 1) for line in lines) if len(parts) > j]
+    tails = {c.strip().strip(b'"')[-6:] for c in cells}
+    return {(m.group(1).decode() if (m := _TZ_TAIL_RE.search(t)) else None) for t in tails if t}
 
 
 def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
@@ -173,13 +193,12 @@ def _plant_data_rules(pd: dict, parts: list, base: Path) -> list[Problem]:
     ts = cols.get("timestamp", "timestamp")
     ts = ts if isinstance(ts, str) else ts.get("column") if isinstance(ts, dict) else None
     if ts in header:
-        j = header.index(ts)
-        zones = {(_TZ_RE.search(r[j].strip()) or [None])[0] for r in rows if len(r) > j and r[j].strip()}
-        if len(zones) > 1:
+        zones = _time_zones(full, header.index(ts), dialect.get("delimiter", ","))
+        if len(zones) > 1 and not (dialect.get("timezone") and None not in zones):  # offsets given: one instant each
             shown = ", ".join(sorted("none" if z is None else z for z in zones))[:80]
             out.append(Problem(_path(parts + ["columns", "timestamp"]), ts,
-                               f"must use one time zone throughout (its first rows have: {shown}); convert the "
-                               "timestamps to one zone, e.g. UTC"))
+                               f"must use one time zone throughout (it has: {shown}); convert the timestamps to "
+                               "one zone, e.g. UTC"))
     return out
 
 
@@ -246,6 +265,8 @@ def _guard(problems: list, prefix: str, func, *args, field_of=None):
     return None
 
 
+#: the path of one option's problem (``exchangers[2].options[1].tube_pitch``); group 1 is the exchanger, 2 the option
+OPTION_PATH = re.compile(r"^exchangers\[(\d+)\]\.options\[(\d+)\]")
 #: option labels the study uses for its own rows (``revamp.study`` refuses them as option labels)
 RESERVED_LABELS = frozenset({"base", "today", "today (clean)", "revamp", "revamp (clean)"})
 #: an insert's field (as its model names it) -> the option field the unit file writes
@@ -256,7 +277,8 @@ MAX_RELATIVE_ROUGHNESS = 0.05
 
 
 def _option_field(field: str) -> str:
-    field = field.split(".", 1)[1] if re.match(r"^(NewBundle|Retube|TwistedTape|WireCoil|BaffleChange)\.", field) else field
+    if re.match(r"^(NewBundle|Retube|TwistedTape|WireCoil|BaffleChange)\.", field):
+        field = field.split(".", 1)[1]
     return _INSERT_FIELDS.get(field, field)
 
 
@@ -271,8 +293,8 @@ def _fluid_at_inlet(problems: list, where: str, fluid, t_in):
     except (ArithmeticError, ValueError, FloatingPointError) as exc:
         lo, hi = getattr(fluid, "t_min", None), getattr(fluid, "t_max", None)
         span = f" ({lo - 273.15:.0f} to {hi - 273.15:.0f} degC)" if lo is not None and hi is not None else ""
-        problems.append(Problem(where, f"{t_in:.6g} K", f"must be a temperature the fluid's property model covers{span}; "
-                                                        f"it fails there ({exc.__class__.__name__})"))
+        problems.append(Problem(where, f"{t_in:.6g} K", f"must be a temperature the fluid's property model covers"
+                                                        f"{span}; it fails there ({exc.__class__.__name__})"))
     return None
 
 
@@ -284,10 +306,11 @@ def _bore_rule(exchanger, g: dict, where: str, problems: list):
     rel = float(exchanger.tube_roughness) / float(exchanger.tube_id)
     if rel > MAX_RELATIVE_ROUGHNESS:
         field = "tube_roughness" if "tube_roughness" in g else "tube_wall"
+        bore, rough = exchanger.tube_id * 1e3, exchanger.tube_roughness * 1e3
         problems.append(Problem(f"{where}.{field}", _show(g.get(field)),
-                                f"must leave a bore large against the tube roughness: bore {exchanger.tube_id * 1e3:.3g} "
-                                f"mm, roughness {exchanger.tube_roughness * 1e3:.3g} mm, relative roughness {rel:.3g} > "
-                                f"{MAX_RELATIVE_ROUGHNESS} (end of the Moody chart)"))
+                                f"must leave a bore large against the tube roughness: bore {bore:.3g} mm, roughness "
+                                f"{rough:.3g} mm, relative roughness {rel:.3g} > {MAX_RELATIVE_ROUGHNESS} (end of the "
+                                "Moody chart)"))
 
 
 def _inlets_rule(service, where: str, problems: list) -> bool:
@@ -307,7 +330,8 @@ def _target_rule(target: dict, service, where: str, problems: list):
         key = f"t_out_{side}"
         if target.get(key) is None:
             continue
-        own, other = float(getattr(service, side).t_in), float(getattr(service, "tube" if side == "shell" else "shell").t_in)
+        own = float(getattr(service, side).t_in)
+        other = float(getattr(service, "tube" if side == "shell" else "shell").t_in)
         lo, hi = sorted((own, other))
         if not lo < float(target[key]) < hi:
             verb = "cooled" if own > other else "heated"
@@ -344,7 +368,10 @@ def _economics(econ: UnitEconomics, capex: dict, capacity_flow, value_basis=None
 
 
 def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
-                     econ: UnitEconomics) -> ExchangerCase | None:
+                     econ: UnitEconomics, refused=frozenset()) -> ExchangerCase | None:
+    """The exchanger's model objects, or None when any of its inputs is wrong. An option that is wrong (``refused``:
+    indices already refused by the earlier passes, or refused here) is left out and only its own problem recorded:
+    the exchanger is still built, so that a batch may show that option's row as failed and rate the others."""
     from .. import geometry
     from .. import service as rating
 
@@ -398,6 +425,8 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         _target_rule(rv.get("target") or {}, revamp_service, f"{pre}.revamp.target", problems)
     opts, capex, labels = [], {}, {}
     for j, spec in enumerate(si.get("options") or []):
+        if j in refused:
+            continue
         obj = _guard(problems, f"{pre}.options[{j}]", _build_option, spec)
         if obj is None:
             continue
@@ -415,9 +444,15 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
         labels[label] = j
         # apply it once to the exchanger and the revamp service (no rating): what the study would refuse,
         # check refuses first (a pitch below the tube od, an insert thicker than the bore, a bad material)
-        if exchanger is not None and revamp_service is not None and _guard(
-                problems, f"{pre}.options[{j}]", obj.apply, exchanger, revamp_service, field_of=_option_field) is None:
-            continue
+        if exchanger is not None and revamp_service is not None:
+            before = len(problems)
+            applied = _guard(problems, f"{pre}.options[{j}]", obj.apply, exchanger, revamp_service,
+                             field_of=_option_field)
+            if applied is not None:  # a new bundle or a retube may leave too small a bore
+                _bore_rule(applied[0], {k: spec[k] for k in ("tube_wall",) if k in spec}, f"{pre}.options[{j}]",
+                           problems)
+            if len(problems) > before:
+                continue
         opts.append(obj)
         capex[label] = spec.get("capex")
     plant = None
@@ -436,7 +471,7 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
                           drift_tolerance=pd.get("drift_tolerance"))
     economics = _guard(problems, f"{pre}.options", _economics, econ, capex, rv.get("capacity_flow"),
                        si.get("value_basis"))
-    if len(problems) > start:
+    if any(not OPTION_PATH.match(p.path) for p in problems[start:]):
         return None
     limits = {f"dp_{side}": si[f"{side}_side"]["dp_allowed"] for side in ("shell", "tube")
               if "dp_allowed" in si[f"{side}_side"]}

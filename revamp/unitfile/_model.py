@@ -28,8 +28,8 @@ class Problem:
     message: str
 
     def __post_init__(self):  # a path or value from the file may hold terminal escapes, NUL or lone surrogates
-        for name in ("path", "value", "message"):
-            object.__setattr__(self, name, printable(getattr(self, name), limit=400))
+        for name, limit in (("path", 400), ("value", 400), ("message", 4000)):
+            object.__setattr__(self, name, printable(getattr(self, name), limit=limit))
 
     def __str__(self) -> str:
         return f"{self.path}: {self.value}: {self.message}"
@@ -106,6 +106,10 @@ class ExchangerCase:
     ``fouling_side`` (``"shell"``/``"tube"``), ``run_length`` and ``cleaning_downtime`` [s] are what the file says
     for this exchanger's fouling cycle (the exchanger's ``plant_data`` first, then the unit's ``economics``), None
     where it says nothing; ``cycle_from`` names the file path each given value came from.
+
+    ``refused_options`` lists the :class:`Problem` of each option that is wrong (a repeated label, a pitch below the
+    tube od...): :func:`load_partial` still builds the exchanger without those options, so that a batch can show
+    each as a failed row and compare the others (:func:`load` and :func:`check` report them as problems).
     """
 
     index: int
@@ -128,6 +132,7 @@ class ExchangerCase:
     raw: dict = field(repr=False, default_factory=dict)
     rank_by: str | None = None   #: the unit's ranking criterion, None: the study's default
     judge_on: str | None = None  #: the unit's judging basis, None: the study's default
+    refused_options: tuple = ()  #: Problems of the options left out (each under ``exchangers[i].options[j]``)
 
 
 @dataclass(frozen=True)

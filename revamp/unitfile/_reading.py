@@ -76,7 +76,11 @@ def _read_file(path):
         os.close(fd)
 
 
-class _Loader(yaml.SafeLoader):
+# libyaml (the C parser) when PyYAML was built with it: the same safe constructor, a parser several times faster
+_SafeBase = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
+
+
+class _Loader(_SafeBase):
     """The safe loader, plus a check for duplicated keys (silently last-wins in plain YAML) and for keys that are
     not text (a list as a key, ``1:``, ``null:``)."""
 
@@ -93,7 +97,7 @@ def _construct_mapping(loader, node, deep=False):
         seen[key] = True
     if loader.bad_keys:
         return {}
-    return yaml.SafeLoader.construct_mapping(loader, node, deep)
+    return yaml.constructor.SafeConstructor.construct_mapping(loader, node, deep)
 
 
 _Loader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_MAPPING_TAG, _construct_mapping)
@@ -109,7 +113,7 @@ def _check_depth(text: str):
     """Walk the YAML events (the parser is not recursive) and refuse nesting deeper than :data:`MAX_DEPTH` before
     the recursive composer could overflow the stack."""
     depth = 0
-    for event in yaml.parse(text, Loader=yaml.SafeLoader):
+    for event in yaml.parse(text, Loader=_SafeBase):
         if isinstance(event, yaml.CollectionStartEvent):
             depth += 1
             if depth > MAX_DEPTH:
@@ -121,10 +125,13 @@ def _check_depth(text: str):
 
 def _check_size(node):
     """Count the values of the document with its aliases expanded (each node counted once per use, memoized, so
-    that the count itself stays linear); refuse an alias that contains itself and more than :data:`MAX_NODES`."""
+    that the count itself stays linear) and its nesting depth through aliases (``&a1 [*a0]``, ``&a2 [*a1]``...
+    nests without nesting in the text); refuse an alias that contains itself, more than :data:`MAX_NODES` values
+    and more than :data:`MAX_DEPTH` levels. Anchors precede their aliases in the text, and the walk follows the
+    text, so an alias always meets a node already counted: the walk itself recurses only as deep as the text."""
     memo, active = {}, set()
 
-    def size(n):
+    def measure(n):
         key = id(n)
         if key in memo:
             return memo[key]
@@ -132,16 +139,23 @@ def _check_size(node):
             raise _TooBig(n.start_mark.line + 1, "(an alias)", "must not contain itself (a recursive alias)")
         active.add(key)
         if isinstance(n, yaml.SequenceNode):
-            total = 1 + sum(size(c) for c in n.value)
+            parts = [measure(c) for c in n.value]
         elif isinstance(n, yaml.MappingNode):
-            total = 1 + sum(size(k) + size(v) for k, v in n.value)
+            parts = [measure(c) for pair in n.value for c in pair]
         else:
-            total = 1
+            parts = None
         active.discard(key)
-        memo[key] = total = min(total, MAX_NODES + 1)
-        return total
+        if parts is None:
+            size, depth = 1, 0
+        else:
+            size, depth = 1 + sum(p[0] for p in parts), 1 + max((p[1] for p in parts), default=0)
+        if depth > MAX_DEPTH:
+            raise _TooBig(n.start_mark.line + 1, f"{depth} levels", f"must nest mappings and lists at most "
+                                                                   f"{MAX_DEPTH} levels deep (aliases included)")
+        memo[key] = out = (min(size, MAX_NODES + 1), depth)
+        return out
 
-    if node is not None and size(node) > MAX_NODES:
+    if node is not None and measure(node)[0] > MAX_NODES:
         raise _TooBig(1, "(the whole file)", f"must hold at most {MAX_NODES:,} values once its aliases are expanded")
 
 
@@ -291,6 +305,19 @@ def _text_problems(node, parts=()) -> list[Problem]:
         if why := _bad_text(node, one_line):
             out.append(Problem(_path(list(parts)), _show(node), why))
     return out
+
+
+def _cleaned(node):
+    """``node`` with every string that :func:`_bad_text` refuses shown escaped (keys too), so that the parsed
+    document kept for display (``Unit.raw``: a failed exchanger's description in a batch index) can always be
+    printed and encoded; the problems are reported all the same."""
+    if isinstance(node, dict):
+        return {_cleaned(k): _cleaned(v) for k, v in node.items()}
+    if isinstance(node, list):
+        return [_cleaned(v) for v in node]
+    if isinstance(node, str) and _bad_text(node, True):
+        return printable(node, limit=max(len(node) * 10, 10))
+    return node
 
 
 # ------------------------------------------------------------------------------------------------ pass 3: quantities
