@@ -66,7 +66,7 @@ class Linear:
     Examples
     --------
     >>> law = Linear(rate=1e-10)
-    >>> law.step(2e-4, 86400.0)
+    >>> float(law.step(2e-4, 86400.0))  # 2e-4 + 1e-10 · 86400
     0.00020864
     """
 
