@@ -140,3 +140,67 @@ def test_growth_law_refuses_other_things():
     assert e.value.field == "fouling['E-1']"
     with pytest.raises(InputError):
         Linear(rate=-1e-11)
+
+
+# ---------------------------------------------------------------------------------------------- on a real train
+def one_exchanger_train():
+    """An invented crude/residue exchanger as a one-match train feeding a furnace (petroleum properties)."""
+    import revamp as rv
+    from revamp.train import Furnace, Match, Train
+
+    crude = rv.fluids.petroleum(api=31, watson_k=11.8, viscosity=[("40 degC", "9 cSt"), ("100 degC", "3 cSt")])
+    resid = rv.fluids.petroleum(api=18, watson_k=11.6, viscosity=[("100 degC", "30 cSt"), ("150 degC", "9 cSt")])
+    hx = rv.ShellAndTube(shell_id="787 mm", tube_od="19.05 mm", tube_wall="2.11 mm", tube_length="6.1 m",
+                         tube_count=500, tube_passes=2, tube_pitch="25.4 mm", layout=90, baffle_spacing="450 mm",
+                         baffle_cut=0.25, tube_material="carbon steel")
+    return Train(streams={"crude": rv.Stream(crude, "60 kg/s", "150 degC"),
+                          "resid": rv.Stream(resid, "30 kg/s", "330 degC")},
+                 exchangers={"E-1": Match(hx, shell="resid", tube="crude", fouling_shell=2e-4)},
+                 routes={"crude": ["E-1"], "resid": ["E-1"]},
+                 furnace=Furnace("crude", "360 degC", 0.85))
+
+
+def test_epstein_interval_on_a_real_train_with_b_from_two_ratings():
+    # Epstein (1979): tau* = sqrt(2C/b), b the growth of the loss-cost rate, here from two ratings of the engine
+    # (the train clean, and with the deposit of mid-cycle: a secant); with H = 5 tau* the cycles are tau* (see above).
+    from revamp.cleaning import schedule_cleaning
+
+    train = one_exchanger_train()
+    rate = 1e-4 / (20 * WEEK)  # small enough that the lost duty is close to linear in the deposit over a cycle
+    price_gj = 9.0
+    q0 = float(train.solve().furnace_duty)
+    t1 = 10 * WEEK
+    q1 = float(train.replace(exchangers={"E-1": train.exchangers["E-1"].replace(fouling_tube=rate * t1)}).solve()
+               .furnace_duty)
+    b = price_gj * 1e-9 * (q1 - q0) / t1
+    assert b > 0
+    tau = 20 * WEEK
+    C = 0.5 * b * tau**2
+    plan_ = schedule_cleaning(train, {"E-1": Linear(rate=rate)}, horizon="100 week", period="1 week",
+                              cleaning_cost=C, downtime="0 s", crews=1, fuel_price=f"{price_gj} USD/GJ",
+                              start="2027-01-04", time_limit="60 s")
+    got = intervals(plan_, "E-1")
+    assert len(got) == 4
+    assert np.all(np.abs(got - tau) <= WEEK)
+    assert plan_.currency == "USD"
+    # the timeline is the engine's: the fired duty of the first period is that of the train with its mid-period deposit
+    first = float(train.replace(exchangers={"E-1": train.exchangers["E-1"].replace(fouling_tube=rate * 0.5 * WEEK)})
+                  .solve().furnace_duty)
+    assert plan_.timeline["furnace_duty"].iloc[0] == pytest.approx(first, rel=1e-6)
+
+
+def test_schedule_cleaning_errors_name_the_field():
+    from revamp.cleaning import schedule_cleaning
+
+    train = one_exchanger_train()
+    law = {"E-1": Linear(rate=1e-11)}
+    for kwargs, field in [(dict(fouling={"E-9": Linear(rate=1e-11)}), "fouling['E-9']"),
+                          (dict(fuel_price="9 USD/barrel"), "fuel_price"),
+                          (dict(crews=0), "crews"),
+                          (dict(cleaning_cost={"E-1": -5}), "cleaning_cost['E-1']"),
+                          (dict(sides={"E-1": "both"}), "sides['E-1']")]:
+        args = dict(fouling=law, horizon="20 week", period="1 week", fuel_price="9 USD/GJ", start="2027-01-04")
+        args.update(kwargs)
+        with pytest.raises(InputError) as e:
+            schedule_cleaning(train, **args)
+        assert e.value.field == field
