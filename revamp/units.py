@@ -80,6 +80,7 @@ DIMENSIONS: dict[str, tuple[str, str]] = {
     "conductivity": ("watt/meter/kelvin", "a thermal conductivity (W/m·K, or e.g. '26 BTU/h/ft/degF')"),
     "htc": ("watt/meter**2/kelvin", "a heat-transfer coefficient (W/m²·K, or e.g. '100 BTU/h/ft**2/degF')"),
     "fouling": ("meter**2*kelvin/watt", "a fouling resistance (m²·K/W, or e.g. '0.002 h*ft**2*degF/BTU')"),
+    "fouling_rate": ("meter**2*kelvin/watt/second", "a fouling rate (m²·K/W per s, or e.g. '1e-6 m**2*K/W/day')"),
     "power": ("watt", "a heat duty (W, or e.g. '5 MW', '10e6 BTU/h')"),
     "modulus": ("pascal", "an elastic modulus (Pa, or e.g. '200 GPa')"),
     "time": ("second", "a duration (s, or e.g. '30 day', '8000 h')"),
