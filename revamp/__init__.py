@@ -23,9 +23,13 @@ _EXPORTS = {
     "Monitoring": "revamp.monitoring",
     "compare": "revamp.study",
     "Study": "revamp.study",
+    "Train": "revamp.train",
+    "Match": "revamp.train",
+    "Furnace": "revamp.train",
+    "compare_train": "revamp.train",
 }
 _SUBMODULES = {"fluids", "materials", "fouling", "units", "options", "screening", "economics", "thermal",
-               "resistance", "geometry", "correlations", "plots", "unitfile", "batch"}
+               "resistance", "geometry", "correlations", "plots", "unitfile", "batch", "train"}
 
 __all__ = sorted(_EXPORTS) + sorted(_SUBMODULES)
 

@@ -22,6 +22,7 @@ import re
 from pathlib import Path
 
 from ._building import _build_exchanger, _exchanger_rules
+from ._network import build_network, network_quantities, network_rules
 from ._model import (
     SCHEMA_PATH,
     STANDARD_COLUMNS,
@@ -79,6 +80,7 @@ def _validate(path, build: bool, only=None):
     currency = econ.get("currency") if isinstance(econ.get("currency"), str) else "USD"
     quantity_problems = []
     si = _walk(doc, schema(), [], currency, quantity_problems)
+    network_quantities(doc, si, currency, quantity_problems)
     # one line per place: a field the schema already refused is not reported twice
     seen = {p.path for p in problems}
     problems += [p for p in quantity_problems if p.path not in seen]
@@ -87,6 +89,7 @@ def _validate(path, build: bool, only=None):
     for i, x in enumerate(exchangers):
         if isinstance(x, dict):
             problems += _exchanger_rules(x, ["exchangers", i], base, tags)
+    problems += network_rules(doc, si)  # also fills the sides that name a network stream
     if not build or any(not _owned([p], None) for p in problems):  # the unit as a whole is wrong: build nothing
         return None, _sorted(problems)
     e = si.get("economics") or {}
@@ -104,9 +107,11 @@ def _validate(path, build: bool, only=None):
         case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ)
         if case is not None:
             built.append(case)
+    network = build_network(si, doc, tuple(built), problems) if only is None else None
     problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
-                sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc)
+                sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc,
+                network=network, network_throughput=float((si.get("network") or {}).get("throughput", 1.0)))
     return unit, _sorted(problems)
 
 

@@ -107,7 +107,11 @@ class ExchangerCase:
 
 @dataclass(frozen=True)
 class Unit:
-    """A loaded unit file: name, economics and exchangers; ``sha256`` is the hash of the file's bytes."""
+    """A loaded unit file: name, economics and exchangers; ``sha256`` is the hash of the file's bytes.
+
+    ``network`` is the :class:`revamp.train.Train` of the file's ``network`` section (None without one);
+    ``network_throughput`` its revamp factor on every stream's flow (1 when not given).
+    """
 
     name: str
     description: str
@@ -116,6 +120,8 @@ class Unit:
     economics: UnitEconomics
     exchangers: tuple
     raw: dict = field(repr=False, default_factory=dict)
+    network: Any = field(default=None, repr=False)
+    network_throughput: float = 1.0
 
     @property
     def tags(self) -> list[str]:

@@ -1,0 +1,423 @@
+"""Solving a train: every exchanger rated at the inlets the network gives it, all cases at once.
+
+The method is successive linearization. Rated at any inlet temperatures, an exchanger's outlets are linear in its two
+inlets for the effectiveness and heat-capacity rates of that rating (effectiveness-NTU):
+
+    t_out_shell = (1 - a_s)·t_in_shell + a_s·t_in_tube,   a_s = ε·C_min/C_shell
+    t_out_tube  = a_t·t_in_shell + (1 - a_t)·t_in_tube,   a_t = ε·C_min/C_tube
+
+(the same form whichever side is hot). With the routes (an outlet feeds the next inlet, a split feeds its branches,
+a remix is the heat-capacity-weighted mean of its branches) the whole network is then one linear system in the port
+temperatures, solved exactly with numpy for every case at once, interlinked routes included (no tearing, no order).
+The exchangers are re-rated at the new inlets (one vectorized ``rate()`` per exchanger per iteration, all cases of a
+sweep in that call) and the system solved again, until no inlet moves by more than ``tol``. Only the temperature
+dependence of the properties makes this iterate: with constant properties the second pass is exact.
+
+A case that does not converge, or whose ratings fail (a stream leaving its fluid's single-phase range), is flagged in
+``TrainResult.converged`` and named in the warnings; it is never dropped or replaced.
+
+References
+----------
+Kays, W. M., London, A. L. (1984). *Compact Heat Exchangers*, 3rd ed., McGraw-Hill (effectiveness-NTU).
+Smaïli, F., Vassiliadis, V. S., Wilson, D. I. (2001). Mitigation of fouling in refinery heat exchanger networks by
+optimal management of cleaning. *Energy & Fuels* 15, 1038-1056.
+"""
+from __future__ import annotations
+
+import dataclasses
+
+import numpy as np
+import pandas as pd
+
+from ..errors import InputError
+from ..rating import rate
+from ..service import Service, Stream
+from .network import Point, Split
+from .result import LimitCheck, TrainResult
+
+__all__ = ["solve", "enthalpy_change"]
+
+_SIDES = ("shell", "tube")
+# Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
+_GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
+_MEMORY = 3  # passes remembered by the Anderson acceleration
+
+
+def _clipped_props(fluid, T):
+    hi = fluid.t_max - 1e-6 * fluid.t_max if np.isfinite(fluid.t_max) else fluid.t_max
+    return fluid.props(np.clip(np.asarray(T, float), fluid.t_min, hi))
+
+
+def enthalpy_change(fluid, flow, t_from, t_to, field="stream"):
+    """Heat taken up by a stream between two temperatures, ``m·∫cp dT`` [W] (negative when it cools).
+
+    Parameters
+    ----------
+    fluid : Fluid
+    flow : float or ndarray
+        Mass flow [kg/s].
+    t_from, t_to : float or ndarray
+        Temperatures [K].
+    field : str
+        Path named when a temperature is outside the fluid's range.
+
+    Notes
+    -----
+    Four-point Gauss-Legendre quadrature of the fluid's heat capacity.
+    """
+    t_from, t_to = np.asarray(t_from, float), np.asarray(t_to, float)
+    half, mid = 0.5 * (t_to - t_from), 0.5 * (t_to + t_from)
+    total = 0.0
+    for x, w in zip(_GL_X, _GL_W):
+        T = mid + half * x
+        ok = np.isfinite(T)
+        try:
+            cp = fluid.props(np.where(ok, T, fluid.t_min if np.isfinite(fluid.t_min) else 300.0)).heat_capacity
+        except InputError as exc:
+            raise InputError(field, f"{fluid.name} between {np.nanmin(t_from):.1f} and {np.nanmax(t_to):.1f} K",
+                             f"within the fluid's range {fluid.t_min:.1f}..{fluid.t_max:.1f} K ({exc.allowed})") \
+                from None
+        total = total + w * np.where(ok, cp, np.nan)
+    return np.asarray(flow, float) * half * total
+
+
+class _Expr:
+    """A temperature as a linear expression of the port temperatures: ``const + Σ coef·x[idx]``."""
+
+    __slots__ = ("coefs", "const")
+
+    def __init__(self, coefs, const):
+        self.coefs, self.const = coefs, const
+
+    def value(self, x):
+        v = np.array(self.const, dtype=float, copy=True)
+        for idx, c in self.coefs.items():
+            v = v + c * x[:, idx]
+        return v
+
+
+def _mix(exprs, weights):
+    total = sum(weights)
+    coefs, const = {}, 0.0
+    for e, w in zip(exprs, weights):
+        share = w / total
+        const = const + share * e.const
+        for idx, c in e.coefs.items():
+            coefs[idx] = coefs.get(idx, 0.0) + share * c
+    return _Expr(coefs, const)
+
+
+class _Plan:
+    """Port numbering, flow fractions and the case arrays of a train (flattened to ``ncase``)."""
+
+    def __init__(self, train):
+        self.train = train
+        self.shape = train.shape
+        self.ncase = int(np.prod(self.shape, dtype=int)) if self.shape else 1
+        self.tags = list(train.exchangers)
+        self.index = {t: i for i, t in enumerate(self.tags)}
+        self.n = 4 * len(self.tags)
+        self.frac = {}
+
+        def walk(stream, items, f):
+            for item in items:
+                if isinstance(item, str):
+                    self.frac[(item, train.exchangers[item].side_of(stream))] = f
+                elif isinstance(item, Split):
+                    for br, fb in zip(item.branches, item.fractions):
+                        walk(stream, br, f * fb)
+
+        for s, route in train.routes.items():
+            walk(s, route, 1.0)
+        self.flow = {s: self.flat(st.flow) for s, st in train.streams.items()}
+        self.supply = {s: self.flat(st.t_in) for s, st in train.streams.items()}
+        self.fouling = {(t, side): self.flat(getattr(m, f"fouling_{side}"))
+                        for t, m in train.exchangers.items() for side in _SIDES}
+
+    def flat(self, v):
+        return np.broadcast_to(np.asarray(v, float), self.shape).reshape(self.ncase).copy()
+
+    def port(self, tag, side, out=False):
+        return 4 * self.index[tag] + (2 if side == "tube" else 0) + (1 if out else 0)
+
+    def walk(self, x, on_exchanger=None):
+        """Follow every route: inlet equations ``(port, expr)``, point and final temperature expressions, and
+        stream pressure-drop sums (through ``on_exchanger(tag, side) -> dp`` when given)."""
+        train = self.train
+        links, points, finals, dps = [], {}, {}, {}
+
+        def walk(stream, items, node, dp):
+            fluid = train.streams[stream].fluid
+            for item in items:
+                if isinstance(item, str):
+                    side = train.exchangers[item].side_of(stream)
+                    links.append((self.port(item, side), node))
+                    node = _Expr({self.port(item, side, out=True): 1.0}, 0.0)
+                    if on_exchanger is not None:
+                        dp = dp + on_exchanger(item, side)
+                elif isinstance(item, Point):
+                    points[item.name] = node
+                else:  # Split
+                    ends, weights, branch_dp = [], [], []
+                    for br, fb in zip(item.branches, item.fractions):
+                        end, bdp = walk(stream, br, node, 0.0)
+                        ends.append(end)
+                        branch_dp.append(bdp)
+                        # heat-capacity-weighted remix, cp of each branch at its own outlet
+                        weights.append(fb * _clipped_props(fluid, end.value(x)).heat_capacity)
+                    node = _mix(ends, weights)
+                    dp = dp + np.max(np.broadcast_arrays(*branch_dp), axis=0)
+            return node, dp
+
+        for s, route in train.routes.items():
+            finals[s], dps[s] = walk(s, route, _Expr({}, self.supply[s]), 0.0)
+        for s in train.streams:
+            if s not in finals:  # a stream with no exchangers leaves at its supply temperature
+                finals[s], dps[s] = _Expr({}, self.supply[s]), 0.0
+        return links, points, finals, dps
+
+
+def _rate_all(plan, x):
+    train = plan.train
+    ratings = {}
+    for tag, m in train.exchangers.items():
+        t_s = x[:, plan.port(tag, "shell")]
+        t_t = x[:, plan.port(tag, "tube")]
+        t_t = np.where(t_s == t_t, t_t + 1e-9, t_t)  # equal inlets: no duty either way; rate() needs a difference
+        svc = Service(
+            shell=Stream(train.streams[m.shell].fluid, plan.flow[m.shell] * plan.frac[(tag, "shell")], t_s),
+            tube=Stream(train.streams[m.tube].fluid, plan.flow[m.tube] * plan.frac[(tag, "tube")], t_t),
+            fouling_shell=plan.fouling[(tag, "shell")], fouling_tube=plan.fouling[(tag, "tube")])
+        ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
+    return ratings
+
+
+def _linear_solve(plan, x, ratings):
+    """One linear solve of the network for the coefficients of ``ratings`` and the remix weights at ``x``."""
+    n, nc = plan.n, plan.ncase
+    A = np.zeros((nc, n, n))
+    b = np.zeros((nc, n))
+    for tag, r in ratings.items():
+        c_min = np.minimum(r.C_shell, r.C_tube)
+        a = {"shell": r.effectiveness * c_min / r.C_shell, "tube": r.effectiveness * c_min / r.C_tube}
+        ps_in, pt_in = plan.port(tag, "shell"), plan.port(tag, "tube")
+        for side, own, other in (("shell", ps_in, pt_in), ("tube", pt_in, ps_in)):
+            row = plan.port(tag, side, out=True)
+            A[:, row, row] = 1.0
+            A[:, row, own] = -(1.0 - a[side])
+            A[:, row, other] = -a[side]
+    links, _, _, _ = plan.walk(x)
+    for port, expr in links:
+        A[:, port, port] += 1.0
+        for idx, c in expr.coefs.items():
+            A[:, port, idx] -= c
+        b[:, port] += expr.const
+    bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
+    A[bad] = np.eye(n)
+    b[bad] = np.nan
+    return np.linalg.solve(A, b[..., None])[..., 0], bad
+
+
+def _initial(plan):
+    x = np.empty((plan.ncase, plan.n))
+    for tag, m in plan.train.exchangers.items():
+        for side in _SIDES:
+            t = plan.supply[getattr(m, side)]
+            x[:, plan.port(tag, side)] = t
+            x[:, plan.port(tag, side, out=True)] = t
+    return x
+
+
+def _anderson(xs, gs):
+    """Anderson (type II) extrapolation of the fixed point from the last passes, case by case.
+
+    Falls back to the plain pass ``gs[-1]`` for a case whose extrapolation is not finite or moves farther than the
+    plain pass would (a safeguard: the plain pass converges on its own, only more slowly).
+    """
+    f = [g - x for x, g in zip(xs, gs)]
+    dF = np.stack([f[i + 1] - f[i] for i in range(len(f) - 1)], axis=-1)  # (ncase, n, m)
+    dG = np.stack([gs[i + 1] - gs[i] for i in range(len(gs) - 1)], axis=-1)
+    gamma = np.einsum("cmn,cn->cm", np.linalg.pinv(dF, rcond=1e-10), f[-1])
+    x_acc = gs[-1] - np.einsum("cnm,cm->cn", dG, gamma)
+    plain_step = np.max(np.abs(f[-1]), axis=1)
+    step = np.max(np.abs(x_acc - xs[-1]), axis=1)
+    ok = np.all(np.isfinite(x_acc), axis=1) & (step <= 10.0 * plain_step + 1e-12)
+    return np.where(ok[:, None], x_acc, gs[-1])
+
+
+def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
+    """Solve a :class:`~revamp.train.Train` (see the module docstring for the method)."""
+    if not (np.ndim(tol) == 0 and float(tol) > 0):
+        raise InputError("tol", tol, "a temperature change > 0 [K]")
+    if not (isinstance(max_iter, int) and max_iter >= 1):
+        raise InputError("max_iter", max_iter, "an integer >= 1")
+    plan = _Plan(train)
+    x = _initial(plan)
+    inlets = np.array([plan.port(t, s) for t in plan.tags for s in _SIDES])
+    failed = np.zeros(plan.ncase, dtype=bool)
+    residual = np.full(plan.ncase, np.inf)
+    iterations = 0
+    xs, gs = [], []  # history for Anderson acceleration (in-port temperatures before and after a pass)
+    for iterations in range(1, max_iter + 1):
+        ratings = _rate_all(plan, x)
+        g, bad = _linear_solve(plan, x, ratings)
+        failed |= bad | ~np.all(np.isfinite(g), axis=1)
+        residual = np.where(failed, np.nan, np.max(np.abs(g[:, inlets] - x[:, inlets]), axis=1))
+        if np.all(failed | (residual < tol)):
+            x = np.where(failed[:, None], x, g)
+            break
+        xs, gs = (xs + [x])[-(_MEMORY + 1):], (gs + [g])[-(_MEMORY + 1):]
+        x_next = _anderson(xs, gs) if len(xs) > 1 else g
+        # failed cases keep finite guesses so that the rest of the sweep can still be rated
+        x = np.where(failed[:, None], x, x_next)
+    converged = ~failed & (residual < tol)
+    return _result(plan, x, ratings, converged, failed, residual, iterations, tol)
+
+
+# ------------------------------------------------------------------------------------------------------ the result
+def _reshape_rating(r, shape, ncase):
+    """A rating of the flattened cases brought back to the train's case shape (scalars for one case)."""
+    from ..rating import _SCALAR_FIELDS
+
+    changes = {}
+    for name in _SCALAR_FIELDS:
+        v = np.asarray(getattr(r, name), float).reshape(shape)
+        changes[name] = float(v) if shape == () else v
+    if shape == ():
+        res = r.resistances
+        changes["resistances"] = pd.Series({k: float(res[k].iloc[0]) for k in res.columns}, name="resistance [m²K/W]")
+        svc = r.service
+        changes["service"] = svc.replace(
+            shell=svc.shell.replace(flow=float(svc.shell.flow[0]), t_in=float(svc.shell.t_in[0])),
+            tube=svc.tube.replace(flow=float(svc.tube.flow[0]), t_in=float(svc.tube.t_in[0])),
+            fouling_shell=float(np.ravel(svc.fouling_shell)[0]), fouling_tube=float(np.ravel(svc.fouling_tube)[0]))
+    return dataclasses.replace(r, **changes)
+
+
+def _out(v, shape):
+    v = np.asarray(v, float).reshape(shape)
+    return float(v) if shape == () else v
+
+
+def _frame(rows, shape, index_name):
+    """A DataFrame with one row per item (one case) or per (item, case) (sweeps)."""
+    if shape == ():
+        frame = pd.DataFrame({k: {c: (np.asarray(v).ravel()[0] if isinstance(v, np.ndarray) else v)
+                                  for c, v in cols.items()} for k, cols in rows.items()}).T
+        frame.index.name = index_name
+        return frame.infer_objects()
+    ncase = int(np.prod(shape, dtype=int))
+    parts = []
+    for k, cols in rows.items():
+        part = pd.DataFrame({c: np.broadcast_to(np.asarray(v), (ncase,)) if isinstance(v, np.ndarray) else [v] * ncase
+                             for c, v in cols.items()})
+        part.index = pd.MultiIndex.from_product([[k], range(ncase)], names=[index_name, "case"])
+        parts.append(part)
+    return pd.concat(parts)
+
+
+def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
+    train, shape, nc = plan.train, plan.shape, plan.ncase
+    warnings = []
+    nan = np.where(failed, np.nan, 0.0)  # NaN for failed cases: never a silent number
+
+    def dp_of(tag, side):
+        return getattr(ratings[tag], f"dp_{side}")
+
+    _, point_exprs, final_exprs, stream_dp = plan.walk(x, dp_of)
+    finals = {s: e.value(x) + nan for s, e in final_exprs.items()}
+
+    # exchangers
+    rows = {}
+    for tag, m in train.exchangers.items():
+        r = ratings[tag]
+        row = {"shell_stream": m.shell, "tube_stream": m.tube}
+        for col, v in (("duty", r.duty), ("t_in_shell", r.service.shell.t_in), ("t_out_shell", r.t_out_shell),
+                       ("t_in_tube", r.service.tube.t_in), ("t_out_tube", r.t_out_tube),
+                       ("flow_shell", r.service.shell.flow), ("flow_tube", r.service.tube.flow),
+                       ("effectiveness", r.effectiveness), ("U_clean", r.U_clean), ("U_service", r.U_service),
+                       ("fouling_shell", r.service.fouling_shell), ("fouling_tube", r.service.fouling_tube),
+                       ("dp_shell", r.dp_shell), ("dp_tube", r.dp_tube), ("velocity_tube", r.velocity_tube),
+                       ("velocity_shell", r.velocity_shell)):
+            row[col] = np.broadcast_to(np.asarray(v, float), (nc,)) + nan
+        row["dp_max_shell"] = np.nan if m.dp_max_shell is None else m.dp_max_shell
+        row["dp_max_tube"] = np.nan if m.dp_max_tube is None else m.dp_max_tube
+        rows[tag] = row
+        warnings += [f"{tag}: {w}" for w in r.warnings]
+    exchangers = _frame(rows, shape, "tag")
+
+    # streams: final temperature, heat exchanged, pressure drop, rundown and trim cooler
+    srows, limits = {}, []
+    for s, st in train.streams.items():
+        exchanged = 0.0
+        for tag, m in train.exchangers.items():
+            for side in _SIDES:
+                if getattr(m, side) == s:
+                    r = ratings[tag]
+                    t_in = getattr(r.service, side).t_in
+                    exchanged = exchanged + getattr(r, f"C_{side}") * (getattr(r, f"t_out_{side}") - t_in)
+        row = {"supply": plan.supply[s], "final": finals[s], "flow": plan.flow[s],
+               "duty": np.broadcast_to(np.asarray(exchanged, float), (nc,)) + nan,
+               "dp": np.broadcast_to(np.asarray(stream_dp[s], float), (nc,)) + nan,
+               "dp_max": train.dp_max.get(s, np.nan), "rundown": train.rundown.get(s, np.nan)}
+        trim = np.zeros(nc)
+        if s in train.rundown:
+            limit = train.rundown[s]
+            over = finals[s] > limit
+            if np.any(over):
+                trim = np.where(over, -enthalpy_change(st.fluid, plan.flow[s], finals[s], limit,
+                                                       f"rundown[{s!r}]"), 0.0)
+        row["trim_duty"] = trim + nan
+        srows[s] = row
+        if s in train.dp_max:
+            limits.append(LimitCheck.of(f"{s} pressure drop", "dp", row["dp"], high=train.dp_max[s], shape=shape))
+    for tag, m in train.exchangers.items():
+        for side in _SIDES:
+            lim = getattr(m, f"dp_max_{side}")
+            if lim is not None:
+                limits.append(LimitCheck.of(f"{tag} dp_{side}", "dp", rows[tag][f"dp_{side}"], high=lim, shape=shape))
+
+    # points
+    prow = {}
+    for name, expr in point_exprs.items():
+        stream, pt = train.points[name]
+        t = expr.value(x) + nan
+        prow[name] = {"stream": stream, "temperature": t, "t_min": np.nan if pt.t_min is None else pt.t_min,
+                      "t_max": np.nan if pt.t_max is None else pt.t_max}
+        if pt.t_min is not None or pt.t_max is not None:
+            limits.append(LimitCheck.of(f"{name} temperature", "temperature", t, low=pt.t_min, high=pt.t_max,
+                                        shape=shape))
+
+    # furnace
+    f_in = f_abs = f_fired = None
+    if train.furnace is not None:
+        fu = train.furnace
+        st = train.streams[fu.stream]
+        f_in = finals[fu.stream]
+        f_abs = enthalpy_change(st.fluid, plan.flow[fu.stream], f_in, fu.outlet, "furnace.outlet")
+        f_fired = f_abs / fu.efficiency
+        if np.any(f_in > fu.outlet):
+            warnings.append(f"furnace: the {fu.stream} reaches the furnace above its outlet temperature in "
+                            f"{int(np.sum(f_in > fu.outlet))} case(s): the absorbed duty is negative there")
+        if fu.max_duty is not None:
+            limits.append(LimitCheck.of("furnace duty", "power", f_fired, high=fu.max_duty, shape=shape))
+        f_in, f_abs, f_fired = (_out(v, shape) for v in (f_in, f_abs, f_fired))
+
+    if np.any(failed):
+        warnings.insert(0, f"train: {int(np.sum(failed))} case(s) failed (a stream left its fluid's range or a "
+                           "rating had no solution): their results are NaN")
+    not_conv = ~converged & ~failed
+    if np.any(not_conv):
+        warnings.insert(0, f"train: {int(np.sum(not_conv))} case(s) did not converge in {iterations} iterations "
+                           f"(largest inlet change {np.nanmax(residual[not_conv]):.3g} K > {tol:g} K): see converged")
+    violated = [c.name for c in limits if not np.all(c.ok)]
+    return TrainResult(
+        train=train, shape=shape, exchangers=exchangers, streams=_frame(srows, shape, "stream"),
+        points=_frame(prow, shape, "point") if prow else pd.DataFrame(
+            columns=["stream", "temperature", "t_min", "t_max"]).rename_axis("point"),
+        limits=tuple(limits), ratings={t: _reshape_rating(r, shape, nc) for t, r in ratings.items()},
+        furnace_inlet=f_in, furnace_absorbed=f_abs, furnace_duty=f_fired,
+        converged=bool(converged[0]) if shape == () else converged.reshape(shape), iterations=iterations,
+        residual=float(residual[0]) if shape == () else residual.reshape(shape),
+        final_temperatures={s: _out(v, shape) for s, v in finals.items()},
+        violated=tuple(violated), warnings=tuple(dict.fromkeys(warnings)))
