@@ -191,12 +191,14 @@ def find_cleanings(rf, window: int = 9, sigmas: float = 6.0) -> np.ndarray:
     from it on (the lowest, not the median, so that a run that fouls fast from the start is not hidden); where that
     drop exceeds ``sigmas`` standard errors of a difference of two medians (noise from the scatter of successive
     rows, σ = 1.4826·MAD(ΔRf)/√2; the median of w rows has a standard error of about 1.2533·σ/√w), the largest drop
-    among the rows near it is a candidate. The candidate is placed where two straight lines, one on
-    each side (2·``window`` rows each, each refitted without the points more than 3σ off it), fit the rows best,
-    and kept when the step between the two lines there
-    exceeds the same threshold and is at least half of what the run had built up (the line's level before the step
-    minus the lowest smoothed Rf of the run so far). The rule is common practice (no single source): fouling
-    resistance does not fall by half its build-up within hours except by a cleaning.
+    among the rows near it is a candidate. The candidate is placed where two straight lines, one on each side
+    (2·``window`` rows each), fit the rows best (least squares). It is kept when the step between the two lines there
+    (each refitted without the points more than 3σ off it, so that one low reading makes no step) exceeds twice that
+    threshold (the placement picks the most extreme split, so the bar is raised) and is at least half of what the run
+    had built up (the line's level before the step minus the lowest smoothed Rf of the run so far; itself above twice
+    the threshold). The rule is common practice (no single source): fouling resistance does not fall by half its
+    build-up within hours except by a cleaning. A cleaning that takes off less than about 7σ is not seen: pass the
+    dates instead.
 
     Parameters
     ----------
@@ -239,7 +241,7 @@ def find_cleanings(rf, window: int = 9, sigmas: float = 6.0) -> np.ndarray:
         at, level, jump = _locate(rf, c, w, start, 3.0 * sigma if sigma > 0 else np.inf)
         low = smooth[start:max(at - w // 2, start + 1)].min()
         build = level - low
-        if build > threshold and jump > threshold and jump >= 0.5 * build:
+        if build > 2.0 * threshold and jump > 2.0 * threshold and jump >= 0.5 * build:
             picks.append(at)
             start = at
         i = j + 1
@@ -264,10 +266,12 @@ def _locate(rf, c, w, start, clip):
     """Where near row ``c`` the series splits best into two straight lines (least squares), the level of the line
     before at its last row, and the step down between the two lines there. Medians place a drop only to within
     their window, and understate it, while the deposit grows fast."""
-    lo, hi = max(c - w, start + 1), min(c + w, rf.size - 1)
+    lo, hi = max(c - w, start + w), min(c + w, rf.size - w)  # at least a window of rows on each side
+    if lo > hi:
+        return c, 0.0, 0.0
     best, best_rss = c, np.inf
     for j in range(lo, hi + 1):
-        total = _line(rf[max(j - 2 * w, start):j], clip)[1] + _line(rf[j:j + 2 * w], clip)[1]
+        total = _line(rf[max(j - 2 * w, start):j], np.inf)[1] + _line(rf[j:j + 2 * w], np.inf)[1]
         if total < best_rss:
             best, best_rss = j, total
     left, right = rf[max(best - 2 * w, start):best], rf[best:best + 2 * w]
