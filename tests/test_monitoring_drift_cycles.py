@@ -218,3 +218,17 @@ def test_find_cleanings_sees_none_in_one_run(n, slope, seed):
 def test_find_cleanings_window_is_checked():
     with pytest.raises(InputError, match="window"):
         find_cleanings(np.zeros(50), window=2)
+
+
+def test_leaning_on_the_sound_side_moves_the_rate_back():
+    # with the drifting side's temperatures given a large uncertainty, the reconciled duty follows the other side,
+    # so the fitted rate comes closer to the law the data were made with (3e-4 over the series)
+    m_t = _square(N, 48, 18.0, 25.0)
+    df = _series(LAW, N, np.full(N, 20.0), m_t, seed=1)
+    df["tube_t_out"] += 1.5 * T / T[-1]
+    law = 3e-4 / T[-1]
+    plain = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False, models=("linear",))
+    assert "raise the uncertainty of tube_t_in and tube_t_out" in plain.drift.reason
+    lean = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False, models=("linear",),
+                      uncertainty={"tube_t_in": 5.0, "tube_t_out": 5.0})
+    assert abs(lean.trend.params["b"] - law) < 0.5 * abs(plain.trend.params["b"] - law)
