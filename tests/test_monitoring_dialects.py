@@ -261,3 +261,10 @@ def test_run_start_in_the_local_time_zone():
     assert m.table["timestamp"].iloc[0] == pd.Timestamp("2031-02-28 23:00")
     assert m.run_start == pd.Timestamp("2031-02-28 23:00")
     assert m.table["run_time"].iloc[0] == 0.0
+
+
+def test_dataframe_times_take_the_time_zone_too():
+    df = pd.DataFrame({"timestamp": pd.to_datetime(["2031-07-01 12:00", "2031-07-01 13:00"]), **{
+        c: v[:2] for c, v in _numbers(2).items()}})
+    f = read_plant_data(df, dialect={"timezone": "Europe/Berlin"}).frame
+    assert list(f["timestamp"]) == [pd.Timestamp("2031-07-01 10:00"), pd.Timestamp("2031-07-01 11:00")]  # CEST

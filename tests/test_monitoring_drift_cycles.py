@@ -12,9 +12,12 @@ C·t pattern the closure follows. A cleaning shows as a sudden drop of Rf to nea
 import numpy as np
 import pandas as pd
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 import revamp as rv
 from revamp.errors import InputError
+from revamp.monitoring.cleaning import find_cleanings
 from test_monitoring import HX, OIL, SERVICE, WATER
 
 DAY = 86400.0
@@ -186,12 +189,6 @@ def test_demo_generators_drifting_thermocouple_is_found(monkeypatch):
 
 
 # ------------------------------------------------------------------------------------- find_cleanings on its own
-from hypothesis import given, settings  # noqa: E402
-from hypothesis import strategies as st  # noqa: E402
-
-from revamp.monitoring.cleaning import find_cleanings  # noqa: E402
-
-
 @settings(max_examples=40, deadline=None)
 @given(lengths=st.lists(st.integers(40, 200), min_size=1, max_size=4),
        growth=st.lists(st.floats(20.0, 200.0), min_size=4, max_size=4),

@@ -400,6 +400,10 @@ def read_plant_data(data, columns=None, *, sort: bool = False, flat_rows: int = 
         ts, unplaced, used = src_t, np.zeros(n, dtype=bool), DialectUsed(dialect=d, dayfirst_from="not ambiguous")
         if getattr(ts.dt, "tz", None) is not None:
             ts, used = ts.dt.tz_convert(None), DialectUsed(dialect=d, utc=True)
+        elif d.timezone:
+            had = ts.notna().to_numpy()
+            ts = ts.dt.tz_localize(d.timezone, ambiguous="NaT", nonexistent="NaT").dt.tz_convert(None)
+            unplaced, used = had & ts.isna().to_numpy(), DialectUsed(dialect=d, utc=True)
     else:
         # a bare number is not a time: parse text
         ts, unplaced, used = _read_times(src_t.astype(object).where(blank_t, src_t.astype(str)), blank_t, d)
