@@ -261,3 +261,34 @@ def test_run_start_in_the_local_time_zone():
     assert m.table["timestamp"].iloc[0] == pd.Timestamp("2031-02-28 23:00")
     assert m.run_start == pd.Timestamp("2031-02-28 23:00")
     assert m.table["run_time"].iloc[0] == 0.0
+
+
+def test_dataframe_times_take_the_time_zone_too():
+    df = pd.DataFrame({"timestamp": pd.to_datetime(["2031-07-01 12:00", "2031-07-01 13:00"]), **{
+        c: v[:2] for c, v in _numbers(2).items()}})
+    f = read_plant_data(df, dialect={"timezone": "Europe/Berlin"}).frame
+    assert list(f["timestamp"]) == [pd.Timestamp("2031-07-01 10:00"), pd.Timestamp("2031-07-01 11:00")]  # CEST
+
+
+def test_a_bare_temperature_column_in_celsius_is_refused():
+    # a column mapped without its unit is read as kelvin; cooling-water readings of 25-40 (°C) would be −248 °C
+    df = pd.DataFrame({"timestamp": pd.date_range("2031-01-01", periods=4, freq="h").astype(str),
+                       "shell_flow": 10.0, "shell_t_in": 450.0, "shell_t_out": 400.0, "tube_flow": 20.0,
+                       "TW_IN": [25.0, 25.5, 26.0, 25.2], "tube_t_out": 330.0})
+    cols = {"tube_t_in": "TW_IN"}
+    with pytest.raises(InputError) as err:
+        read_plant_data(df, columns=cols, flat_rows=10)
+    assert err.value.field == "columns.tube_t_in" and "degC" in str(err.value)
+    f = read_plant_data(df, columns={"tube_t_in": ("TW_IN", "degC")}, flat_rows=10).frame
+    assert f["tube_t_in"].iloc[0] == pytest.approx(298.15)  # 25 °C (SI definition of the kelvin scale)
+    # said to be kelvin: read as written (and then flagged by the second-law checks, not refused)
+    assert read_plant_data(df, columns={"tube_t_in": ("TW_IN", "K")}, flat_rows=10).frame["tube_t_in"].iloc[0] == 25.0
+
+
+def test_thousands_separators_are_not_taken_for_decimal_commas_silently(tmp_path):
+    path = tmp_path / "p.csv"
+    rows = [",".join(COLS)] + [f'2031-01-01 0{i}:00,"12,345",450,400,20,300,330' for i in range(3)]
+    path.write_text("\n".join(rows) + "\n")
+    with pytest.raises(InputError) as err:
+        read_plant_data(str(path))
+    assert err.value.field == "decimal" and "thousands" in str(err.value)

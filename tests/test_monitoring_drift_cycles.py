@@ -12,9 +12,12 @@ C·t pattern the closure follows. A cleaning shows as a sudden drop of Rf to nea
 import numpy as np
 import pandas as pd
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 import revamp as rv
 from revamp.errors import InputError
+from revamp.monitoring.cleaning import find_cleanings
 from test_monitoring import HX, OIL, SERVICE, WATER
 
 DAY = 86400.0
@@ -183,3 +186,46 @@ def test_demo_generators_drifting_thermocouple_is_found(monkeypatch):
     clean = gen.generate(HX, SERVICE, hours=24 * 40, fouling_law=gen.Linear(a=1e-4, b_per_year=2e-3), seed=3,
                          drift=0.0, bad_rows=False)
     assert not rv.monitor(HX, SERVICE, clean, mc_draws=0, steady=False).drift.detected
+
+
+# ------------------------------------------------------------------------------------- find_cleanings on its own
+@settings(max_examples=40, deadline=None)
+@given(lengths=st.lists(st.integers(40, 200), min_size=1, max_size=4),
+       growth=st.lists(st.floats(20.0, 200.0), min_size=4, max_size=4),
+       restart=st.lists(st.floats(0.0, 5.0), min_size=4, max_size=4), seed=st.integers(0, 1000))
+def test_find_cleanings_returns_the_injected_restarts(lengths, growth, restart, seed):
+    # invented saw-tooth: run k grows linearly by growth[k] noise standard deviations from restart[k]; the first row
+    # of each run after the first is a cleaning (expected indices from how the series was made)
+    rng = np.random.default_rng(seed)
+    parts = [restart[k] + growth[k] * np.linspace(0.0, 1.0, n) for k, n in enumerate(lengths)]
+    rf = (np.concatenate(parts) + rng.normal(0.0, 1.0, sum(lengths))) * 1e-6
+    expected = np.cumsum(lengths)[:-1]
+    assert list(find_cleanings(rf)) == list(expected)
+
+
+@settings(max_examples=20, deadline=None)
+@given(n=st.integers(20, 400), slope=st.floats(0.0, 50.0), seed=st.integers(0, 1000))
+def test_find_cleanings_sees_none_in_one_run(n, slope, seed):
+    # one run: steady growth (or none) plus noise never reads as a cleaning
+    rng = np.random.default_rng(seed)
+    rf = (slope * np.linspace(0.0, 1.0, n) + rng.normal(0.0, 1.0, n)) * 1e-6
+    assert find_cleanings(rf).size == 0
+
+
+def test_find_cleanings_window_is_checked():
+    with pytest.raises(InputError, match="window"):
+        find_cleanings(np.zeros(50), window=2)
+
+
+def test_leaning_on_the_sound_side_moves_the_rate_back():
+    # with the drifting side's temperatures given a large uncertainty, the reconciled duty follows the other side,
+    # so the fitted rate comes closer to the law the data were made with (3e-4 over the series)
+    m_t = _square(N, 48, 18.0, 25.0)
+    df = _series(LAW, N, np.full(N, 20.0), m_t, seed=1)
+    df["tube_t_out"] += 1.5 * T / T[-1]
+    law = 3e-4 / T[-1]
+    plain = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False, models=("linear",))
+    assert "raise the uncertainty of tube_t_in and tube_t_out" in plain.drift.reason
+    lean = rv.monitor(HX, SERVICE, df, mc_draws=0, steady=False, models=("linear",),
+                      uncertainty={"tube_t_in": 5.0, "tube_t_out": 5.0})
+    assert abs(lean.trend.params["b"] - law) < 0.5 * abs(plain.trend.params["b"] - law)

@@ -129,3 +129,9 @@ def test_report_projects_to_the_unit_files_run_length(tmp_path):
     _data(case).to_csv(csv, index=False)
     mon = run_case(case, mc_draws=0)["monitoring"]
     assert mon.summary["projection run time [day]"] == pytest.approx(720.0)  # the unit file's 720 days
+
+
+@pytest.mark.parametrize("value, expected", [(False, False), (True, {})])
+def test_steady_false_keeps_every_row_and_true_takes_the_defaults(tmp_path, value, expected):
+    path, _ = _unit(tmp_path, steady=value)
+    assert unitfile.load(path).exchanger("E-1").plant_data.monitor_options()["steady"] == expected

@@ -187,13 +187,18 @@ class Cycle:
 def find_cleanings(rf, window: int = 9, sigmas: float = 6.0) -> np.ndarray:
     """Rows where a cleaning starts a new run: the fouling resistance falls back, suddenly and for good.
 
-    For each row i the median of the ``window`` rows before it is compared with the median of ``window`` rows from
-    it on. Row i starts a new run when that drop (a) exceeds ``sigmas`` standard errors of a difference of two
-    medians (noise from the scatter of successive rows, σ = 1.4826·MAD(ΔRf)/√2; the median of w rows has a standard
-    error of about 1.2533·σ/√w), (b) is at least half of what the run had built up (the median before it minus the
-    lowest smoothed Rf of the run so far), and (c) is the largest drop among the rows near it. The rule is common
-    practice (no single source): fouling resistance does not fall by half its build-up within hours except by a
-    cleaning.
+    For each row i the median of the ``window`` rows before it is compared with the lowest of the ``window`` rows
+    from it on (the lowest, not the median, so that a run that fouls fast from the start is not hidden); where that
+    drop exceeds ``sigmas`` standard errors of a difference of two medians (noise from the scatter of successive
+    rows, σ = 1.4826·MAD(ΔRf)/√2; the median of w rows has a standard error of about 1.2533·σ/√w), the largest drop
+    among the rows near it is a candidate. The candidate is placed where two straight lines, one on each side
+    (2·``window`` rows each), fit the rows best (least squares). It is kept when the step between the two lines there
+    (each refitted without the points more than 3σ off it, so that one low reading makes no step) exceeds twice that
+    threshold (the placement picks the most extreme split, so the bar is raised) and is at least half of what the run
+    had built up (the line's level before the step minus the lowest smoothed Rf of the run so far; itself above twice
+    the threshold). The rule is common practice (no single source): fouling resistance does not fall by half its
+    build-up within hours except by a cleaning. A cleaning that takes off less than about 7σ is not seen: pass the
+    dates instead.
 
     Parameters
     ----------
@@ -217,7 +222,7 @@ def find_cleanings(rf, window: int = 9, sigmas: float = 6.0) -> np.ndarray:
         return np.zeros(0, dtype=int)
     s = pd.Series(rf)
     before = s.rolling(w).median().shift(1).to_numpy()
-    after = s[::-1].rolling(w).median()[::-1].to_numpy()
+    after = s[::-1].rolling(w).min()[::-1].to_numpy()  # the lowest of the next rows: a fast-growing next run
     drop = np.nan_to_num(before - after, nan=-np.inf)
     d1 = np.diff(rf)
     sigma = 1.4826 * float(np.median(np.abs(d1 - np.median(d1)))) / np.sqrt(2.0)
@@ -233,10 +238,44 @@ def find_cleanings(rf, window: int = 9, sigmas: float = 6.0) -> np.ndarray:
             j += 1
         group = cand[i:j + 1]
         c = int(group[np.argmax(drop[group])])
-        low = smooth[start:max(c - w // 2, start + 1)].min()
-        build = before[c] - low
-        if build > threshold and drop[c] >= 0.5 * build:
-            picks.append(c)
-            start = c
+        at, level, jump = _locate(rf, c, w, start, 3.0 * sigma if sigma > 0 else np.inf)
+        low = smooth[start:max(at - w // 2, start + 1)].min()
+        build = level - low
+        if build > 2.0 * threshold and jump > 2.0 * threshold and jump >= 0.5 * build:
+            picks.append(at)
+            start = at
         i = j + 1
     return np.asarray(picks, dtype=int)
+
+
+def _line(y, clip):
+    """A straight line through y against 0, 1, ..., robust to single outliers: least squares, then again without the
+    points more than ``clip`` off it. Returns (coefficients or None, cost = Σ min(r², clip²))."""
+    if y.size < 3:
+        return None, 0.0
+    x = np.arange(y.size, dtype=float)
+    coef = np.polyfit(x, y, 1)
+    keep = np.abs(y - np.polyval(coef, x)) <= clip
+    if 3 <= keep.sum() < y.size:
+        coef = np.polyfit(x[keep], y[keep], 1)
+    r = y - np.polyval(coef, x)
+    return coef, float(np.sum(np.minimum(r * r, clip * clip)))
+
+
+def _locate(rf, c, w, start, clip):
+    """Where near row ``c`` the series splits best into two straight lines (least squares), the level of the line
+    before at its last row, and the step down between the two lines there. Medians place a drop only to within
+    their window, and understate it, while the deposit grows fast."""
+    lo, hi = max(c - w, start + w), min(c + w, rf.size - w)  # at least a window of rows on each side
+    if lo > hi:
+        return c, 0.0, 0.0
+    best, best_rss = c, np.inf
+    for j in range(lo, hi + 1):
+        total = _line(rf[max(j - 2 * w, start):j], np.inf)[1] + _line(rf[j:j + 2 * w], np.inf)[1]
+        if total < best_rss:
+            best, best_rss = j, total
+    left, right = rf[max(best - 2 * w, start):best], rf[best:best + 2 * w]
+    cl, cr = _line(left, clip)[0], _line(right, clip)[0]
+    level = float(np.polyval(cl, left.size - 1)) if cl is not None else float(np.median(left))
+    after = float(np.polyval(cr, -1.0)) if cr is not None else float(np.median(right))
+    return best, level, level - after

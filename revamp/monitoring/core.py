@@ -33,9 +33,8 @@ from ..errors import InputError
 from ..fouling.models import FoulingFit, film_temperature, fit_best
 from ..units import require, to_si
 from . import engine as _e
-from .cleaning import CleaningInterval, optimal_cleaning_interval
+from .cleaning import CleaningInterval, Cycle, find_cleanings, optimal_cleaning_interval
 from .data import read_plant_data
-from .cleaning import Cycle, find_cleanings
 from .reconcile import BalanceDrift, balance_drift, reconcile_heat_balance
 from .steady import SteadyFilter, steady_filter
 
@@ -195,7 +194,6 @@ def _runs(tab, rf, valid, run_start, cleanings, used_dialect, fouling_side, beta
 
     Returns (cycles, trend, fits) with the current (last) run's trend and fits."""
     ts = tab["timestamp"]
-    n = len(tab)
     used = tab["used"].to_numpy()
     first = ts[valid].min() if valid.any() else pd.NaT
     given: list = []

@@ -55,7 +55,10 @@ _KIND = {"shell_flow": "mass_flow", "tube_flow": "mass_flow", "shell_t_in": "tem
 _DELIMITERS = {",": "comma", ";": "semicolon", "\t": "tab", "|": "vertical bar"}
 _DECIMAL_COMMA = re.compile(r"^\s*[+-]?\d+,\d+\s*$")
 _DAY_MONTH = re.compile(r"^\s*(\d{1,2})([./-])(\d{1,2})\2(\d{2,4})\b")  # two small numbers first: d/m or m/d
-_OFFSET = re.compile(r"(Z|[+-]\d\d:?\d\d)\s*$")
+#: A temperature column read as kelvin (no unit given) whose median is below this is taken to be in another unit
+#: (200 K = −73 °C: colder than the process streams of the services this package rates; a cryogenic service states
+#: its unit, 'K'). Common practice, no source.
+_KELVIN_FLOOR = 200.0
 
 
 @dataclass(frozen=True)
@@ -400,6 +403,10 @@ def read_plant_data(data, columns=None, *, sort: bool = False, flat_rows: int = 
         ts, unplaced, used = src_t, np.zeros(n, dtype=bool), DialectUsed(dialect=d, dayfirst_from="not ambiguous")
         if getattr(ts.dt, "tz", None) is not None:
             ts, used = ts.dt.tz_convert(None), DialectUsed(dialect=d, utc=True)
+        elif d.timezone:
+            had = ts.notna().to_numpy()
+            ts = ts.dt.tz_localize(d.timezone, ambiguous="NaT", nonexistent="NaT").dt.tz_convert(None)
+            unplaced, used = had & ts.isna().to_numpy(), DialectUsed(dialect=d, utc=True)
     else:
         # a bare number is not a time: parse text
         ts, unplaced, used = _read_times(src_t.astype(object).where(blank_t, src_t.astype(str)), blank_t, d)
@@ -417,8 +424,17 @@ def read_plant_data(data, columns=None, *, sort: bool = False, flat_rows: int = 
         if d.decimal == "." and bad.sum() > 0.5 * max((~blank).sum(), 1):
             commas = text[bad & text.str.match(_DECIMAL_COMMA).to_numpy()]
             if len(commas) > 0.5 * bad.sum():
+                thousands = commas.str.fullmatch(r"\s*[+-]?\d{1,3},\d{3}\s*").all()
                 raise InputError("decimal", d.decimal, f"',': most cells of column {src!r} are numbers with a "
-                                                       f"decimal comma (e.g. {commas.iloc[0]!r})")
+                                                       f"decimal comma (e.g. {commas.iloc[0]!r})" +
+                                 ("; if the comma separates thousands instead, export the numbers without it"
+                                  if thousands else ""))
+        if unit is None and _KIND[key] == "temperature" and np.isfinite(num).any() \
+                and np.nanmedian(num) < _KELVIN_FLOOR:
+            raise InputError(f"columns.{key}", src,
+                             f"given with its unit, e.g. ({src!r}, 'degC'): a bare column is read as kelvin, and its "
+                             f"values (median {np.nanmedian(num):.4g}) would be below {_KELVIN_FLOOR:.0f} K; write "
+                             f"({src!r}, 'K') if they really are kelvin")
         add(blank, f"missing {key}")
         add(bad, f"non-numeric {key}")
         out[key] = _convert(num, unit, _KIND[key], key)

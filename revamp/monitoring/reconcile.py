@@ -311,7 +311,8 @@ def balance_drift(t, duty_shell, duty_tube, shell_hot, c_shell, c_tube, toleranc
         return BalanceDrift(True, change, t_stat, tolerance, span, n, best, kelvin, ev,
                             f"{head}: a sensor drift is likely; the {best}-side temperatures are suspect (the "
                             f"closure follows that side's m·cp; its temperature difference drifted by "
-                            f"{kelvin:+.2g} K). Fouling figures from these rows are biased")
+                            f"{kelvin:+.2g} K). Fouling figures from these rows are biased; to lean on the "
+                            f"{other} side, raise the uncertainty of {best}_t_in and {best}_t_out")
     return BalanceDrift(True, change, t_stat, tolerance, span, n, None, None, ev,
                         f"{head}: a sensor drift is likely, but the data cannot tell which side (the two flows do "
                         f"not vary differently enough); check both sides' thermocouples and flow meters. Fouling "
