@@ -41,6 +41,8 @@ _SIDES = ("shell", "tube")
 # Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
 _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
 _PROBE_K = 0.01  # inlet step of the finite differences for the Newton step [K]
+_MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
+_STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
 
 def _clipped_props(fluid, T):
@@ -285,9 +287,10 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     failed = np.zeros(plan.ncase, dtype=bool)
     done = np.zeros(plan.ncase, dtype=bool)
     residual = np.full(plan.ncase, np.inf)
-    iterations, ratings, rated_all = 0, None, False
+    stalled = np.zeros(plan.ncase, dtype=bool)
+    iterations, ratings, rated_all, history = 0, None, False, []
     for iterations in range(1, max_iter + 1):
-        idx = np.flatnonzero(~(failed | done))  # only the cases still moving are rated again
+        idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
         xa = x[idx]
         ratings = _rate_all(plan, xa, idx, probe=_PROBE_K)
         rated_all = idx.size == plan.ncase
@@ -305,8 +308,16 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         x[idx] = np.where(bad[:, None], xa, np.where(fin[:, None], g, step))
         failed[idx] |= bad
         residual[idx] = res
+        history.append((idx, res))
         done[idx] |= fin
-        if np.all(failed | done):
+        # a case whose change no longer shrinks (a correlation that jumps at a band edge between two passes: no
+        # exact solution) stops being rated; it stays flagged as not converged, with its last change
+        if len(history) > _STALL_PASSES:
+            old_idx, old_res = history[-1 - _STALL_PASSES]
+            before = np.full(plan.ncase, np.inf)
+            before[old_idx] = old_res
+            stalled[idx] |= ~fin & ~bad & (iterations >= _MIN_PASSES) & (res > 0.5 * before[idx])
+        if np.all(failed | done | stalled):
             break
     converged = done & ~failed
     if not rated_all or (ratings is not None and np.size(ratings[plan.tags[0]].duty) != plan.ncase):
@@ -477,7 +488,9 @@ def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
     not_conv = ~converged & ~failed
     if np.any(not_conv):
         warnings.insert(0, f"train: {int(np.sum(not_conv))} case(s) did not converge in {iterations} iterations "
-                           f"(largest inlet change {np.nanmax(residual[not_conv]):.3g} K > {tol:g} K): see converged")
+                           f"(largest inlet change {np.nanmax(residual[not_conv]):.3g} K > {tol:g} K; where a "
+                           "rating reports a correlation changing form near its flow, the train has no exact "
+                           "solution there): see converged and residual")
     violated = [c.name for c in limits if not np.all(c.ok)]
     return TrainResult(
         train=train, shape=shape, exchangers=exchangers, streams=_frame(srows, shape, "stream"),
