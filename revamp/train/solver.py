@@ -320,10 +320,10 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         if np.all(failed | done | stalled):
             break
     converged = done & ~failed
-    if not rated_all or (ratings is not None and np.size(ratings[plan.tags[0]].duty) != plan.ncase):
-        ratings = _rate_all(plan, x, np.arange(plan.ncase))  # every case at its solved inlets, one call each
-    else:
+    if rated_all:  # the last pass rated every case: its base block is the rating at the solved inlets
         ratings = _strip_probes(ratings, plan.ncase)
+    else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger
+        ratings = _rate_all(plan, x, np.arange(plan.ncase))
     return _result(plan, x, ratings, converged, failed, residual, iterations, tol)
 
 
