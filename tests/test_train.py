@@ -320,3 +320,14 @@ def test_max_throughput_stops_at_the_binding_limit():
     tp2 = tight.max_throughput("crude", points=21)
     assert tp2.binding == ("E-101 dp_tube",) and 1.0 < tp2.factor < tp.factor
     assert tp2.result.exchangers.loc["E-101", "dp_tube"] <= 1.05 * dp_today
+
+
+def test_compare_train_throughput_is_on_todays_flow():
+    tr = interlinked(CRUDE_C, RESID_C, KERO_C, furnace=Furnace("crude", "360 degC", 0.85, "40 MW"))
+    s = rv.compare_train(tr, {"clean E-101": {"E-101": op.Clean()}}, revamp=1.2, throughput=True, points=11)
+    own = tr.max_throughput(points=11)
+    assert s.table.loc["base", "max_throughput"] == pytest.approx(own.factor, rel=1e-12)
+    cleaned = tr.apply({"E-101": op.Clean()}).max_throughput(points=11)
+    assert s.table.loc["clean E-101", "max_throughput"] == pytest.approx(cleaned.factor, rel=1e-12)
+    # more heat recovered before the furnace: its duty limit is reached at a larger flow (physics, no source needed)
+    assert cleaned.factor > own.factor and cleaned.binding == ("furnace duty",)
