@@ -209,6 +209,10 @@ def test_split_point_and_rundown():
     final = res.final_temperatures["resid"]
     assert final > 150 + C2K
     assert res.streams.loc["resid", "trim_duty"] == pytest.approx(30 * 2600.0 * (final - 150 - C2K), rel=1e-9)
+    # the crude's pressure drop: in series, added; across the branches, the larger one (the other branch is
+    # throttled to match: common practice, no source)
+    dp = ex.loc["E-101", "dp_tube"] + max(ex.loc["E-103A", "dp_tube"], ex.loc["E-103B", "dp_tube"])
+    assert res.streams.loc["crude", "dp"] == pytest.approx(dp, rel=1e-12)
     ok = {c.name: c.ok for c in res.limits}
     assert ok["desalter temperature"] == (60 + C2K <= res.points.loc["desalter", "temperature"] <= 150 + C2K)
 
@@ -331,3 +335,18 @@ def test_compare_train_throughput_is_on_todays_flow():
     assert s.table.loc["clean E-101", "max_throughput"] == pytest.approx(cleaned.factor, rel=1e-12)
     # more heat recovered before the furnace: its duty limit is reached at a larger flow (physics, no source needed)
     assert cleaned.factor > own.factor and cleaned.binding == ("furnace duty",)
+
+
+def test_bypass_branch_mixes_back_at_the_inlet_temperature():
+    tr = Train(streams={"crude": rv.Stream(CRUDE_C, "60 kg/s", "35 degC"),
+                        "kero": rv.Stream(KERO_C, "38 kg/s", "190 degC")},
+               exchangers={"E-101": Match(hx(), shell="kero", tube="crude")},
+               routes={"crude": [Split([["E-101"], []], [0.7, 0.3])], "kero": ["E-101"]})
+    res = tr.solve()
+    ex = res.exchangers
+    assert ex.loc["E-101", "flow_tube"] == pytest.approx(42.0)
+    # constant cp: the remix is the mass-weighted mean of the exchanger outlet and the bypassed crude (energy balance)
+    assert res.final_temperatures["crude"] == pytest.approx(0.7 * ex.loc["E-101", "t_out_tube"] + 0.3 * 308.15,
+                                                            abs=1e-9)
+    assert res.streams.loc["crude", "duty"] == pytest.approx(60 * 2300.0 * (res.final_temperatures["crude"] - 308.15),
+                                                             rel=1e-9)
