@@ -134,3 +134,20 @@ def test_a_side_without_stream_still_needs_its_flow(tmp_path):
     del doc["exchangers"][2]["shell_side"]["flow"]
     problems = unitfile.check(write(tmp_path, doc))
     assert [(p.path, p.message) for p in problems] == [("exchangers[2].shell_side.flow", "must be given")]
+
+
+def test_the_demo_unit_is_a_train():
+    from revamp.cli import demo_unit_path
+
+    unit = unitfile.load(demo_unit_path())
+    tr = unit.network
+    assert tr.routes["crude"][:2] == ("E-101", "E-102") and tr.routes["crude"][3:] == ("E-103", "E-104")
+    assert tr.furnace.stream == "crude"
+    res = tr.solve(tol=1e-3)
+    assert res.converged
+    # second law: the crude ends between its supply and the hottest hot-stream supply
+    assert 35 + 273.15 < res.furnace_inlet < 340 + 273.15
+    # each exchanger's crude inlet is the previous one's outlet (within the solve tolerance)
+    ex = res.exchangers
+    for a, b in (("E-101", "E-102"), ("E-102", "E-103"), ("E-103", "E-104")):
+        assert ex.loc[b, "t_in_tube"] == pytest.approx(ex.loc[a, "t_out_tube"], abs=2e-3)

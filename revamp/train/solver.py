@@ -292,9 +292,10 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     for iterations in range(1, max_iter + 1):
         idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
         xa = x[idx]
-        # Newton probes while the cases still move by more than √tol; the closing pass (quadratic convergence:
+        # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
+        # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
-        probe = _PROBE_K if np.max(residual[idx]) > np.sqrt(tol) else 0.0
+        probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
         ratings = _rate_all(plan, xa, idx, probe=probe)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
