@@ -350,3 +350,31 @@ def test_bypass_branch_mixes_back_at_the_inlet_temperature():
                                                             abs=1e-9)
     assert res.streams.loc["crude", "duty"] == pytest.approx(60 * 2300.0 * (res.final_temperatures["crude"] - 308.15),
                                                              rel=1e-9)
+
+
+def test_equal_pressure_drop_split():
+    def split_train(n_a, n_b, flow="60 kg/s"):
+        return Train(streams={"crude": rv.Stream(CRUDE_C, flow, "35 degC"),
+                              "kero": rv.Stream(KERO_C, "38 kg/s", "190 degC")},
+                     exchangers={"A": Match(hx(n_a), shell="kero", tube="crude"),
+                                 "B": Match(hx(n_b), shell="kero", tube="crude")},
+                     routes={"crude": [Split([["A"], ["B"]], "equal_dp")], "kero": ["A", "B"]})
+
+    # identical branches: half the flow each (symmetry)
+    res = split_train(400, 400).solve()
+    assert res.converged
+    assert res.exchangers.loc["A", "flow_tube"] == pytest.approx(30.0, rel=1e-6)
+    # different branches: the definition, equal pressure drops, with the flows balancing at the remix
+    for flow in ("60 kg/s", np.array([40.0, 80.0])):
+        res = split_train(300, 500, flow).solve()
+        ex = res.exchangers
+        assert np.all(res.converged)
+        dp_a, dp_b = (ex.xs(t, level="tag") if res.shape else ex.loc[[t]] for t in ("A", "B"))
+        assert np.allclose(dp_a["dp_tube"].to_numpy(), dp_b["dp_tube"].to_numpy(), rtol=1e-4)
+        total = dp_a["flow_tube"].to_numpy() + dp_b["flow_tube"].to_numpy()
+        assert np.allclose(total, np.broadcast_to(np.asarray(flow if not isinstance(flow, str) else 60.0), total.shape))
+        # the bigger bundle (more tubes, lower velocity) takes more of the flow
+        assert np.all(dp_b["flow_tube"].to_numpy() > dp_a["flow_tube"].to_numpy())
+    with pytest.raises(InputError) as info:
+        Split([["A"], []], "equal_dp")
+    assert info.value.field == "branches[1]"

@@ -41,6 +41,8 @@ _SIDES = ("shell", "tube")
 # Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
 _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
 _PROBE_K = 0.01  # inlet step of the finite differences for the Newton step [K]
+_SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at convergence [-]
+_DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
@@ -119,18 +121,25 @@ class _Plan:
         self.tags = list(train.exchangers)
         self.index = {t: i for i, t in enumerate(self.tags)}
         self.n = 4 * len(self.tags)
-        self.frac = {}
+        self.frac = {}  # (tag, side) -> share of its stream's flow, per case
+        self.split_frac = {}  # id(split) -> [share of each branch, per case]
+        self.equal_dp = []  # (stream, split) whose shares follow equal branch pressure drops
 
-        def walk(stream, items, f):
+        def walk(stream, items):
             for item in items:
                 if isinstance(item, str):
-                    self.frac[(item, train.exchangers[item].side_of(stream))] = f
+                    self.frac[(item, train.exchangers[item].side_of(stream))] = np.ones(self.ncase)
                 elif isinstance(item, Split):
-                    for br, fb in zip(item.branches, item.fractions):
-                        walk(stream, br, f * fb)
+                    shares = [np.full(self.ncase, fb) for fb in item.fractions]
+                    self.split_frac[id(item)] = shares
+                    if item.equal_dp:
+                        self.equal_dp.append((stream, item))
+                    for br, share in zip(item.branches, shares):
+                        for tag in br:  # branches hold exchanger tags only (no nested splits)
+                            self.frac[(tag, train.exchangers[tag].side_of(stream))] = share
 
         for s, route in train.routes.items():
-            walk(s, route, 1.0)
+            walk(s, route)
         self.flow = {s: self.flat(st.flow) for s, st in train.streams.items()}
         self.supply = {s: self.flat(st.t_in) for s, st in train.streams.items()}
         self.fouling = {(t, side): self.flat(getattr(m, f"fouling_{side}"))
@@ -161,7 +170,8 @@ class _Plan:
                     points[item.name] = node
                 else:  # Split
                     ends, weights, branch_dp = [], [], []
-                    for br, fb in zip(item.branches, item.fractions):
+                    shares = self.split_frac[id(item)]
+                    for br, fb in zip(item.branches, shares if idx is None else [f[idx] for f in shares]):
                         end, bdp = walk(stream, br, node, 0.0)
                         ends.append(end)
                         branch_dp.append(bdp)
@@ -193,8 +203,8 @@ def _rate_all(plan, x, idx, probe=0.0):
     for tag, m in train.exchangers.items():
         t_s = x[:, plan.port(tag, "shell")]
         t_t = x[:, plan.port(tag, "tube")]
-        f_s = plan.flow[m.shell][idx] * plan.frac[(tag, "shell")]
-        f_t = plan.flow[m.tube][idx] * plan.frac[(tag, "tube")]
+        f_s = plan.flow[m.shell][idx] * plan.frac[(tag, "shell")][idx]
+        f_t = plan.flow[m.tube][idx] * plan.frac[(tag, "tube")][idx]
         r_s, r_t = plan.fouling[(tag, "shell")][idx], plan.fouling[(tag, "tube")][idx]
         if probe:
             t_s = np.concatenate([t_s, t_s + probe, t_s])
@@ -265,6 +275,31 @@ def _linear_solve(plan, x, coefs, idx):
     return sol, bad | ~np.all(np.isfinite(sol), axis=1)
 
 
+def _update_equal_dp(plan, ratings, idx):
+    """New branch shares of the equal-pressure-drop splits from the branches' rated pressure drops; returns the
+    largest share change per case (0 without such splits). The shares converge to equal branch pressure drops
+    whatever the exponent; ``dp ~ flow^1.8`` only makes them converge faster."""
+    n = idx.size
+    change = np.zeros(n)
+    for stream, item in plan.equal_dp:
+        shares = plan.split_frac[id(item)]
+        dps = []
+        for branch in item.branches:
+            dp = 0.0
+            for tag in branch:
+                side = plan.train.exchangers[tag].side_of(stream)
+                dp = dp + np.asarray(getattr(ratings[tag], f"dp_{side}"), float)[:n]
+            dps.append(dp)
+        new = [f[idx] * np.power(dp, -1.0 / _DP_EXPONENT) for f, dp in zip(shares, dps)]
+        total = sum(new)
+        for f, v in zip(shares, new):
+            v = v / total
+            ok = np.isfinite(v)
+            change = np.maximum(change, np.where(ok, np.abs(v - f[idx]), 0.0))
+            f[idx] = np.where(ok, v, f[idx])  # the arrays are shared with plan.frac: the flows follow
+    return change
+
+
 def _initial(plan):
     x = np.empty((plan.ncase, plan.n))
     for tag, m in plan.train.exchangers.items():
@@ -308,7 +343,8 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
             # band edge between the probes): then the plain pass, which converges on its own
             far = np.max(np.abs(xn[:, inlets] - xa[:, inlets]), axis=1) > 3.0 * res + 1.0
             step = np.where((bad_n | far)[:, None], g, xn)
-        fin = ~bad & (res < tol)
+        fres = _update_equal_dp(plan, ratings, idx)
+        fin = ~bad & (res < tol) & (fres < _SHARE_TOL)
         x[idx] = np.where(bad[:, None], xa, np.where(fin[:, None], g, step))
         failed[idx] |= bad
         residual[idx] = res
