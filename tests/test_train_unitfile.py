@@ -151,3 +151,16 @@ def test_the_demo_unit_is_a_train():
     ex = res.exchangers
     for a, b in (("E-101", "E-102"), ("E-102", "E-103"), ("E-103", "E-104")):
         assert ex.loc[b, "t_in_tube"] == pytest.approx(ex.loc[a, "t_out_tube"], abs=2e-3)
+
+
+def test_equal_dp_split_in_the_file(tmp_path):
+    doc = unit_doc()
+    doc["network"]["routes"]["crude"] = [{"split": [["E-1"], ["E-2"]], "fractions": "equal_dp"}]
+    doc["network"]["routes"]["resid"] = ["E-2", "E-1"]
+    assert unitfile.check(write(tmp_path, doc)) == []
+    res = unitfile.load(write(tmp_path, doc)).network.solve()
+    # the definition: equal tube-side pressure drops in the two branches
+    assert res.exchangers.loc["E-1", "dp_tube"] == pytest.approx(res.exchangers.loc["E-2", "dp_tube"], rel=1e-4)
+    doc["network"]["routes"]["crude"] = [{"split": [["E-1"], ["E-2"]], "fractions": "by feel"}]
+    problems = unitfile.check(write(tmp_path, doc))
+    assert [p.path for p in problems] == ["network.routes.crude[0].fractions"]

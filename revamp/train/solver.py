@@ -404,7 +404,7 @@ def _reshape_rating(r, shape, ncase):
         changes[name] = float(v) if shape == () else v
     if shape == ():
         res = r.resistances
-        changes["resistances"] = pd.Series({k: float(res[k].iloc[0]) for k in res.columns}, name="resistance [m²K/W]")
+        changes["resistances"] = pd.Series(res.to_numpy(float)[0], index=list(res.columns), name="resistance [m²K/W]")
         svc = r.service
         changes["service"] = svc.replace(
             shell=svc.shell.replace(flow=float(svc.shell.flow[0]), t_in=float(svc.shell.t_in[0])),
