@@ -37,7 +37,7 @@ def run_train_page(job: dict) -> dict:
         today = net.solve(tol=PAGE_TOL)
         study = compare_train(net, options, economics=eco, revamp=unit.network_throughput, throughput=True,
                               tol=PAGE_TOL, points=points)
-        throughput = net.max_throughput(tol=PAGE_TOL, points=points)
+        throughput = study.throughput["base"]  # today's train, no option
         prov = report.provenance(job["unit_file"], None, parameters={"page": "train", "tol": PAGE_TOL})
         html = train_page(f"{unit.name} — preheat train", today, study, throughput, unit.network_throughput,
                           unit.economics.currency, prov)

@@ -209,6 +209,10 @@ def test_split_point_and_rundown():
     final = res.final_temperatures["resid"]
     assert final > 150 + C2K
     assert res.streams.loc["resid", "trim_duty"] == pytest.approx(30 * 2600.0 * (final - 150 - C2K), rel=1e-9)
+    # the crude's pressure drop: in series, added; across the branches, the larger one (the other branch is
+    # throttled to match: common practice, no source)
+    dp = ex.loc["E-101", "dp_tube"] + max(ex.loc["E-103A", "dp_tube"], ex.loc["E-103B", "dp_tube"])
+    assert res.streams.loc["crude", "dp"] == pytest.approx(dp, rel=1e-12)
     ok = {c.name: c.ok for c in res.limits}
     assert ok["desalter temperature"] == (60 + C2K <= res.points.loc["desalter", "temperature"] <= 150 + C2K)
 
@@ -320,3 +324,57 @@ def test_max_throughput_stops_at_the_binding_limit():
     tp2 = tight.max_throughput("crude", points=21)
     assert tp2.binding == ("E-101 dp_tube",) and 1.0 < tp2.factor < tp.factor
     assert tp2.result.exchangers.loc["E-101", "dp_tube"] <= 1.05 * dp_today
+
+
+def test_compare_train_throughput_is_on_todays_flow():
+    tr = interlinked(CRUDE_C, RESID_C, KERO_C, furnace=Furnace("crude", "360 degC", 0.85, "40 MW"))
+    s = rv.compare_train(tr, {"clean E-101": {"E-101": op.Clean()}}, revamp=1.2, throughput=True, points=11)
+    own = tr.max_throughput(points=11)
+    assert s.table.loc["base", "max_throughput"] == pytest.approx(own.factor, rel=1e-12)
+    cleaned = tr.apply({"E-101": op.Clean()}).max_throughput(points=11)
+    assert s.table.loc["clean E-101", "max_throughput"] == pytest.approx(cleaned.factor, rel=1e-12)
+    # more heat recovered before the furnace: its duty limit is reached at a larger flow (physics, no source needed)
+    assert cleaned.factor > own.factor and cleaned.binding == ("furnace duty",)
+
+
+def test_bypass_branch_mixes_back_at_the_inlet_temperature():
+    tr = Train(streams={"crude": rv.Stream(CRUDE_C, "60 kg/s", "35 degC"),
+                        "kero": rv.Stream(KERO_C, "38 kg/s", "190 degC")},
+               exchangers={"E-101": Match(hx(), shell="kero", tube="crude")},
+               routes={"crude": [Split([["E-101"], []], [0.7, 0.3])], "kero": ["E-101"]})
+    res = tr.solve()
+    ex = res.exchangers
+    assert ex.loc["E-101", "flow_tube"] == pytest.approx(42.0)
+    # constant cp: the remix is the mass-weighted mean of the exchanger outlet and the bypassed crude (energy balance)
+    assert res.final_temperatures["crude"] == pytest.approx(0.7 * ex.loc["E-101", "t_out_tube"] + 0.3 * 308.15,
+                                                            abs=1e-9)
+    assert res.streams.loc["crude", "duty"] == pytest.approx(60 * 2300.0 * (res.final_temperatures["crude"] - 308.15),
+                                                             rel=1e-9)
+
+
+def test_equal_pressure_drop_split():
+    def split_train(n_a, n_b, flow="60 kg/s"):
+        return Train(streams={"crude": rv.Stream(CRUDE_C, flow, "35 degC"),
+                              "kero": rv.Stream(KERO_C, "38 kg/s", "190 degC")},
+                     exchangers={"A": Match(hx(n_a), shell="kero", tube="crude"),
+                                 "B": Match(hx(n_b), shell="kero", tube="crude")},
+                     routes={"crude": [Split([["A"], ["B"]], "equal_dp")], "kero": ["A", "B"]})
+
+    # identical branches: half the flow each (symmetry)
+    res = split_train(400, 400).solve()
+    assert res.converged
+    assert res.exchangers.loc["A", "flow_tube"] == pytest.approx(30.0, rel=1e-6)
+    # different branches: the definition, equal pressure drops, with the flows balancing at the remix
+    for flow in ("60 kg/s", np.array([40.0, 80.0])):
+        res = split_train(300, 500, flow).solve()
+        ex = res.exchangers
+        assert np.all(res.converged)
+        dp_a, dp_b = (ex.xs(t, level="tag") if res.shape else ex.loc[[t]] for t in ("A", "B"))
+        assert np.allclose(dp_a["dp_tube"].to_numpy(), dp_b["dp_tube"].to_numpy(), rtol=1e-4)
+        total = dp_a["flow_tube"].to_numpy() + dp_b["flow_tube"].to_numpy()
+        assert np.allclose(total, np.broadcast_to(np.asarray(flow if not isinstance(flow, str) else 60.0), total.shape))
+        # the bigger bundle (more tubes, lower velocity) takes more of the flow
+        assert np.all(dp_b["flow_tube"].to_numpy() > dp_a["flow_tube"].to_numpy())
+    with pytest.raises(InputError) as info:
+        Split([["A"], []], "equal_dp")
+    assert info.value.field == "branches[1]"

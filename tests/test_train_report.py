@@ -62,3 +62,16 @@ def test_a_failed_train_page_is_reported_not_raised(tmp_path):
     assert result["status"] == "failed" and result["reason"]
     assert "failed" in index_section(result)
     assert index_section(None) == ""
+
+
+def test_batch_of_a_network_unit_links_its_train_page(tmp_path):
+    from revamp.batch import run_batch
+
+    doc = unit_doc()
+    doc["exchangers"] = doc["exchangers"][:2]  # the two exchangers of the network
+    result = run_batch(_unit(tmp_path, doc), tmp_path / "out", jobs=2, progress=False)
+    assert not result.failures, result.failures
+    index = result.index_path.read_text(encoding="utf-8")
+    assert f'href="{TRAIN_FILE}"' in index
+    page = (result.index_path.parent / TRAIN_FILE).read_text(encoding="utf-8")
+    assert 'id="train-today"' in page and "<svg" in page

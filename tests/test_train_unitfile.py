@@ -134,3 +134,33 @@ def test_a_side_without_stream_still_needs_its_flow(tmp_path):
     del doc["exchangers"][2]["shell_side"]["flow"]
     problems = unitfile.check(write(tmp_path, doc))
     assert [(p.path, p.message) for p in problems] == [("exchangers[2].shell_side.flow", "must be given")]
+
+
+def test_the_demo_unit_is_a_train():
+    from revamp.cli import demo_unit_path
+
+    unit = unitfile.load(demo_unit_path())
+    tr = unit.network
+    assert tr.routes["crude"][:2] == ("E-101", "E-102") and tr.routes["crude"][3:] == ("E-103", "E-104")
+    assert tr.furnace.stream == "crude"
+    res = tr.solve(tol=1e-3)
+    assert res.converged
+    # second law: the crude ends between its supply and the hottest hot-stream supply
+    assert 35 + 273.15 < res.furnace_inlet < 340 + 273.15
+    # each exchanger's crude inlet is the previous one's outlet (within the solve tolerance)
+    ex = res.exchangers
+    for a, b in (("E-101", "E-102"), ("E-102", "E-103"), ("E-103", "E-104")):
+        assert ex.loc[b, "t_in_tube"] == pytest.approx(ex.loc[a, "t_out_tube"], abs=2e-3)
+
+
+def test_equal_dp_split_in_the_file(tmp_path):
+    doc = unit_doc()
+    doc["network"]["routes"]["crude"] = [{"split": [["E-1"], ["E-2"]], "fractions": "equal_dp"}]
+    doc["network"]["routes"]["resid"] = ["E-2", "E-1"]
+    assert unitfile.check(write(tmp_path, doc)) == []
+    res = unitfile.load(write(tmp_path, doc)).network.solve()
+    # the definition: equal tube-side pressure drops in the two branches
+    assert res.exchangers.loc["E-1", "dp_tube"] == pytest.approx(res.exchangers.loc["E-2", "dp_tube"], rel=1e-4)
+    doc["network"]["routes"]["crude"] = [{"split": [["E-1"], ["E-2"]], "fractions": "by feel"}]
+    problems = unitfile.check(write(tmp_path, doc))
+    assert [p.path for p in problems] == ["network.routes.crude[0].fractions"]

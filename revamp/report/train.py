@@ -218,7 +218,7 @@ def _study_rows(study, currency=""):
     header = ["case", "furnace inlet", "fired duty", "fired duty saved", "limits failing", "capex", "value per year",
               "payback", "NPV"]
     if "max_throughput" in t.columns:
-        header += ["max throughput", "binding limit"]
+        header += ["max throughput (× today's flow)", "binding limit"]
     changes = study.duty_changes
     crow = [[label] + [f"{v / 1e3:+,.0f}" for v in changes.loc[label]] for label in changes.index if label != "base"]
     iso = study.isolated_gains

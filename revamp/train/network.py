@@ -158,12 +158,15 @@ class Split:
     ----------
     branches : sequence of sequences of str
         Exchanger tags of each branch, in flow order (an empty branch is a bypass).
-    fractions : sequence of float
-        Share of the stream's flow in each branch [-], > 0, summing to 1 (the flows balance at the remix).
+    fractions : sequence of float or "equal_dp"
+        Share of the stream's flow in each branch [-], > 0, summing to 1 (the flows balance at the remix); or
+        ``"equal_dp"``: the shares that give every branch the same pressure drop (found by the solve, per case;
+        no empty branch then).
     """
 
     branches: tuple
     fractions: tuple
+    equal_dp: bool = field(default=False, init=False)
 
     def __post_init__(self):
         branches = self.branches
@@ -179,15 +182,22 @@ class Split:
             clean.append(tuple(branch))
         object.__setattr__(self, "branches", tuple(clean))
         fr = self.fractions
+        if isinstance(fr, str) and fr == "equal_dp":
+            for i, branch in enumerate(clean):
+                if not branch:
+                    raise InputError(f"branches[{i}]", [], "exchanger tags (an equal-pressure-drop split has no "
+                                                          "empty branch: a bypass has no pressure drop)")
+            object.__setattr__(self, "equal_dp", True)
+            fr = [1.0 / len(clean)] * len(clean)
         if isinstance(fr, str) or not hasattr(fr, "__len__") or len(fr) != len(clean):
-            raise InputError("fractions", fr, f"one fraction per branch ({len(clean)})")
+            raise InputError("fractions", fr, f"one fraction per branch ({len(clean)}), or 'equal_dp'")
         values = []
         for i, f in enumerate(fr):
             v = to_si(f, "dimensionless", f"fractions[{i}]")
             if np.ndim(v) != 0:
                 raise InputError(f"fractions[{i}]", f, "one number")
             values.append(float(require(v, f"fractions[{i}]", gt=0, lt=1)))
-        if abs(sum(values) - 1.0) > 1e-9:
+        if abs(sum(values) - 1.0) > 1e-9 and not self.equal_dp:
             raise InputError("fractions", list(fr), f"fractions summing to 1 so that the flows balance at the remix "
                                                     f"(they sum to {sum(values):.6g})")
         object.__setattr__(self, "fractions", tuple(values))

@@ -40,7 +40,11 @@ __all__ = ["solve", "enthalpy_change"]
 _SIDES = ("shell", "tube")
 # Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
 _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
-_MEMORY = 3  # passes remembered by the Anderson acceleration
+_PROBE_K = 0.01  # inlet step of the finite differences for the Newton step [K]
+_SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at convergence [-]
+_DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
+_MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
+_STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
 
 def _clipped_props(fluid, T):
@@ -117,18 +121,25 @@ class _Plan:
         self.tags = list(train.exchangers)
         self.index = {t: i for i, t in enumerate(self.tags)}
         self.n = 4 * len(self.tags)
-        self.frac = {}
+        self.frac = {}  # (tag, side) -> share of its stream's flow, per case
+        self.split_frac = {}  # id(split) -> [share of each branch, per case]
+        self.equal_dp = []  # (stream, split) whose shares follow equal branch pressure drops
 
-        def walk(stream, items, f):
+        def walk(stream, items):
             for item in items:
                 if isinstance(item, str):
-                    self.frac[(item, train.exchangers[item].side_of(stream))] = f
+                    self.frac[(item, train.exchangers[item].side_of(stream))] = np.ones(self.ncase)
                 elif isinstance(item, Split):
-                    for br, fb in zip(item.branches, item.fractions):
-                        walk(stream, br, f * fb)
+                    shares = [np.full(self.ncase, fb) for fb in item.fractions]
+                    self.split_frac[id(item)] = shares
+                    if item.equal_dp:
+                        self.equal_dp.append((stream, item))
+                    for br, share in zip(item.branches, shares):
+                        for tag in br:  # branches hold exchanger tags only (no nested splits)
+                            self.frac[(tag, train.exchangers[tag].side_of(stream))] = share
 
         for s, route in train.routes.items():
-            walk(s, route, 1.0)
+            walk(s, route)
         self.flow = {s: self.flat(st.flow) for s, st in train.streams.items()}
         self.supply = {s: self.flat(st.t_in) for s, st in train.streams.items()}
         self.fouling = {(t, side): self.flat(getattr(m, f"fouling_{side}"))
@@ -140,7 +151,7 @@ class _Plan:
     def port(self, tag, side, out=False):
         return 4 * self.index[tag] + (2 if side == "tube" else 0) + (1 if out else 0)
 
-    def walk(self, x, on_exchanger=None):
+    def walk(self, x, on_exchanger=None, idx=None):
         """Follow every route: inlet equations ``(port, expr)``, point and final temperature expressions, and
         stream pressure-drop sums (through ``on_exchanger(tag, side) -> dp`` when given)."""
         train = self.train
@@ -159,7 +170,8 @@ class _Plan:
                     points[item.name] = node
                 else:  # Split
                     ends, weights, branch_dp = [], [], []
-                    for br, fb in zip(item.branches, item.fractions):
+                    shares = self.split_frac[id(item)]
+                    for br, fb in zip(item.branches, shares if idx is None else [f[idx] for f in shares]):
                         end, bdp = walk(stream, br, node, 0.0)
                         ends.append(end)
                         branch_dp.append(bdp)
@@ -169,53 +181,123 @@ class _Plan:
                     dp = dp + np.max(np.broadcast_arrays(*branch_dp), axis=0)
             return node, dp
 
+        def supply(s):
+            return self.supply[s] if idx is None else self.supply[s][idx]
+
         for s, route in train.routes.items():
-            finals[s], dps[s] = walk(s, route, _Expr({}, self.supply[s]), 0.0)
+            finals[s], dps[s] = walk(s, route, _Expr({}, supply(s)), 0.0)
         for s in train.streams:
             if s not in finals:  # a stream with no exchangers leaves at its supply temperature
-                finals[s], dps[s] = _Expr({}, self.supply[s]), 0.0
+                finals[s], dps[s] = _Expr({}, supply(s)), 0.0
         return links, points, finals, dps
 
 
-def _rate_all(plan, x):
+def _rate_all(plan, x, idx, probe=0.0):
+    """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
+
+    With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
+    [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step.
+    """
     train = plan.train
     ratings = {}
     for tag, m in train.exchangers.items():
         t_s = x[:, plan.port(tag, "shell")]
         t_t = x[:, plan.port(tag, "tube")]
+        f_s = plan.flow[m.shell][idx] * plan.frac[(tag, "shell")][idx]
+        f_t = plan.flow[m.tube][idx] * plan.frac[(tag, "tube")][idx]
+        r_s, r_t = plan.fouling[(tag, "shell")][idx], plan.fouling[(tag, "tube")][idx]
+        if probe:
+            t_s = np.concatenate([t_s, t_s + probe, t_s])
+            t_t = np.concatenate([t_t, t_t, t_t + probe])
+            f_s, f_t, r_s, r_t = (np.tile(v, 3) for v in (f_s, f_t, r_s, r_t))
         t_t = np.where(t_s == t_t, t_t + 1e-9, t_t)  # equal inlets: no duty either way; rate() needs a difference
-        svc = Service(
-            shell=Stream(train.streams[m.shell].fluid, plan.flow[m.shell] * plan.frac[(tag, "shell")], t_s),
-            tube=Stream(train.streams[m.tube].fluid, plan.flow[m.tube] * plan.frac[(tag, "tube")], t_t),
-            fouling_shell=plan.fouling[(tag, "shell")], fouling_tube=plan.fouling[(tag, "tube")])
+        svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
+                      tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
         ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
     return ratings
 
 
-def _linear_solve(plan, x, ratings):
-    """One linear solve of the network for the coefficients of ``ratings`` and the remix weights at ``x``."""
-    n, nc = plan.n, plan.ncase
+def _coefficients(ratings, x, plan, n, probe):
+    """Per exchanger, the outlets as a linear function of the inlets: ``(J, c)`` with ``out = J @ in + c``.
+
+    ``linear``: from the rating's effectiveness and capacity rates (exact for fixed properties); ``newton``: from
+    finite differences of the rated outlets (the properties' temperature dependence included), or None.
+    """
+    linear, newton = {}, {}
+    for tag, r in ratings.items():
+        eps, cs, ct = (np.asarray(v, float)[:n] for v in (r.effectiveness, r.C_shell, r.C_tube))
+        c_min = np.minimum(cs, ct)
+        a_s, a_t = eps * c_min / cs, eps * c_min / ct
+        zero = np.zeros(n)
+        linear[tag] = (((1.0 - a_s, a_s), (a_t, 1.0 - a_t)), (zero, zero))
+        if probe:
+            o_s, o_t = np.asarray(r.t_out_shell, float), np.asarray(r.t_out_tube, float)
+            j = ((( o_s[n:2 * n] - o_s[:n]) / probe, (o_s[2 * n:] - o_s[:n]) / probe),
+                 ((o_t[n:2 * n] - o_t[:n]) / probe, (o_t[2 * n:] - o_t[:n]) / probe))
+            xs, xt = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
+            c = (o_s[:n] - j[0][0] * xs - j[0][1] * xt, o_t[:n] - j[1][0] * xs - j[1][1] * xt)
+            newton[tag] = (j, c)
+    return linear, (newton or None)
+
+
+def _linear_solve(plan, x, coefs, idx):
+    """One linear solve of the network: exchanger outlets ``J @ inlets + c``, routes and remixes at ``x``."""
+    n, nc = plan.n, len(idx)
     A = np.zeros((nc, n, n))
     b = np.zeros((nc, n))
-    for tag, r in ratings.items():
-        c_min = np.minimum(r.C_shell, r.C_tube)
-        a = {"shell": r.effectiveness * c_min / r.C_shell, "tube": r.effectiveness * c_min / r.C_tube}
-        ps_in, pt_in = plan.port(tag, "shell"), plan.port(tag, "tube")
-        for side, own, other in (("shell", ps_in, pt_in), ("tube", pt_in, ps_in)):
+    for tag, (J, c) in coefs.items():
+        ins = (plan.port(tag, "shell"), plan.port(tag, "tube"))
+        for k, side in enumerate(_SIDES):
             row = plan.port(tag, side, out=True)
             A[:, row, row] = 1.0
-            A[:, row, own] = -(1.0 - a[side])
-            A[:, row, other] = -a[side]
-    links, _, _, _ = plan.walk(x)
+            A[:, row, ins[0]] -= J[k][0]
+            A[:, row, ins[1]] -= J[k][1]
+            b[:, row] += c[k]
+    links, _, _, _ = plan.walk(x, idx=idx)
     for port, expr in links:
         A[:, port, port] += 1.0
-        for idx, c in expr.coefs.items():
-            A[:, port, idx] -= c
+        for i, c in expr.coefs.items():
+            A[:, port, i] -= c
         b[:, port] += expr.const
     bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
     A[bad] = np.eye(n)
     b[bad] = np.nan
-    return np.linalg.solve(A, b[..., None])[..., 0], bad
+    with np.errstate(all="ignore"):
+        try:
+            sol = np.linalg.solve(A, b[..., None])[..., 0]
+        except np.linalg.LinAlgError:  # a singular case: solve one by one, NaN where singular
+            sol = np.full((nc, n), np.nan)
+            for i in range(nc):
+                try:
+                    sol[i] = np.linalg.solve(A[i], b[i])
+                except np.linalg.LinAlgError:
+                    pass
+    return sol, bad | ~np.all(np.isfinite(sol), axis=1)
+
+
+def _update_equal_dp(plan, ratings, idx):
+    """New branch shares of the equal-pressure-drop splits from the branches' rated pressure drops; returns the
+    largest share change per case (0 without such splits). The shares converge to equal branch pressure drops
+    whatever the exponent; ``dp ~ flow^1.8`` only makes them converge faster."""
+    n = idx.size
+    change = np.zeros(n)
+    for stream, item in plan.equal_dp:
+        shares = plan.split_frac[id(item)]
+        dps = []
+        for branch in item.branches:
+            dp = 0.0
+            for tag in branch:
+                side = plan.train.exchangers[tag].side_of(stream)
+                dp = dp + np.asarray(getattr(ratings[tag], f"dp_{side}"), float)[:n]
+            dps.append(dp)
+        new = [f[idx] * np.power(dp, -1.0 / _DP_EXPONENT) for f, dp in zip(shares, dps)]
+        total = sum(new)
+        for f, v in zip(shares, new):
+            v = v / total
+            ok = np.isfinite(v)
+            change = np.maximum(change, np.where(ok, np.abs(v - f[idx]), 0.0))
+            f[idx] = np.where(ok, v, f[idx])  # the arrays are shared with plan.frac: the flows follow
+    return change
 
 
 def _initial(plan):
@@ -228,23 +310,6 @@ def _initial(plan):
     return x
 
 
-def _anderson(xs, gs):
-    """Anderson (type II) extrapolation of the fixed point from the last passes, case by case.
-
-    Falls back to the plain pass ``gs[-1]`` for a case whose extrapolation is not finite or moves farther than the
-    plain pass would (a safeguard: the plain pass converges on its own, only more slowly).
-    """
-    f = [g - x for x, g in zip(xs, gs)]
-    dF = np.stack([f[i + 1] - f[i] for i in range(len(f) - 1)], axis=-1)  # (ncase, n, m)
-    dG = np.stack([gs[i + 1] - gs[i] for i in range(len(gs) - 1)], axis=-1)
-    gamma = np.einsum("cmn,cn->cm", np.linalg.pinv(dF, rcond=1e-10), f[-1])
-    x_acc = gs[-1] - np.einsum("cnm,cm->cn", dG, gamma)
-    plain_step = np.max(np.abs(f[-1]), axis=1)
-    step = np.max(np.abs(x_acc - xs[-1]), axis=1)
-    ok = np.all(np.isfinite(x_acc), axis=1) & (step <= 10.0 * plain_step + 1e-12)
-    return np.where(ok[:, None], x_acc, gs[-1])
-
-
 def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     """Solve a :class:`~revamp.train.Train` (see the module docstring for the method)."""
     if not (np.ndim(tol) == 0 and float(tol) > 0):
@@ -255,23 +320,77 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     x = _initial(plan)
     inlets = np.array([plan.port(t, s) for t in plan.tags for s in _SIDES])
     failed = np.zeros(plan.ncase, dtype=bool)
+    done = np.zeros(plan.ncase, dtype=bool)
     residual = np.full(plan.ncase, np.inf)
-    iterations = 0
-    xs, gs = [], []  # history for Anderson acceleration (in-port temperatures before and after a pass)
+    stalled = np.zeros(plan.ncase, dtype=bool)
+    iterations, ratings, rated_all, history = 0, None, False, []
     for iterations in range(1, max_iter + 1):
-        ratings = _rate_all(plan, x)
-        g, bad = _linear_solve(plan, x, ratings)
-        failed |= bad | ~np.all(np.isfinite(g), axis=1)
-        residual = np.where(failed, np.nan, np.max(np.abs(g[:, inlets] - x[:, inlets]), axis=1))
-        if np.all(failed | (residual < tol)):
-            x = np.where(failed[:, None], x, g)
+        idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
+        xa = x[idx]
+        # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
+        # cases still move by more than √tol; the closing pass (quadratic convergence:
+        # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
+        probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
+        ratings = _rate_all(plan, xa, idx, probe=probe)
+        rated_all = idx.size == plan.ncase
+        linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
+        g, bad = _linear_solve(plan, xa, linear, idx)
+        res = np.where(bad, np.nan, np.max(np.abs(g[:, inlets] - xa[:, inlets]), axis=1))
+        step = g
+        if newton is not None:
+            xn, bad_n = _linear_solve(plan, xa, newton, idx)
+            # the Newton step, unless it is not finite or jumps much farther than the plain pass (a correlation's
+            # band edge between the probes): then the plain pass, which converges on its own
+            far = np.max(np.abs(xn[:, inlets] - xa[:, inlets]), axis=1) > 3.0 * res + 1.0
+            step = np.where((bad_n | far)[:, None], g, xn)
+        fres = _update_equal_dp(plan, ratings, idx)
+        fin = ~bad & (res < tol) & (fres < _SHARE_TOL)
+        x[idx] = np.where(bad[:, None], xa, np.where(fin[:, None], g, step))
+        failed[idx] |= bad
+        residual[idx] = res
+        history.append((idx, res))
+        done[idx] |= fin
+        # a case whose change no longer shrinks (a correlation that jumps at a band edge between two passes: no
+        # exact solution) stops being rated; it stays flagged as not converged, with its last change
+        if len(history) > _STALL_PASSES:
+            old_idx, old_res = history[-1 - _STALL_PASSES]
+            before = np.full(plan.ncase, np.inf)
+            before[old_idx] = old_res
+            stalled[idx] |= ~fin & ~bad & (iterations >= _MIN_PASSES) & (res > 0.5 * before[idx])
+        if np.all(failed | done | stalled):
             break
-        xs, gs = (xs + [x])[-(_MEMORY + 1):], (gs + [g])[-(_MEMORY + 1):]
-        x_next = _anderson(xs, gs) if len(xs) > 1 else g
-        # failed cases keep finite guesses so that the rest of the sweep can still be rated
-        x = np.where(failed[:, None], x, x_next)
-    converged = ~failed & (residual < tol)
+    converged = done & ~failed
+    if rated_all:  # the last pass rated every case: its base block is the rating at the solved inlets
+        ratings = _strip_probes(ratings, plan.ncase)
+    else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger
+        ratings = _rate_all(plan, x, np.arange(plan.ncase))
     return _result(plan, x, ratings, converged, failed, residual, iterations, tol)
+
+
+def _strip_probes(ratings, n):
+    """The base block of ratings made with probes (the first ``n`` cases)."""
+    out = {}
+    for tag, r in ratings.items():
+        if np.size(r.duty) == n:
+            out[tag] = r
+            continue
+        from ..rating import _SCALAR_FIELDS
+
+        changes = {name: np.asarray(getattr(r, name))[:n] for name in _SCALAR_FIELDS}
+        changes["resistances"] = r.resistances.iloc[:n].reset_index(drop=True)
+        for name in ("tube_side", "shell_side"):  # the correlation details: their per-case arrays cut the same way
+            detail = getattr(r, name)
+            if dataclasses.is_dataclass(detail):
+                cut = {f.name: getattr(detail, f.name)[:n] for f in dataclasses.fields(detail)
+                       if isinstance(getattr(detail, f.name), np.ndarray) and getattr(detail, f.name).shape[:1] == (3 * n,)}
+                changes[name] = dataclasses.replace(detail, **cut)
+        svc = r.service
+        changes["service"] = Service(
+            shell=svc.shell.replace(flow=np.asarray(svc.shell.flow)[:n], t_in=np.asarray(svc.shell.t_in)[:n]),
+            tube=svc.tube.replace(flow=np.asarray(svc.tube.flow)[:n], t_in=np.asarray(svc.tube.t_in)[:n]),
+            fouling_shell=np.asarray(svc.fouling_shell)[:n], fouling_tube=np.asarray(svc.fouling_tube)[:n])
+        out[tag] = dataclasses.replace(r, **changes)
+    return out
 
 
 # ------------------------------------------------------------------------------------------------------ the result
@@ -285,7 +404,7 @@ def _reshape_rating(r, shape, ncase):
         changes[name] = float(v) if shape == () else v
     if shape == ():
         res = r.resistances
-        changes["resistances"] = pd.Series({k: float(res[k].iloc[0]) for k in res.columns}, name="resistance [m²K/W]")
+        changes["resistances"] = pd.Series(res.to_numpy(float)[0], index=list(res.columns), name="resistance [m²K/W]")
         svc = r.service
         changes["service"] = svc.replace(
             shell=svc.shell.replace(flow=float(svc.shell.flow[0]), t_in=float(svc.shell.t_in[0])),
@@ -409,7 +528,9 @@ def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
     not_conv = ~converged & ~failed
     if np.any(not_conv):
         warnings.insert(0, f"train: {int(np.sum(not_conv))} case(s) did not converge in {iterations} iterations "
-                           f"(largest inlet change {np.nanmax(residual[not_conv]):.3g} K > {tol:g} K): see converged")
+                           f"(largest inlet change {np.nanmax(residual[not_conv]):.3g} K > {tol:g} K; where a "
+                           "rating reports a correlation changing form near its flow, the train has no exact "
+                           "solution there): see converged and residual")
     violated = [c.name for c in limits if not np.all(c.ok)]
     return TrainResult(
         train=train, shape=shape, exchangers=exchangers, streams=_frame(srows, shape, "stream"),

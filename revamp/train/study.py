@@ -165,7 +165,7 @@ class TrainStudy:
         Index ``base`` and the labels. Columns: ``furnace_inlet`` [K], ``furnace_duty`` (fired) [W],
         ``furnace_duty_saved`` [W], ``duty <tag>`` per exchanger [W], ``dp <stream>`` per stream [Pa],
         ``limits`` (the failing limits, or "ok"), ``converged``, ``capex``, ``annual_value`` (fired duty saved ×
-        operating time × fuel price), ``payback`` [years], ``npv``; ``max_throughput`` and ``binding`` when asked.
+        operating time × fuel price), ``payback`` [years], ``npv``; ``max_throughput`` (factor on today's flow) and ``binding`` when asked.
     duty_changes : DataFrame
         Label × exchanger: change of each exchanger's duty from the base [W] (where a gain upstream is lost
         downstream).
@@ -203,7 +203,8 @@ def compare_train(train: Train, options: dict, economics=None, revamp=None, thro
     revamp : None, float or Train
         The conditions compared at: today's (None), a throughput factor on every stream's flow (``1.2``), or a Train.
     throughput : bool
-        Also find each case's :func:`max_throughput` (keyword arguments passed on).
+        Also find each case's :func:`max_throughput`: the largest factor on today's flow of the stream (the train
+        given, with the case's options), keyword arguments passed on.
     tol : float
         Solve tolerance [K].
 
@@ -265,8 +266,9 @@ def compare_train(train: Train, options: dict, economics=None, revamp=None, thro
             row["payback"] = float(simple_payback(row["capex"], row["annual_value"]))
             row["npv"] = (project_npv(row["capex"], row["annual_value"], eco.discount_rate, eco.horizon)
                           if eco.discount_rate is not None else math.nan)
-        if throughput:
-            tp[label] = max_throughput(cases[label], **throughput_kw)
+        if throughput:  # on today's flows (the train given), whatever the revamp conditions compared at
+            today = train if label == "base" else train.apply(options[label])
+            tp[label] = max_throughput(today, tol=tol, **throughput_kw)
             row["max_throughput"] = tp[label].factor
             row["binding"] = ", ".join(tp[label].binding) or "none in range"
         rows[label] = row

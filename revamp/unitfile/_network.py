@@ -122,7 +122,14 @@ def network_rules(doc: dict, si: dict) -> list[Problem]:
                     points.setdefault(item["point"], _path(here + [i]))
                 else:
                     branches, fr = item.get("split"), item.get("fractions")
-                    if not isinstance(fr, list):
+                    if isinstance(fr, str):
+                        if fr != "equal_dp":
+                            out.append(Problem(_path(here + [i, "fractions"]), fr,
+                                               "must be a list of shares, one per branch, or 'equal_dp'"))
+                        elif isinstance(branches, list) and any(b == [] for b in branches):
+                            out.append(Problem(_path(here + [i, "split"]), "(an empty branch)",
+                                               "must have exchangers in every branch of an 'equal_dp' split"))
+                    elif not isinstance(fr, list):
                         out.append(Problem(_path(here + [i, "fractions"]), "(missing)",
                                            "must be given: the share of the flow in each branch"))
                     elif isinstance(branches, list) and len(fr) != len(branches):
