@@ -93,7 +93,7 @@ def copy_notebooks(dest: Path, names=None) -> list:
 def open_and_run(page, base: str, token: str, name: str, timeout_s: float = 600):
     """Open a notebook in JupyterLab, run all cells (Run menu), wait until every cell has run; then save it."""
     page.goto(f"{base}/lab/tree/{name}?token={token}")
-    page.wait_for_selector(".jp-Notebook .jp-Cell", timeout=120_000)
+    page.wait_for_selector(".jp-Notebook .jp-Cell", state="attached", timeout=120_000)
     # the kernel is ready when the status bar says so
     page.wait_for_function("() => [...document.querySelectorAll('.jp-StatusBar-TextItem')]"
                            ".some(e => /Idle/.test(e.textContent))", timeout=120_000, polling=250)
