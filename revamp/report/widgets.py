@@ -327,10 +327,13 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03):
             return
         table.value = what_if_table_html(case, pts, system, conv)
         labels, ys, _ = _breakdown_traces(pts, system)
-        if live is not None:
+        if live is not None:  # one update message; x only when the cases changed (less for plotly.js to redo)
+            same_x = list(live.data[0].x) == labels
             with live.batch_update():
                 for tr in live.data:
-                    tr.x, tr.y = labels, ys[tr.name]
+                    if not same_x:
+                        tr.x = labels
+                    tr.y = ys[tr.name]
         else:  # no anywidget: redraw the figure in an output of fixed height (the page does not jump)
             for tr in fig.data:
                 tr.x, tr.y = labels, ys[tr.name]
