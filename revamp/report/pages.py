@@ -321,3 +321,17 @@ def show(obj, interactive: bool = False, units: str = "SI"):
         display(HTML(_notes_html(obj)))
     else:
         display(HTML(f"<p>{esc(obj)}</p>"))
+
+
+def defaults_html(exchanger) -> str:
+    """What the rating assumed that the user did not give: every TEMA (or common-practice) default applied to the
+    geometry, and for a U-tube bundle what ``tube_count`` counts."""
+    used = list(getattr(exchanger, "defaults_used", ()) or ())
+    items = "".join(f"<li>{esc(d)}</li>" for d in used)
+    parts = ['<section class="rv-defaults"><h3>Defaults the rating applied</h3>']
+    parts.append(f"<ul>{items}</ul>" if used else "<p>None: every geometric input was given.</p>")
+    if getattr(exchanger, "rear_head", None) == "u-tube":
+        parts.append("<p class='rv-note'>U-tube bundle: the tube count is the number of holes in the tubesheet, so "
+                     "each U-tube counts once per leg (a bundle of N U-tubes has a tube count of 2N).</p>")
+    parts.append("</section>")
+    return "".join(parts)
