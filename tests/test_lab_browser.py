@@ -107,7 +107,8 @@ def test_static_report_tables_fit_the_page_and_colours_are_valid(report_page):  
             page.wait_for_timeout(1000)
             # every table's box ends inside the page body (no table wider than the page)
             widths = page.evaluate("""() => { const b = document.body.getBoundingClientRect();
-                return [...document.querySelectorAll('table')].map(t => [t.getBoundingClientRect().right, b.right]); }""")
+                const right = b.right - parseFloat(getComputedStyle(document.body).paddingRight);
+                return [...document.querySelectorAll('table')].map(t => [t.getBoundingClientRect().right, right]); }""")
             text = page.inner_text("body")
         finally:
             browser.close()
