@@ -45,3 +45,16 @@ def test_table_flags_pressure_drop_over_the_allowed(case):
     # the allowed tube drop here is 1 kPa, below any of these cases' drops: each case is flagged
     assert html.count("over: tube ΔP") == len(pts)
     assert "duty [MW]" in html and "True" not in html and "nan" not in html
+
+
+def test_idle_prefetch_makes_the_neighbours_ready(case):
+    fo = np.round(np.arange(0.0, 6.01e-4, 1e-4), 9)
+    engine = WhatIf(case, np.round(np.arange(0.8, 1.21, 0.1), 9), fo, fo)
+    engine.cases(1.0, 2e-4, 3e-4, 4.0, None)
+    while engine.prefetch_one(1.0, 2e-4, 3e-4, 4.0, None):
+        pass
+    done = engine.ratings_run
+    for along, fs, ft, tp in (("fouling_tube", 2e-4, 4e-4, 1.0), ("fouling_shell", 1e-4, 3e-4, 1.0),
+                              ("throughput", 2e-4, 3e-4, 1.1)):
+        engine.cases(tp, fs, ft, 4.0, None, along=along)
+    assert engine.ratings_run == done  # one step on any slider: already rated
