@@ -195,11 +195,13 @@ def _limits_row(case, points: dict, system: str) -> list:
     for pt in points.values():
         over = []
         for side in ("shell", "tube"):
-            allowed = float(limits.get(f"dp_{side}", DEFAULT_DP_LIQUID))
+            given = f"dp_{side}" in limits
+            allowed = float(limits[f"dp_{side}"]) if given else DEFAULT_DP_LIQUID
             dp = getattr(pt, f"dp_{side}")
             if dp > allowed:
                 (a, unit), b = from_si(allowed, "pressure", system), from_si(dp, "pressure", system)[0]
-                over.append(f"{side} ΔP {format_value(b)} > {format_value(a)} {unit} allowed")
+                over.append(f"{side} ΔP {format_value(b)} > {format_value(a)} {unit} allowed"
+                            + ("" if given else " (screening default)"))
         cells.append("over: " + "; ".join(over) if over else "within allowed ΔP")
     return cells
 
@@ -298,6 +300,7 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03, idle: float
     f_s, f_t = float(case.service.fouling_shell), float(case.service.fouling_tube)
     top = max(10e-4, 3 * max(f_s, f_t))
     foulings = np.round(np.arange(0.0, top + _FOULING_STEP / 2, _FOULING_STEP), 9)
+    foulings = np.unique(np.round(np.concatenate([foulings, [f_s, f_t]]), 12))  # the file's own values exactly
     throughputs = np.round(np.arange(0.6, 1.6 + 1e-9, 0.05), 9)
     engine = WhatIf(case, throughputs, foulings, foulings)
     f_factor, f_unit = from_si(1.0, "fouling", system)
