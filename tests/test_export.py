@@ -164,3 +164,14 @@ def test_plant_data_findings_in_us_units():
     assert list(f.index) == ["fouling resistance now (outside area) [h·ft²·°F/Btu]", "t [°F]"]
     assert f.iloc[0, 0] == pytest.approx(0.000352 * 5.678263, rel=1e-6)
     assert f.iloc[1, 0] == pytest.approx(212.0)
+
+
+def test_defaults_the_rating_applied_are_shown():
+    from revamp.report.pages import defaults_html
+
+    html = defaults_html(EX)
+    # every default the geometry states it applied (ShellAndTube.defaults_used) is listed, escaped
+    assert EX.defaults_used and all(labels.format_value(d) and d.split(" ")[0] in html for d in EX.defaults_used)
+    assert "U-tube" not in html
+    u = EX.replace(rear_head="u-tube")
+    assert "once per leg" in defaults_html(u)

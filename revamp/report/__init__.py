@@ -28,6 +28,7 @@ from .pages import (
                    PACKAGES,
                    cautions_html,
                    copy_plotly_js,
+                   defaults_html,
                    esc,
                    figure_html,
                    frame_html,
@@ -54,8 +55,8 @@ from .widgets import (
 
 __all__ = [
     "CAUTIONS", "PACKAGES", "RATING_COLUMNS", "breakdown_figure", "case_header_html", "cautions_html", "cycle_text",
-    "copy_plotly_js", "esc", "figure_html", "frame_html", "polish_figure", "file_sha256", "monitoring_items",
-    "notes_legend", "option_breakdown_figure", "page",
+    "copy_plotly_js", "defaults_html", "esc", "figure_html", "frame_html", "polish_figure", "file_sha256",
+    "monitoring_items", "notes_legend", "option_breakdown_figure", "page",
     "plot_text", "plotly_js_source", "primer_sweep", "primer_table", "primer_widget", "provenance",
     "provenance_html", "rating_items", "ratings_table", "recommendation_html", "rf_figure", "run_case", "safe_name", "show",
     "study_items", "study_money_table", "study_table", "summary", "table_html", "unit_figure", "unit_table",

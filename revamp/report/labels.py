@@ -52,6 +52,7 @@ NAMES = {
     "Rf at end of run": "fouling resistance at end of run", "duty at end of run": "duty at end of run",
     "energy lost to fouling to date": "energy lost to fouling to date", "model (lowest AIC)": "fouling model (lowest AIC)",
     "dp shell": "shell pressure drop", "dp tube": "tube pressure drop",
+    "dp shell / allowed": "shell pressure drop / allowed", "dp tube / allowed": "tube pressure drop / allowed",
 }
 
 #: one spelling per unit (left: spellings met in tables and inputs; right: the one shown)

@@ -221,8 +221,9 @@ table.dataframe td{text-align:right}table.dataframe th{text-align:left}
 .rv-cautions{background:#fff7e0;border-left:4px solid #d90;padding:.4rem 1rem;margin:1rem 0}
 .rv-provenance{font-size:.8rem;color:#444}.rv-status-ok{color:#161}.rv-status-failed{color:#a11;font-weight:600}
 .jp-InputPrompt,.jp-OutputPrompt,.prompt{display:none}pre{white-space:pre-wrap}
-table.rv-table{max-width:100%}table.rv-table thead th{max-width:7.5em;white-space:normal;overflow-wrap:break-word;
-font-weight:600;vertical-align:bottom}table.rv-table td{overflow-wrap:break-word}
+table.rv-table thead th{white-space:normal;font-weight:600;vertical-align:bottom}
+table.rv-wide{table-layout:fixed;width:100%;font-size:.8rem}table.rv-wide th,table.rv-wide td{overflow-wrap:anywhere;
+padding:.2rem .3rem}
 .rv-scroll{max-width:100%;overflow-x:auto}.rv-note{color:#555;font-size:.85rem}
 @media print{.plotly-graph-div{page-break-inside:avoid}}
 """
@@ -254,6 +255,8 @@ def frame_html(df, cls: str = "rv-table", digits: int = 3, system: str = "SI") -
     from .labels import display_frame, format_value
 
     shown = display_frame(df, system=system)
+    if len(shown.columns) > 6:  # many columns: a fixed layout across the page, cells wrap (it must fit a page)
+        cls = f"{cls} rv-wide"
     out = [f'<div class="rv-scroll"><table class="{esc(cls)}"><thead><tr><th>{esc(shown.index.name or "")}</th>']
     out += [f"<th>{esc(c)}</th>" for c in shown.columns]
     out.append("</tr></thead><tbody>")
@@ -297,10 +300,29 @@ def polish_figure(fig, system: str = "SI"):
     return fig
 
 
-def _notes_html(text: str) -> str:
-    """A sentence-list string ("Notes ...: a; b; c") as a heading line and a bulleted list."""
+_KELVIN = re.compile(r"(?<![\w.])(\d{3,4}(?:\.\d+)?) K\b")
+
+
+def temperatures_in(text: str, system: str = "SI") -> str:
+    """Absolute temperatures written in kelvin in a note (200 K and above: no temperature difference in a note is
+    that large) rewritten in °C, or °F for US units.
+
+    >>> temperatures_in("T = 400.15 K above the range; ΔT 5 K")
+    'T = 127 °C above the range; ΔT 5 K'
+    """
+    def repl(m):
+        k = float(m.group(1))
+        if k < 200.0:
+            return m.group(0)
+        return f"{k - 273.15:.0f} °C" if system != "US" else f"{(k - 273.15) * 1.8 + 32:.0f} °F"
+
+    return _KELVIN.sub(repl, text)
+
+
+def _notes_html(text: str, system: str = "SI") -> str:
+    """A sentence-list string ("Notes ...: a; b; c") as a heading line and a bulleted list, temperatures in °C/°F."""
     head, _, rest = text.partition(": ")
-    items = [s.strip() for s in rest.split("; ") if s.strip()]
+    items = [temperatures_in(s.strip(), system) for s in rest.split("; ") if s.strip()]
     return f"<p>{esc(head)}:</p><ul>" + "".join(f"<li>{esc(i)}</li>" for i in items) + "</ul>"
 
 
@@ -318,6 +340,20 @@ def show(obj, interactive: bool = False, units: str = "SI"):
     elif hasattr(obj, "to_html"):
         display(HTML(frame_html(obj, system=units)))
     elif isinstance(obj, str) and obj.startswith("Notes from the analysis: ") and "; " in obj:
-        display(HTML(_notes_html(obj)))
+        display(HTML(_notes_html(obj, units)))
     else:
         display(HTML(f"<p>{esc(obj)}</p>"))
+
+
+def defaults_html(exchanger) -> str:
+    """What the rating assumed that the user did not give: every TEMA (or common-practice) default applied to the
+    geometry, and for a U-tube bundle what ``tube_count`` counts."""
+    used = list(getattr(exchanger, "defaults_used", ()) or ())
+    items = "".join(f"<li>{esc(d)}</li>" for d in used)
+    parts = ['<section class="rv-defaults"><h3>Defaults the rating applied</h3>']
+    parts.append(f"<ul>{items}</ul>" if used else "<p>None: every geometric input was given.</p>")
+    if getattr(exchanger, "rear_head", None) == "u-tube":
+        parts.append("<p class='rv-note'>U-tube bundle: the tube count is the number of holes in the tubesheet, so "
+                     "each U-tube counts once per leg (a bundle of N U-tubes has a tube count of 2N).</p>")
+    parts.append("</section>")
+    return "".join(parts)

@@ -3,6 +3,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+import numpy as np
+
 from .case import breakdown_figure, ratings_table
 from .pages import esc
 
@@ -150,6 +152,27 @@ class WhatIf:
                 self._rate(kind, throughput, fs, ft, twist_ratio, shells, None)
         return self._cache[key]
 
+    def prefetch_one(self, throughput, fs, ft, twist_ratio=4.0, shells=None) -> bool:
+        """Rate one slider range not yet cached at these settings (the neighbours of the current position on each
+        slider); False when there is nothing left to rate. Called when the controls are idle."""
+        n = int(shells or self.case.exchanger.shells)
+        kinds = ["as is", "tape"] + (["shells"] if n != self.case.exchanger.shells else [])
+        at = {"throughput": throughput, "fouling_shell": fs, "fouling_tube": ft}
+        for along, grid in self.grid.items():
+            i = int(np.argmin(np.abs(grid - at[along])))
+            for j in (i + 1, i - 1):
+                if not 0 <= j < len(grid):
+                    continue
+                moved = dict(at, **{along: float(grid[j])})
+                for kind in kinds:
+                    key = self._cache_key(kind, moved["throughput"], moved["fouling_shell"], moved["fouling_tube"],
+                                          twist_ratio, n)
+                    if key not in self._cache:
+                        self.point(kind, moved["throughput"], moved["fouling_shell"], moved["fouling_tube"],
+                                   twist_ratio, n, along=along)
+                        return True
+        return False
+
     def cases(self, throughput, fs, ft, twist_ratio=4.0, shells=None, along="throughput") -> dict:
         """``{label: WhatIfPoint}``: as is, with twisted tapes, and with ``shells`` in series when it differs."""
         ex = self.case.exchanger
@@ -172,11 +195,13 @@ def _limits_row(case, points: dict, system: str) -> list:
     for pt in points.values():
         over = []
         for side in ("shell", "tube"):
-            allowed = float(limits.get(f"dp_{side}", DEFAULT_DP_LIQUID))
+            given = f"dp_{side}" in limits
+            allowed = float(limits[f"dp_{side}"]) if given else DEFAULT_DP_LIQUID
             dp = getattr(pt, f"dp_{side}")
             if dp > allowed:
                 (a, unit), b = from_si(allowed, "pressure", system), from_si(dp, "pressure", system)[0]
-                over.append(f"{side} ΔP {format_value(b)} > {format_value(a)} {unit} allowed")
+                over.append(f"{side} ΔP {format_value(b)} > {format_value(a)} {unit} allowed"
+                            + ("" if given else " (screening default)"))
         cells.append("over: " + "; ".join(over) if over else "within allowed ΔP")
     return cells
 
@@ -250,11 +275,13 @@ def _figure_widget(fig):
         return None
 
 
-def what_if_widget(case, system: str = "SI", debounce: float = 0.03):
+def what_if_widget(case, system: str = "SI", debounce: float = 0.03, idle: float = 1.0):
     """Controls (throughput, fouling on each side, twist ratio, shells) that re-rate and update the table and the
     chart in place.
 
-    Moves closer together than ``debounce`` [s] are rated once, at the last position. The fouling sliders are on
+    Moves closer together than ``debounce`` [s] are rated once, at the last position. After ``idle`` [s] without a
+    move, the slider ranges next to the current position are rated in the background (one vectorized call per idle
+    tick, so a move waits at most for one such call), so that switching sliders finds them ready. The fouling sliders are on
     each side's own surface (tube fouling on the inside area, as a unit file gives it); the chart beside them refers
     every resistance to the outside area, so the tube fouling there is the slider's value × do/di.
     """
@@ -273,6 +300,7 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03):
     f_s, f_t = float(case.service.fouling_shell), float(case.service.fouling_tube)
     top = max(10e-4, 3 * max(f_s, f_t))
     foulings = np.round(np.arange(0.0, top + _FOULING_STEP / 2, _FOULING_STEP), 9)
+    foulings = np.unique(np.round(np.concatenate([foulings, [f_s, f_t]]), 12))  # the file's own values exactly
     throughputs = np.round(np.arange(0.6, 1.6 + 1e-9, 0.05), 9)
     engine = WhatIf(case, throughputs, foulings, foulings)
     f_factor, f_unit = from_si(1.0, "fouling", system)
@@ -327,10 +355,13 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03):
             return
         table.value = what_if_table_html(case, pts, system, conv)
         labels, ys, _ = _breakdown_traces(pts, system)
-        if live is not None:
+        if live is not None:  # one update message; x only when the cases changed (less for plotly.js to redo)
+            same_x = list(live.data[0].x) == labels
             with live.batch_update():
                 for tr in live.data:
-                    tr.x, tr.y = labels, ys[tr.name]
+                    if not same_x:
+                        tr.x = labels
+                    tr.y = ys[tr.name]
         else:  # no anywidget: redraw the figure in an output of fixed height (the page does not jump)
             for tr in fig.data:
                 tr.x, tr.y = labels, ys[tr.name]
@@ -341,6 +372,27 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03):
         basis.value = (f"<small>Tube fouling {shown(ft):.3g} {esc(f_label)} on the inside area is "
                        f"{shown(ft * ratio):.3g} on the outside area of the chart (× do/di = {ratio:.3f}).</small>")
         status.value = (f"<small>updated in {1e3 * (time.perf_counter() - start):.0f} ms{hide_hint}</small>")
+        schedule_prefetch()
+
+    def prefetch():  # idle: rate the next slider range that a move could need, one call per idle tick
+        state["prefetch"] = None
+        c = {k: v.value for k, v in controls.items()}
+        try:
+            more = engine.prefetch_one(c["throughput"], c["fouling_shell"], c["fouling_tube"], c["twist_ratio"],
+                                       c["shells"])
+        except Exception:  # a range that cannot be rated is rated point by point when the user gets there
+            more = False
+        if more:
+            schedule_prefetch()
+
+    def schedule_prefetch():
+        try:
+            loop = asyncio.get_running_loop()
+        except RuntimeError:
+            return
+        if state.get("prefetch") is not None:
+            state["prefetch"].cancel()
+        state["prefetch"] = loop.call_later(idle, prefetch)
 
     def changed(change):
         for name, control in controls.items():
@@ -353,6 +405,9 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03):
             return
         if state["handle"] is not None:
             state["handle"].cancel()
+        if state.get("prefetch") is not None:  # the user is moving: no background rating now
+            state["prefetch"].cancel()
+            state["prefetch"] = None
         state["handle"] = loop.call_later(debounce, redraw)
 
     for c in controls.values():
