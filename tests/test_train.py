@@ -378,3 +378,22 @@ def test_equal_pressure_drop_split():
     with pytest.raises(InputError) as info:
         Split([["A"], []], "equal_dp")
     assert info.value.field == "branches[1]"
+
+
+def test_network_services_are_the_solved_inlets():
+    from revamp.train import network_services
+
+    tr = interlinked(CRUDE_C, RESID_C, KERO_C)
+    ns = network_services(tr, revamp=1.2)
+    for key, res in ns.results.items():
+        assert res.converged
+        svcs = getattr(ns, key)
+        for tag, m in tr.exchangers.items():
+            svc, row = svcs[tag], res.exchangers.loc[tag]
+            assert svc.shell.t_in == row["t_in_shell"] and svc.tube.t_in == row["t_in_tube"]
+            assert svc.fouling_tube == m.fouling_tube
+            # rating the exchanger alone at that service gives the network's outlets back
+            assert rv.rate(m.exchanger, svc).t_out_tube == pytest.approx(row["t_out_tube"], abs=1e-9)
+    # at revamp every flow is 1.2 times today's
+    assert ns.revamp["E-102"].tube.flow == pytest.approx(1.2 * ns.today["E-102"].tube.flow)
+    assert ns.revamp["E-102"].shell.flow == pytest.approx(36.0)

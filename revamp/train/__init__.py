@@ -35,7 +35,7 @@ True
 from .network import Furnace, Match, Point, Split, Train
 from .result import LimitCheck, TrainResult
 from .solver import enthalpy_change, solve
-from .study import Throughput, TrainStudy, compare_train, max_throughput
+from .study import NetworkServices, Throughput, TrainStudy, compare_train, max_throughput, network_services
 
-__all__ = ["Furnace", "LimitCheck", "Match", "Point", "Split", "Throughput", "Train", "TrainResult", "TrainStudy",
-           "compare_train", "enthalpy_change", "max_throughput", "solve"]
+__all__ = ["Furnace", "LimitCheck", "Match", "NetworkServices", "Point", "Split", "Throughput", "Train", "TrainResult",
+           "TrainStudy", "compare_train", "enthalpy_change", "max_throughput", "network_services", "solve"]

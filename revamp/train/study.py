@@ -19,7 +19,7 @@ from ..errors import InputError
 from .network import Train
 from .result import TrainResult
 
-__all__ = ["TrainStudy", "Throughput", "compare_train", "max_throughput"]
+__all__ = ["NetworkServices", "TrainStudy", "Throughput", "compare_train", "max_throughput", "network_services"]
 
 _RESERVED = {"base"}
 
@@ -288,3 +288,46 @@ def compare_train(train: Train, options: dict, economics=None, revamp=None, thro
     warnings = tuple(dict.fromkeys(f"{k}: {w}" for k, r in results.items() for w in r.warnings))
     return TrainStudy(table, pd.DataFrame.from_dict(changes, orient="index").rename_axis("case"),
                       pd.DataFrame.from_dict(isolated, orient="index").rename_axis("case"), results, tp, eco, warnings)
+
+
+@dataclass(frozen=True)
+class NetworkServices:
+    """Each exchanger's service as the network gives it, today and at the revamp conditions.
+
+    Attributes
+    ----------
+    today, revamp : dict of str -> Service
+        Exchanger tag -> its two streams at their solved inlets and flows, with the match's fouling (what an
+        exchanger study takes instead of the unit file's own inlets).
+    results : dict of str -> TrainResult
+        ``"today"`` and ``"revamp"``: the solves they come from (check ``converged``).
+    """
+
+    today: dict
+    revamp: dict
+    results: dict = field(repr=False)
+
+
+def network_services(train: Train, revamp=1.0, tol=1e-6) -> NetworkServices:
+    """The service of every exchanger of the train at its solved inlets, today and at the revamp conditions.
+
+    Parameters
+    ----------
+    train : Train
+        A single case.
+    revamp : float or Train
+        A factor on every stream's flow, or the revamp train itself.
+    tol : float
+        Solve tolerance [K].
+    """
+    if train.shape != ():
+        raise InputError("train", f"a sweep of shape {train.shape}", "a single case")
+    if isinstance(revamp, Train):
+        rev = revamp
+    else:
+        rev = train
+        for s in train.streams:
+            rev = rev.scaled(revamp, s)
+    results = {"today": train.solve(tol=tol), "revamp": rev.solve(tol=tol)}
+    services = {k: {tag: r.service for tag, r in res.ratings.items()} for k, res in results.items()}
+    return NetworkServices(services["today"], services["revamp"], results)
