@@ -491,11 +491,15 @@ class _Run:
 
 def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, units):
     """The index rows (one per exchanger, failed already when the file has problems with it) and the worker jobs."""
+    from .unitfile._building import OPTION_PATH
+
     taken, rows, jobs_list = [], [], []
     for tag, i in entries:
         fname = report.safe_name(tag, taken) + ".html"
         taken.append(fname[:-5])
-        own = [p for p in problems if p.path.startswith(f"exchangers[{i}]")]
+        built = tag in unit.tags  # built without its refused options: those are stated in its report instead
+        own = [p for p in problems if p.path.startswith(f"exchangers[{i}]")
+               and not (built and OPTION_PATH.match(p.path))]
         desc = ""
         raw = (unit.raw.get("exchangers") or [])[i]
         if isinstance(raw, dict) and isinstance(raw.get("description"), str):

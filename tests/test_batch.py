@@ -394,3 +394,22 @@ def test_fouling_side_given_wins_and_a_bad_one_is_refused():
     assert side == "tube" and why == "from the unit file (exchangers[0].plant_data.fouling_side: tube)"
     with pytest.raises(InputError, match="fouling_side"):
         fouling_side(r, "both")
+
+
+def test_a_refused_option_fails_its_row_not_the_exchanger(tmp_path):
+    # requirement: one bad option fails that option's row, not the whole report (the file check still names it)
+    from revamp import unitfile
+    from revamp.batch import _plan, notebook_path
+    from revamp.studies import study_exchanger
+
+    doc = make_unit("E-1")
+    doc["exchangers"][0]["options"].append({"type": "new_bundle", "label": "too tight", "tube_pitch": "10 mm"})
+    path = write_unit(tmp_path / "u.yaml", doc)
+    unit, problems, entries = unitfile.load_partial(path)
+    assert any(p.path.startswith("exchangers[0].options[2]") for p in problems)
+    rows, jobs = _plan(unit, problems, entries, notebook_path(), Path(path), 60, "SI")
+    assert rows[0]["status"] != "failed" and [j["tag"] for j in jobs] == ["E-1"]
+    result = study_exchanger(unit.exchanger("E-1"), mc_draws=0)
+    assert "too tight" not in [str(i) for i in result.study.table.index]
+    assert any("Option not rated" in n.text and "options[2]" in n.text for n in result.notes)
+    assert any("Option not rated" in str(i) for i in report.study_items(result))

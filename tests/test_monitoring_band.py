@@ -143,6 +143,6 @@ def test_a_plant_data_failure_is_stated_in_the_report(monkeypatch):
     monkeypatch.setattr(rv, "monitor", no_memory)
     unit, _, _ = unitfile.load_partial(demo_unit_path(), only=["E-104"])
     result = report.run_case(unit.exchanger("E-104"))
-    assert result["monitoring"] is None and result["study"] is not None
+    assert result.monitoring is None and result.study is not None
     items = report.monitoring_items(result)
     assert items[0].startswith("No plant-data analysis: MemoryError: Unable to allocate"), items[0]

@@ -338,13 +338,16 @@ def study_items(result, system: str = "SI") -> list:
     and the study figures."""
     study = result.study
     if study is None:
-        return ["The unit file lists no option for this exchanger."]
+        refused = [n.text for n in result.notes if n.source == "options" and n.severity == "error"]
+        return refused or ["The unit file lists no option for this exchanger."]
     from .. import plots
 
     rows = {str(i) for i in study.table.index}
     notes = [n for n in result.notes if n.source in rows]
     marks, legend = notes_legend(notes)
+    refused = [n.text for n in result.notes if n.source == "options" and n.severity == "error"]
     items = [study.basis_text] if study.basis_text else []
+    items += refused  # an option the unit file check refused: named here, the others are rated
     items += [study_table(study, system, notes, marks)]
     if notes:
         items += ["Notes on the ratings of these rows (numbers in the notes column point here):", legend]

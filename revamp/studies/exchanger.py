@@ -346,6 +346,9 @@ def study_exchanger(case, *, service_today=None, service_revamp=None, mc_draws: 
                      ("revamp (clean)", revamp_clean)):
         notes += rating_notes(label, r)
 
+    for problem in getattr(case, "refused_options", ()):  # options the unit file check refused: said, not rated
+        notes.append(Note("options", "option", "error", f"Option not rated, the unit file has a problem with it: "
+                                                         f"{problem}"))
     where = (getattr(case, "cycle_from", None) or {}).get("fouling_side", "plant_data.fouling_side")
     side_value, why = fouling_side(today, getattr(case, "fouling_side", None), where)
     side = Setting(side_value, why)
@@ -354,8 +357,12 @@ def study_exchanger(case, *, service_today=None, service_revamp=None, mc_draws: 
     if getattr(case, "plant_data", None) is not None:
         pdata = case.plant_data
         try:
-            monitoring = monitor(case.exchanger, service_today, pdata.file, columns=pdata.columns,
-                                 uncertainty=pdata.uncertainty or None, mc_draws=mc_draws, fouling_side=side.value)
+            # the same run length as the cycle average: the unit file's, else the stated one-year default
+            run = getattr(case, "run_length", None)
+            options = pdata.monitor_options() if hasattr(pdata, "monitor_options") else {
+                "columns": pdata.columns, "uncertainty": pdata.uncertainty or None}
+            monitoring = monitor(case.exchanger, service_today, pdata.file, mc_draws=mc_draws, fouling_side=side.value,
+                                 run_length=run if run is not None else DEFAULT_RUN_LENGTH, **options)
         except Exception as exc:  # plant data is evidence, not a precondition: the study goes on without it
             monitoring_error = f"{exc.__class__.__name__}: {exc}"
             notes.append(Note("plant data", "fouling", "error", f"No plant-data analysis: {monitoring_error}"))

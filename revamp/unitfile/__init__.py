@@ -58,6 +58,7 @@ __all__ = [
     "check",
     "load",
     "load_partial",
+    "network_inlets",
     "schema",
 ]
 
@@ -196,3 +197,33 @@ def load(path) -> Unit:
     if problems:
         raise UnitFileError(path, problems)
     return unit
+
+
+def network_inlets(path, tag: str):
+    """``(service_today, service_revamp, text)`` of exchanger ``tag`` as the unit's train gives them.
+
+    When the unit file has a ``network`` section listing ``tag``, the whole train is solved today and at its revamp
+    throughput (:func:`revamp.train.network_services`), so an exchanger's study takes the inlets its neighbours give
+    it instead of the ones written beside it; ``text`` says so for the report. Otherwise ``(None, None, "")``: the
+    study keeps the exchanger's own services. A train that cannot be built or solved says why in ``text``.
+    """
+    unit, _, _ = load_partial(path)
+    if unit is None or unit.network is None or tag not in unit.network.exchangers:
+        return None, None, ""
+    from ..train import network_services
+
+    try:
+        services = network_services(unit.network, revamp=unit.network_throughput, tol=1e-3)
+    except Exception as exc:  # the train is context for this report, not a precondition
+        return None, None, (f"The unit's train could not be solved ({exc.__class__.__name__}: {exc}); this study "
+                            "uses the exchanger's own inlets from the unit file.")
+    bad = [k for k, r in services.results.items() if not bool(r.converged)]
+    if bad:
+        return None, None, (f"The unit's train did not converge ({', '.join(bad)}); this study uses the exchanger's "
+                            "own inlets from the unit file.")
+    today, rev = services.today[tag], services.revamp[tag]
+    c = lambda t: f"{float(t) - 273.15:.1f} °C"  # noqa: E731
+    text = (f"Inlets from the train (network section), not the ones written beside the exchanger: today shell "
+            f"{c(today.shell.t_in)}, tube {c(today.tube.t_in)}; at the revamp throughput (x{unit.network_throughput:g} "
+            f"on every stream) shell {c(rev.shell.t_in)}, tube {c(rev.tube.t_in)}.")
+    return today, rev, text
