@@ -573,6 +573,9 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         bar.close()
         with _no_interrupts(deliver=False):
             signum = getattr(exc, "signum", signal.SIGINT)
+            for row in rows:
+                if row["status"] == NOT_RUN:
+                    row["reason"] = "the run was interrupted before this exchanger's study finished"
             index = run.write_index(run.interrupted_text(signum)) if run.index_written else None
             run.cleanup()
             done, total = run.counts()
