@@ -6,10 +6,15 @@ The overhead of a notebook is what papermill and nbconvert add to the package's 
 imports, the execution round trips and the HTML conversion. It is measured two ways: a one-cell notebook that only
 imports the package's modules, run through the same path; and each exchanger's notebook time minus the same study
 computed in a warm process (unit file load + ``report.run_case``).
+
+It also times a stop: ``revamp batch`` on the demo unit in a subprocess, SIGTERM once its first report is in, and
+the seconds until the batch has exited and every worker and kernel it started is gone.
 """
 from __future__ import annotations
 
 import argparse
+import os
+import signal
 import statistics
 import subprocess
 import sys
@@ -50,6 +55,36 @@ def in_process_seconds(path: Path, tag: str) -> float:
     return time.perf_counter() - start
 
 
+def stop_seconds(work: Path, jobs: int) -> tuple[float, int]:
+    """Seconds from SIGTERM (sent once the first report is in) to the batch and all its descendants being gone, and
+    the number of processes that were stopped."""
+    import psutil
+
+    out = work / "stopped"
+    proc = subprocess.Popen([sys.executable, "-m", "revamp.cli", "batch", str(demo_unit_path()), "--out", str(out),
+                             "--jobs", str(jobs), "--quiet"], stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+                            start_new_session=True)
+    seen = {}
+    try:
+        main_proc = psutil.Process(proc.pid)
+        while not (out.is_dir() and any(p.name != "index.html" for p in out.glob("*.html"))):
+            if proc.poll() is not None:
+                raise RuntimeError("the batch ended before its first report")
+            for child in main_proc.children(recursive=True):
+                seen.setdefault(child.pid, child)
+            time.sleep(0.2)
+        for child in main_proc.children(recursive=True):
+            seen.setdefault(child.pid, child)
+        start = time.perf_counter()
+        os.kill(proc.pid, signal.SIGTERM)
+        proc.wait(timeout=120)
+        psutil.wait_procs(list(seen.values()), timeout=120)
+        return time.perf_counter() - start, len(seen)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+
+
 def main(argv=None):
     parser = argparse.ArgumentParser()
     parser.add_argument("--jobs", type=int, default=2)
@@ -77,6 +112,9 @@ def main(argv=None):
         size = sum(p.stat().st_size for p in (work / "reports").glob("*.html"))
         print(f"reports: {size / 1e3:.0f} kB of HTML in all, plus plotly.min.js once "
               f"({(work / 'reports' / 'plotly.min.js').stat().st_size / 1e6:.1f} MB)")
+        seconds, count = stop_seconds(work, args.jobs)
+        print(f"stop: SIGTERM after the first report; batch, workers and kernels ({count} processes) gone in "
+              f"{seconds:.1f} s")
 
 
 if __name__ == "__main__":

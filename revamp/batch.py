@@ -232,9 +232,14 @@ def _watch_parent(parent_pid: int, period: float = 0.5) -> None:
             _worker_exit()
 
 
-def _worker_init(parent_pid: int) -> None:
+def _worker_init(parent_pid: int, tmp_dir: str) -> None:
     """Set up a worker: interrupts are the main process's business (it stops the workers in order), SIGTERM ends the
-    worker with its kernel, and a watcher thread ends both when the main process disappears."""
+    worker with its kernel, and a watcher thread ends both when the main process disappears. The worker's and its
+    kernels' temporary files (the kernel connection files among them) go into the run's temporary folder, so that a
+    stopped kernel leaves nothing behind once that folder is removed."""
+    os.makedirs(tmp_dir, exist_ok=True)
+    os.environ["TMPDIR"] = tmp_dir
+    tempfile.tempdir = tmp_dir
     signal.signal(signal.SIGINT, signal.SIG_IGN)
     signal.signal(signal.SIGTERM, _worker_exit)
     threading.Thread(target=_watch_parent, args=(parent_pid,), name="watch-parent", daemon=True).start()
@@ -287,14 +292,15 @@ def _no_interrupts(deliver: bool = True):
         raise _Stopped(pending[0])
 
 
-def _execute(jobs_list: list, workers: int, on_result) -> None:
-    """Run each job in worker processes; call ``on_result(result)`` in this process as each one ends.
+def _execute(jobs_list: list, workers: int, on_result, tmp_dir: str) -> None:
+    """Run each job in worker processes; call ``on_result(result)`` in this process as each one ends. The workers
+    and their kernels keep their temporary files in ``tmp_dir``.
 
     An interrupt (KeyboardInterrupt, or SIGTERM inside :func:`_sigterm_interrupts`) stops every worker and its
     kernel before it propagates. Always in worker processes: a worker silences its own stderr, never ours.
     """
     pool = ProcessPoolExecutor(max_workers=workers, mp_context=get_context("spawn"), initializer=_worker_init,
-                               initargs=(os.getpid(),))
+                               initargs=(os.getpid(), tmp_dir))
     try:
         futures = {pool.submit(_run_one, job): job for job in jobs_list}
         for fut in as_completed(futures):
@@ -590,7 +596,7 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
             if jobs_list:
                 for job in jobs_list:
                     job["stage"] = str(run.stage)
-                _execute(jobs_list, min(jobs, len(jobs_list)), on_result)
+                _execute(jobs_list, min(jobs, len(jobs_list)), on_result, str(run.stage / "tmp"))
             with _no_interrupts():
                 for row in rows:  # every job settled; anything still open was lost with its worker
                     if row["status"] == NOT_RUN:
@@ -604,6 +610,9 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         bar.close()
         with _no_interrupts(deliver=False):
             signum = getattr(exc, "signum", signal.SIGINT)
+            for row in rows:
+                if row["status"] == NOT_RUN:
+                    row["reason"] = "the run was interrupted before this exchanger's study finished"
             index = run.write_index(run.interrupted_text(signum)) if run.index_written else None
             run.cleanup()
             done, total = run.counts()

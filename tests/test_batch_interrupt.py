@@ -49,6 +49,7 @@ def _start_and_stop(tmp_path, how: str):
                              "--jobs", "2", "--quiet"], stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
                             env=env, start_new_session=True)
     seen = {}  # every descendant of the batch ever observed: pid -> psutil.Process (which knows its start time)
+    files = set()  # the kernels' connection files
     try:
         main = psutil.Process(proc.pid)
         deadline = time.monotonic() + FIRST_REPORT_WITHIN
@@ -56,14 +57,9 @@ def _start_and_stop(tmp_path, how: str):
         while not (out.is_dir() and _reports(out) and (out / "index.html").is_file()):
             assert proc.poll() is None, f"the batch ended before its first report: {proc.communicate()}"
             assert time.monotonic() < deadline, "no report within the time allowed"
-            try:
-                for child in main.children(recursive=True):
-                    seen.setdefault(child.pid, child)
-            except psutil.NoSuchProcess:
-                pass
+            _note_descendants(main, seen, files)
             time.sleep(0.2)
-        for child in main.children(recursive=True):
-            seen.setdefault(child.pid, child)
+        _note_descendants(main, seen, files)
         if how == "TERM":
             os.kill(proc.pid, signal.SIGTERM)
         elif how == "INT group":
@@ -72,7 +68,7 @@ def _start_and_stop(tmp_path, how: str):
             os.kill(proc.pid, signal.SIGKILL)
         stdout, stderr = proc.communicate(timeout=GONE_WITHIN)
         _, alive = psutil.wait_procs(list(seen.values()), timeout=GONE_WITHIN)
-        return {"out": out, "code": proc.returncode, "stderr": stderr, "seen": seen,
+        return {"out": out, "code": proc.returncode, "stderr": stderr, "seen": seen, "files": files,
                 "alive": [(p.pid, " ".join(p.cmdline()[:4])) for p in alive if p.is_running()]}
     finally:
         if proc.poll() is None:
@@ -82,6 +78,21 @@ def _start_and_stop(tmp_path, how: str):
                 p.kill()
             except psutil.Error:
                 pass
+
+
+def _note_descendants(main, seen: dict, files: set) -> None:
+    try:
+        children = main.children(recursive=True)
+    except psutil.NoSuchProcess:
+        return
+    for child in children:
+        seen.setdefault(child.pid, child)
+        try:
+            cmd = child.cmdline()
+        except psutil.Error:
+            continue
+        if "-f" in cmd[:-1]:  # a kernel is started with "-f <connection file>"
+            files.add(cmd[cmd.index("-f") + 1])
 
 
 def _is_kernel(p) -> bool:
@@ -110,6 +121,7 @@ def test_stopped_batch_leaves_no_process_and_a_consistent_folder(tmp_path, how):
     assert f"was interrupted ({signame})" in index
     assert index.count(">not run<") == 6 - len(reports)
     assert not [p.name for p in out.iterdir() if p.name.startswith(".run-")], "temporaries left behind"
+    assert r["files"] and not [f for f in r["files"] if Path(f).exists()], "kernel connection files left behind"
     assert r["code"] == 128 + (signal.SIGTERM if how == "TERM" else signal.SIGINT)
     lines = r["stderr"].strip().splitlines()
     assert len(lines) == 1 and "Traceback" not in r["stderr"] and "interrupted" in lines[0], r["stderr"]
@@ -118,7 +130,7 @@ def test_stopped_batch_leaves_no_process_and_a_consistent_folder(tmp_path, how):
 # ------------------------------------------------------------------------- the folder logic, without processes
 def _fake_execute(results, then_raise=None):
     """A stand-in for the worker pool: stage each given report, hand it over, then optionally interrupt."""
-    def execute(jobs_list, workers, on_result):
+    def execute(jobs_list, workers, on_result, tmp_dir):
         by_tag = {j["tag"]: j for j in jobs_list}
         for tag, status in results:
             job = by_tag[tag]
@@ -194,7 +206,7 @@ def test_jobs_capped_to_the_cores_with_a_note(tmp_path, monkeypatch):
     path = write_unit(tmp_path / "u.yaml", make_unit("E-1"))
     got = {}
 
-    def execute(jobs_list, workers, on_result):
+    def execute(jobs_list, workers, on_result, tmp_dir):
         got["workers"] = workers
 
     monkeypatch.setattr(batch, "_execute", execute)

@@ -320,7 +320,8 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     mc_chunk : int
         Largest number of cases per rating call (a case costs about 1 kB at the peak of a rating call). The Monte
         Carlo draws are streamed in blocks of rows (:data:`revamp.monitoring.engine.MC_BLOCK_CASES` draws × rows at
-        a time), so that memory grows with the rows (about 1 kB a row for the table) but not with rows × draws.
+        a time), so that memory grows with the rows (under 2 kB a row in all: the data read, the table) but not with
+        rows × draws.
     dialect : CsvDialect, dict or None
         How the CSV file is written (``delimiter``, ``decimal``, ``timestamp_format``, ``dayfirst``, ``timezone``);
         see :class:`revamp.monitoring.CsvDialect`. With a ``timezone`` the times (and ``run_start``, when written
