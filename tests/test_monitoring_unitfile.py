@@ -126,6 +126,7 @@ def test_report_projects_to_the_unit_files_run_length(tmp_path):
     case = unitfile.load(path).exchanger("E-1")
     _data(case).to_csv(csv, index=False)
     mon = run_case(case, mc_draws=0).monitoring
+    assert mon is not None
     assert mon.summary["projection run time [day]"] == pytest.approx(720.0)  # the unit file's 720 days
 
 
