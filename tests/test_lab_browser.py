@@ -92,26 +92,23 @@ def test_what_if_slider_changes_the_table(lab):
 from test_browser import report_page  # noqa: E402,F401  (the batch report fixture)
 
 
-def test_static_report_tables_fit_the_page_and_colours_are_valid(report_page):  # noqa: F811
-    from playwright.sync_api import sync_playwright
-
+def test_static_report_tables_fit_the_page_and_colours_are_valid(lab, report_page):  # noqa: F811
+    browser = lab[0]  # the module's browser (one Playwright session per module)
     page_path, _ = report_page
-    with sync_playwright() as pw:
-        browser = pw.chromium.launch(executable_path=_browser(), headless=True, args=CHROMIUM_ARGS)
-        try:
-            page = browser.new_page(viewport={"width": 1000, "height": 1200})  # about an A4 page's width on screen
-            console = []
-            page.on("console", lambda m: console.append(m.text))
-            page.goto(page_path.as_uri())
-            page.wait_for_function("() => document.querySelectorAll('.js-plotly-plot').length > 0", timeout=60_000)
-            page.wait_for_timeout(1000)
-            # every table's box ends inside the page body (no table wider than the page)
-            widths = page.evaluate("""() => { const b = document.body.getBoundingClientRect();
-                const right = b.right - parseFloat(getComputedStyle(document.body).paddingRight);
-                return [...document.querySelectorAll('table')].map(t => [t.getBoundingClientRect().right, right]); }""")
-            text = page.inner_text("body")
-        finally:
-            browser.close()
+    page = browser.new_page(viewport={"width": 1000, "height": 1200})  # about an A4 page's width on screen
+    console = []
+    page.on("console", lambda m: console.append(m.text))
+    try:
+        page.goto(page_path.as_uri())
+        page.wait_for_function("() => document.querySelectorAll('.js-plotly-plot').length > 0", timeout=60_000)
+        page.wait_for_timeout(1000)
+        # every table's box ends inside the page body's content box (no table wider than the page)
+        widths = page.evaluate("""() => { const b = document.body.getBoundingClientRect();
+            const right = b.right - parseFloat(getComputedStyle(document.body).paddingRight);
+            return [...document.querySelectorAll('table')].map(t => [t.getBoundingClientRect().right, right]); }""")
+        text = page.inner_text("body")
+    finally:
+        page.close()
     assert widths and all(right <= body + 0.5 for right, body in widths), widths
     assert not [m for m in console if "Invalid color" in m], console
     for leak in ("<NA>", " inf ", "True", "e+0"):

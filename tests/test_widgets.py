@@ -6,6 +6,7 @@ from types import SimpleNamespace
 import numpy as np
 import pytest
 
+import revamp as rv
 from revamp.report.widgets import WhatIf, what_if, what_if_table_html
 from test_plots import EX, SVC
 
@@ -58,3 +59,19 @@ def test_idle_prefetch_makes_the_neighbours_ready(case):
                               ("throughput", 2e-4, 3e-4, 1.1)):
         engine.cases(tp, fs, ft, 4.0, None, along=along)
     assert engine.ratings_run == done  # one step on any slider: already rated
+
+
+def test_primer_tables_carry_units_for_both_systems():
+    import re
+
+    from revamp.report.pages import frame_html
+    from revamp.report.widgets import primer_sweep, primer_table
+
+    r = rv.rate(EX, SVC)
+    t = primer_table(r)
+    assert t["share of 1/U [%]"].sum() == pytest.approx(100.0)  # the shares of a series sum make the whole
+    u_us = frame_html(primer_sweep(r), system="US")
+    assert "Btu/h·ft²·°F" in u_us and "W/m²·K" not in u_us
+    # 1 W/m²K = 0.17611 Btu/h·ft²·°F (NIST SP 811 Appendix B.8), three significant figures shown
+    want = f"{float(r.U_service) * 0.17611:.3g}"
+    assert re.search(rf">{re.escape(want)}<", u_us), want

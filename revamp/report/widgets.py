@@ -424,9 +424,10 @@ def primer_table(rating):
 
     r = rating.resistances
     total = float(r.sum())
-    return pd.DataFrame({"resistance [10⁻⁴ m²·K/W]": (r * 1e4).round(3), "share of 1/U [%]": (100 * r / total).round(1),
-                         "U if this one were zero [W/m²·K]": [round(1.0 / (total - float(v)), 0) for v in r]},
-                        index=list(r.index))
+    # SI numbers with their units in the headers: the report's table display rounds them and converts for US units
+    return pd.DataFrame({"resistance [m²·K/W]": r.astype(float), "share of 1/U [%]": 100 * r / total,
+                         "U if this one were zero [W/m²·K]": [1.0 / (total - float(v)) for v in r]},
+                        index=pd.Index(list(r.index), name="resistance"))
 
 
 def _primer_u(rating, scale_h_shell=1.0, scale_h_tube=1.0, fouling_shell=None, fouling_tube=None,
@@ -453,9 +454,11 @@ def primer_sweep(rating):
     rows = {}
     for name in rating.resistances.index:
         r = float(rating.resistances[name])
-        rows[name] = {"U as is [W/m²·K]": round(1 / base, 1), "U, this one halved": round(1 / (base - r / 2), 1),
-                      "U, this one doubled": round(1 / (base + r), 1)}
-    return pd.DataFrame(rows).T
+        rows[name] = {"U as is [W/m²·K]": 1 / base, "U, this one halved [W/m²·K]": 1 / (base - r / 2),
+                      "U, this one doubled [W/m²·K]": 1 / (base + r)}
+    out = pd.DataFrame(rows).T
+    out.index.name = "resistance"
+    return out
 
 
 def primer_widget(rating, system: str = "SI"):
