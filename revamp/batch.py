@@ -145,6 +145,7 @@ def _run_one(job: dict) -> dict:
             prov = report.provenance(job["unit_file"], tag, extra_files=job.get("extra_files", ()),
                                      parameters={"interactive": False, "units": job.get("units", "SI")},
                                      inputs=job.get("inputs"))
+            prov["unit_file"] = job.get("source_unit_file") or prov.get("unit_file")  # as the user named it
             title = f"{tag} — {job.get('description') or 'revamp study'}"
             body = render_notebook(nb)
             if status == "failed":
@@ -528,8 +529,25 @@ def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, unit
     return rows, jobs_list
 
 
+def _execute_remote(executor, jobs_list: list, files: dict, stage: Path, on_result) -> None:
+    """Run each job as a task of ``executor`` (a Dask cluster), its inputs sent along; ``on_result`` as for
+    :func:`_execute`. A lost worker's task is run again by the scheduler; a task that fails fails its job only."""
+    from .batch_remote import payload, receive, run_remote
+
+    tasks = [payload(job, files) for job in jobs_list]
+    with executor:
+        for outcome in executor.run(run_remote, tasks):
+            job = jobs_list[outcome.index]
+            if outcome.ok:
+                res = receive(outcome.value, job, stage)
+            else:
+                res = {"tag": job["tag"], "kind": job.get("kind"), "status": "failed", "staged": None, "summary": {},
+                       "seconds": 0.0, "file": None, "reason": _one_line(outcome.error)}
+            on_result(res)
+
+
 def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = True, notebook=None,
-              timeout: float = 900, units: str = "SI") -> BatchResult:
+              timeout: float = 900, units: str = "SI", cluster=None, executor=None) -> BatchResult:
     """Write one report per exchanger of ``unit_file`` into ``out_dir`` and an index.
 
     Parameters
@@ -544,6 +562,12 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         with a note in :attr:`BatchResult.notes`.
     only : list of str, optional
         Tags to run (others are left out of the index).
+    cluster : str, optional
+        Run the jobs on a Dask cluster instead of local worker processes: ``"local:N"`` (a ``LocalCluster`` of N
+        workers) or a scheduler address (``"tcp://host:8786"``); each job carries its input files (no shared file
+        system), its report comes back to be written here. ``jobs`` is then not used.
+    executor : optional
+        An executor of :mod:`revamp.executor` to use instead of ``cluster`` (a fleet run shares one).
 
     Raises
     ------
@@ -584,7 +608,19 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         if getattr(unit, "cleaning", None) is not None:  # and the cleaning plan of that train
             jobs_list.insert(0, {"kind": "cleaning", "tag": "(cleaning)", "unit_file": str(unit_file),
                                  "out": str(out)})
+    remote = executor
+    if remote is None and cluster is not None:
+        from .executor import executor_for
+
+        remote = executor_for(cluster)
+    remote_files = None
+    if remote is not None:
+        from .batch_remote import unit_files
+
+        remote_files = unit_files(unit, unit_file)
     params = {"jobs": jobs, "only": " ".join(only or []) or "all", "units": units}
+    if remote is not None:
+        params["cluster"] = cluster or getattr(remote, "address", remote.name)
     from tqdm.auto import tqdm
 
     bar = tqdm(total=len(jobs_list), desc="reports", unit="exchanger", disable=not progress)
@@ -602,7 +638,10 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
             if jobs_list:
                 for job in jobs_list:
                     job["stage"] = str(run.stage)
-                _execute(jobs_list, min(jobs, len(jobs_list)), on_result)
+                if remote is not None:
+                    _execute_remote(remote, jobs_list, remote_files, run.stage, on_result)
+                else:
+                    _execute(jobs_list, min(jobs, len(jobs_list)), on_result)
             with _no_interrupts():
                 for row in rows:  # every job settled; anything still open was lost with its worker
                     if row["status"] == NOT_RUN:

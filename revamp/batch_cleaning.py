@@ -32,6 +32,7 @@ def run_cleaning_page(job: dict) -> dict:
             raise ValueError("the network or the cleaning section could not be built (see the unit file's problems)")
         plan = schedule_cleaning(unit.network, **cleaning_inputs(unit))
         prov = report.provenance(job["unit_file"], None, parameters={"page": "cleaning"})
+        prov["unit_file"] = job.get("source_unit_file") or prov.get("unit_file")  # as the user named it
         html = cleaning_page(plan, f"{unit.name} — when to clean which bundle", prov)
         staged = report.write_atomic(Path(job["stage"]) / CLEANING_FILE if job.get("stage") else out / CLEANING_FILE,
                                      html)
