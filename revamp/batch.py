@@ -106,10 +106,11 @@ def _one_line(text: str, limit: int = 300) -> str:
 def _run_one(job: dict) -> dict:
     """Run the study notebook for one exchanger; write its report into the run's temporary folder (the main process
     moves it into place). Runs in a worker process. A ``kind: train`` job writes the unit's train page instead."""
-    if job.get("kind") == "train":
-        from .batch_train import run_train_page
+    if job.get("kind") in UNIT_PAGES:  # a page of the whole unit (the train, the cleaning plan)
+        from importlib import import_module
 
-        return {**run_train_page(job), "kind": "train", "tag": job["tag"]}
+        module, fn, _ = UNIT_PAGES[job["kind"]]
+        return {**getattr(import_module(module, __package__), fn)(job), "kind": job["kind"], "tag": job["tag"]}
     import nbformat
     import papermill as pm
 
@@ -144,6 +145,7 @@ def _run_one(job: dict) -> dict:
             prov = report.provenance(job["unit_file"], tag, extra_files=job.get("extra_files", ()),
                                      parameters={"interactive": False, "units": job.get("units", "SI")},
                                      inputs=job.get("inputs"))
+            prov["unit_file"] = job.get("source_unit_file") or prov.get("unit_file")  # as the user named it
             title = f"{tag} — {job.get('description') or 'revamp study'}"
             body = render_notebook(nb)
             if status == "failed":
@@ -331,7 +333,22 @@ SUMMARY_FIELDS = [
 ]
 
 
-def _index_html(unit, rows: list[dict], prov: dict, progress: str = "", train: dict | None = None) -> str:
+#: pages of the whole unit, written by a job of their own beside the exchanger reports:
+#: kind -> (module, function computing and staging the page, file name)
+UNIT_PAGES = {"train": (".batch_train", "run_train_page", "train.html"),
+              "cleaning": (".batch_cleaning", "run_cleaning_page", "cleaning.html")}
+
+
+def _pages_html(pages: dict | None) -> str:
+    """The index's sections on the unit's own pages (the train, the cleaning plan), in that order."""
+    from .batch_cleaning import index_section as cleaning_section
+    from .batch_train import index_section as train_section
+
+    pages = pages or {}
+    return train_section(pages.get("train")) + cleaning_section(pages.get("cleaning"))
+
+
+def _index_html(unit, rows: list[dict], prov: dict, progress: str = "", pages: dict | None = None) -> str:
     header = ["exchanger", "description", "status"] + [h for _, h, _ in SUMMARY_FIELDS] + ["reason"]
     lines = ['<section id="summary"><h2>Exchangers</h2><table class="rv-table"><thead><tr>'
              + "".join(f"<th>{report.esc(h)}</th>" for h in header) + "</tr></thead><tbody>"]
@@ -360,10 +377,8 @@ def _index_html(unit, rows: list[dict], prov: dict, progress: str = "", train: d
              + (f", {waiting} not run" if waiting else "") + ". "
              + f"{report.esc(unit.description) if unit else ''}</p>")
     state = f'<p class="rv-status-failed" id="run-state">{report.esc(progress)}</p>' if progress else ""
-    from .batch_train import index_section
-
     return report.page(f"{unit.name if unit else 'Unit'} — revamp study",
-                       state + intro + index_section(train) + "".join(lines) + chart, prov)
+                       state + intro + _pages_html(pages) + "".join(lines) + chart, prov)
 
 
 def _index_chart(rows) -> str:
@@ -427,19 +442,18 @@ class _Run:
         _remove_abandoned_stages(out)
         self.stage = Path(tempfile.mkdtemp(prefix=f"{_stage_prefix()}{os.getpid()}-", dir=out))
         self.index_written = False
-        self.train = None
+        self.pages = {}  # kind -> result of the unit's own pages (train, cleaning)
 
     def settle(self, res: dict) -> Path:
         """Take one finished exchanger into the folder and rewrite the index: its report moved in, or an older report
         of it removed if it failed. The index is rendered before the move, so that the two land a moment apart.
-        The train page (a job of kind ``train``) is moved in the same way and linked from its own section."""
-        if res.get("kind") == "train":
-            self.train = res
+        The unit's own pages (jobs of a kind in :data:`UNIT_PAGES`) are moved in the same way, each linked from its own
+        section."""
+        if res.get("kind") in UNIT_PAGES:
+            self.pages[res["kind"]] = res
             text = self._index_text(self.running_text())
             if res.get("staged") and Path(res["staged"]).parent != self.out:
-                from .batch_train import TRAIN_FILE
-
-                os.replace(res["staged"], self.out / TRAIN_FILE)
+                os.replace(res["staged"], self.out / UNIT_PAGES[res["kind"]][2])
             return self._write(text)
         row = self.by_tag[res["tag"]]
         row.update({k: res[k] for k in ("status", "reason", "summary")})
@@ -461,7 +475,7 @@ class _Run:
 
     def _index_text(self, progress: str) -> str:
         prov = report.provenance(self.unit_file, None, parameters=self.params)
-        return _index_html(self.unit, self.rows, prov, progress, self.train)
+        return _index_html(self.unit, self.rows, prov, progress, self.pages)
 
     def _write(self, text: str) -> Path:
         for row in self.rows:  # an older report must not stand beside an index that says the exchanger failed
@@ -525,8 +539,25 @@ def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, unit
     return rows, jobs_list
 
 
+def _execute_remote(executor, jobs_list: list, files: dict, stage: Path, on_result) -> None:
+    """Run each job as a task of ``executor`` (a Dask cluster), its inputs sent along; ``on_result`` as for
+    :func:`_execute`. A lost worker's task is run again by the scheduler; a task that fails fails its job only."""
+    from .batch_remote import payload, receive, run_remote
+
+    tasks = [payload(job, files) for job in jobs_list]
+    with executor:
+        for outcome in executor.run(run_remote, tasks):
+            job = jobs_list[outcome.index]
+            if outcome.ok:
+                res = receive(outcome.value, job, stage)
+            else:
+                res = {"tag": job["tag"], "kind": job.get("kind"), "status": "failed", "staged": None, "summary": {},
+                       "seconds": 0.0, "file": None, "reason": _one_line(outcome.error)}
+            on_result(res)
+
+
 def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = True, notebook=None,
-              timeout: float = 900, units: str = "SI") -> BatchResult:
+              timeout: float = 900, units: str = "SI", cluster=None, executor=None) -> BatchResult:
     """Write one report per exchanger of ``unit_file`` into ``out_dir`` and an index.
 
     Parameters
@@ -541,6 +572,12 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
         with a note in :attr:`BatchResult.notes`.
     only : list of str, optional
         Tags to run (others are left out of the index).
+    cluster : str, optional
+        Run the jobs on a Dask cluster instead of local worker processes: ``"local:N"`` (a ``LocalCluster`` of N
+        workers) or a scheduler address (``"tcp://host:8786"``); each job carries its input files (no shared file
+        system), its report comes back to be written here. ``jobs`` is then not used.
+    executor : optional
+        An executor of :mod:`revamp.executor` to use instead of ``cluster`` (a fleet run shares one).
 
     Raises
     ------
@@ -578,7 +615,22 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
     rows, jobs_list = _plan(unit, problems, entries, nb_path, unit_file, timeout, units)
     if getattr(unit, "network", None) is not None and not only:  # the train page, beside the exchanger studies
         jobs_list.insert(0, {"kind": "train", "tag": "(train)", "unit_file": str(unit_file), "out": str(out)})
+        if getattr(unit, "cleaning", None) is not None:  # and the cleaning plan of that train
+            jobs_list.insert(0, {"kind": "cleaning", "tag": "(cleaning)", "unit_file": str(unit_file),
+                                 "out": str(out)})
+    remote = executor
+    if remote is None and cluster is not None:
+        from .executor import executor_for
+
+        remote = executor_for(cluster)
+    remote_files = None
+    if remote is not None:
+        from .batch_remote import unit_files
+
+        remote_files = unit_files(unit, unit_file)
     params = {"jobs": jobs, "only": " ".join(only or []) or "all", "units": units}
+    if remote is not None:
+        params["cluster"] = cluster or getattr(remote, "address", remote.name)
     from tqdm.auto import tqdm
 
     bar = tqdm(total=len(jobs_list), desc="reports", unit="exchanger", disable=not progress)
@@ -596,7 +648,10 @@ def run_batch(unit_file, out_dir, jobs: int = 2, only=None, progress: bool = Tru
             if jobs_list:
                 for job in jobs_list:
                     job["stage"] = str(run.stage)
-                _execute(jobs_list, min(jobs, len(jobs_list)), on_result, str(run.stage / "tmp"))
+                if remote is not None:
+                    _execute_remote(remote, jobs_list, remote_files, run.stage, on_result)
+                else:
+                    _execute(jobs_list, min(jobs, len(jobs_list)), on_result, str(run.stage / "tmp"))
             with _no_interrupts():
                 for row in rows:  # every job settled; anything still open was lost with its worker
                     if row["status"] == NOT_RUN:

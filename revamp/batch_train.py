@@ -39,6 +39,7 @@ def run_train_page(job: dict) -> dict:
                               tol=PAGE_TOL, points=points)
         throughput = study.throughput["base"]  # today's train, no option
         prov = report.provenance(job["unit_file"], None, parameters={"page": "train", "tol": PAGE_TOL})
+        prov["unit_file"] = job.get("source_unit_file") or prov.get("unit_file")  # as the user named it
         html = train_page(f"{unit.name} — preheat train", today, study, throughput, unit.network_throughput,
                           unit.economics.currency, prov)
         # into the run's temporary folder when there is one: the batch moves it in beside the index that links it

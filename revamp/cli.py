@@ -4,7 +4,7 @@ Usage::
 
     revamp check FILE
     revamp rate FILE --tag TAG [--units SI|US] [--revamp] [--csv FILE]
-    revamp batch FILE --out DIR [--jobs N] [--only TAG ...] [--units SI|US]
+    revamp batch FILE [FILE ...] --out DIR [--jobs N] [--only TAG ...] [--units SI|US] [--cluster ADDRESS]
     revamp demo [--out DIR] [--jobs N] [--units SI|US]
 
 Errors are printed one per line, without a traceback unless ``--debug`` is given; the exit code is 1 when there is
@@ -164,8 +164,26 @@ def _cmd_batch(args) -> int:
 
     _cap_jobs(args)
 
-    result = run_batch(args.file, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet,
-                       units=args.units)
+    files = args.file if isinstance(args.file, list) else [args.file]
+    cluster = getattr(args, "cluster", None)
+    if len(files) > 1:  # a fleet: one folder and index per unit, a fleet index above them
+        from .fleet import run_fleet
+
+        fleet = run_fleet(files, args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet,
+                          units=args.units, cluster=cluster)
+        print(fleet.index_path)
+        failed = False
+        for name, res in fleet.units.items():
+            if res is None:
+                print(f"{_shown(name)}: FAILED: {_shown(fleet.failures[name])}", file=sys.stderr)
+                failed = True
+                continue
+            for tag, reason in res.failures.items():
+                print(f"{_shown(name)}/{_shown(tag)}: FAILED: {_shown(reason)}", file=sys.stderr)
+                failed = True
+        return 1 if failed else 0
+    result = run_batch(files[0], args.out, jobs=args.jobs, only=args.only or None, progress=not args.quiet,
+                       units=args.units, cluster=cluster)
     print(result.index_path)
     for note in getattr(result, "notes", ()):
         print(f"note: {note}", file=sys.stderr)
@@ -198,7 +216,7 @@ def _parser() -> argparse.ArgumentParser:
                            ("demo", "batch on the demo unit into ./reports")):
         p = sub.add_parser(name, help=helptext)
         if name == "batch":
-            p.add_argument("file")
+            p.add_argument("file", nargs="+", help="unit file(s); several make a fleet with an index above them")
             p.add_argument("--out", required=True, help="output folder")
             p.add_argument("--only", nargs="+", metavar="TAG", help="only these exchangers")
         else:
@@ -206,6 +224,8 @@ def _parser() -> argparse.ArgumentParser:
         p.add_argument("--jobs", type=int, default=2, help="notebooks run in parallel (default 2)")
         p.add_argument("--quiet", action="store_true", help="no progress bar")
         p.add_argument("--units", choices=["SI", "US"], default="SI", help="display units of the reports")
+        p.add_argument("--cluster", metavar="ADDRESS", help="run on a Dask cluster: 'local:N' (N local workers) or a "
+                                                            "scheduler address such as tcp://host:8786")
         p.set_defaults(func=_cmd_batch if name == "batch" else _cmd_demo)
     return top
 

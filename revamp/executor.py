@@ -130,6 +130,9 @@ class DaskCluster:
         self.workers = int(m.group(1)) if m else 0
 
     def __enter__(self):
+        self._depth = getattr(self, "_depth", 0) + 1
+        if self._client is not None:  # nested use (a fleet shares one cluster): the outermost block owns it
+            return self
         try:
             from distributed import Client, LocalCluster
         except ImportError:
@@ -149,10 +152,14 @@ class DaskCluster:
         return self
 
     def __exit__(self, *exc):
+        self._depth -= 1
+        if self._depth > 0:
+            return False
         if self._client is not None:
             self._client.close()
         if self._cluster is not None:
             self._cluster.close()
+        self._client = self._cluster = None
         return False
 
     @property

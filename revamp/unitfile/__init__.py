@@ -23,6 +23,7 @@ import re
 from pathlib import Path
 
 from ._building import OPTION_PATH, _build_exchanger, _exchanger_rules
+from ._cleaning import cleaning_quantities, cleaning_rules
 from ._network import build_network, network_quantities, network_rules
 from ._model import (
     SCHEMA_PATH,
@@ -96,6 +97,7 @@ def _validate(path, build: bool, only=None):
     quantity_problems = []
     si = _walk(doc, schema(), [], currency, quantity_problems)
     network_quantities(doc, si, currency, quantity_problems)
+    cleaning_quantities(doc, si, currency, quantity_problems)
     # one line per place: a field the schema already refused is not reported twice
     seen = {p.path for p in problems}
     problems += [p for p in quantity_problems if p.path not in seen]
@@ -106,6 +108,7 @@ def _validate(path, build: bool, only=None):
         if isinstance(x, dict):  # a place already refused (e.g. a NUL in a file name) is not reported twice
             problems += [p for p in _exchanger_rules(x, ["exchangers", i], base, tags) if p.path not in seen]
     problems += network_rules(doc, si)  # also fills the sides that name a network stream
+    problems += cleaning_rules(doc, si)
     if not build or any(not _owned([p], None) for p in problems):  # the unit as a whole is wrong: build nothing
         return None, _sorted(problems)
     e = si.get("economics") or {}
@@ -131,7 +134,8 @@ def _validate(path, build: bool, only=None):
     problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc,
-                network=network, network_throughput=float((si.get("network") or {}).get("throughput", 1.0)))
+                network=network, network_throughput=float((si.get("network") or {}).get("throughput", 1.0)),
+                cleaning=si.get("cleaning") if isinstance(doc.get("cleaning"), dict) else None)
     return unit, _sorted(problems)
 
 

@@ -152,6 +152,7 @@ class Unit:
     raw: dict = field(repr=False, default_factory=dict)
     network: Any = field(default=None, repr=False)
     network_throughput: float = 1.0
+    cleaning: dict | None = field(default=None, repr=False)  #: the ``cleaning`` section in SI (None without one)
 
     @property
     def tags(self) -> list[str]:
