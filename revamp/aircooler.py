@@ -355,8 +355,9 @@ class AirCooler:
 
     @property
     def face_area(self) -> float:
-        """Face area of one bundle [m²] (tubes_per_row x transverse pitch x tube length)."""
-        return self.tubes_per_row * self.transverse_pitch * self.tube_length
+        """Face area of one bundle [m²]: width (tubes_per_row + 1) transverse pitches (the rows are offset by half a
+        pitch, plus half a pitch of side clearance; no side corbels) times the tube length."""
+        return (self.tubes_per_row + 1) * self.transverse_pitch * self.tube_length
 
     @property
     def fan_area(self) -> float:
