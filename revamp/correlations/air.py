@@ -98,7 +98,7 @@ def pressure_at_altitude(altitude):
     Examples
     --------
     >>> round(pressure_at_altitude(0.0)), round(pressure_at_altitude(1000.0))
-    (101325, 89875)
+    (101325, 89874)
     """
     z = _arr(altitude)
     return _out(_P0 * (1.0 - _LAPSE * z / _T0) ** (_G0 / (R_AIR * _LAPSE)))
