@@ -80,3 +80,13 @@ def test_bad_option_is_named():
     paths = {p.path for p in air_cooler_problems(0, entry)}
     assert {"exchangers[0].options[0].speed_ratio", "exchangers[0].options[1].type",
             "exchangers[0].options[2].tube_passes"} <= paths
+
+
+def test_every_bad_field_is_reported_at_once():
+    entry = copy.deepcopy(ENTRY)
+    entry["air_side"]["t_in"] = "35 furlongs"
+    entry["tube_side"]["fouling"] = -1
+    entry["geometry"]["fin"]["bond"] = "glued"
+    paths = {p.path for p in air_cooler_problems(1, entry)}
+    assert {"exchangers[1].air_side.t_in", "exchangers[1].tube_side.fouling",
+            "exchangers[1].geometry.fin.bond"} <= paths

@@ -141,6 +141,38 @@ def _guard(problems, prefix, func, rename=None):
     return None
 
 
+#: quantity fields checked one by one before the constructors run (so that every bad one is reported at once):
+#: section -> field -> (kind, lower bound, strict)
+_QUANTITIES = {
+    "geometry": {**{k: ("length", 0.0, True) for k in ("tube_length", "tube_od", "tube_wall", "transverse_pitch",
+                                                        "row_pitch", "fan_diameter")},
+                 "tube_roughness": ("length", 0.0, False)},
+    "tube_side": {"flow": ("mass_flow", 0.0, True), "t_in": ("temperature", 0.0, True),
+                  "fouling": ("fouling", 0.0, False), "dp_allowed": ("pressure", 0.0, True)},
+    "air_side": {"flow": ("mass_flow", 0.0, True), "t_in": ("temperature", 0.0, True),
+                 "face_velocity": ("velocity", 0.0, True), "altitude": ("length", None, False),
+                 "fouling": ("fouling", 0.0, False)},
+}
+
+
+def _quantity_problems(section: dict, name: str, where: str, problems: list):
+    from ..units import to_si
+
+    for key, (kind, low, strict) in _QUANTITIES[name].items():
+        if key not in section:
+            continue
+        try:
+            v = to_si(section[key], kind, key)
+        except InputError as exc:
+            problems.append(Problem(f"{where}.{key}", _show(section[key]), f"must be {exc.allowed}"))
+            continue
+        if not isinstance(v, float):
+            problems.append(Problem(f"{where}.{key}", _show(section[key]), "must be one value (not a list)"))
+        elif low is not None and (v <= low if strict else v < low):
+            problems.append(Problem(f"{where}.{key}", _show(section[key]), f"must be {'>' if strict else '>='} "
+                                    f"{low:g} (SI)"))
+
+
 def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
     """Check and build ``exchangers[i]`` of ``kind: air cooler``; problems are appended (paths from the file)."""
     from .. import aircooler, options, options_air, service, service_air
@@ -160,6 +192,13 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
     air = _mapping(x, "air_side", pre, problems)
     hot = _mapping(x, "hot_day", pre, problems, required=False)
     exchanger = svc = None
+    failed = set()
+    for name, section in (("geometry", geo), ("tube_side", tube), ("air_side", air)):
+        if section is not None:
+            before = len(problems)
+            _quantity_problems(section, name, f"{pre}.{name}", problems)
+            if len(problems) > before:
+                failed.add(name)
     if geo is not None:
         _unknown(geo, _GEOMETRY, f"{pre}.geometry", problems)
         fin_spec = _mapping(geo, "fin", f"{pre}.geometry", problems)
@@ -168,12 +207,12 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
             _unknown(fin_spec, _FIN, f"{pre}.geometry.fin", problems)
             fin = _guard(problems, f"{pre}.geometry.fin", lambda: aircooler.Fin(**fin_spec),
                          rename=lambda f: f[4:] if f.startswith("fin.") else f)
-        if fin is not None and len(problems) == start:
+        if fin is not None and len(problems) == start:  # geometry with no problem so far
             kw = {k: v for k, v in geo.items() if k != "fin"}
             exchanger = _guard(problems, f"{pre}.geometry",
                                lambda: aircooler.AirCooler(**kw, fin=fin, name=str(tag)))
     stream = None
-    if tube is not None:
+    if tube is not None and "tube_side" not in failed:
         _unknown(tube, _TUBE, f"{pre}.tube_side", problems)
         spec = tube.get("fluid")
         fluid = None
@@ -186,7 +225,7 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
                             lambda: service.Stream(fluid, tube.get("flow"), tube.get("t_in")))
     if air is not None:
         _unknown(air, _AIR, f"{pre}.air_side", problems)
-    if stream is not None and air is not None:
+    if stream is not None and air is not None and "air_side" not in failed:
         names = {"t_in": "air_in", "flow": "air_flow", "fouling": "fouling_air"}
         back = {v: k for k, v in names.items()}
         kw = {names.get(k, k): v for k, v in air.items()}
