@@ -229,6 +229,45 @@ def test_F_against_ht_Ft_aircooler(rows, passes, tol):
                 assert F == pytest.approx(f_ref, abs=tol)
 
 
+def _eps_from_ht(ntu, cr, tube_min, rows, passes):
+    """The effectiveness at which ht.Ft_aircooler's F equals Q/(UA LMTD) (the fit turned into a duty)."""
+    from scipy.optimize import brentq
+
+    def gap(e):
+        c_t, c_a = (1.0, 1.0 / cr) if tube_min else (cr, 1.0)
+        c_min = min(c_t, c_a)
+        q = e * c_min * 100.0
+        tho, tco = 400.0 - q / c_t, 300.0 + q / c_a
+        return ht.Ft_aircooler(400.0, tho, 300.0, tco, Ntp=passes, rows=rows) - q / (ntu * c_min) / ht.LMTD(
+            400.0, tho, 300.0, tco)
+
+    return brentq(gap, 1e-6, 1.0 - 1e-6)
+
+
+# In duty terms, up to NTU 3: the effectiveness implied by ht.Ft_aircooler (Roetzel & Nicole 1975) and ours agree
+# within 0.013 for these arrangements, 0.025 for two rows in one pass (both-unmixed is the deep-bank limit); one row
+# in one pass is left out: there ht's fit and the exact one-fluid-mixed relation (Incropera Table 11.3) differ by up
+# to 0.032, and the textbook relation is the one used.
+@pytest.mark.parametrize("rows, passes, tol", [(2, 1, 0.025), (3, 1, 0.013), (4, 1, 0.013), (2, 2, 0.013),
+                                               (3, 3, 0.013), (4, 4, 0.013), (4, 2, 0.013)])
+def test_effectiveness_against_ht_up_to_ntu_3(rows, passes, tol):
+    for ntu in (0.5, 1.5, 3.0):
+        for cr in (0.3, 0.7, 1.0):
+            for tube_min in (True, False):
+                eps, _ = effectiveness_air_cooler(np.array(ntu), np.array(cr), np.array(tube_min), rows, passes)
+                assert float(eps) == pytest.approx(_eps_from_ht(ntu, cr, tube_min, rows, passes), abs=tol)
+
+
+def test_one_row_one_pass_is_the_textbook_relation():
+    # Incropera et al. (2007) Table 11.3, cross flow with Cmax mixed: eps = (1/Cr)(1 - exp(-Cr(1 - exp(-NTU))))
+    # and with Cmin mixed: eps = 1 - exp(-(1/Cr)(1 - exp(-Cr NTU))); the tube fluid is the mixed one
+    ntu, cr = 1.3, 0.6
+    e_max, _ = effectiveness_air_cooler(np.array(ntu), np.array(cr), np.array(False), 1, 1)
+    e_min, _ = effectiveness_air_cooler(np.array(ntu), np.array(cr), np.array(True), 1, 1)
+    assert float(e_max) == pytest.approx((1 - math.exp(-cr * (1 - math.exp(-ntu)))) / cr, rel=1e-12)
+    assert float(e_min) == pytest.approx(1 - math.exp(-(1 - math.exp(-cr * ntu)) / cr), rel=1e-12)
+
+
 def test_rating_F_is_q_over_UA_LMTD():
     r = rv.rate(_cooler(), _service())
     # definition of F: Q = U A F LMTD
