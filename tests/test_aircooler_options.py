@@ -92,3 +92,16 @@ def test_hot_day_sweep_and_limit():
     assert np.isnan(hopeless.ambient_limit) and hopeless.notes
     with pytest.raises(InputError, match="t_out_target"):
         hot_day(AC, SVC, ambient=amb, t_out_target="200 degC")
+
+
+def test_hot_day_chart_shows_the_numbers_it_is_given():
+    from revamp.plots_air import hot_day_chart
+
+    amb = np.array([283.15, 298.15, 313.15])
+    hd = hot_day(AC, SVC, ambient=amb, t_out_target=330.0)
+    fig = hot_day_chart(hd)
+    outlet = fig.data[0]
+    # the chart converts K to °C for display (t[°C] = T[K] - 273.15, definition)
+    assert np.allclose(outlet.x, amb - 273.15) and np.allclose(outlet.y, hd.t_out_tube - 273.15)
+    texts = " ".join(a.text for a in fig.layout.annotations)
+    assert "target" in texts and "lost above" in texts
