@@ -1,8 +1,9 @@
 """The hot-day limit of an air cooler: the rating across ambient temperature and the ambient at which a target tube
 outlet is lost (layer 6).
 
->>> # hd = hot_day(ac, svc, ambient=np.linspace(273.15, 318.15, 10), t_out_target="60 degC")
->>> # hd.ambient_limit -> the hottest ambient [K] at which the tube outlet still meets 60 °C
+Usage: ``hd = hot_day(ac, svc, ambient=np.linspace(273.15, 318.15, 10), t_out_target="60 degC")``; then
+``hd.ambient_limit`` is the hottest ambient [K] at which the tube outlet still meets 60 °C, ``hd.to_frame()`` the sweep
+and :func:`revamp.plots_air.hot_day_chart` its chart.
 """
 from __future__ import annotations
 

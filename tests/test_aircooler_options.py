@@ -105,3 +105,18 @@ def test_hot_day_chart_shows_the_numbers_it_is_given():
     assert np.allclose(outlet.x, amb - 273.15) and np.allclose(outlet.y, hd.t_out_tube - 273.15)
     texts = " ".join(a.text for a in fig.layout.annotations)
     assert "target" in texts and "lost above" in texts
+
+
+def test_hot_day_with_a_face_velocity_moves_less_air_when_hot():
+    svc = SVC.replace(air_flow=None, face_velocity="3 m/s")
+    hd = hot_day(AC, svc, ambient=np.array([283.15, 313.15]))
+    # a fixed volume of air at the face: the mass falls as 1/T (ideal gas, definition)
+    flow = hd.rating.air_flow
+    assert flow[1] / flow[0] == pytest.approx(283.15 / 313.15, rel=1e-9)
+
+
+def test_induced_draft_fans_move_hotter_air_and_need_more_power():
+    forced = rate_air_cooler(AC, SVC)
+    induced = rate_air_cooler(AC.replace(draft="induced"), SVC)
+    # the same mass at the air outlet is a larger volume (ideal gas): more fan power for the same pressure drop
+    assert induced.duty == pytest.approx(forced.duty) and induced.fan_power > forced.fan_power
