@@ -293,8 +293,13 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
             raise InputError(name, value, f"one of {sorted(allowed)}")
     fluid = service.tube.fluid
     air_given = service.air_flow if service.air_flow is not None else service.face_velocity
-    shape = np.broadcast_shapes(*(np.shape(v) for v in (service.tube.flow, service.tube.t_in, service.air_in,
-                                                         air_given, service.fouling_tube, service.fouling_air)))
+    shapes = [np.shape(v) for v in (service.tube.flow, service.tube.t_in, service.air_in, air_given,
+                                     service.fouling_tube, service.fouling_air)]
+    try:
+        shape = np.broadcast_shapes(*shapes)
+    except ValueError:
+        raise InputError("service", f"arrays of shapes {shapes}", "arrays that broadcast together (numpy rules): "
+                         "tube flow, tube inlet, ambient, air flow, fouling") from None
     n = int(np.prod(shape, dtype=int))
 
     def flat(v):

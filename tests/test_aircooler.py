@@ -325,6 +325,11 @@ def test_bad_service_and_methods():
         rv.rate(_cooler(), _service(air_in=423.15, tube=rv.Stream(OIL, 25.0, 423.15)))
 
 
+def test_arrays_that_do_not_broadcast_are_refused():
+    with pytest.raises(InputError, match="broadcast"):
+        rv.rate(_cooler(), _service(air_in=np.array([300.0, 310.0]), air_flow=np.array([100.0, 200.0, 300.0])))
+
+
 def test_tension_wound_fin_without_bond_resistance_warns():
     ac = _cooler(fin=rv.Fin(height="15.9 mm", thickness="0.4 mm", per_length="394 /m", bond="l-footed"))
     r = rv.rate(ac, _service())
