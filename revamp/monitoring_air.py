@@ -2,7 +2,7 @@
 
 Air outlet temperature and air flow are rarely measured on an air cooler. The duty comes from the tube side (flow,
 inlet and outlet temperatures); the air takes it at a *stated* air flow (from the fan data sheet, or from the fan
-power through the fan laws) and the measured ambient. The effectiveness then gives the NTU of the bundle as it
+power through the fan laws: :func:`revamp.correlations.air.air_flow_from_fan_power`) and the measured ambient. The effectiveness then gives the NTU of the bundle as it
 operates, hence ``U_actual``; the clean ``U`` is the rating of the clean bundle at the same operating state; their
 difference is the total fouling on the bare outside-tube basis, ``Rf = 1/U_actual - 1/U_clean``.
 

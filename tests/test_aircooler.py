@@ -207,6 +207,14 @@ def test_fan_laws_and_power_by_definition():
         100.0 * (150.0 + 0.5 * 1.2 * 25.0) / 0.6)
 
 
+def test_air_flow_from_fan_power_inverts_the_fan_laws():
+    # fan laws (definition): at speed ratio n, flow x n and power x n³ (same density); with a density ratio r,
+    # power x n³ r and mass flow x n r
+    n, r = 0.9, 0.95
+    q, _, w = air.fan_laws(n, density_ratio=r)
+    assert air.air_flow_from_fan_power(100e3 * w, 100e3, 400.0, density_ratio=r) == pytest.approx(400.0 * q * r)
+
+
 # --------------------------------------------------------------------------------------------- cross-flow F
 # Agreement with Roetzel & Nicole (1975) through ht.Ft_aircooler, NTU 0.3..1 (the usual air-cooler range), as measured
 # for the relations of revamp.thermal_air: within 0.008 in F for each of these arrangements.

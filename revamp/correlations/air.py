@@ -47,6 +47,7 @@ __all__ = [
     "FIN_EFFICIENCY_METHODS",
     "R_AIR",
     "air_properties",
+    "air_flow_from_fan_power",
     "air_side_warnings",
     "dp_esdu_high_fin",
     "dp_robinson_briggs",
@@ -410,3 +411,37 @@ def fan_laws(speed_ratio, density_ratio=1.0):
     """
     n, r = _arr(speed_ratio), _arr(density_ratio)
     return _out(n), _out(n * n * r), _out(n ** 3 * r)
+
+
+def air_flow_from_fan_power(power, design_power, design_air_flow, density_ratio=1.0):
+    """Air mass flow from a measured fan power and the fan's design point, by the fan laws (same fan, same system,
+    another speed): Q2/Q1 = (P2/P1 x rho1/rho2)^(1/3), so m2/m1 = (rho2/rho1)^(2/3) (P2/P1)^(1/3).
+
+    Parameters
+    ----------
+    power : float or array_like
+        Measured shaft power [W].
+    design_power : float
+        Shaft power at the design point [W].
+    design_air_flow : float
+        Air mass flow at the design point [kg/s].
+    density_ratio : float or array_like
+        rho2/rho1, air density at the fans now over at the design point [-].
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Air mass flow [kg/s].
+
+    References
+    ----------
+    Kröger, D. G. (2004). *Air-Cooled Heat Exchangers and Cooling Towers*, Vol. 1, ch. 8 (fan laws).
+
+    Examples
+    --------
+    >>> round(air_flow_from_fan_power(80e3, 100e3, 400.0), 2)
+    371.33
+    """
+    ratio = _arr(power) / design_power
+    r = _arr(density_ratio)
+    return _out(design_air_flow * ratio ** (1.0 / 3.0) * r ** (2.0 / 3.0))
