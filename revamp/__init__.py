@@ -29,6 +29,11 @@ _EXPORTS = {
     "compare_train": "revamp.train",
     "study_exchanger": "revamp.studies",
     "ExchangerStudy": "revamp.studies",
+    "AirCooler": "revamp.aircooler",
+    "Fin": "revamp.aircooler",
+    "AirService": "revamp.service_air",
+    "AirRating": "revamp.rating_air",
+    "hot_day": "revamp.hot_day",
 }
 _SUBMODULES = {"fluids", "materials", "fouling", "units", "options", "screening", "economics", "thermal",
                "resistance", "geometry", "correlations", "plots", "unitfile", "batch", "train", "studies"}

@@ -50,6 +50,21 @@ __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"
 #: Shell-side methods by name: the one registry, defined beside the correlations and dispatched here only.
 SHELL_METHODS = shell_corr.SHELL_METHODS
 
+#: Exchanger kinds other than shell-and-tube: the exchanger class's ``kind`` -> "module:function" that rates it
+#: (imported on first use; see docs/architecture.md, "The exchanger protocol"). Shell-and-tube is the default path.
+RATERS = {"air cooler": "revamp.rating_air:rate_air_cooler"}
+
+
+def _rater(exchanger):
+    """The rating function registered for the exchanger's kind, or None for shell-and-tube."""
+    target = RATERS.get(getattr(type(exchanger), "kind", None))
+    if target is None:
+        return None
+    import importlib
+
+    module, name = target.split(":")
+    return getattr(importlib.import_module(module), name)
+
 _MAX_ITER = 60
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
 _SEAM_STEP_K = 1e-3  # a case at a seam stops when its halved step moves it by less than this [K]
@@ -382,6 +397,9 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     Identical shells in series (``exchanger.shells``) combine by the series effectiveness relation; identical trains
     in parallel (``exchanger.shells_parallel``) each take ``flow / shells_parallel`` of both streams.
     """
+    other = _rater(exchanger)
+    if other is not None:  # another exchanger kind rates itself (its own service and result types)
+        return other(exchanger, service)
     if shell_method not in SHELL_METHODS:
         raise InputError("shell_method", shell_method, f"one of {sorted(SHELL_METHODS)}")
     if not isinstance(service, Service):

@@ -1,0 +1,282 @@
+"""Unit-file entries of ``kind: air cooler``: checked and built into an :class:`AirCoolerCase` (layer 8).
+
+An entry as written in the unit file (YAML already read; values as the user wrote them, with their units)::
+
+    - tag: AC-101
+      kind: air cooler
+      geometry:
+        bays: 2
+        bundles_per_bay: 1
+        tube_rows: 4
+        tubes_per_row: 46
+        tube_passes: 4
+        tube_length: 9.14 m
+        tube_od: 25.4 mm
+        tube_wall: 2.11 mm
+        transverse_pitch: 63.5 mm
+        row_pitch: 55 mm
+        tube_material: carbon steel
+        fin: {height: 15.9 mm, thickness: 0.4 mm, per_length: 394 /m, material: aluminium, bond: embedded}
+        fans_per_bay: 2
+        fan_diameter: 3.66 m
+        fan_efficiency: 0.65
+        draft: forced
+      tube_side: {fluid: {kind: constant, ...}, flow: 25 kg/s, t_in: 150 degC, fouling: 0.0003 m**2*K/W}
+      air_side: {t_in: 35 degC, flow: 420 kg/s, altitude: 300 m, fouling: 0.0001 m**2*K/W}   # or face_velocity
+      hot_day: {ambient: [20 degC, 30 degC, 40 degC, 45 degC], t_out_target: 60 degC}
+      options:
+        - {type: add_bays, n: 1}
+        - {type: more_rows, tube_rows: 6, tube_passes: 6}
+        - {type: fan_upgrade, speed_ratio: 1.15}
+        - {type: clean_fins}
+        - {type: twisted_tape, twist_ratio: 4}
+
+:func:`air_cooler_problems` lists every problem with its path (as :func:`revamp.unitfile.check` does for
+shell-and-tube entries); :func:`build_air_cooler` returns the case or ``None`` and appends the problems. The
+schema fragment :data:`AIR_COOLER_SCHEMA` describes the entry for ``unit_schema.json``.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..errors import InputError
+from ._model import Problem
+from ._reading import _show
+
+__all__ = ["AIR_COOLER_KIND", "AIR_COOLER_SCHEMA", "AirCoolerCase", "air_cooler_problems", "build_air_cooler"]
+
+AIR_COOLER_KIND = "air cooler"
+
+_GEOMETRY = {"bays", "bundles_per_bay", "tube_rows", "tubes_per_row", "tube_passes", "tube_length", "tube_od",
+             "tube_wall", "transverse_pitch", "row_pitch", "tube_material", "fin", "fans_per_bay", "fan_diameter",
+             "fan_efficiency", "draft", "tube_roughness"}
+_FIN = {"height", "thickness", "per_length", "material", "bond", "bond_resistance"}
+_TUBE = {"fluid", "flow", "t_in", "fouling", "dp_allowed"}
+_AIR = {"t_in", "flow", "face_velocity", "altitude", "fouling"}
+_HOT = {"ambient", "t_out_target"}
+_ENTRY = {"tag", "kind", "description", "geometry", "tube_side", "air_side", "hot_day", "options"}
+#: option ``type`` -> (class name, module, fields)
+_OPTIONS = {
+    "add_bays": ("AddBays", "options_air", {"n"}),
+    "add_bundles": ("AddBundles", "options_air", {"n"}),
+    "more_rows": ("MoreRows", "options_air", {"tube_rows", "tube_passes"}),
+    "fan_upgrade": ("FanUpgrade", "options_air", {"speed_ratio", "air_flow_ratio"}),
+    "clean_fins": ("CleanFins", "options_air", {"side", "residual"}),
+    "twisted_tape": ("TwistedTape", "options", {"twist_ratio", "thickness"}),
+    "wire_coil": ("WireCoil", "options", {"pitch", "wire_diameter"}),
+}
+
+_Q = {"type": ["string", "number"]}
+AIR_COOLER_SCHEMA = {
+    "type": "object",
+    "required": ["tag", "kind", "geometry", "tube_side", "air_side"],
+    "additionalProperties": False,
+    "properties": {
+        "tag": {"type": "string", "minLength": 1, "maxLength": 64},
+        "kind": {"const": AIR_COOLER_KIND},
+        "description": {"type": "string"},
+        "geometry": {"type": "object", "additionalProperties": False,
+                     "properties": {**{k: _Q for k in _GEOMETRY - {"fin", "draft", "tube_material"}},
+                                    "tube_material": _Q, "draft": {"enum": ["forced", "induced"]},
+                                    "fin": {"type": "object", "additionalProperties": False,
+                                            "properties": {k: _Q for k in _FIN}}}},
+        "tube_side": {"type": "object", "additionalProperties": False, "required": ["fluid", "flow", "t_in"],
+                      "properties": {"fluid": {"$ref": "#/$defs/fluid"}, **{k: _Q for k in _TUBE - {"fluid"}}}},
+        "air_side": {"type": "object", "additionalProperties": False, "required": ["t_in"],
+                     "properties": {k: _Q for k in _AIR}},
+        "hot_day": {"type": "object", "additionalProperties": False,
+                    "properties": {"ambient": {"type": "array", "items": _Q, "minItems": 1, "maxItems": 200},
+                                   "t_out_target": _Q}},
+        "options": {"type": "array", "items": {"type": "object", "required": ["type"],
+                                               "properties": {"type": {"enum": sorted(_OPTIONS)}}}},
+    },
+}
+
+
+@dataclass(frozen=True)
+class AirCoolerCase:
+    """One air cooler of a unit, ready to rate (:func:`revamp.rate`), compare (:func:`revamp.options_air.compare_air`)
+    and sweep (:func:`revamp.hot_day.hot_day`)."""
+
+    tag: str
+    description: str
+    exchanger: object
+    service: object
+    options: tuple = ()
+    hot_day_ambient: tuple | None = None
+    t_out_target: float | None = None
+    dp_allowed_tube: float | None = None
+    kind: str = AIR_COOLER_KIND
+
+
+def _unknown(section: dict, allowed: set, where: str, problems: list):
+    for key in section:
+        if key not in allowed:
+            problems.append(Problem(f"{where}.{key}", _show(section[key]),
+                                    f"must be one of the known fields: {', '.join(sorted(allowed))}"))
+
+
+def _mapping(x, key, where, problems, required=True):
+    value = x.get(key)
+    if value is None:
+        if required:
+            problems.append(Problem(f"{where}.{key}", "(missing)", "must be given"))
+        return None
+    if not isinstance(value, dict):
+        problems.append(Problem(f"{where}.{key}", _show(value), "must be a mapping of fields"))
+        return None
+    return value
+
+
+def _guard(problems, prefix, func, rename=None):
+    """Run a constructor; its InputError becomes a Problem under ``prefix`` (never a traceback)."""
+    try:
+        return func()
+    except InputError as exc:
+        name = rename(exc.field) if rename else exc.field
+        problems.append(Problem(f"{prefix}.{name}" if name else prefix,
+                                exc.value if isinstance(exc.value, str) else _show(exc.value), f"must be {exc.allowed}"))
+    except Exception as exc:  # a constructor failing another way: one line, never a traceback
+        problems.append(Problem(prefix, "(as given)", f"could not be built: {exc.__class__.__name__}: {exc}"))
+    return None
+
+
+#: quantity fields checked one by one before the constructors run (so that every bad one is reported at once):
+#: section -> field -> (kind, lower bound, strict)
+_QUANTITIES = {
+    "geometry": {**{k: ("length", 0.0, True) for k in ("tube_length", "tube_od", "tube_wall", "transverse_pitch",
+                                                        "row_pitch", "fan_diameter")},
+                 "tube_roughness": ("length", 0.0, False)},
+    "tube_side": {"flow": ("mass_flow", 0.0, True), "t_in": ("temperature", 0.0, True),
+                  "fouling": ("fouling", 0.0, False), "dp_allowed": ("pressure", 0.0, True)},
+    "air_side": {"flow": ("mass_flow", 0.0, True), "t_in": ("temperature", 0.0, True),
+                 "face_velocity": ("velocity", 0.0, True), "altitude": ("length", None, False),
+                 "fouling": ("fouling", 0.0, False)},
+}
+
+
+def _quantity_problems(section: dict, name: str, where: str, problems: list):
+    from ..units import to_si
+
+    for key, (kind, low, strict) in _QUANTITIES[name].items():
+        if key not in section:
+            continue
+        try:
+            v = to_si(section[key], kind, key)
+        except InputError as exc:
+            problems.append(Problem(f"{where}.{key}", _show(section[key]), f"must be {exc.allowed}"))
+            continue
+        if not isinstance(v, float):
+            problems.append(Problem(f"{where}.{key}", _show(section[key]), "must be one value (not a list)"))
+        elif low is not None and (v <= low if strict else v < low):
+            problems.append(Problem(f"{where}.{key}", _show(section[key]), f"must be {'>' if strict else '>='} "
+                                    f"{low:g} (SI)"))
+
+
+def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
+    """Check and build ``exchangers[i]`` of ``kind: air cooler``; problems are appended (paths from the file)."""
+    from .. import aircooler, options, options_air, service, service_air
+    from ..units import to_si
+    from ._building import _build_fluid
+
+    pre, start = f"exchangers[{i}]", len(problems)
+    if not isinstance(x, dict):
+        problems.append(Problem(pre, _show(x), "must be a mapping"))
+        return None
+    _unknown(x, _ENTRY, pre, problems)
+    tag = x.get("tag")
+    if not isinstance(tag, str) or not tag.strip():
+        problems.append(Problem(f"{pre}.tag", _show(tag), "must be a non-empty name"))
+    geo = _mapping(x, "geometry", pre, problems)
+    tube = _mapping(x, "tube_side", pre, problems)
+    air = _mapping(x, "air_side", pre, problems)
+    hot = _mapping(x, "hot_day", pre, problems, required=False)
+    exchanger = svc = None
+    failed = set()
+    for name, section in (("geometry", geo), ("tube_side", tube), ("air_side", air)):
+        if section is not None:
+            before = len(problems)
+            _quantity_problems(section, name, f"{pre}.{name}", problems)
+            if len(problems) > before:
+                failed.add(name)
+    if geo is not None:
+        _unknown(geo, _GEOMETRY, f"{pre}.geometry", problems)
+        fin_spec = _mapping(geo, "fin", f"{pre}.geometry", problems)
+        fin = None
+        if fin_spec is not None:
+            _unknown(fin_spec, _FIN, f"{pre}.geometry.fin", problems)
+            fin = _guard(problems, f"{pre}.geometry.fin", lambda: aircooler.Fin(**fin_spec),
+                         rename=lambda f: f[4:] if f.startswith("fin.") else f)
+        if fin is not None and len(problems) == start:  # geometry with no problem so far
+            kw = {k: v for k, v in geo.items() if k != "fin"}
+            exchanger = _guard(problems, f"{pre}.geometry",
+                               lambda: aircooler.AirCooler(**kw, fin=fin, name=str(tag)))
+    stream = None
+    if tube is not None and "tube_side" not in failed:
+        _unknown(tube, _TUBE, f"{pre}.tube_side", problems)
+        spec = tube.get("fluid")
+        fluid = None
+        if not isinstance(spec, dict) or "kind" not in spec:
+            problems.append(Problem(f"{pre}.tube_side.fluid", _show(spec), "must be a fluid mapping with a 'kind'"))
+        else:
+            fluid = _guard(problems, f"{pre}.tube_side.fluid", lambda: _build_fluid(dict(spec)))
+        if fluid is not None:
+            stream = _guard(problems, f"{pre}.tube_side",
+                            lambda: service.Stream(fluid, tube.get("flow"), tube.get("t_in")))
+    if air is not None:
+        _unknown(air, _AIR, f"{pre}.air_side", problems)
+    if stream is not None and air is not None and "air_side" not in failed:
+        names = {"t_in": "air_in", "flow": "air_flow", "fouling": "fouling_air"}
+        back = {v: k for k, v in names.items()}
+        kw = {names.get(k, k): v for k, v in air.items()}
+        kw["fouling_tube"] = tube.get("fouling", 0.0)
+
+        def rename(f):
+            if f == "fouling_tube":
+                return "tube_side.fouling"
+            return "air_side." + back.get(f, f)
+
+        svc = _guard(problems, pre, lambda: service_air.AirService(tube=stream, **kw), rename=rename)
+    opts = []
+    for j, spec in enumerate(x.get("options") or []):
+        where = f"{pre}.options[{j}]"
+        if not isinstance(spec, dict) or spec.get("type") not in _OPTIONS:
+            problems.append(Problem(f"{where}.type", _show(spec.get("type") if isinstance(spec, dict) else spec),
+                                    f"must be one of {', '.join(sorted(_OPTIONS))}"))
+            continue
+        cls_name, module, fields = _OPTIONS[spec["type"]]
+        _unknown({k: v for k, v in spec.items() if k not in ("type", "label")}, fields, where, problems)
+        cls = getattr(options_air if module == "options_air" else options, cls_name)
+        params = {k: v for k, v in spec.items() if k in fields | {"label"}}
+        opt = _guard(problems, where, lambda: cls(**params), rename=lambda f: f.split(".", 1)[-1])
+        if opt is not None and exchanger is not None and svc is not None:
+            if _guard(problems, where, lambda: opt.apply(exchanger, svc), rename=lambda f: f.split(".", 1)[-1]):
+                opts.append(opt)
+    ambient = target = None
+    if hot is not None:
+        _unknown(hot, _HOT, f"{pre}.hot_day", problems)
+        amb = hot.get("ambient")
+        if amb is not None:
+            if not isinstance(amb, list) or not amb:
+                problems.append(Problem(f"{pre}.hot_day.ambient", _show(amb), "must be a list of temperatures"))
+            else:
+                vals = [_guard(problems, f"{pre}.hot_day.ambient[{k}]", lambda v=v: to_si(v, "temperature", ""))
+                        for k, v in enumerate(amb)]
+                ambient = tuple(vals) if None not in vals else None
+        if hot.get("t_out_target") is not None:
+            target = _guard(problems, f"{pre}.hot_day", lambda: to_si(hot["t_out_target"], "temperature",
+                                                                       "t_out_target"))
+    dp_allowed = None
+    if tube is not None and tube.get("dp_allowed") is not None:
+        dp_allowed = _guard(problems, f"{pre}.tube_side", lambda: to_si(tube["dp_allowed"], "pressure", "dp_allowed"))
+    if len(problems) > start or exchanger is None or svc is None:
+        return None
+    return AirCoolerCase(tag=tag, description=str(x.get("description", "")), exchanger=exchanger, service=svc,
+                         options=tuple(opts), hot_day_ambient=ambient, t_out_target=target, dp_allowed_tube=dp_allowed)
+
+
+def air_cooler_problems(i: int, x: dict) -> list[Problem]:
+    """Every problem of ``exchangers[i]`` (an air-cooler entry); empty when it builds."""
+    problems: list[Problem] = []
+    build_air_cooler(i, x, problems)
+    return problems
