@@ -259,6 +259,9 @@ def pure(name: str, pressure="10 bar") -> CoolPropLiquid:
     """
     if not isinstance(name, str) or not name.strip():
         raise InputError("pure.name", name, "a CoolProp fluid name (see CoolProp.CoolProp.FluidsList())")
+    if any(ch in name for ch in "&[]:|"):  # CoolProp's mixture and backend syntax: never a pure fluid
+        raise InputError("pure.name", name, "one pure fluid's name (mixtures such as 'Water&Ethanol' and backend "
+                                            "prefixes are not supported: give the mixture as a property table)")
     CP = _coolprop()
     try:
         canonical = CP.get_fluid_param_string(name.strip(), "name")

@@ -361,6 +361,8 @@ def monitor(exchanger, service, data, columns=None, uncertainty=None, *, steady=
     pdata = read_plant_data(data, columns, sort=sort, flat_rows=flat_rows, dialect=dialect)
     tab = pdata.frame.copy()
     n = len(tab)
+    if n == 0:
+        raise InputError("data", "(no rows)", "plant data with at least one row below the header")
     valid = tab["valid"].to_numpy().copy()
     x = tab[_X].to_numpy(dtype=float)
     sig = _e.sigmas(uncertainty, x)
