@@ -11,6 +11,7 @@ import time
 from pathlib import Path
 
 from . import report
+from .batch_train import page_failed, page_section
 
 __all__ = ["CLEANING_FILE", "index_section", "run_cleaning_page"]
 
@@ -43,20 +44,16 @@ def run_cleaning_page(job: dict) -> dict:
         return {"status": "ok", "reason": "", "file": CLEANING_FILE, "summary": summary, "staged": str(staged),
                 "seconds": time.perf_counter() - start}
     except Exception as exc:  # recorded in the index, never stops the batch
-        return {"status": "failed", "reason": f"{exc.__class__.__name__}: {exc}"[:300], "file": None, "summary": {},
-                "seconds": time.perf_counter() - start}
+        return page_failed(exc, start)
 
 
 def index_section(result: dict | None) -> str:
     """The index's section on the cleaning plan (empty when the unit has no cleaning section)."""
-    if not result:
-        return ""
-    if result["status"] != "ok":
-        return ('<section id="cleaning"><h2>Cleaning plan</h2><p class="rv-status-failed">The cleaning page failed: '
-                f"{report.esc(result['reason'])}</p></section>")
-    s = result["summary"]
-    text = (f"{s['cleanings']} cleaning(s) over the horizon, {s['total']:,.0f} {report.esc(s['currency'])} in fuel "
+    return page_section("cleaning", "Cleaning plan", CLEANING_FILE, "When to clean which bundle", result,
+                        _cleaning_text)
+
+
+def _cleaning_text(s: dict) -> str:
+    return (f"{s['cleanings']} cleaning(s) over the horizon, {s['total']:,.0f} {report.esc(s['currency'])} in fuel "
             f"and cleaning; {100 * s['saving']:.3g} % below the best reference policy "
             f"({report.esc(s['best_reference'])}).")
-    return (f'<section id="cleaning"><h2>Cleaning plan</h2><p><a href="{CLEANING_FILE}">When to clean which bundle'
-            f"</a>: {text}</p></section>")

@@ -11,7 +11,7 @@ from pathlib import Path
 
 from . import report
 
-__all__ = ["TRAIN_FILE", "index_section", "run_train_page"]
+__all__ = ["TRAIN_FILE", "index_section", "page_failed", "page_section", "run_train_page"]
 
 TRAIN_FILE = "train.html"
 #: solve tolerance of the page [K]: screening-level (a thousandth of a kelvin on every exchanger inlet)
@@ -51,18 +51,33 @@ def run_train_page(job: dict) -> dict:
         return {"status": "ok", "reason": "", "file": TRAIN_FILE, "summary": summary, "staged": str(staged),
                 "seconds": time.perf_counter() - start}
     except Exception as exc:  # recorded in the index, never stops the batch
-        return {"status": "failed", "reason": f"{exc.__class__.__name__}: {exc}"[:300], "file": None, "summary": {},
-                "seconds": time.perf_counter() - start}
+        return page_failed(exc, start)
+
+
+def page_failed(exc: BaseException, start: float) -> dict:
+    """The result of a unit page's job that failed (recorded in the index; never stops the batch)."""
+    return {"status": "failed", "reason": f"{exc.__class__.__name__}: {exc}"[:300], "file": None, "summary": {},
+            "seconds": time.perf_counter() - start}
+
+
+def page_section(section_id: str, heading: str, file: str, link_text: str, result: dict | None, text) -> str:
+    """The index's section on one of the unit's pages: a link and ``text(summary)``, or why the page failed (empty
+    when the unit has no such page)."""
+    if not result:
+        return ""
+    if result["status"] != "ok":
+        return (f'<section id="{section_id}"><h2>{heading}</h2><p class="rv-status-failed">This page failed: '
+                f"{report.esc(result['reason'])}</p></section>")
+    return (f'<section id="{section_id}"><h2>{heading}</h2><p><a href="{file}">{link_text}</a>: '
+            f"{text(result['summary'])}</p></section>")
 
 
 def index_section(result: dict | None) -> str:
     """The index's section on the train (empty when the unit has no network)."""
-    if not result:
-        return ""
-    if result["status"] != "ok":
-        return ('<section id="train"><h2>Preheat train</h2><p class="rv-status-failed">The train page failed: '
-                f"{report.esc(result['reason'])}</p></section>")
-    s = result["summary"]
+    return page_section("train", "Preheat train", TRAIN_FILE, "The train as one network", result, _train_text)
+
+
+def _train_text(s: dict) -> str:
 
     def c(t):
         return "n/a" if t is None else f"{t - 273.15:.1f} °C"
@@ -71,10 +86,8 @@ def index_section(result: dict | None) -> str:
         return "n/a" if w is None else f"{w / 1e6:.2f} MW"
 
     tp = s.get("max_throughput")
-    text = (f"Furnace inlet today {c(s.get('furnace_inlet'))}, fired duty {mw(s.get('furnace_duty'))} "
+    return (f"Furnace inlet today {c(s.get('furnace_inlet'))}, fired duty {mw(s.get('furnace_duty'))} "
             f"({mw(s.get('furnace_duty_revamp'))} at the revamp conditions; limits there: "
             f"{report.esc(s.get('limits_revamp', ''))}). Largest throughput today: "
             + (f"{tp:.3f}× ({report.esc(s.get('binding') or 'no limit reached in the search')})" if tp == tp else
                "none in the searched range") + ".")
-    return (f'<section id="train"><h2>Preheat train</h2><p><a href="{TRAIN_FILE}">The train as one network</a>: '
-            f"{text}</p></section>")
