@@ -31,8 +31,11 @@ GONE_WITHIN = 30.0  # s
 
 
 def _reports(out: Path) -> set:
-    """The exchanger reports (the index and the unit's train page, linked from its own section, are not)."""
-    return {p.name for p in out.glob("*.html") if p.name not in ("index.html", "train.html")}
+    """The exchanger reports (the index and the unit's own pages, each linked from its own section, are not)."""
+    from revamp.batch import UNIT_PAGES
+
+    pages = {"index.html"} | {file for _, _, file in UNIT_PAGES.values()}
+    return {p.name for p in out.glob("*.html") if p.name not in pages}
 
 
 def _linked(index_text: str) -> set:

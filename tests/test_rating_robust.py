@@ -331,18 +331,19 @@ def test_unit_file_tema_type_sets_the_shell_type(tmp_path):
     assert [p.path for p in problems] == ["exchangers[1].geometry.tema_type"]
 
 
-def test_a_case_at_a_band_edge_settles_at_the_edge_and_says_so():
-    # Taborek's ideal-bank fits change coefficients at Re = 1e4 (Taborek 1983, HEDH §3.3); here the map has no fixed
-    # point (the residual pushes Re up below the edge and down above it), so the case settles at the edge, reports
-    # how far its outlets are from the map, and neither fails nor cycles
+def test_a_case_at_the_former_band_edge_now_converges():
+    # Taborek's ideal-bank fits change coefficients at Re = 1e4 (Taborek 1983, HEDH §3.3). With the fits as printed
+    # this case had no fixed point (the residual pushed Re up below the edge and down above it). The fits are now
+    # blended across each band edge (correlations.shell_bell), so the map is continuous and the case converges to a
+    # true fixed point near the edge: no "settled only to within" warning, first law exact
     oil = rv.fluids.petroleum(api=30, watson_k=11.8, viscosity=[("100 degF", "20 cSt"), ("210 degF", "4 cSt")])
     crude = rv.fluids.constant(density=830.0, heat_capacity=2050.0, viscosity=3.6e-3, conductivity=0.133)
     hx = rv.ShellAndTube(shell_id="21.25 in", tube_od="1 in", tube_wall="0.095 in", tube_length="16 ft",
                          tube_count=158, tube_passes=4, tube_pitch="1.25 in", layout=90, baffle_spacing="5 in",
                          baffle_cut=0.25)
     r = rv.rate(hx, rv.Service(shell=rv.Stream(oil, 8.65, 480.0), tube=rv.Stream(crude, 20.0, 300.0)))
-    assert r.Re_shell == pytest.approx(1e4, rel=1e-3)
-    assert any("settled only to within" in w for w in r.warnings)
+    assert r.Re_shell == pytest.approx(1e4, rel=0.05)
+    assert not any("settled only to within" in w for w in r.warnings)
     assert r.C_shell * (480.0 - r.t_out_shell) == pytest.approx(r.duty, rel=1e-9)  # first law still holds
 
 
@@ -362,5 +363,8 @@ def test_random_sweeps_with_real_fluids_never_fail(seed, kind, passes, shells, l
     ok = np.isfinite(r.duty)
     if not ok.all():
         assert any("single-phase range" in w for w in r.warnings)
-    assert np.allclose(np.abs(r.C_tube * (r.t_out_tube - tt))[ok], r.duty[ok], rtol=1e-9)
+    # the outlet is stored as a temperature: C·(T_out − T_in) carries the round-off of T (eps·T) times C, which is
+    # larger than 1e-9 of the duty when a tiny stream meets a huge one (a few mK over hundreds of kelvin)
+    roundoff = 8 * np.finfo(float).eps * np.maximum(np.abs(tt), np.abs(r.t_out_tube)) * r.C_tube
+    assert np.all(np.abs(np.abs(r.C_tube * (r.t_out_tube - tt)) - r.duty)[ok] <= (1e-9 * r.duty + roundoff)[ok])
     assert np.all((r.effectiveness[ok] >= 0) & (r.effectiveness[ok] <= 1))

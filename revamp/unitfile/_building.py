@@ -282,9 +282,21 @@ def _option_field(field: str) -> str:
     return _INSERT_FIELDS.get(field, field)
 
 
+#: how far outside its property model's range an inlet may lie before check refuses it [K]: beyond this the
+#: correlations are extrapolated so far that the rating would mean nothing (common practice, no source)
+FLUID_RANGE_MARGIN = 50.0
+
+
 def _fluid_at_inlet(problems: list, where: str, fluid, t_in):
     """Evaluate the fluid at its inlet; a provider that fails other than by InputError (e.g. a petroleum
-    correlation overflowing at 1 K) is reported as a temperature outside the fluid's range."""
+    correlation overflowing at 1 K), or an inlet far outside the provider's range (:data:`FLUID_RANGE_MARGIN`), is
+    reported as a temperature outside the fluid's range. Nearer the range the rating runs and warns."""
+    lo, hi = getattr(fluid, "t_min", None), getattr(fluid, "t_max", None)
+    if lo is not None and hi is not None and not (lo - FLUID_RANGE_MARGIN <= t_in <= hi + FLUID_RANGE_MARGIN):
+        problems.append(Problem(where, f"{t_in - 273.15:.6g} degC",
+                                f"must lie within {FLUID_RANGE_MARGIN:.0f} K of the range the fluid's property model "
+                                f"covers ({lo - 273.15:.0f} to {hi - 273.15:.0f} degC)"))
+        return None
     try:
         return fluid.props(t_in)
     except InputError as exc:
