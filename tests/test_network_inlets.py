@@ -28,3 +28,25 @@ def test_inlets_come_from_the_train_and_reach_the_study(tmp_path):
 def test_an_exchanger_outside_the_network_keeps_its_own_inlets(tmp_path):
     path = write(tmp_path, unit_doc())
     assert unitfile.network_inlets(path, "C-1") == (None, None, "")
+
+
+def test_each_option_is_valued_by_the_train_not_by_its_own_duty(tmp_path):
+    # an upstream gain is partly lost downstream (energy balance of the train): the fired duty the train saves is
+    # less than the exchanger's own duty gain; the report shows both side by side
+    import revamp as rv
+    from revamp import report
+
+    doc = unit_doc()
+    doc["exchangers"][0]["options"] = [{"type": "twisted_tape", "label": "tape", "twist_ratio": 4,
+                                        "thickness": "0.8 mm"}]
+    path = write(tmp_path, doc)
+    ts = unitfile.network_option_values(path, "E-1")
+    assert list(ts.table.index) == ["base", "E-1: tape"]
+    items = report.train_value_items(ts, "E-1", "USD")
+    table = items[1]
+    gain = table.loc["tape", "duty gain in this exchanger [MW]"]
+    saved = table.loc["tape", "fired duty saved by the train [MW]"]
+    eff = 0.85  # the furnace's efficiency in the file: fired = absorbed / efficiency
+    assert gain > 0 and 0 < saved * eff < gain
+    assert unitfile.network_option_values(path, "C-1") is None  # not in the network
+    assert isinstance(rv.train.TrainStudy, type)

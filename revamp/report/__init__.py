@@ -18,6 +18,7 @@ from .case import (
                    study_money_table,
                    study_table,
                    summary,
+                   train_value_items,
                    unit_figure,
                    unit_table,
                    write_summary,
@@ -59,7 +60,8 @@ __all__ = [
     "monitoring_items", "notes_legend", "option_breakdown_figure", "page",
     "plot_text", "plotly_js_source", "primer_sweep", "primer_table", "primer_widget", "provenance",
     "provenance_html", "rating_items", "ratings_table", "recommendation_html", "rf_figure", "run_case", "safe_name", "show",
-    "study_items", "study_money_table", "study_table", "summary", "table_html", "unit_figure", "unit_table",
+    "study_items", "study_money_table", "study_table", "summary", "table_html", "train_value_items", "unit_figure",
+    "unit_table",
     "what_if", "what_if_widget", "widgets_available", "write_atomic", "write_summary",
     "rating_frame", "report_tables", "write_csv", "write_workbook",
 ]

@@ -444,3 +444,33 @@ def recommendation_html(result) -> str:
     return html
 
 
+
+
+def train_value_items(train_study, tag: str, currency: str = "") -> list:
+    """What each option of exchanger ``tag`` is worth to the whole train (a :class:`revamp.train.TrainStudy` of its
+    options, each applied alone at the revamp conditions): its own duty gain in the train beside the fired duty the
+    train saves, and the money on the train's value. Empty without a train study."""
+    if train_study is None:
+        return []
+    import pandas as pd
+
+    t = train_study.table
+    base = t.loc["base"]
+    rows = {}
+    prefix = f"{tag}: "
+    for label in t.index:
+        if label == "base":
+            continue
+        r = t.loc[label]
+        rows[str(label)[len(prefix):] if str(label).startswith(prefix) else str(label)] = {
+            "duty gain in this exchanger [MW]": (float(r[f"duty {tag}"]) - float(base[f"duty {tag}"])) / 1e6,
+            "fired duty saved by the train [MW]": float(r["furnace_duty_saved"]) / 1e6,
+            "furnace inlet rise [K]": float(r["furnace_inlet"]) - float(base["furnace_inlet"]),
+            f"value per year, train [{currency}]".replace(" []", ""): float(r.get("annual_value", float("nan"))),
+            "payback, train [years]": float(r.get("payback", float("nan"))),
+            "limits of the train": str(r.get("limits", "")),
+        }
+    table = pd.DataFrame(rows).T
+    return ["What each option is worth to the whole preheat train: the option applied to this exchanger alone and the "
+            "train solved again at the revamp conditions, so the heat the exchangers downstream no longer recover is "
+            "taken off (the train page compares every exchanger's options the same way).", table]

@@ -60,6 +60,7 @@ __all__ = [
     "load",
     "load_partial",
     "network_inlets",
+    "network_option_values",
     "schema",
 ]
 
@@ -231,3 +232,24 @@ def network_inlets(path, tag: str):
             f"{c(today.shell.t_in)}, tube {c(today.tube.t_in)}; at the revamp throughput (x{unit.network_throughput:g} "
             f"on every stream) shell {c(rev.shell.t_in)}, tube {c(rev.tube.t_in)}.")
     return today, rev, text
+
+
+def network_option_values(path, tag: str):
+    """This exchanger's options valued by the whole train (None when the unit has no network listing ``tag``, or
+    the exchanger has no option).
+
+    Each option is applied to ``tag`` alone and the train re-solved at its revamp throughput
+    (:func:`revamp.train.compare_train`): what the option saves is the furnace's fired duty, after the exchangers
+    downstream have recovered less, never this exchanger's own duty gain counted as fuel.
+    """
+    unit, _, _ = load_partial(path)
+    if unit is None or unit.network is None or tag not in unit.network.exchangers:
+        return None
+    from ..train import compare_train
+    from ._network import train_options
+
+    cases, economics = train_options(unit)
+    mine = {k: v for k, v in cases.items() if set(v) == {tag}}
+    if not mine:
+        return None
+    return compare_train(unit.network, mine, economics=economics, revamp=unit.network_throughput, tol=1e-3)
