@@ -140,7 +140,7 @@ class DaskCluster:
                              "a run without a cluster, or Dask installed (pip install 'revamp[dask]')") from None
         if _LOCAL_RE.match(self.address):
             self._cluster = LocalCluster(n_workers=self.workers, threads_per_worker=1, processes=True,
-                                         dashboard_address=None, silence_logs=40)
+                                         dashboard_address=":0", silence_logs=40)  # a free port: no clash with another cluster
             self._client = Client(self._cluster)
         else:
             try:

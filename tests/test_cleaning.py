@@ -204,3 +204,23 @@ def test_schedule_cleaning_errors_name_the_field():
         with pytest.raises(InputError) as e:
             schedule_cleaning(train, **args)
         assert e.value.field == field
+
+
+# ---------------------------------------------------------------------------------------------- plan uncertainty
+def test_plan_monte_carlo_without_spread_gives_the_plans_own_costs_and_a_cluster_the_same_draws():
+    # With no spread every draw is the fitted laws: each policy's total must be the plan's own comparison table
+    # (the same model evaluated again); with a spread the draws must not depend on where they run.
+    from revamp.cleaning import plan_monte_carlo, schedule_cleaning
+    from revamp.executor import executor_for
+
+    train = one_exchanger_train()
+    plan_ = schedule_cleaning(train, {"E-1": Linear(rate=1e-4 / (8 * WEEK))}, horizon="40 week", period="1 week",
+                              cleaning_cost=30000.0, downtime="0 s", fuel_price="9 USD/GJ", start="2027-01-04",
+                              time_limit="30 s")
+    flat = plan_monte_carlo(plan_, draws=3, spread=0.0)
+    for name in flat.totals.columns:
+        assert flat.totals[name].to_numpy() == pytest.approx(plan_.compare.loc[name, "total"], rel=1e-9)
+    a = plan_monte_carlo(plan_, draws=6, spread=0.4, seed=2, chunk=6)
+    b = plan_monte_carlo(plan_, draws=6, spread=0.4, seed=2, chunk=2, executor=executor_for("local:2"))
+    assert np.allclose(a.totals.to_numpy(), b.totals.to_numpy(), rtol=1e-9)
+    assert ((a.summary["plan_wins"] >= 0) & (a.summary["plan_wins"] <= 1)).all()

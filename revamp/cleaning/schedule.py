@@ -27,6 +27,7 @@ Ishiyama, E. M., Paterson, W. R., Wilson, D. I. (2011). Optimum cleaning cycles 
 """
 from __future__ import annotations
 
+import dataclasses
 import re
 import time
 from dataclasses import dataclass, field
@@ -117,6 +118,8 @@ class CleaningPlan:
     currency: str = ""
     notes: tuple = ()
     schedule: np.ndarray = field(default=None, repr=False)  # (n, P) bool, cleaning starts
+    policy_schedules: dict = field(default_factory=dict, repr=False)  # reference policy -> (n, P) bool
+    problem: object = field(default=None, repr=False)  # the checked inputs (for plan_monte_carlo)
 
 
 # --------------------------------------------------------------------------------------------- train adapter
@@ -628,4 +631,6 @@ def _result(problem, final, y, policy_names, optimality, counter, seconds, curre
         notes.append(f"{tag}: {law.describe()}, {law.rf_now * 1e4:.3g}·10⁻⁴ m²K/W now.")
     return CleaningPlan(cleanings=cleanings, timeline=timeline, cost=cost, compare=compare, policies=policies,
                         optimality=optimality, solves=counter.solves, states=counter.states, seconds=seconds,
-                        currency=currency, notes=tuple(notes), schedule=y)
+                        currency=currency, notes=tuple(notes), schedule=y,
+                        policy_schedules={name: final.schedules[k] for k, name in enumerate(names) if k > 0},
+                        problem=dataclasses.replace(problem, evaluator=counter.fn))
