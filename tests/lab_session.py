@@ -90,8 +90,9 @@ def copy_notebooks(dest: Path, names=None) -> list:
     return out
 
 
-def open_and_run(page, base: str, token: str, name: str, timeout_s: float = 600):
-    """Open a notebook in JupyterLab, run all cells (Run menu), wait until every cell has run; then save it."""
+def open_and_run(page, base: str, token: str, name: str, timeout_s: float = 600, workdir: Path | None = None):
+    """Open a notebook in JupyterLab, run all cells (Run menu), wait until every cell has run; then save it (and,
+    given ``workdir``, wait until the saved file carries execution counts)."""
     # a workspace of its own, reset: JupyterLab would otherwise restore the tabs of the last page, and the Run menu
     # acts on whichever notebook is active
     page.goto(f"{base}/lab/workspaces/rv-{secrets.token_hex(4)}/tree/{name}?reset&token={token}")
@@ -116,5 +117,16 @@ def open_and_run(page, base: str, token: str, name: str, timeout_s: float = 600)
           window.__rvIdleSince = window.__rvIdleSince || Date.now();
           return Date.now() - window.__rvIdleSince > 3000;
         }""", timeout=timeout_s * 1000, polling=500)
-    page.keyboard.press("Control+s")
-    page.wait_for_timeout(1500)
+    # save (File > Save Notebook) and wait until the file on disk is the executed one: the caller reads it
+    page.get_by_role("menuitem", name="File", exact=True).click()
+    page.get_by_role("menuitem", name="Save Notebook", exact=False).first.click()
+    deadline = time.monotonic() + 60
+    while workdir is not None and time.monotonic() < deadline:
+        try:
+            cells = json.loads((workdir / name).read_text(encoding="utf-8"))["cells"]
+        except (OSError, ValueError):
+            cells = []
+        if any(c.get("execution_count") for c in cells if c.get("cell_type") == "code"):
+            break
+        page.wait_for_timeout(500)
+    page.wait_for_timeout(500)

@@ -52,7 +52,7 @@ def test_notebook_runs_and_draws_in_jupyterlab(lab, name):
     console = []
     page.on("console", lambda m: console.append(m.text))
     try:
-        open_and_run(page, base, token, name)
+        open_and_run(page, base, token, name, workdir=work)
         drawn = page.evaluate(_DRAWN)
         text = page.inner_text(".jp-Notebook")
     finally:
