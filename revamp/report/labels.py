@@ -196,6 +196,10 @@ def display_frame(df, rows_are_quantities: bool | None = None, system: str = "SI
     new_cols = []
     for j, col in enumerate(list(out.columns)):
         name, unit = split_label(col)
+        if name.strip() == "rank":  # a rank is a whole number (pandas may hand it over as float beside <NA>)
+            out[out.columns[j]] = out.iloc[:, j].map(
+                lambda v: int(v) if isinstance(v, numbers.Real) and not isinstance(v, bool) and math.isfinite(v)
+                else v).astype(object)
         factor, shown = rescale(unit) if unit else (1.0, "")
         convert, shown = to_system(shown, system) if unit else ((lambda v: v), "")
         out[out.columns[j]] = out.iloc[:, j].map(lambda v: _scaled(v, factor, convert)).astype(object)
