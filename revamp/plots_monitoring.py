@@ -21,7 +21,7 @@ import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
 from .errors import InputError
-from .report.labels import rescale, unit_of
+from .report.labels import rescale, resistance_axis, unit_of
 from .units import from_si
 
 __all__ = ["duty_lost", "fouling_trend", "heat_balance"]
@@ -67,8 +67,8 @@ def fouling_trend(mon, units: str = "SI", run_length=None, resample="D") -> go.F
     _check(mon)
     tab = mon.table
     used = tab[tab["used"]]
-    conv = lambda v: from_si(np.asarray(v, dtype=float), "fouling", units)[0]
-    label = unit_of(from_si(1.0, "fouling", units)[1])
+    factor, label = resistance_axis(units)  # the unit of every resistance chart (10⁻⁴ m²·K/W in SI)
+    conv = lambda v: np.asarray(v, dtype=float) * factor
     other = tab[~tab["used"] & np.isfinite(tab["Rf"])]
     if resample:
         pts, other_pts = _per(used, ["Rf", "Rf_low", "Rf_high"], resample), _per(other, ["Rf"], resample)
@@ -102,6 +102,7 @@ def fouling_trend(mon, units: str = "SI", run_length=None, resample="D") -> go.F
         fig.add_trace(go.Scatter(x=t0 + pd.to_timedelta(rp, unit="s"), y=conv(mon.trend(rp)), mode="lines",
                                  line={"color": "black", "dash": "dash"}, name="projection"))
     _earlier_runs(fig, mon, tab, conv)
+    fig.update_yaxes(exponentformat="none", rangemode="tozero")
     fig.update_layout(title="Fouling resistance from plant data" + what, xaxis_title="time",
                       yaxis_title=f"fouling resistance, outside area [{label}]", legend={"orientation": "h", "y": -0.2})
     return fig
@@ -215,9 +216,10 @@ def duty_lost(mon, units: str = "SI", resample="D") -> go.Figure:
         fig.add_trace(go.Scatter(x=energy.index, y=energy.to_numpy(), mode="lines",
                                  name=f"energy lost to date [{elabel}]"), secondary_y=True)
     fig.update_layout(title="Duty lost to fouling", xaxis_title="time", legend={"orientation": "h", "y": -0.2})
+    # ticks of their own on each axis from zero, plain numbers with separators (ticks synced to the other axis and
+    # SI suffixes gave -0.68k, 3.96k, 8.61k)
     fig.update_yaxes(title_text=f"duty lost [{unit_of(plabel)}]", secondary_y=False, rangemode="tozero",
-                     tickformat=",~r")
-    # whole numbers with separators from zero up (plotly's default SI suffixes gave ticks such as -0.68k, 3.96k)
+                     tickformat=",", exponentformat="none")
     fig.update_yaxes(title_text=f"energy lost to date [{elabel}]", secondary_y=True, rangemode="tozero",
-                     tickformat=",~r", showgrid=False)
+                     tickformat=",", exponentformat="none", tickmode="auto", showgrid=False)
     return fig

@@ -90,9 +90,12 @@ def copy_notebooks(dest: Path, names=None) -> list:
     return out
 
 
-def open_and_run(page, base: str, token: str, name: str, timeout_s: float = 600):
-    """Open a notebook in JupyterLab, run all cells (Run menu), wait until every cell has run; then save it."""
-    page.goto(f"{base}/lab/tree/{name}?token={token}")
+def open_and_run(page, base: str, token: str, name: str, timeout_s: float = 600, workdir: Path | None = None):
+    """Open a notebook in JupyterLab, run all cells (Run menu), wait until every cell has run; then save it (and,
+    given ``workdir``, wait until the saved file carries execution counts)."""
+    # a workspace of its own, reset: JupyterLab would otherwise restore the tabs of the last page, and the Run menu
+    # acts on whichever notebook is active
+    page.goto(f"{base}/lab/workspaces/rv-{secrets.token_hex(4)}/tree/{name}?reset&token={token}")
     page.wait_for_selector(".jp-Notebook .jp-Cell", state="attached", timeout=120_000)
     # the kernel is ready when the status bar says so
     page.wait_for_function("() => [...document.querySelectorAll('.jp-StatusBar-TextItem')]"
@@ -100,11 +103,30 @@ def open_and_run(page, base: str, token: str, name: str, timeout_s: float = 600)
     page.wait_for_timeout(500)
     page.get_by_role("menuitem", name="Run", exact=True).click()
     page.get_by_role("menuitem", name="Run All Cells", exact=True).click()
-    # every code cell done: each prompt shows a number, none shows "*" (JupyterLab's running marker)
+    # done: every prompt shows a number, or (a cell failed and JupyterLab stopped the run) none shows "*" (its
+    # running marker) and the kernel is idle again; the caller reads the saved notebook for errors and cells not run
     page.wait_for_function(
         """() => {
           const p = [...document.querySelectorAll('.jp-CodeCell .jp-InputPrompt')].map(e => e.textContent.trim());
-          return p.length > 0 && p.every(t => /^\\[\\d+\\]:$/.test(t));
+          if (p.length > 0 && p.every(t => /^\\[\\d+\\]:$/.test(t))) return true;
+          const idle = [...document.querySelectorAll('.jp-StatusBar-TextItem')].some(e => /Idle/.test(e.textContent));
+          if (!(idle && p.some(t => /^\\[\\d+\\]:$/.test(t)) && !p.some(t => t.includes('*')))) {
+            window.__rvIdleSince = null;
+            return false;
+          }
+          window.__rvIdleSince = window.__rvIdleSince || Date.now();
+          return Date.now() - window.__rvIdleSince > 3000;
         }""", timeout=timeout_s * 1000, polling=500)
-    page.keyboard.press("Control+s")
-    page.wait_for_timeout(1500)
+    # save (File > Save Notebook) and wait until the file on disk is the executed one: the caller reads it
+    page.get_by_role("menuitem", name="File", exact=True).click()
+    page.get_by_role("menuitem", name="Save Notebook", exact=False).first.click()
+    deadline = time.monotonic() + 60
+    while workdir is not None and time.monotonic() < deadline:
+        try:
+            cells = json.loads((workdir / name).read_text(encoding="utf-8"))["cells"]
+        except (OSError, ValueError):
+            cells = []
+        if any(c.get("execution_count") for c in cells if c.get("cell_type") == "code"):
+            break
+        page.wait_for_timeout(500)
+    page.wait_for_timeout(500)

@@ -175,3 +175,11 @@ def test_defaults_the_rating_applied_are_shown():
     assert "U-tube" not in html
     u = EX.replace(rear_head="u-tube")
     assert "once per leg" in defaults_html(u)
+
+
+def test_counts_stay_whole_numbers():
+    # a table of counts (plant-data rows) shows 12, not 12.0
+    html = frame_html(pd.DataFrame({"rows": [12, 1, 8330]}, index=["a", "b", "c"]))
+    assert ">12<" in html and ">1<" in html and ">8,330<" in html
+    html_us = frame_html(pd.DataFrame({"rows": [12]}, index=["a"]), system="US")
+    assert ">12<" in html_us

@@ -52,7 +52,7 @@ def test_notebook_runs_and_draws_in_jupyterlab(lab, name):
     console = []
     page.on("console", lambda m: console.append(m.text))
     try:
-        open_and_run(page, base, token, name)
+        open_and_run(page, base, token, name, workdir=work)
         drawn = page.evaluate(_DRAWN)
         text = page.inner_text(".jp-Notebook")
     finally:
@@ -60,6 +60,8 @@ def test_notebook_runs_and_draws_in_jupyterlab(lab, name):
     nb = nbformat.read(work / name, as_version=4)
     errors = [o for c in nb.cells if c.cell_type == "code" for o in c.get("outputs", []) if o.output_type == "error"]
     assert not errors, [f"{e.ename}: {e.evalue}" for e in errors]
+    not_run = [i for i, c in enumerate(nb.cells) if c.cell_type == "code" and c.get("execution_count") is None]
+    assert not not_run, f"cells not run: {not_run}"
     assert "Error displaying widget" not in text
     # the figures the notebook shows: plotly mime outputs and FigureWidget views (the what-if and primer charts)
     figures = sum(1 for c in nb.cells if c.cell_type == "code" for o in c.get("outputs", [])

@@ -104,19 +104,20 @@ _MMBTU_IN_GJ = 1.05505585262  # 1 MMBtu (International Table Btu) = 1.0550558526
 
 
 def to_system(unit: str, system: str = "SI") -> tuple:
-    """(convert(value) -> value, unit shown) that takes a number in the SI display ``unit`` to ``system``.
+    """(convert(value) -> value, unit shown) that takes a number in the SI display ``unit`` to ``system``; convert is
+    None when the number stays as it is.
 
     >>> f, u = to_system("°C", "US"); round(f(100.0), 6), u
     (212.0, '°F')
     """
     unit = unit_of(unit)
     if system != "US":
-        return (lambda v: v), unit
+        return None, unit
     if unit == "GJ":
         return (lambda v: v / _MMBTU_IN_GJ), "MMBtu"
     base, _, per = unit.partition(" per ")
     if base not in _SI_UNITS:
-        return (lambda v: v), unit
+        return None, unit
     from ..units import from_si
 
     kind, factor, offset = _SI_UNITS[base]
@@ -196,8 +197,12 @@ def display_frame(df, rows_are_quantities: bool | None = None, system: str = "SI
     new_cols = []
     for j, col in enumerate(list(out.columns)):
         name, unit = split_label(col)
+        if name.strip() == "rank":  # a rank is a whole number (pandas may hand it over as float beside <NA>)
+            out[out.columns[j]] = out.iloc[:, j].map(
+                lambda v: int(v) if isinstance(v, numbers.Real) and not isinstance(v, bool) and math.isfinite(v)
+                else v).astype(object)
         factor, shown = rescale(unit) if unit else (1.0, "")
-        convert, shown = to_system(shown, system) if unit else ((lambda v: v), "")
+        convert, shown = to_system(shown, system) if unit else (None, "")
         out[out.columns[j]] = out.iloc[:, j].map(lambda v: _scaled(v, factor, convert)).astype(object)
         words = display_name(name)
         new_cols.append(f"{words} [{shown}]" if shown else words)

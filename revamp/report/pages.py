@@ -222,8 +222,8 @@ table.dataframe td{text-align:right}table.dataframe th{text-align:left}
 .rv-provenance{font-size:.8rem;color:#444}.rv-status-ok{color:#161}.rv-status-failed{color:#a11;font-weight:600}
 .jp-InputPrompt,.jp-OutputPrompt,.prompt{display:none}pre{white-space:pre-wrap}
 table.rv-table thead th{white-space:normal;font-weight:600;vertical-align:bottom}
-table.rv-wide{table-layout:fixed;width:100%;font-size:.8rem}table.rv-wide th,table.rv-wide td{overflow-wrap:anywhere;
-padding:.2rem .3rem}
+table.rv-wide{width:100%;font-size:.8rem}table.rv-wide th,table.rv-wide td{padding:.2rem .3rem}
+table.rv-wide th,table.rv-wide td:not(.num){overflow-wrap:anywhere}table.rv-wide td.num{white-space:nowrap}
 .rv-scroll{max-width:100%;overflow-x:auto}.rv-note{color:#555;font-size:.85rem}
 @media print{.plotly-graph-div{page-break-inside:avoid}}
 """
@@ -255,7 +255,7 @@ def frame_html(df, cls: str = "rv-table", digits: int = 3, system: str = "SI") -
     from .labels import display_frame, format_value
 
     shown = display_frame(df, system=system)
-    if len(shown.columns) > 6:  # many columns: a fixed layout across the page, cells wrap (it must fit a page)
+    if len(shown.columns) > 6:  # many columns: across the page, words may wrap anywhere, numbers never
         cls = f"{cls} rv-wide"
     out = [f'<div class="rv-scroll"><table class="{esc(cls)}"><thead><tr><th>{esc(shown.index.name or "")}</th>']
     out += [f"<th>{esc(c)}</th>" for c in shown.columns]
@@ -300,21 +300,25 @@ def polish_figure(fig, system: str = "SI"):
     return fig
 
 
-_KELVIN = re.compile(r"(?<![\w.])(\d{3,4}(?:\.\d+)?) K\b")
+_KELVIN = re.compile(r"(?<![\w.])(\d{3,4}(?:\.\d+)?)(?:( to )(\d{3,4}(?:\.\d+)?))? K\b")
 
 
 def temperatures_in(text: str, system: str = "SI") -> str:
     """Absolute temperatures written in kelvin in a note (200 K and above: no temperature difference in a note is
     that large) rewritten in °C, or °F for US units.
 
-    >>> temperatures_in("T = 400.15 K above the range; ΔT 5 K")
-    'T = 127 °C above the range; ΔT 5 K'
+    >>> temperatures_in("T = 400.15 K above the range 255.37 to 422 K; ΔT 5 K")
+    'T = 127 °C above the range -18 to 149 °C; ΔT 5 K'
     """
+    def one(k):
+        return f"{k - 273.15:.0f}" if system != "US" else f"{(k - 273.15) * 1.8 + 32:.0f}"
+
     def repl(m):
-        k = float(m.group(1))
-        if k < 200.0:
+        values = [float(m.group(1))] + ([float(m.group(3))] if m.group(3) else [])
+        if min(values) < 200.0:
             return m.group(0)
-        return f"{k - 273.15:.0f} °C" if system != "US" else f"{(k - 273.15) * 1.8 + 32:.0f} °F"
+        unit = "°C" if system != "US" else "°F"
+        return " to ".join(one(k) for k in values) + f" {unit}"
 
     return _KELVIN.sub(repl, text)
 

@@ -5,7 +5,6 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .case import breakdown_figure, ratings_table
 from .pages import esc
 
 
