@@ -219,7 +219,9 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
         if not isinstance(spec, dict) or "kind" not in spec:
             problems.append(Problem(f"{pre}.tube_side.fluid", _show(spec), "must be a fluid mapping with a 'kind'"))
         else:
-            fluid = _guard(problems, f"{pre}.tube_side.fluid", lambda: _build_fluid(dict(spec)))
+            kind = str(spec["kind"])  # the fluid's complaint names "<kind>.<field>": the file says "<field>"
+            fluid = _guard(problems, f"{pre}.tube_side.fluid", lambda: _build_fluid(dict(spec)),
+                           rename=lambda f: f[len(kind) + 1:] if f.startswith(kind + ".") else f)
         if fluid is not None:
             stream = _guard(problems, f"{pre}.tube_side",
                             lambda: service.Stream(fluid, tube.get("flow"), tube.get("t_in")))
