@@ -11,6 +11,7 @@ pitch banks of finned tubes. Chem. Eng. Prog. Symp. Ser. 59(41), 1-10 (the defau
 from __future__ import annotations
 
 import json
+import re
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -20,7 +21,7 @@ from .case import breakdown_figure
 from .pages import esc, write_atomic
 
 __all__ = ["AirStudy", "air_header_html", "air_options_table", "air_ratings_table", "air_summary", "breakdown_items",
-           "hot_day_items", "run_air_case", "unit_row", "write_air_summary"]
+           "hot_day_items", "options_items", "run_air_case", "unit_row", "write_air_summary"]
 
 #: rows of the ratings table: (attribute, quantity kind, label)
 AIR_COLUMNS = [("duty", "power", "duty"), ("t_out_tube", "temperature", "tube outlet"),
@@ -104,9 +105,13 @@ def run_air_case(case) -> AirStudy:
                 options_hot = compare_air(ex, svc.replace(air_in=max(case.hot_day_ambient)), case.options)
         except InputError as exc:
             error = str(exc)
-    seen = []
-    for r in ratings.values():
-        seen += [w for w in r.warnings if w not in seen]
+    seen, keys = [], set()
+    for r in ratings.values():  # each warning once: the same complaint at another number is not repeated
+        for w in r.warnings:
+            key = re.sub(r"\d[\d.eE+-]*", "#", w)
+            if key not in keys:
+                keys.add(key)
+                seen.append(w)
     return AirStudy(case=case, ratings=ratings, hot=hot, hot_note=note, options=options, options_hot=options_hot,
                     options_error=error,
                     warnings=tuple(seen))
@@ -174,7 +179,7 @@ def hot_day_items(study: AirStudy, system: str = "SI") -> list:
     for col, kind in (("ambient", "temperature"), ("t_out_tube", "temperature"), ("t_out_air", "temperature"),
                       ("duty", "power"), ("fan_power", "power")):
         value, unit = from_si(frame[col].to_numpy(float), kind, system)
-        shown[f"{col.replace('_', ' ')} [{unit}]"] = np.round(value, 1)
+        shown[f"{col.replace('_', ' ')} [{unit}]"] = value
     import pandas as pd
 
     table = pd.DataFrame(shown).set_index(next(iter(shown)))
@@ -200,10 +205,23 @@ def air_options_table(study: AirStudy, system: str = "SI", hottest: bool = False
     for col in frame.columns:
         if col in kinds:
             value, unit = from_si(frame[col].to_numpy(float), kinds[col], system)
-            out[f"{col.replace('_', ' ')} [{unit}]"] = np.round(value, 1)
+            out[f"{col.replace('_', ' ')} [{unit}]"] = value
         else:
             out[col] = frame[col].to_numpy()
     return pd.DataFrame(out, index=frame.index)
+
+
+def options_items(study: AirStudy, system: str = "SI") -> list:
+    """The options compared at today's ambient and, with a sweep, on its hottest day, each table with its caption."""
+    from ..units import format_quantity as fq
+
+    case = study.case
+    items = [f"At today's ambient ({fq(case.service.air_in, 'temperature', system)}):",
+             air_options_table(study, system)]
+    if study.options_hot is not None:
+        items += [f"On the hottest day of the sweep ({fq(max(case.hot_day_ambient), 'temperature', system)}):",
+                  air_options_table(study, system, hottest=True)]
+    return items
 
 
 def air_header_html(case, unit, system: str = "SI") -> str:
