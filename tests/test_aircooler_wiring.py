@@ -150,7 +150,7 @@ def test_interpolated_limit_by_definition():
 
 def test_study_energy_balance_and_hot_day_physics():
     """The study's ratings keep the energy balance on both streams (first law), and the hottest day gives less duty
-    than today (a hotter ambient, less driving force)."""
+    than the same flows at today's ambient (a hotter ambient, less driving force)."""
     from revamp.cli import demo_unit_path
     from revamp.report.air import run_air_case
 
@@ -160,7 +160,8 @@ def test_study_energy_balance_and_hot_day_physics():
         tube = float(r.C_tube) * (float(r.service.tube.t_in) - float(r.t_out_tube))
         air = float(r.C_air) * (float(r.t_out_air) - float(r.service.air_in))
         assert tube == pytest.approx(float(r.duty), rel=2e-2) and air == pytest.approx(float(r.duty), rel=2e-2)
-    assert study.ratings["hottest day"].duty < study.ratings["today"].duty
+    # the hottest day is rated at the revamp flows: against the revamp rating at today's (cooler) ambient
+    assert study.ratings["hottest day"].duty < study.ratings["revamp"].duty
     assert study.ratings["today (clean)"].duty > study.ratings["today"].duty  # fouling costs duty
     assert list(study.options.index)[0] == "base" and len(study.options) == 1 + len(study.case.options)
 
@@ -187,3 +188,41 @@ def test_batch_writes_the_air_coolers_report_and_the_index_lists_it(tmp_path):
     summary = re.search(r'<section id="summary">(.*?)</section>', index, re.DOTALL).group(1)
     row = [r for r in re.findall(r"<tr>(.*?)</tr>", summary, re.DOTALL) if "AC-101" in r]
     assert row and 'href="AC-101.html"' in row[0] and "rv-status-ok" in row[0]
+
+
+def test_revamp_throughput_scales_the_tube_flow_only(tmp_path):
+    path = write_unit(tmp_path / "unit.yaml", _unit_with_air_cooler(dict(ENTRY, revamp={"throughput": "120 %"})))
+    assert unitfile.check(path) == []
+    ac = unitfile.load(path).exchanger("AC-101")
+    # 120 % of 25 kg/s = 30 kg/s (definition of the per cent); the air and the inlets as today
+    assert ac.throughput == pytest.approx(1.2) and ac.revamp_service.tube.flow == pytest.approx(30.0)
+    assert ac.revamp_service.air_flow == pytest.approx(ac.service.air_flow)
+    assert ac.revamp_service.tube.t_in == pytest.approx(ac.service.tube.t_in)
+    assert unitfile.load(write_unit(tmp_path / "u2.yaml", _unit_with_air_cooler())).exchanger("AC-101").revamp_service \
+        is None
+
+
+@pytest.mark.parametrize("revamp, path", [
+    ({"throughput": -1}, "exchangers[1].revamp.throughput"),
+    ({"throughput": 11}, "exchangers[1].revamp.throughput"),
+    ({"throughput": "fast"}, "exchangers[1].revamp.throughput"),
+    ({}, "exchangers[1].revamp.throughput"),
+    ({"throughput": 1.2, "side": "shell"}, "exchangers[1].revamp.side"),
+])
+def test_bad_revamp_is_named_by_its_path(tmp_path, revamp, path):
+    doc = _unit_with_air_cooler(dict(ENTRY, revamp=revamp))
+    problems = unitfile.check(write_unit(tmp_path / "unit.yaml", doc))
+    assert path in [p.path for p in problems], problems
+
+
+def test_study_at_the_revamp_conditions():
+    """The demo's air cooler carries more kerosene at the revamp rates: more duty, a hotter outlet (the same air)."""
+    from revamp.cli import demo_unit_path
+    from revamp.report.air import air_summary, run_air_case
+
+    study = run_air_case(unitfile.load(demo_unit_path()).exchanger("AC-301"))
+    today, rev = study.ratings["today"], study.ratings["revamp"]
+    assert rev.duty > today.duty and rev.t_out_tube > today.t_out_tube
+    assert "revamp" in study.basis
+    s = air_summary(study)
+    assert s["duty_revamp"] == pytest.approx(float(rev.duty)) and s["kind"] == "air cooler"

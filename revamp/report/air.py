@@ -42,8 +42,11 @@ class AirStudy:
     ----------
     case : AirCoolerCase
     ratings : dict
-        Label -> :class:`~revamp.rating_air.AirRating`: ``"today"`` and ``"today (clean)"``, and with a hot-day sweep
-        ``"hottest day"`` and ``"hottest day (clean)"`` at its hottest ambient.
+        Label -> :class:`~revamp.rating_air.AirRating`: ``"today"`` and ``"today (clean)"``, with a revamp section
+        ``"revamp"`` and ``"revamp (clean)"``, and with a hot-day sweep ``"hottest day"`` and ``"hottest day
+        (clean)"`` at its hottest ambient (at the revamp flows when there are some).
+    basis : str
+        What the sweep and the options are rated at (the revamp flows, or today's).
     hot : HotDay or None
         The sweep over the ambients of the unit file (None without a ``hot_day`` section).
     hot_note : str
@@ -59,6 +62,7 @@ class AirStudy:
 
     case: object
     ratings: dict
+    basis: str = ""
     hot: object = None
     hot_note: str = ""
     options: object = None
@@ -80,8 +84,14 @@ def run_air_case(case) -> AirStudy:
 
     if getattr(case, "kind", None) != "air cooler":
         raise InputError("case", type(case).__name__, "an air-cooler case of a unit file (kind: air cooler)")
-    ex, svc = case.exchanger, case.service
-    ratings = {"today": rv.rate(ex, svc), "today (clean)": rv.rate(ex, _clean(svc))}
+    ex, today = case.exchanger, case.service
+    ratings = {"today": rv.rate(ex, today), "today (clean)": rv.rate(ex, _clean(today))}
+    svc = today  # the design question: the revamp flows when the unit file gives them
+    basis = "today's flows (the unit file gives no revamp section for this air cooler)"
+    if getattr(case, "revamp_service", None) is not None:
+        svc = case.revamp_service
+        ratings["revamp"], ratings["revamp (clean)"] = rv.rate(ex, svc), rv.rate(ex, _clean(svc))
+        basis = f"the revamp conditions (tube-side flow x{case.throughput:g} on today's)"
     hot, note = None, ""
     if case.hot_day_ambient:
         hottest = max(case.hot_day_ambient)
@@ -112,7 +122,7 @@ def run_air_case(case) -> AirStudy:
             if key not in keys:
                 keys.add(key)
                 seen.append(w)
-    return AirStudy(case=case, ratings=ratings, hot=hot, hot_note=note, options=options, options_hot=options_hot,
+    return AirStudy(case=case, ratings=ratings, basis=basis, hot=hot, hot_note=note, options=options, options_hot=options_hot,
                     options_error=error,
                     warnings=tuple(seen))
 
@@ -171,6 +181,7 @@ def hot_day_items(study: AirStudy, system: str = "SI") -> list:
     """The hot-day sweep as a table and a chart, and the ambient at which the target outlet is lost."""
     if study.hot is None:
         return ["No hot-day sweep: the unit file gives no hot_day section for this air cooler."]
+    basis = f"Rated at {study.basis}."
     from ..plots_air import hot_day_chart
     from ..units import from_si
 
@@ -183,7 +194,7 @@ def hot_day_items(study: AirStudy, system: str = "SI") -> list:
     import pandas as pd
 
     table = pd.DataFrame(shown).set_index(next(iter(shown)))
-    return [study.hot_note, table, hot_day_chart(study.hot, units=system)] + list(study.hot.notes)
+    return [basis, study.hot_note, table, hot_day_chart(study.hot, units=system)] + list(study.hot.notes)
 
 
 def air_options_table(study: AirStudy, system: str = "SI", hottest: bool = False):
@@ -216,7 +227,7 @@ def options_items(study: AirStudy, system: str = "SI") -> list:
     from ..units import format_quantity as fq
 
     case = study.case
-    items = [f"At today's ambient ({fq(case.service.air_in, 'temperature', system)}):",
+    items = [f"Rated at {study.basis}.", f"At today's ambient ({fq(case.service.air_in, 'temperature', system)}):",
              air_options_table(study, system)]
     if study.options_hot is not None:
         items += [f"On the hottest day of the sweep ({fq(max(case.hot_day_ambient), 'temperature', system)}):",
@@ -247,12 +258,15 @@ def air_summary(study: AirStudy) -> dict:
 
     case, today = study.case, study.ratings["today"]
     out = {"kind": "air cooler", "duty_today": float(today.duty)}
+    if "revamp" in study.ratings:
+        out["duty_revamp"] = float(study.ratings["revamp"].duty)
+        today = study.ratings["revamp"]  # the limits are judged at the revamp conditions
     allowed = case.dp_allowed_tube
     out["screening_as_is"] = ("-" if allowed is None else
                               "ok" if float(today.dp_tube) <= allowed else "tube dp above allowed")
     if case.t_out_target is not None:  # judged on the hottest day of the sweep when there is one
         hot = "hottest day" in study.ratings
-        r, when = (study.ratings["hottest day"], "on the hottest day") if hot else (today, "today")
+        r, when = (study.ratings["hottest day"], "on the hottest day") if hot else (today, "at today's ambient")
         amb = fq(r.service.air_in, "temperature")
         out["target"] = f"tube outlet <= {fq(case.t_out_target, 'temperature')} at {amb} ambient"
         out["meets_target"] = bool(float(r.t_out_tube) <= case.t_out_target)
@@ -273,17 +287,20 @@ def write_air_summary(path, study: AirStudy) -> None:
 
 
 def unit_row(case, system: str = "SI") -> dict:
-    """An air cooler's row of the unit table (:func:`revamp.report.unit_table`): today's rating, no revamp section."""
+    """An air cooler's row of the unit table (:func:`revamp.report.unit_table`): duty today and at revamp (when the
+    unit file gives a revamp section), U, controlling resistance and tube pressure drop at the revamp conditions."""
     import revamp as rv
 
     from ..units import from_si
 
     r = rv.rate(case.exchanger, case.service)
+    rev = rv.rate(case.exchanger, case.revamp_service) if case.revamp_service is not None else None
     p = lambda v: round(from_si(float(v), "pressure", system)[0], 1)  # noqa: E731
     q = lambda v: round(from_si(float(v), "power", system)[0], 0)  # noqa: E731
     allowed = p(case.dp_allowed_tube) if case.dp_allowed_tube is not None else "-"
     return {"exchanger": case.tag, "description": case.description,
             f"duty today [{from_si(1, 'power', system)[1]}]": q(r.duty),
-            "U in service [W/m²K]": round(float(r.U_service), 0),
-            "controlling resistance": r.controlling_resistance(),
-            f"dp tube / allowed [{from_si(1, 'pressure', system)[1]}]": f"{p(r.dp_tube)} / {allowed}"}
+            **({f"duty at revamp [{from_si(1, 'power', system)[1]}]": q(rev.duty)} if rev is not None else {}),
+            "U in service [W/m²K]": round(float((rev or r).U_service), 0),
+            "controlling resistance": (rev or r).controlling_resistance(),
+            f"dp tube / allowed [{from_si(1, 'pressure', system)[1]}]": f"{p((rev or r).dp_tube)} / {allowed}"}

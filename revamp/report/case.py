@@ -245,7 +245,7 @@ def unit_table(unit, system: str = "SI"):
 
     rows = []
     for case in unit.exchangers:
-        if getattr(case, "kind", None) == "air cooler":  # no revamp section: today's rating only
+        if getattr(case, "kind", None) == "air cooler":  # its own row: an air cooler has other sides
             from .air import unit_row
 
             try:
