@@ -272,8 +272,9 @@ def air_summary(study: AirStudy) -> dict:
         out["meets_target"] = bool(float(r.t_out_tube) <= case.t_out_target)
         frame = study.options_hot if hot else study.options
         if frame is not None:
-            ok = [str(k) for k, v in frame["t_out_tube"].items() if k != "base" and v <= case.t_out_target]
-            out["recommendation"] = (f"options meeting the target {when}: " + ", ".join(ok)) if ok else (
+            ok = [f"{k} ({fq(v, 'temperature')})" for k, v in frame["t_out_tube"].items()
+                  if k != "base" and v <= case.t_out_target]
+            out["recommendation"] = (f"meeting the target {when}: " + ", ".join(ok)) if ok else (
                 f"no option meets the target {when}")
     if study.hot is not None and study.hot.ambient_limit is not None and np.isfinite(study.hot.ambient_limit):
         out["ambient_limit"] = float(study.hot.ambient_limit)
