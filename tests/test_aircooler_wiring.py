@@ -226,3 +226,40 @@ def test_study_at_the_revamp_conditions():
     assert "revamp" in study.basis
     s = air_summary(study)
     assert s["duty_revamp"] == pytest.approx(float(rev.duty)) and s["kind"] == "air cooler"
+
+
+def test_a_limit_search_that_leaves_the_fluid_range_falls_back_to_the_sweep(monkeypatch):
+    """When the search for the limiting ambient cannot run, the report keeps the sweep and reads the limit off it by
+    linear interpolation (definition), saying so."""
+    import importlib
+
+    from revamp.cli import demo_unit_path
+    from revamp.errors import InputError
+    from revamp.report.air import run_air_case
+
+    hot_day_module = importlib.import_module("revamp.hot_day")
+    real = hot_day_module.hot_day
+
+    def refusing(exchanger, service, ambient, t_out_target=None, **kw):
+        if t_out_target is not None:
+            raise InputError("service.tube", "kerosene at 253 K", "within the fluid's single-phase range")
+        return real(exchanger, service, ambient, **kw)
+
+    monkeypatch.setattr(hot_day_module, "hot_day", refusing)
+    case = unitfile.load(demo_unit_path()).exchanger("AC-301")
+    study = run_air_case(case)
+    assert "interpolation" in study.hot_note and study.hot.t_out_target is None
+    amb, out = study.hot.ambient, study.hot.t_out_tube
+    k = int(np.flatnonzero(out > case.t_out_target)[0])
+    expected = amb[k - 1] + (case.t_out_target - out[k - 1]) * (amb[k] - amb[k - 1]) / (out[k] - out[k - 1])
+    from revamp.units import format_quantity
+
+    assert format_quantity(expected, "temperature") in study.hot_note
+
+
+def test_interpolated_limit_takes_the_ambients_in_any_order():
+    from revamp.report.air import _interpolated_limit
+
+    # the same sweep as above, listed hottest first: still 305 K (linear interpolation, definition)
+    assert _interpolated_limit(np.array([310.0, 290.0, 300.0]), np.array([340.0, 320.0, 330.0]), 335.0) == \
+        pytest.approx(305.0)

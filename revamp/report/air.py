@@ -99,13 +99,16 @@ def run_air_case(case) -> AirStudy:
         ratings["hottest day (clean)"] = rv.rate(ex, _clean(svc).replace(air_in=hottest))
         try:
             hot = hot_day(ex, svc, list(case.hot_day_ambient), case.t_out_target)
-            note = _limit_text(hot)
+            note = _limit_text(hot, case.t_out_target)
         except InputError as exc:  # the limit search left the fluid's range: keep the sweep, interpolate on it
             hot = hot_day(ex, svc, list(case.hot_day_ambient))
             note = (f"The search for the limiting ambient stopped ({exc}); the limit below is read off the sweep by "
                     "linear interpolation between its points.")
             limit = _interpolated_limit(hot.ambient, hot.t_out_tube, case.t_out_target)
-            note += " " + _limit_text(hot, limit)
+            if limit is None and case.t_out_target is not None and float(hot.t_out_tube[np.argmax(hot.ambient)]) <= case.t_out_target:
+                note += " The target is met across the whole sweep."
+            else:
+                note += " " + _limit_text(hot, case.t_out_target, limit)
     options = options_hot = None
     error = ""
     if case.options:
@@ -132,7 +135,8 @@ def _interpolated_limit(ambient, t_out, target):
     inside the sweep. ``t_out`` rises with the ambient."""
     if target is None:
         return None
-    gap = np.asarray(t_out, float) - target
+    order = np.argsort(np.asarray(ambient, float))  # the unit file may list the ambients in any order
+    ambient, gap = np.asarray(ambient, float)[order], np.asarray(t_out, float)[order] - target
     above = np.flatnonzero(gap > 0)
     if above.size == 0 or above[0] == 0:
         return None
@@ -140,13 +144,13 @@ def _interpolated_limit(ambient, t_out, target):
     return float(np.interp(0.0, [gap[k - 1], gap[k]], [ambient[k - 1], ambient[k]]))
 
 
-def _limit_text(hot, limit="from the sweep") -> str:
+def _limit_text(hot, t_out_target, limit="from the search") -> str:
     from ..units import format_quantity as fq
 
-    if hot.t_out_target is None:
+    if t_out_target is None:
         return "No target outlet given: the sweep shows the outlet and duty only."
-    limit = hot.ambient_limit if limit == "from the sweep" else limit
-    target = fq(hot.t_out_target, "temperature")
+    limit = hot.ambient_limit if limit == "from the search" else limit
+    target = fq(t_out_target, "temperature")
     if limit is None or (isinstance(limit, float) and np.isnan(limit)):
         return f"The tube outlet target {target} is not met at any ambient searched."
     if np.isinf(limit):
