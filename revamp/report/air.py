@@ -105,7 +105,8 @@ def run_air_case(case) -> AirStudy:
             note = (f"The search for the limiting ambient stopped ({exc}); the limit below is read off the sweep by "
                     "linear interpolation between its points.")
             limit = _interpolated_limit(hot.ambient, hot.t_out_tube, case.t_out_target)
-            if limit is None and case.t_out_target is not None and float(hot.t_out_tube[np.argmax(hot.ambient)]) <= case.t_out_target:
+            hottest_out = float(hot.t_out_tube[np.argmax(hot.ambient)])
+            if limit is None and case.t_out_target is not None and hottest_out <= case.t_out_target:
                 note += " The target is met across the whole sweep."
             else:
                 note += " " + _limit_text(hot, case.t_out_target, limit)
@@ -125,8 +126,8 @@ def run_air_case(case) -> AirStudy:
             if key not in keys:
                 keys.add(key)
                 seen.append(w)
-    return AirStudy(case=case, ratings=ratings, basis=basis, hot=hot, hot_note=note, options=options, options_hot=options_hot,
-                    options_error=error,
+    return AirStudy(case=case, ratings=ratings, basis=basis, hot=hot, hot_note=note, options=options,
+                    options_hot=options_hot, options_error=error,
                     warnings=tuple(seen))
 
 

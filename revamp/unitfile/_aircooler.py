@@ -299,7 +299,8 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
         if revamp_service is None:
             return None
     return AirCoolerCase(tag=tag, description=str(x.get("description", "")), exchanger=exchanger, service=svc,
-                         options=tuple(opts), revamp_service=revamp_service, throughput=throughput, hot_day_ambient=ambient, t_out_target=target, dp_allowed_tube=dp_allowed)
+                         options=tuple(opts), revamp_service=revamp_service, throughput=throughput,
+                         hot_day_ambient=ambient, t_out_target=target, dp_allowed_tube=dp_allowed)
 
 
 def air_cooler_problems(i: int, x: dict) -> list[Problem]:
