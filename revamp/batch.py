@@ -532,8 +532,13 @@ def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, unit
                                                          + (f" (+{len(own) - 3} more)" if len(own) > 3 else "")))
             continue
         case = unit.exchanger(tag)
-        extra = [case.plant_data.file] if case.plant_data else []
-        jobs_list.append({"tag": tag, "notebook": str(nb_path), "unit_file": str(unit_file),
+        extra = [case.plant_data.file] if getattr(case, "plant_data", None) else []
+        if getattr(case, "kind", None) == "air cooler":  # an air cooler has a study notebook of its own
+            nb_for = nb_path.with_name("air_cooler_study.ipynb")
+            nb_for = nb_for if nb_for.is_file() else notebook_path("air_cooler_study.ipynb")
+        else:
+            nb_for = nb_path
+        jobs_list.append({"tag": tag, "notebook": str(nb_for), "unit_file": str(unit_file),
                           "file": fname, "description": desc, "timeout": timeout, "units": units,
                           "extra_files": [str(e) for e in extra], "inputs": raw})
     return rows, jobs_list

@@ -245,6 +245,14 @@ def unit_table(unit, system: str = "SI"):
 
     rows = []
     for case in unit.exchangers:
+        if getattr(case, "kind", None) == "air cooler":  # its own row: an air cooler has other sides
+            from .air import unit_row
+
+            try:
+                rows.append(unit_row(case, system))
+            except Exception as exc:
+                rows.append({"exchanger": case.tag, "error": f"{exc.__class__.__name__}: {exc}"})
+            continue
         try:
             today, rev = rv.rate(case.exchanger, case.service), rv.rate(case.exchanger, case.revamp_service)
         except Exception as exc:

@@ -22,6 +22,7 @@ import hashlib
 import re
 from pathlib import Path
 
+from ._aircooler import AIR_COOLER_KIND, AirCoolerCase, build_air_cooler
 from ._building import OPTION_PATH, _build_exchanger, _exchanger_rules
 from ._cleaning import cleaning_quantities, cleaning_rules
 from ._network import build_network, network_quantities, network_rules
@@ -48,6 +49,8 @@ from ._reading import (
 )
 
 __all__ = [
+    "AIR_COOLER_KIND",
+    "AirCoolerCase",
     "SCHEMA_PATH",
     "STANDARD_COLUMNS",
     "ExchangerCase",
@@ -105,8 +108,14 @@ def _validate(path, build: bool, only=None):
     base, tags = path.resolve().parent, {}
     exchangers = doc.get("exchangers") if isinstance(doc.get("exchangers"), list) else []
     seen = {p.path for p in problems}
+    air = {}  # index -> AirCoolerCase (None when it has problems): such entries are checked by their own module
     for i, x in enumerate(exchangers):
-        if isinstance(x, dict):  # a place already refused (e.g. a NUL in a file name) is not reported twice
+        if _is_air_cooler(x):
+            own: list = []
+            air[i] = build_air_cooler(i, x, own)
+            own += _air_tag_rule(x, i, tags)
+            problems += [p for p in own if p.path not in seen]
+        elif isinstance(x, dict):  # a place already refused (e.g. a NUL in a file name) is not reported twice
             problems += [p for p in _exchanger_rules(x, ["exchangers", i], base, tags) if p.path not in seen]
     problems += network_rules(doc, si)  # also fills the sides that name a network stream
     problems += cleaning_rules(doc, si)
@@ -125,19 +134,39 @@ def _validate(path, build: bool, only=None):
     built = []
     for i, x in enumerate(exchangers):
         own = [p for p in problems if _owned([p], i)]
+        if i in air:  # an air cooler is built whole or not at all (its checks ran above)
+            if not own and air[i] is not None and (only is None or air[i].tag in only):
+                built.append(air[i])
+            continue
         refused = {int(m.group(2)) for p in own if (m := OPTION_PATH.match(p.path))}
         if len(refused) < len(own) or not isinstance(x, dict) or (only is not None and x.get("tag") not in only):
             continue  # never build (let alone rate) an exchanger whose inputs are already known to be wrong
         case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ, refused=refused)
         if case is not None:  # built without its wrong options, which keep their problems
             built.append(dataclasses.replace(case, refused_options=tuple(p for p in problems if _owned([p], i))))
-    network = build_network(si, doc, tuple(built), problems) if only is None else None
+    shell_tube = tuple(c for c in built if isinstance(c, ExchangerCase))  # a train of shell-and-tube matches only
+    network = build_network(si, doc, shell_tube, problems) if only is None else None
     problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc,
                 network=network, network_throughput=float((si.get("network") or {}).get("throughput", 1.0)),
                 cleaning=si.get("cleaning") if isinstance(doc.get("cleaning"), dict) else None)
     return unit, _sorted(problems)
+
+
+def _is_air_cooler(x) -> bool:
+    return isinstance(x, dict) and x.get("kind") == AIR_COOLER_KIND
+
+
+def _air_tag_rule(x: dict, i: int, seen_tags: dict) -> list[Problem]:
+    """An air cooler's tag is unique among all the exchangers of the unit, like any other tag."""
+    tag = x.get("tag")
+    if not isinstance(tag, str):
+        return []
+    if tag in seen_tags:
+        return [Problem(f"exchangers[{i}].tag", tag, f"must be unique (also used by exchangers[{seen_tags[tag]}])")]
+    seen_tags[tag] = i
+    return []
 
 
 def _as_written(problem: Problem, doc) -> Problem:

@@ -23,6 +23,7 @@ An entry as written in the unit file (YAML already read; values as the user wrot
         draft: forced
       tube_side: {fluid: {kind: constant, ...}, flow: 25 kg/s, t_in: 150 degC, fouling: 0.0003 m**2*K/W}
       air_side: {t_in: 35 degC, flow: 420 kg/s, altitude: 300 m, fouling: 0.0001 m**2*K/W}   # or face_velocity
+      revamp: {throughput: 1.2}   # the tube-side flow at the revamp conditions, a factor on today's
       hot_day: {ambient: [20 degC, 30 degC, 40 degC, 45 degC], t_out_target: 60 degC}
       options:
         - {type: add_bays, n: 1}
@@ -54,7 +55,9 @@ _FIN = {"height", "thickness", "per_length", "material", "bond", "bond_resistanc
 _TUBE = {"fluid", "flow", "t_in", "fouling", "dp_allowed"}
 _AIR = {"t_in", "flow", "face_velocity", "altitude", "fouling"}
 _HOT = {"ambient", "t_out_target"}
-_ENTRY = {"tag", "kind", "description", "geometry", "tube_side", "air_side", "hot_day", "options"}
+_ENTRY = {"tag", "kind", "description", "geometry", "tube_side", "air_side", "revamp", "hot_day", "options"}
+#: the largest throughput factor accepted (as for a shell-and-tube entry's revamp.throughput)
+MAX_THROUGHPUT = 10.0
 #: option ``type`` -> (class name, module, fields)
 _OPTIONS = {
     "add_bays": ("AddBays", "options_air", {"n"}),
@@ -84,6 +87,8 @@ AIR_COOLER_SCHEMA = {
                       "properties": {"fluid": {"$ref": "#/$defs/fluid"}, **{k: _Q for k in _TUBE - {"fluid"}}}},
         "air_side": {"type": "object", "additionalProperties": False, "required": ["t_in"],
                      "properties": {k: _Q for k in _AIR}},
+        "revamp": {"type": "object", "additionalProperties": False, "required": ["throughput"],
+                   "properties": {"throughput": _Q}},
         "hot_day": {"type": "object", "additionalProperties": False,
                     "properties": {"ambient": {"type": "array", "items": _Q, "minItems": 1, "maxItems": 200},
                                    "t_out_target": _Q}},
@@ -103,6 +108,8 @@ class AirCoolerCase:
     exchanger: object
     service: object
     options: tuple = ()
+    revamp_service: object = None  #: the service at the revamp conditions (None: no revamp section)
+    throughput: float = 1.0        #: the factor on today's tube-side flow at the revamp conditions
     hot_day_ambient: tuple | None = None
     t_out_target: float | None = None
     dp_allowed_tube: float | None = None
@@ -219,7 +226,9 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
         if not isinstance(spec, dict) or "kind" not in spec:
             problems.append(Problem(f"{pre}.tube_side.fluid", _show(spec), "must be a fluid mapping with a 'kind'"))
         else:
-            fluid = _guard(problems, f"{pre}.tube_side.fluid", lambda: _build_fluid(dict(spec)))
+            kind = str(spec["kind"])  # the fluid's complaint names "<kind>.<field>": the file says "<field>"
+            fluid = _guard(problems, f"{pre}.tube_side.fluid", lambda: _build_fluid(dict(spec)),
+                           rename=lambda f: f[len(kind) + 1:] if f.startswith(kind + ".") else f)
         if fluid is not None:
             stream = _guard(problems, f"{pre}.tube_side",
                             lambda: service.Stream(fluid, tube.get("flow"), tube.get("t_in")))
@@ -266,13 +275,32 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
         if hot.get("t_out_target") is not None:
             target = _guard(problems, f"{pre}.hot_day", lambda: to_si(hot["t_out_target"], "temperature",
                                                                        "t_out_target"))
+    throughput, rv = 1.0, _mapping(x, "revamp", pre, problems, required=False)
+    if rv is not None:
+        _unknown(rv, {"throughput"}, f"{pre}.revamp", problems)
+        if "throughput" not in rv:
+            problems.append(Problem(f"{pre}.revamp.throughput", "(missing)", "must be given"))
+        else:
+            factor = _guard(problems, f"{pre}.revamp", lambda: to_si(rv["throughput"], "dimensionless", "throughput"))
+            if factor is not None and not (isinstance(factor, float) and 0.0 < factor <= MAX_THROUGHPUT):
+                problems.append(Problem(f"{pre}.revamp.throughput", _show(rv["throughput"]),
+                                        f"must be one factor > 0 and <= {MAX_THROUGHPUT:g}"))
+            elif factor is not None:
+                throughput = factor
     dp_allowed = None
     if tube is not None and tube.get("dp_allowed") is not None:
         dp_allowed = _guard(problems, f"{pre}.tube_side", lambda: to_si(tube["dp_allowed"], "pressure", "dp_allowed"))
     if len(problems) > start or exchanger is None or svc is None:
         return None
+    revamp_service = None
+    if rv is not None:
+        revamp_service = _guard(problems, f"{pre}.revamp", lambda: svc.replace(
+            tube=svc.tube.replace(flow=svc.tube.flow * throughput)))
+        if revamp_service is None:
+            return None
     return AirCoolerCase(tag=tag, description=str(x.get("description", "")), exchanger=exchanger, service=svc,
-                         options=tuple(opts), hot_day_ambient=ambient, t_out_target=target, dp_allowed_tube=dp_allowed)
+                         options=tuple(opts), revamp_service=revamp_service, throughput=throughput,
+                         hot_day_ambient=ambient, t_out_target=target, dp_allowed_tube=dp_allowed)
 
 
 def air_cooler_problems(i: int, x: dict) -> list[Problem]:

@@ -413,6 +413,9 @@ def _resolve(sch: dict) -> dict:
 def _walk(node, sch, parts, currency, problems):
     """Return ``node`` with every ``x-kind`` leaf converted to SI; record conversion and bound problems."""
     sch = _resolve(sch) if isinstance(sch, dict) else {}
+    if "if" in sch and "$ref" in sch.get("then", {}):  # a conditional entry (another exchanger kind): its branch
+        branch = sch["then"] if jsonschema.Draft202012Validator(sch["if"]).is_valid(node) else sch.get("else", {})
+        return _walk(node, branch, parts, currency, problems)
     kind = sch.get("x-kind")
     if kind is not None:
         if isinstance(node, bool) or not isinstance(node, (int, float, str)):

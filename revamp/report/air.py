@@ -1,0 +1,312 @@
+"""The study of one air cooler as the report shows it: ratings in service and clean (today and on the hottest day of
+the sweep), the resistances in series, the hot-day sweep with the ambient at which the target outlet is lost, and the
+options side by side. No physics here: every number comes from :func:`revamp.rate`,
+:func:`revamp.hot_day.hot_day` and :func:`revamp.options_air.compare_air`.
+
+References
+----------
+Briggs, D. E., and Young, E. H. (1963). Convection heat transfer and pressure drop of air flowing across triangular
+pitch banks of finned tubes. Chem. Eng. Prog. Symp. Ser. 59(41), 1-10 (the default air-side method of the rating).
+"""
+from __future__ import annotations
+
+import json
+import re
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import InputError
+from .case import breakdown_figure
+from .pages import esc, write_atomic
+
+__all__ = ["AirStudy", "air_header_html", "air_options_table", "air_ratings_table", "air_summary", "breakdown_items",
+           "hot_day_items", "options_items", "run_air_case", "unit_row", "write_air_summary"]
+
+#: rows of the ratings table: (attribute, quantity kind, label)
+AIR_COLUMNS = [("duty", "power", "duty"), ("t_out_tube", "temperature", "tube outlet"),
+               ("t_out_air", "temperature", "air outlet (mixed)"), ("U_service", "htc", "U in service (bare area)"),
+               ("U_clean", "htc", "U clean (bare area)"), ("h_air", "htc", "air film (finned surface)"),
+               ("fin_efficiency", "dimensionless", "fin efficiency"), ("h_tube", "htc", "tube film"),
+               ("dp_air", "pressure", "air pressure drop"), ("dp_tube", "pressure", "tube pressure drop"),
+               ("fan_power", "power", "fan shaft power"), ("velocity_face", "velocity", "face velocity"),
+               ("velocity_tube", "velocity", "tube velocity"), ("F", "dimensionless", "F correction"),
+               ("effectiveness", "dimensionless", "effectiveness")]
+
+
+@dataclass(frozen=True)
+class AirStudy:
+    """One air cooler's study (SI inside).
+
+    Attributes
+    ----------
+    case : AirCoolerCase
+    ratings : dict
+        Label -> :class:`~revamp.rating_air.AirRating`: ``"today"`` and ``"today (clean)"``, with a revamp section
+        ``"revamp"`` and ``"revamp (clean)"``, and with a hot-day sweep ``"hottest day"`` and ``"hottest day
+        (clean)"`` at its hottest ambient (at the revamp flows when there are some).
+    basis : str
+        What the sweep and the options are rated at (the revamp flows, or today's).
+    hot : HotDay or None
+        The sweep over the ambients of the unit file (None without a ``hot_day`` section).
+    hot_note : str
+        How the ambient limit was found, or why it could not be.
+    options : pandas.DataFrame or None
+        :func:`~revamp.options_air.compare_air` at today's service (None without options).
+    options_hot : pandas.DataFrame or None
+        The same on the hottest day of the sweep (None without options or sweep).
+    options_error : str
+    warnings : tuple of str
+        The rating's warnings (validity ranges), each once.
+    """
+
+    case: object
+    ratings: dict
+    basis: str = ""
+    hot: object = None
+    hot_note: str = ""
+    options: object = None
+    options_hot: object = None
+    options_error: str = ""
+    warnings: tuple = field(default=())
+
+
+def _clean(service):
+    return service.replace(fouling_tube=0.0, fouling_air=0.0)
+
+
+def run_air_case(case) -> AirStudy:
+    """Rate, sweep and compare one air cooler of a unit file (an :class:`~revamp.unitfile.AirCoolerCase`)."""
+    import revamp as rv
+
+    from ..hot_day import hot_day
+    from ..options_air import compare_air
+
+    if getattr(case, "kind", None) != "air cooler":
+        raise InputError("case", type(case).__name__, "an air-cooler case of a unit file (kind: air cooler)")
+    ex, today = case.exchanger, case.service
+    ratings = {"today": rv.rate(ex, today), "today (clean)": rv.rate(ex, _clean(today))}
+    svc = today  # the design question: the revamp flows when the unit file gives them
+    basis = "today's flows (the unit file gives no revamp section for this air cooler)"
+    if getattr(case, "revamp_service", None) is not None:
+        svc = case.revamp_service
+        ratings["revamp"], ratings["revamp (clean)"] = rv.rate(ex, svc), rv.rate(ex, _clean(svc))
+        basis = f"the revamp conditions (tube-side flow x{case.throughput:g} on today's)"
+    hot, note = None, ""
+    if case.hot_day_ambient:
+        hottest = max(case.hot_day_ambient)
+        ratings["hottest day"] = rv.rate(ex, svc.replace(air_in=hottest))
+        ratings["hottest day (clean)"] = rv.rate(ex, _clean(svc).replace(air_in=hottest))
+        try:
+            hot = hot_day(ex, svc, list(case.hot_day_ambient), case.t_out_target)
+            note = _limit_text(hot, case.t_out_target)
+        except InputError as exc:  # the limit search left the fluid's range: keep the sweep, interpolate on it
+            hot = hot_day(ex, svc, list(case.hot_day_ambient))
+            note = (f"The search for the limiting ambient stopped ({exc}); the limit below is read off the sweep by "
+                    "linear interpolation between its points.")
+            limit = _interpolated_limit(hot.ambient, hot.t_out_tube, case.t_out_target)
+            hottest_out = float(hot.t_out_tube[np.argmax(hot.ambient)])
+            if limit is None and case.t_out_target is not None and hottest_out <= case.t_out_target:
+                note += " The target is met across the whole sweep."
+            else:
+                note += " " + _limit_text(hot, case.t_out_target, limit)
+    options = options_hot = None
+    error = ""
+    if case.options:
+        try:
+            options = compare_air(ex, svc, case.options)
+            if case.hot_day_ambient:
+                options_hot = compare_air(ex, svc.replace(air_in=max(case.hot_day_ambient)), case.options)
+        except InputError as exc:
+            error = str(exc)
+    seen, keys = [], set()
+    for r in ratings.values():  # each warning once: the same complaint at another number is not repeated
+        for w in r.warnings:
+            key = re.sub(r"\d[\d.eE+-]*", "#", w)
+            if key not in keys:
+                keys.add(key)
+                seen.append(w)
+    return AirStudy(case=case, ratings=ratings, basis=basis, hot=hot, hot_note=note, options=options,
+                    options_hot=options_hot, options_error=error,
+                    warnings=tuple(seen))
+
+
+def _interpolated_limit(ambient, t_out, target):
+    """The ambient at which ``t_out`` crosses ``target`` on a sweep (linear between points), None if it never does
+    inside the sweep. ``t_out`` rises with the ambient."""
+    if target is None:
+        return None
+    order = np.argsort(np.asarray(ambient, float))  # the unit file may list the ambients in any order
+    ambient, gap = np.asarray(ambient, float)[order], np.asarray(t_out, float)[order] - target
+    above = np.flatnonzero(gap > 0)
+    if above.size == 0 or above[0] == 0:
+        return None
+    k = above[0]
+    return float(np.interp(0.0, [gap[k - 1], gap[k]], [ambient[k - 1], ambient[k]]))
+
+
+def _limit_text(hot, t_out_target, limit="from the search") -> str:
+    from ..units import format_quantity as fq
+
+    if t_out_target is None:
+        return "No target outlet given: the sweep shows the outlet and duty only."
+    limit = hot.ambient_limit if limit == "from the search" else limit
+    target = fq(t_out_target, "temperature")
+    if limit is None or (isinstance(limit, float) and np.isnan(limit)):
+        return f"The tube outlet target {target} is not met at any ambient searched."
+    if np.isinf(limit):
+        return f"The tube outlet target {target} is met up to 5 K below the target itself."
+    return f"The tube outlet target {target} is lost above an ambient of {fq(limit, 'temperature')}."
+
+
+def air_ratings_table(study: AirStudy, system: str = "SI"):
+    """The ratings side by side: one column per rating, one row per quantity in ``system`` units (a DataFrame)."""
+    import pandas as pd
+
+    from ..units import from_si
+
+    rows = {}
+    for label, r in study.ratings.items():
+        col = {}
+        for attr, kind, name in AIR_COLUMNS:
+            value, unit = from_si(float(getattr(r, attr)), kind, system)
+            col[f"{name} [{unit}]" if unit else name] = round(value, 3 if abs(value) < 100 else 1)
+        rows[label] = col
+    return pd.DataFrame(rows)
+
+
+def breakdown_items(study: AirStudy) -> list:
+    """The resistances in series on the bare outside-tube area, stacked per rating, and the controlling one."""
+    fig = breakdown_figure(study.ratings, "Where the resistance to heat transfer lies (bare outside-tube area)")
+    r = study.ratings["today"]
+    return [fig, f"Controlling resistance today: {r.controlling_resistance()}."]
+
+
+def hot_day_items(study: AirStudy, system: str = "SI") -> list:
+    """The hot-day sweep as a table and a chart, and the ambient at which the target outlet is lost."""
+    if study.hot is None:
+        return ["No hot-day sweep: the unit file gives no hot_day section for this air cooler."]
+    basis = f"Rated at {study.basis}."
+    from ..plots_air import hot_day_chart
+    from ..units import from_si
+
+    frame = study.hot.to_frame()
+    shown = {}
+    for col, kind in (("ambient", "temperature"), ("t_out_tube", "temperature"), ("t_out_air", "temperature"),
+                      ("duty", "power"), ("fan_power", "power")):
+        value, unit = from_si(frame[col].to_numpy(float), kind, system)
+        shown[f"{col.replace('_', ' ')} [{unit}]"] = value
+    import pandas as pd
+
+    table = pd.DataFrame(shown).set_index(next(iter(shown)))
+    return [basis, study.hot_note, table, hot_day_chart(study.hot, units=system)] + list(study.hot.notes)
+
+
+def air_options_table(study: AirStudy, system: str = "SI", hottest: bool = False):
+    """:func:`~revamp.options_air.compare_air` in ``system`` units (today, or on the hottest day of the sweep with
+    ``hottest``), or a line saying why there is none."""
+    frame = study.options_hot if hottest else study.options
+    if frame is None:
+        if hottest and study.options is not None:
+            return "No hot-day sweep: the options are compared at today's ambient only."
+        return study.options_error or "No options given in the unit file for this air cooler."
+    import pandas as pd
+
+    from ..units import from_si
+
+    kinds = {"duty": "power", "t_out_tube": "temperature", "t_out_air": "temperature", "U_service": "htc",
+             "dp_air": "pressure", "dp_tube": "pressure", "fan_power": "power", "air_flow": "mass_flow",
+             "area": "area", "velocity_tube": "velocity"}
+    out = {}
+    for col in frame.columns:
+        if col in kinds:
+            value, unit = from_si(frame[col].to_numpy(float), kinds[col], system)
+            out[f"{col.replace('_', ' ')} [{unit}]"] = value
+        else:
+            out[col] = frame[col].to_numpy()
+    return pd.DataFrame(out, index=frame.index)
+
+
+def options_items(study: AirStudy, system: str = "SI") -> list:
+    """The options compared at today's ambient and, with a sweep, on its hottest day, each table with its caption."""
+    from ..units import format_quantity as fq
+
+    case = study.case
+    items = [f"Rated at {study.basis}.", f"At today's ambient ({fq(case.service.air_in, 'temperature', system)}):",
+             air_options_table(study, system)]
+    if study.options_hot is not None:
+        items += [f"On the hottest day of the sweep ({fq(max(case.hot_day_ambient), 'temperature', system)}):",
+                  air_options_table(study, system, hottest=True)]
+    return items
+
+
+def air_header_html(case, unit, system: str = "SI") -> str:
+    """Who the air cooler is and what it serves, as escaped HTML."""
+    from ..units import format_quantity as fq
+
+    ex, s = case.exchanger, case.service
+    air = f"air flow {fq(s.air_flow, 'mass_flow', system)}" if s.air_flow is not None else (
+        f"face velocity {fq(s.face_velocity, 'velocity', system)}")
+    lines = [f"<h2>{esc(case.tag)}: {esc(case.description)}</h2>",
+             f"<p>Unit: {esc(unit.name)}. Air cooler, {ex.draft} draft: {ex.bays} bay(s) x {ex.bundles_per_bay} "
+             f"bundle(s), {ex.tube_rows} tube rows of {ex.tubes_per_row} tubes, {ex.tube_passes} passes, "
+             f"{ex.fans_per_bay} fan(s) per bay.</p>",
+             f"<p>Tube side: {esc(s.tube.fluid.name)}, {fq(s.tube.flow, 'mass_flow', system)} in at "
+             f"{fq(s.tube.t_in, 'temperature', system)}, fouling {fq(s.fouling_tube, 'fouling', system)}. Air: ambient "
+             f"{fq(s.air_in, 'temperature', system)}, {esc(air)}, fouling {fq(s.fouling_air, 'fouling', system)}.</p>"]
+    return "".join(lines)
+
+
+def air_summary(study: AirStudy) -> dict:
+    """The few numbers the unit index shows for an air cooler (JSON-ready)."""
+    from ..units import format_quantity as fq
+
+    case, today = study.case, study.ratings["today"]
+    out = {"kind": "air cooler", "duty_today": float(today.duty)}
+    if "revamp" in study.ratings:
+        out["duty_revamp"] = float(study.ratings["revamp"].duty)
+        today = study.ratings["revamp"]  # the limits are judged at the revamp conditions
+    allowed = case.dp_allowed_tube
+    out["screening_as_is"] = ("-" if allowed is None else
+                              "ok" if float(today.dp_tube) <= allowed else "tube dp above allowed")
+    if case.t_out_target is not None:  # judged on the hottest day of the sweep when there is one
+        hot = "hottest day" in study.ratings
+        r, when = (study.ratings["hottest day"], "on the hottest day") if hot else (today, "at today's ambient")
+        amb = fq(r.service.air_in, "temperature")
+        out["target"] = f"tube outlet <= {fq(case.t_out_target, 'temperature')} at {amb} ambient"
+        out["meets_target"] = bool(float(r.t_out_tube) <= case.t_out_target)
+        frame = study.options_hot if hot else study.options
+        if frame is not None:
+            ok = [f"{k} ({fq(v, 'temperature')})" for k, v in frame["t_out_tube"].items()
+                  if k != "base" and v <= case.t_out_target]
+            out["recommendation"] = (f"meeting the target {when}: " + ", ".join(ok)) if ok else (
+                f"no option meets the target {when}")
+    if study.hot is not None and study.hot.ambient_limit is not None and np.isfinite(study.hot.ambient_limit):
+        out["ambient_limit"] = float(study.hot.ambient_limit)
+    return out
+
+
+def write_air_summary(path, study: AirStudy) -> None:
+    """Write :func:`air_summary` as JSON (atomically); ``path`` None does nothing."""
+    if path:
+        write_atomic(path, json.dumps(air_summary(study), indent=1))
+
+
+def unit_row(case, system: str = "SI") -> dict:
+    """An air cooler's row of the unit table (:func:`revamp.report.unit_table`): duty today and at revamp (when the
+    unit file gives a revamp section), U, controlling resistance and tube pressure drop at the revamp conditions."""
+    import revamp as rv
+
+    from ..units import from_si
+
+    r = rv.rate(case.exchanger, case.service)
+    rev = rv.rate(case.exchanger, case.revamp_service) if case.revamp_service is not None else None
+    p = lambda v: round(from_si(float(v), "pressure", system)[0], 1)  # noqa: E731
+    q = lambda v: round(from_si(float(v), "power", system)[0], 0)  # noqa: E731
+    allowed = p(case.dp_allowed_tube) if case.dp_allowed_tube is not None else "-"
+    return {"exchanger": case.tag, "description": case.description,
+            f"duty today [{from_si(1, 'power', system)[1]}]": q(r.duty),
+            **({f"duty at revamp [{from_si(1, 'power', system)[1]}]": q(rev.duty)} if rev is not None else {}),
+            "U in service [W/m²K]": round(float((rev or r).U_service), 0),
+            "controlling resistance": (rev or r).controlling_resistance(),
+            f"dp tube / allowed [{from_si(1, 'pressure', system)[1]}]": f"{p((rev or r).dp_tube)} / {allowed}"}
