@@ -1,4 +1,8 @@
-"""Unit-file entries of kind 'air cooler': a valid entry builds and rates; every bad field is named by its path."""
+"""Unit-file entries of kind 'air cooler': a valid entry builds and rates; every bad field is named by its path.
+
+Expected values are the entry's own numbers (the loader must only translate the file; unit conversions by
+definition) and the paths the file's layout gives: no outside source is needed.
+"""
 import copy
 
 import pytest

@@ -1,6 +1,9 @@
 """The executor seam (revamp.executor): the same results wherever tasks run, failures isolated, lost workers retried.
 
 Dask's LocalCluster runs for real here (two worker processes), as the batch and the Monte Carlo use it.
+
+Expected values are by construction (each task returns its input squared, or its input plus 100): an
+invariant of where the work runs, needing no outside source.
 """
 import os
 import pathlib

@@ -1,5 +1,9 @@
 """The train page and its batch hook: formatting only, so every shown number is checked against the solved result
-it came from; user text is escaped."""
+it came from; user text is escaped.
+
+Expected values are the solved train's own numbers as the page must show them (an invariant of formatting,
+no outside source).
+"""
 import re
 import sys
 from pathlib import Path

@@ -239,8 +239,7 @@ def unit_table(unit, system: str = "SI"):
     """All exchangers of a unit in one table: duty today and at revamp, U, pressure drops against the allowed."""
     import pandas as pd
 
-    import revamp as rv
-
+    from ..studies.unit import unit_ratings
     from ..units import from_si
 
     rows = []
@@ -254,7 +253,7 @@ def unit_table(unit, system: str = "SI"):
                 rows.append({"exchanger": case.tag, "error": f"{exc.__class__.__name__}: {exc}"})
             continue
         try:
-            today, rev = rv.rate(case.exchanger, case.service), rv.rate(case.exchanger, case.revamp_service)
+            today, rev = unit_ratings(case)
         except Exception as exc:
             rows.append({"exchanger": case.tag, "error": f"{exc.__class__.__name__}: {exc}"})
             continue

@@ -1,10 +1,13 @@
-"""Interactive controls for JupyterLab (ipywidgets): re-rate and redraw in place; static stand-ins for reports."""
+"""Interactive controls for JupyterLab (ipywidgets): re-rate and redraw in place; static stand-ins for reports.
+
+The ratings are computed in :mod:`revamp.studies.what_if`; here they are cached, laid out and drawn."""
 from __future__ import annotations
 
 from dataclasses import dataclass
 
 import numpy as np
 
+from ..studies.what_if import what_if, what_if_rating  # noqa: F401  (what_if: the notebooks' name)
 from .pages import esc
 
 
@@ -15,32 +18,6 @@ def widgets_available() -> bool:
     except ImportError:
         return False
     return True
-
-
-def what_if(case, throughput=1.0, fouling_shell=None, fouling_tube=None, twist_ratio=4.0, shells=None) -> dict:
-    """Re-rate one exchanger at a throughput factor and fouling, as is, with twisted tapes and with N shells.
-
-    Returns ``{label: Rating}``; used by the notebooks' widgets (a few ratings: well under 100 ms on the demo).
-    """
-    import revamp as rv
-
-    from ..options import TwistedTape
-
-    svc = case.service.scaled(throughput=throughput)
-    changes = {}
-    if fouling_shell is not None:
-        changes["fouling_shell"] = fouling_shell
-    if fouling_tube is not None:
-        changes["fouling_tube"] = fouling_tube
-    svc = svc.replace(**changes) if changes else svc
-    ex = case.exchanger
-    out = {"as is": rv.rate(ex, svc)}
-    tape = TwistedTape(twist_ratio=twist_ratio)
-    out[f"twisted tape y={twist_ratio:g}"] = rv.rate(*tape.apply(ex, svc))
-    n = int(shells or ex.shells)
-    if n != ex.shells:
-        out[f"{n} shell(s) in series"] = rv.rate(ex.replace(shells=n), svc)
-    return out
 
 
 #: the what-if controls: name -> (lowest, highest, step) of the slider, SI (fouling [m²K/W] on its own surface)
@@ -101,28 +78,19 @@ class WhatIf:
         self.grid = {"throughput": np.asarray(throughputs, float), "fouling_shell": np.asarray(foulings_shell, float),
                      "fouling_tube": np.asarray(foulings_tube, float)}
         self._cache: dict = {}
-        self.ratings_run = 0  # vectorized or scalar rate() calls made (for the benchmark)
+        self.ratings_run = 0  # vectorized or scalar ratings made (for the benchmark)
 
     @staticmethod
     def _key(x) -> float:
         return round(float(x), 9)
 
     def _rate(self, kind, throughput, fs, ft, twist_ratio, shells, along):
-        import revamp as rv
-
-        from ..options import TwistedTape
-
         values = {"throughput": throughput, "fouling_shell": fs, "fouling_tube": ft}
         if along is not None:
             values[along] = self.grid[along]
-        svc = self.case.service.scaled(throughput=values["throughput"]).replace(
-            fouling_shell=values["fouling_shell"], fouling_tube=values["fouling_tube"])
-        ex = self.case.exchanger
-        if kind == "tape":
-            ex, svc = TwistedTape(twist_ratio=twist_ratio).apply(ex, svc)
-        elif kind == "shells":
-            ex = ex.replace(shells=int(shells))
-        rating = rv.rate(ex, svc)
+        rating = what_if_rating(self.case, "as is" if kind not in ("tape", "shells") else kind,
+                                values["throughput"], values["fouling_shell"], values["fouling_tube"], twist_ratio,
+                                shells)
         self.ratings_run += 1
         n = len(self.grid[along]) if along is not None else 1
         for i, pt in enumerate(_points(rating, n)):
