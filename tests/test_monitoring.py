@@ -407,9 +407,10 @@ def test_figures_draw_daily_points_or_every_row():
     assert fig.layout.title.text.endswith("(daily medians)")
     rf = tr["Rf, steady rows"]
     assert list(pd.to_datetime(rf.x)) == list(used.index)
-    assert np.asarray(rf.y, float) == pytest.approx(used["Rf"].to_numpy(), rel=1e-12)  # SI display: m²K/W
-    assert np.asarray(tr["band (daily median)"].y, float) == pytest.approx(used["Rf_low"].to_numpy(), rel=1e-12)
-    assert np.asarray(fig.data[0].y, float) == pytest.approx(used["Rf_high"].to_numpy(), rel=1e-12)
+    # SI display: 10⁻⁴ m²·K/W, the one unit of every resistance chart (revamp.report.labels.resistance_axis)
+    assert np.asarray(rf.y, float) == pytest.approx(1e4 * used["Rf"].to_numpy(), rel=1e-12)
+    assert np.asarray(tr["band (daily median)"].y, float) == pytest.approx(1e4 * used["Rf_low"].to_numpy(), rel=1e-12)
+    assert np.asarray(fig.data[0].y, float) == pytest.approx(1e4 * used["Rf_high"].to_numpy(), rel=1e-12)
     every = pm.fouling_trend(m, resample=None)
     assert len(next(x for x in every.data if x.name == "Rf, steady rows").y) == int(tab["used"].sum())
 
