@@ -107,7 +107,8 @@ def _fit(Re, pitch_ratio, layout, kind):
     u = 0.5 + (lr - _LN_EDGES[edge]) / _HALF_BAND
     near = (u > 0.0) & (u < 1.0)
     if np.any(near):
-        w = u * u * (3.0 - 2.0 * u)
+        uc = np.clip(u, 0.0, 1.0)  # the weight outside the band is never used: clipped, it cannot overflow exp
+        w = uc * uc * (3.0 - 2.0 * uc)
         ln_lower = np.log(c1[edge]) + c2[edge] * lr
         ln_upper = np.log(c1[edge + 1]) + c2[edge + 1] * lr
         core = np.where(near, np.exp((1.0 - w) * ln_lower + w * ln_upper), core)
