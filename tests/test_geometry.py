@@ -191,7 +191,7 @@ def test_tube_count_refused_only_when_it_cannot_fit(layout, ds, lbb):
     n_phadke = ht.hx.Ntubes_Phadkeb(DBundle=ds - lbb, Do=0.0254, pitch=0.03175, Ntp=1, angle=layout)
     ok = make(**{**kw, "tube_count": n_phadke})  # what Phadke's count holds is never refused
     assert ok.tube_count == n_phadke
-    from revamp.geometry import _lattice_radii, tube_count_max
+    from revamp.geometry_bell import _lattice_radii, tube_count_max
     # with a tube at the centre our lattice count is Phadke's, tube for tube
     assert len(_lattice_radii(ds - lbb, 0.0254, 0.03175, layout)[0]) == n_phadke
     # another centre placement (between tubes, cell centre) may hold a few more: that is the limit
@@ -211,7 +211,7 @@ def test_tube_count_refused_only_when_it_cannot_fit(layout, ds, lbb):
 @settings(max_examples=25, deadline=None)
 @given(d=st.floats(0.06, 1.6), ratio=st.floats(1.2, 1.6), layout=st.sampled_from([30, 45, 60, 90]))
 def test_exact_count_never_below_phadke(d, ratio, layout):
-    from revamp.geometry import _lattice_radii, tube_count_max
+    from revamp.geometry_bell import _lattice_radii, tube_count_max
     # Phadke (1984) as coded in ht.hx.Ntubes_Phadkeb (tube-centred, one pass)
     n_phadke = ht.hx.Ntubes_Phadkeb(DBundle=d, Do=0.0254, pitch=ratio * 0.0254, Ntp=1, angle=layout)
     radii = _lattice_radii(d, 0.0254, ratio * 0.0254, layout)
