@@ -34,6 +34,7 @@ from .aircooler import FIN_BONDS, AirCooler
 from .correlations import air as air_corr
 from .correlations import tube as tube_corr
 from .errors import InputError
+from .rating_result import ResultFrames
 from .service_air import AirService
 from .thermal_air import effectiveness_air_cooler
 
@@ -144,7 +145,7 @@ def air_side(ac: AirCooler, m_bundle, rho, cp, mu, k, h_method="briggs-young", d
 
 # ------------------------------------------------------------------------------------------------------ the result
 @dataclass(frozen=True)
-class AirRating:
+class AirRating(ResultFrames):
     """The result of rating an air cooler. SI units; arrays of the service's broadcast shape for sweeps.
 
     Attributes
@@ -208,41 +209,8 @@ class AirRating:
     service: object = field(default=None, repr=False)
     layers: tuple = AIR_LAYERS
 
-    @property
-    def shape(self) -> tuple:
-        """The broadcast shape of the cases (``()`` for a single case)."""
-        return np.shape(self.duty)
-
-    def breakdown(self) -> pd.DataFrame:
-        """The resistances in series on the bare outside-tube area: ``resistance`` [m²K/W] and ``share``."""
-        if self.shape != ():
-            raise InputError("rating", f"array of shape {self.shape}", "a single case for breakdown()")
-        r = self.resistances
-        return pd.DataFrame({"resistance": r, "share": r / r.sum()})
-
-    def controlling_resistance(self):
-        """Name of the largest resistance (scalar) or an array of names (sweeps)."""
-        if self.shape == ():
-            return str(self.resistances.idxmax())
-        return self.resistances.idxmax(axis=1).to_numpy().reshape(self.shape)
-
-    def to_frame(self) -> pd.DataFrame:
-        """One row per case: every numeric field, the areas and the resistances (``"R air film"``...) (SI)."""
-        n = int(np.prod(self.shape, dtype=int))
-        cols = {name: np.broadcast_to(getattr(self, name), self.shape).ravel() for name in _FIELDS}
-        for name in ("area", "area_inside", "area_air"):
-            cols[name] = np.full(n, getattr(self, name))
-        frame = pd.DataFrame(cols)
-        res = self.resistances
-        for name in self.layers:
-            frame["R " + name] = res[name] if isinstance(res, pd.Series) else res[name].to_numpy()
-        return frame
-
-    def to_series(self) -> pd.Series:
-        """A single case as a Series (SI)."""
-        if self.shape != ():
-            raise InputError("rating", f"array of shape {self.shape}", "a single case for to_series(); use to_frame()")
-        return self.to_frame().iloc[0]
+    _FRAME_FIELDS = tuple(_FIELDS)
+    _FRAME_AREAS = ("area", "area_inside", "area_air")
 
 
 # ------------------------------------------------------------------------------------------------------ the engine
