@@ -71,6 +71,7 @@ DIMENSIONS: dict[str, tuple[str, str]] = {
     "length": ("meter", "a length (m, or e.g. '25.4 mm', '16 ft')"),
     "area": ("meter**2", "an area (m², or e.g. '1200 ft**2')"),
     "mass_flow": ("kilogram/second", "a mass flow (kg/s, or e.g. '43800 lb/h')"),
+    "volume_flow": ("meter**3/second", "a volume flow (m³/s, or e.g. '120 m**3/h', '500 gallon/minute')"),
     "pressure": ("pascal", "a pressure (Pa, or e.g. '10 psi', '0.7 bar')"),
     "velocity": ("meter/second", "a velocity (m/s, or e.g. '6 ft/s')"),
     "density": ("kilogram/meter**3", "a density (kg/m³)"),

@@ -32,10 +32,11 @@ True
 >>> bool(abs(res.exchangers.loc["E-2", "t_in_tube"] - res.exchangers.loc["E-1", "t_out_tube"]) < 1e-5)
 True
 """
+from .hydraulics import PumpCurve
 from .network import Furnace, Match, Point, Split, Train
 from .result import LimitCheck, TrainResult
 from .solver import enthalpy_change, solve
 from .study import NetworkServices, Throughput, TrainStudy, compare_train, max_throughput, network_services
 
-__all__ = ["Furnace", "LimitCheck", "Match", "NetworkServices", "Point", "Split", "Throughput", "Train", "TrainResult",
+__all__ = ["Furnace", "LimitCheck", "Match", "NetworkServices", "Point", "PumpCurve", "Split", "Throughput", "Train", "TrainResult",
            "TrainStudy", "compare_train", "enthalpy_change", "max_throughput", "network_services", "solve"]

@@ -220,6 +220,9 @@ class Train:
         Highest final temperature of a hot stream [K]; a trim cooler takes the rest (its duty is reported).
     dp_max : dict of str -> pressure, optional
         Allowed pressure drop of a stream over its whole route [Pa].
+    pump_curves : dict of str -> PumpCurve, optional
+        A stream's pump (:class:`revamp.train.PumpCurve`): the route's pressure drop is checked against what the
+        pump gives at the stream's flow, less the curve's allowance (a limit ``"<stream> pump"``).
     shell_method : str
         Shell-side method passed to :func:`revamp.rate`.
 
@@ -235,6 +238,7 @@ class Train:
     rundown: dict = field(default_factory=dict)
     dp_max: dict = field(default_factory=dict)
     shell_method: str = "bell-delaware"
+    pump_curves: dict = field(default_factory=dict)
 
     def __post_init__(self):
         streams = self.streams
@@ -312,6 +316,18 @@ class Train:
                     raise InputError(f"{name}[{s!r}]", s, f"one of the streams {known}")
                 parsed[s] = (_temperature_or_none if name == "rundown" else _pressure_or_none)(v, f"{name}[{s!r}]")
             object.__setattr__(self, name, parsed)
+        from .hydraulics import PumpCurve
+
+        pumps = self.pump_curves or {}
+        if not isinstance(pumps, dict):
+            raise InputError("pump_curves", pumps, "a dict of stream name -> revamp.train.PumpCurve")
+        for s, curve in pumps.items():
+            if s not in streams:
+                raise InputError(f"pump_curves[{s!r}]", s, f"one of the streams {known}")
+            if not isinstance(curve, PumpCurve):
+                raise InputError(f"pump_curves[{s!r}]", curve, "a revamp.train.PumpCurve(flow=[...], dp=[...] or "
+                                                               "head=[...])")
+        object.__setattr__(self, "pump_curves", dict(pumps))
         if not isinstance(self.shell_method, str):
             raise InputError("shell_method", self.shell_method, "a shell-side method name")
         # every case-carrying array must broadcast

@@ -21,8 +21,8 @@ class LimitCheck:
         Its kind ("power", "dp", "temperature") for display.
     value : float or ndarray
         The solved value [SI].
-    low, high : float or None
-        The allowed band [SI].
+    low, high : float, ndarray or None
+        The allowed band [SI] (an array of the case shape where it depends on the case, e.g. a pump's pressure).
     ok : bool or ndarray
         Whether the value is within the band (False for a failed case).
     """
@@ -38,14 +38,21 @@ class LimitCheck:
     def of(cls, name, quantity, value, low=None, high=None, shape=()):
         v = np.asarray(value, float)
         ok = np.isfinite(v)
+        bounds = []
+        for b in (low, high):
+            if b is not None and np.ndim(b):  # a bound per case (NaN: unknown there, so the check fails)
+                b = np.broadcast_to(np.asarray(b, float), v.shape)
+                ok &= np.isfinite(b)
+                b = float(b.reshape(shape)) if shape == () else b.reshape(shape)
+            bounds.append(b)
         if low is not None:
-            ok &= v >= low
+            ok &= v >= np.asarray(low, float).reshape(v.shape) if np.ndim(low) else v >= low
         if high is not None:
-            ok &= v <= high
+            ok &= v <= np.asarray(high, float).reshape(v.shape) if np.ndim(high) else v <= high
         v, ok = v.reshape(shape), ok.reshape(shape)
         if shape == ():
             v, ok = float(v), bool(ok)
-        return cls(name, quantity, v, low, high, ok)
+        return cls(name, quantity, v, bounds[0], bounds[1], ok)
 
     def margin(self):
         """The smallest relative distance to the band [-] (negative when outside)."""
@@ -72,7 +79,9 @@ class TrainResult:
     streams : DataFrame
         One row per stream: ``supply`` and ``final`` temperatures [K], ``flow`` [kg/s], ``duty`` (heat taken up
         over its exchangers, negative for a hot stream) [W], ``dp`` over its route (largest branch of a split) and
-        ``dp_max`` [Pa], ``rundown`` limit [K] and the ``trim_duty`` [W] a trim cooler takes above it.
+        ``dp_max`` [Pa], ``rundown`` limit [K] and the ``trim_duty`` [W] a trim cooler takes above it; with a pump
+        curve, ``pump_dp``: what the pump leaves for the route at the stream's flow (its differential pressure less
+        the curve's allowance) [Pa], checked as the limit ``"<stream> pump"``.
     points : DataFrame
         Named points: stream, ``temperature`` and the band ``t_min``, ``t_max`` [K].
     limits : tuple of LimitCheck

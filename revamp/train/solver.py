@@ -33,6 +33,7 @@ from ..errors import InputError
 from ..rating import rate
 from ..service import Service, Stream
 from .network import Point, Split
+from .hydraulics import pump_available
 from .result import LimitCheck, TrainResult
 
 __all__ = ["solve", "enthalpy_change"]
@@ -490,6 +491,11 @@ def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
         srows[s] = row
         if s in train.dp_max:
             limits.append(LimitCheck.of(f"{s} pressure drop", "dp", row["dp"], high=train.dp_max[s], shape=shape))
+        if s in train.pump_curves:  # the route against the stream's pump (revamp.train.hydraulics)
+            avail, _, pump_warn = pump_available(train.pump_curves[s], st.fluid, plan.flow[s], plan.supply[s], s)
+            row["pump_dp"] = avail + nan
+            warnings += pump_warn
+            limits.append(LimitCheck.of(f"{s} pump", "dp", row["dp"], high=row["pump_dp"], shape=shape))
     for tag, m in train.exchangers.items():
         for side in _SIDES:
             lim = getattr(m, f"dp_max_{side}")

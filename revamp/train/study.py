@@ -99,7 +99,9 @@ def max_throughput(train: Train, stream=None, low=0.5, high=2.0, points=41, tol=
     Notes
     -----
     Limits: the furnace's maximum fired duty, every exchanger's allowed pressure drops, every stream's allowed
-    pressure drop, every point's temperature band; a case that does not converge counts as failing.
+    pressure drop, each stream's pump (the route's pressure drop against the pump curve at the scaled flow, less
+    its allowance: the factor found is then where the route meets the pump curve), every point's temperature band;
+    a case that does not converge counts as failing.
     """
     if train.shape != ():
         raise InputError("train", f"a sweep of shape {train.shape}", "a single case (the throughput is swept here)")
@@ -163,7 +165,8 @@ class TrainStudy:
     ----------
     table : DataFrame
         Index ``base`` and the labels. Columns: ``furnace_inlet`` [K], ``furnace_duty`` (fired) [W],
-        ``furnace_duty_saved`` [W], ``duty <tag>`` per exchanger [W], ``dp <stream>`` per stream [Pa],
+        ``furnace_duty_saved`` [W], ``duty <tag>`` per exchanger [W], ``dp <stream>`` per stream [Pa] (and
+        ``pump dp <stream>``, what its pump leaves for the route [Pa], for a stream with a pump curve),
         ``limits`` (the failing limits, or "ok"), ``converged``, ``capex``, ``annual_value`` (fired duty saved ×
         operating time × fuel price), ``payback`` [years], ``npv``; ``max_throughput`` (factor on today's flow) and ``binding`` when asked.
     duty_changes : DataFrame
@@ -249,6 +252,8 @@ def compare_train(train: Train, options: dict, economics=None, revamp=None, thro
             row[f"duty {tag}"] = float(res.exchangers.loc[tag, "duty"])
         for s in train.streams:
             row[f"dp {s}"] = float(res.streams.loc[s, "dp"])
+            if s in train.pump_curves:  # what the stream's pump leaves for its route at this flow
+                row[f"pump dp {s}"] = float(res.streams.loc[s, "pump_dp"])
         for s in train.rundown:
             row[f"trim duty {s}"] = float(res.streams.loc[s, "trim_duty"])
         for name, (_, _) in train.points.items():
