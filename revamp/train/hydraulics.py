@@ -68,7 +68,7 @@ def _flow_points(values, path):
             out.append(float(x))
             kinds.append("volume_flow")  # a bare number is SI: m³/s
     if len(set(kinds)) > 1:
-        i = kinds.index(kinds[-1])
+        i = next(j for j, k in enumerate(kinds) if k != kinds[0])
         raise InputError(f"{path}[{i}]", values[i], f"a flow of the same kind as {path}[0] "
                                                     f"({kinds[0].replace('_', ' ')}): all volume or all mass flows")
     return np.asarray(out, float), (kinds[0] if kinds else "volume_flow")

@@ -163,6 +163,29 @@ def network_rules(doc: dict, si: dict) -> list[Problem]:
     return out
 
 
+def _pump_curve(si: dict, raw, pre: str, problems: list):
+    """A stream's :class:`revamp.train.PumpCurve` from the file (None, with the problems recorded, when bad).
+
+    A flow point must carry its unit: a bare number could be a volume or a mass flow (a silent wrong number either
+    way), so it is refused with a hint, as a bare temperature is."""
+    from ..train import PumpCurve
+    from ._building import _guard
+
+    flows = (raw or {}).get("flow")
+    if isinstance(flows, list):
+        bare = [i for i, v in enumerate(flows) if isinstance(v, (int, float)) and not isinstance(v, bool)]
+        if bare:
+            problems.append(Problem(f"{pre}.flow[{bare[0]}]", _show(flows[bare[0]]),
+                                    "must be a flow with its unit, e.g. '120 m**3/h' or '30 kg/s' (a bare number "
+                                    "could be either)"))
+            return None
+    if any(v is None for k in ("dp", "head") for v in (si.get(k) or [])):
+        return None  # a point's own unit problem is already recorded under its path
+    if si.get("allowance", 0.0) is None:
+        return None
+    return _guard(problems, pre, PumpCurve, si.get("flow"), si.get("dp"), si.get("head"), si.get("allowance", 0.0))
+
+
 def build_network(si: dict, doc: dict, cases: tuple, problems: list):
     """The :class:`revamp.train.Train` of the file (None without a network section or when a part failed)."""
     net = si.get("network")
@@ -174,7 +197,7 @@ def build_network(si: dict, doc: dict, cases: tuple, problems: list):
 
     start = len(problems)
     by_tag = {c.tag: c for c in cases}
-    streams, rundown, dp_max = {}, {}, {}
+    streams, rundown, dp_max, pumps = {}, {}, {}, {}
     for name, s in net["streams"].items():
         pre = f"network.streams.{name}"
         kind = (s.get("fluid") or {}).get("kind", "")
@@ -187,6 +210,11 @@ def build_network(si: dict, doc: dict, cases: tuple, problems: list):
             rundown[name] = s["rundown"]
         if "dp_allowed" in s:
             dp_max[name] = s["dp_allowed"]
+        if isinstance(s.get("pump_curve"), dict):
+            curve = _pump_curve(s["pump_curve"], (doc["network"]["streams"].get(name) or {}).get("pump_curve"),
+                                f"{pre}.pump_curve", problems)
+            if curve is not None:
+                pumps[name] = curve
     matches = {}
     for tag, case in by_tag.items():
         sides = {side: (case.raw.get(f"{side}_side") or {}).get("stream") for side in ("shell", "tube")}
@@ -223,7 +251,7 @@ def build_network(si: dict, doc: dict, cases: tuple, problems: list):
         return None
     try:
         return Train(streams=streams, exchangers=matches, routes=routes, furnace=furnace, rundown=rundown,
-                     dp_max=dp_max)
+                     dp_max=dp_max, pump_curves=pumps)
     except InputError as exc:  # the rules above should have named it already; never a traceback
         problems.append(Problem(f"network.{exc.field}", _show(exc.value), f"must be {exc.allowed}"))
         return None
