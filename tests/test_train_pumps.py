@@ -252,3 +252,14 @@ def test_check_names_a_bad_pump_curve_by_path(tmp_path, change, path, words):
     hits = [p for p in problems if p.path == full]
     assert hits, [str(p) for p in problems]
     assert words in hits[0].message, str(hits[0])
+
+
+def test_the_train_page_shows_the_pump_and_its_limit():
+    from revamp.report.train import train_body
+
+    train = _pumped("100 kPa")
+    study = rv.compare_train(train, {"clean": {"E-102": rv.options.Clean()}}, throughput=True, points=11)
+    html = train_body(train.solve(), study, throughput=train.max_throughput(points=11))
+    assert "pump: ΔP left for the route [kPa]" in html
+    assert "crude pump" in html  # the limit row and the binding limit
+    assert "PCHIP" in html  # the interpolation is stated

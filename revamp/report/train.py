@@ -196,11 +196,21 @@ def _limit_rows(result):
 
 def _stream_rows(result):
     s = result.streams
+    pumps = "pump_dp" in s.columns
     rows = [[name, f"{r['flow']:.1f}", _c(r["supply"]), _c(r["final"]), _mw(r["duty"]), f"{r['dp'] / 1e3:.1f}",
              "" if not np.isfinite(r["rundown"]) else _c(r["rundown"]), _mw(r["trim_duty"]) if r["trim_duty"] else ""]
+            + ([_pump_cell(name, r, result)] if pumps else [])
             for name, r in s.iterrows()]
     return table_html(rows, ["stream", "flow [kg/s]", "supply", "final", "heat taken up", "ΔP [kPa]", "rundown limit",
-                             "trim cooler duty"])
+                             "trim cooler duty"] + (["pump: ΔP left for the route [kPa]"] if pumps else []))
+
+
+def _pump_cell(name, r, result):
+    """What the stream's pump leaves for its route (curve less allowance) at its flow, or why there is none."""
+    if name not in getattr(result.train, "pump_curves", {}):
+        return ""
+    v = r["pump_dp"]
+    return "outside the curve's points" if not np.isfinite(v) else f"{v / 1e3:.1f}"
 
 
 def _study_rows(study, currency=""):
@@ -271,9 +281,20 @@ def train_body(today, study, throughput=None, revamp_factor=1.0, currency="") ->
     if throughput is not None:
         out.append('<section id="train-throughput"><h2>Throughput limit</h2>'
                    f"<p>Today's train: {esc(throughput.describe())} (search step {throughput.resolution:.3g}; "
-                   "the exchangers' allowed pressure drops, the streams' allowed pressure drops, the points' bands "
-                   "and the furnace's maximum fired duty are the limits checked).</p></section>")
+                   "the exchangers' allowed pressure drops, the streams' allowed pressure drops and pumps, the "
+                   "points' bands and the furnace's maximum fired duty are the limits checked)." +
+                   _pump_text(today) + "</p></section>")
     return "".join(out)
+
+
+def _pump_text(result) -> str:
+    """One sentence on the pump check when a stream has a pump curve."""
+    names = list(getattr(result.train, "pump_curves", {}))
+    if not names:
+        return ""
+    return (f" A stream's pump ({', '.join(names)}) limits the flow where its route's pressure drop (exchangers and "
+            "nozzles) meets the pump's curve less its allowance; the curve is interpolated monotone piecewise-cubic "
+            "between the points given (PCHIP, Fritsch & Carlson 1980) and not extrapolated beyond them.")
 
 
 def train_page(title, today, study, throughput=None, revamp_factor=1.0, currency="", prov=None) -> str:
