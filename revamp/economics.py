@@ -26,6 +26,7 @@ __all__ = [
     "Economics",
     "annual_capacity_value",
     "annual_duty_value",
+    "annual_fired_value",
     "annuity_factor",
     "cycle_average",
     "npv",
@@ -118,6 +119,36 @@ def annual_duty_value(delta_duty, price, per="GJ", operating_time="8000 h", effi
     eta = require(efficiency, "efficiency", gt=0, le=1)
     out = q * _seconds_per_year(operating_time) * price_per_joule(price, per) / eta
     return float(out) if out.ndim == 0 else out
+
+
+def annual_fired_value(fired_duty_saved, price, per="GJ", operating_time="8000 h"):
+    """Value per year of fired duty saved in a furnace: ``ΔQ_fired·t·price``.
+
+    The fired duty is the absorbed duty over the furnace's efficiency already, so no efficiency is applied again:
+    ``ΔQ_fired = ΔQ_absorbed / η``, the same number as :func:`annual_duty_value` of the absorbed duty with η.
+
+    Parameters
+    ----------
+    fired_duty_saved : float or array_like
+        Fired duty saved [W] (negative for more fuel).
+    price : float
+        Fuel price [currency per ``per``].
+    per : str
+        Energy unit of the price (:data:`ENERGY_BASES`).
+    operating_time : float or str
+        Operating time per year [s], e.g. ``"8000 h"``.
+
+    Returns
+    -------
+    float or ndarray
+        Value [currency/year].
+
+    Examples
+    --------
+    >>> round(annual_fired_value(1e6 / 0.9, 8.0, "GJ", "8000 h"))  # = annual_duty_value(1e6, 8, ..., 0.9)
+    256000
+    """
+    return annual_duty_value(fired_duty_saved, price, per, operating_time, efficiency=1.0)
 
 
 def annual_capacity_value(extra_flow, margin, operating_time="8000 h"):

@@ -418,14 +418,16 @@ def study_money_table(study):
     names = {"dp_shell_status": "dp shell", "dp_tube_status": "dp tube", "velocity_status": "tube velocity",
              "vibration_status": "vibration", "nozzle_status": "nozzle", "meets_target": "meets target",
              "capex": f"capex [{cur}]", "annual_value": f"value [{cur}/yr]", "payback": "payback [yr]",
-             "npv": f"NPV [{cur}]", "value_basis": "value basis", "rank": f"rank (by {getattr(study, 'rank_by', '')})",
+             "npv": f"NPV [{cur}]", "value_basis": "value basis", "money_basis": "money on",
+             "annual_value_own": f"own-duty value [{cur}/yr]", "payback_own": "own-duty payback [yr]",
+             "npv_own": f"own-duty NPV [{cur}]", "rank": f"rank (by {getattr(study, 'rank_by', '')})",
              "reason": "why"}
     for col, name in names.items():
         if col in t:
             values = t[col].tolist()
-            if col in ("capex", "annual_value", "npv"):
+            if col in ("capex", "annual_value", "npv", "annual_value_own", "npv_own"):
                 values = ["" if pd.isna(v) else f"{v:,.0f}" for v in values]
-            elif col == "payback":
+            elif col in ("payback", "payback_own"):
                 values = ["" if pd.isna(v) else f"{v:.2f}" for v in values]
             out[name] = values
     return out

@@ -36,6 +36,7 @@ __all__ = [
     "fouling_side",
     "rating_notes",
     "study_exchanger",
+    "train_valued",
     "warning_quantity",
 ]
 
@@ -153,6 +154,11 @@ class ExchangerStudy:
         Why the plant-data analysis, or the cycle-averaged comparison, is missing.
     inlets : str
         Where the inlet streams came from.
+    train_values : TrainStudy or None
+        This exchanger's options valued by the whole train (:func:`revamp.unitfile.network_option_values`), when
+        given: on the ``fuel`` value basis the study's money (``annual_value``, ``payback``, ``npv``, and so the
+        rank) is then the train's, its own-duty money kept as ``annual_value_own``, ``payback_own``, ``npv_own``
+        and the basis of each row in ``money_basis``.
     """
 
     case: Any
@@ -170,6 +176,7 @@ class ExchangerStudy:
     monitoring_error: str | None = None
     cycle_error: str | None = None
     inlets: str = "the case's own"
+    train_values: Any = field(default=None, repr=False)
 
     @property
     def ratings(self) -> dict:
@@ -299,7 +306,7 @@ def cycle_settings(case, monitoring, side: Setting) -> CycleSettings | None:
 
 # --------------------------------------------------------------------------------------------------- the study
 def study_exchanger(case, *, service_today=None, service_revamp=None, mc_draws: int = 100, basis=None,
-                    rank_by=None) -> ExchangerStudy:
+                    rank_by=None, train_values=None) -> ExchangerStudy:
     """Study one exchanger: ratings, plant data, fouling cycle, options; every choice stated with its source.
 
     Parameters
@@ -317,6 +324,10 @@ def study_exchanger(case, *, service_today=None, service_revamp=None, mc_draws: 
         end of run. ``"cycle_average"`` falls back to end of run, with a note, when no fouling trend is fitted.
     rank_by : str, optional
         Ranking criterion (:data:`revamp.study.RANK_CRITERIA`); default the case's ``rank_by`` or NPV.
+    train_values : TrainStudy, optional
+        The exchanger's options valued by its train (:func:`revamp.unitfile.network_option_values`: each option
+        applied to this exchanger alone, the train solved again). On the ``fuel`` value basis the money then values
+        the fired duty the train saves, not this exchanger's own duty gain (see :func:`train_valued`).
 
     Returns
     -------
@@ -393,6 +404,9 @@ def study_exchanger(case, *, service_today=None, service_revamp=None, mc_draws: 
             study = compare(case.exchanger, service_today, list(case.options), **kwargs)
         for label in study.table.index:  # the rows as judged (end of run): the base case and each option
             notes += rating_notes(str(label), study.ratings[label])
+    if study is not None and train_values is not None:
+        study, money_notes = train_valued(study, train_values, case.tag)
+        notes += money_notes
     if side.source.startswith("inferred"):
         notes.append(Note("study", "fouling_side", "info", side.source))
     economics = getattr(case, "economics", None)
@@ -405,4 +419,121 @@ def study_exchanger(case, *, service_today=None, service_revamp=None, mc_draws: 
     return ExchangerStudy(case=case, service_today=service_today, service_revamp=service_revamp, today=today,
                           today_clean=today_clean, revamp=revamp, revamp_clean=revamp_clean, fouling_side=side,
                           monitoring=monitoring, cycle=cycle, study=study, notes=tuple(dict.fromkeys(notes)),
-                          monitoring_error=monitoring_error, cycle_error=cycle_error, inlets=inlets)
+                          monitoring_error=monitoring_error, cycle_error=cycle_error, inlets=inlets,
+                          train_values=train_values)
+
+
+# ------------------------------------------------------------------------------------------- money from the train
+#: The money basis of a row valued by its train, and of one valued by its own duty (the ``money_basis`` column).
+MONEY_BASES = {
+    "train": "train: fired duty saved by the whole train",
+    "own": "own duty gain of this exchanger",
+}
+
+
+def train_valued(study, train_study, tag: str) -> tuple:
+    """The study with its money on the train's value: ``(Study, notes)``.
+
+    An option's worth to a preheat train is the fired duty the furnace saves once the exchangers downstream have
+    recovered less (the train solved again with the option applied to this exchanger alone,
+    :func:`revamp.train.compare_train`), not this exchanger's own duty gain counted as fuel. On the ``fuel`` value
+    basis each option's annual value becomes
+
+        fired duty saved × operating time × fuel price  (+ the capacity value it already had, if any)
+
+    (:func:`revamp.economics.annual_fired_value`: the furnace's efficiency is in the fired duty), and its payback
+    and NPV follow from it with the option's own capex; the rank and the recommendation are made again on these
+    (the same rule: limits, then target, then the stated criterion). The own-duty money stays beside it as
+    ``annual_value_own``, ``payback_own``, ``npv_own``; ``money_basis`` says which one each row's money uses. A row
+    the train could not value (no converged solve, no such option) keeps its own-duty money, said so in a note.
+    On another value basis (a cooler, a condenser, throughput) the money is left as it is, and a note says so.
+
+    Parameters
+    ----------
+    study : Study
+        The exchanger's comparison (:func:`revamp.compare`).
+    train_study : TrainStudy
+        Its options at train level; rows named ``"<tag>: <option label>"``.
+    tag : str
+        The exchanger's tag.
+    """
+    import dataclasses
+    import math
+
+    import pandas as pd
+
+    from ..economics import annual_fired_value, simple_payback
+    from ..study import _criterion_key, _reason
+
+    eco = study.economics
+    notes = []
+    if eco is None:
+        return study, ()
+    if eco.value_basis != "fuel":
+        notes.append(Note("study", "value_basis", "info",
+                          f"The train's value of each option (fired duty saved) is shown beside, not used: this "
+                          f"exchanger's money is on the '{eco.value_basis}' basis, not fuel."))
+        return study, tuple(notes)
+    t = study.table.copy()
+    tt = train_study.table
+    money_col = "duty_cycle_avg" if "duty_cycle_avg" in t else "duty"
+    for col in ("annual_value", "payback", "npv"):
+        t[f"{col}_own"] = t[col]
+    basis = []
+    for label in t.index:
+        if label == "base":
+            basis.append("")
+            continue
+        key = f"{tag}: {label}"
+        row = tt.loc[key] if key in tt.index else None
+        saved = float(row["furnace_duty_saved"]) if row is not None else math.nan
+        if row is None or not bool(row["converged"]) or not math.isfinite(saved):
+            why = "no such option in the train study" if row is None else "the train solve did not converge"
+            notes.append(Note(str(label), "annual_value", "warning",
+                              f"Money on this exchanger's own duty gain: the train could not value it ({why})."))
+            basis.append(MONEY_BASES["own"])
+            continue
+        # the capacity value (when the option lifts the limit the exchanger set) does not depend on the duty basis
+        gain = float(t.loc[label, money_col] - t.loc["base", money_col])
+        capacity = float(t.loc[label, "annual_value_own"]) - eco.value(gain, meets_target=False)
+        value = float(annual_fired_value(saved, eco.energy_price, eco.price_per, eco.operating_time)) + capacity
+        t.loc[label, "annual_value"] = value
+        t.loc[label, "payback"] = float(simple_payback(t.loc[label, "capex"], value))
+        t.loc[label, "npv"] = eco.npv(label, value)
+        basis.append(MONEY_BASES["train"])
+    t["money_basis"] = basis
+    # rank again on the new money: the same rule as revamp.compare (limits, target, criterion, larger duty)
+    labels = [k for k in t.index if k != "base"]
+    rows = {k: t.loc[k].to_dict() for k in t.index}
+    base_money = rows["base"][money_col]
+    for k in labels:
+        rows[k]["value_gain"] = rows[k][money_col] - base_money
+    order = sorted(labels, key=lambda k: (rows[k]["screening"] == "fail", not rows[k]["meets_target"],
+                                          _criterion_key(rows[k], study.rank_by), -rows[k]["duty"]))
+    for k in labels:
+        t.loc[k, "rank"] = order.index(k) + 1
+        t.loc[k, "reason"] = _reason(rows[k], study.checks[k], study.target, eco)
+    t["rank"] = t["rank"].astype("Int64")
+    recommendation = study.recommendation
+    if order:
+        best = order[0]
+        if rows[best]["screening"] != "fail" and rows[best]["meets_target"]:
+            recommendation = f"{best}: {t.loc[best, 'reason']}"
+        elif rows[best]["screening"] != "fail":
+            recommendation = (f"No option meets the target; the nearest within every limit: {best} "
+                              f"({t.loc[best, 'reason']}).")
+        else:
+            recommendation = (f"Every option fails a screening limit; least bad: {best} ({t.loc[best, 'reason']}). "
+                              f"Not a recommendation.")
+    used = sum(b == MONEY_BASES["train"] for b in basis)
+    text = (f"Money on the train's value ({used} of {len(labels)} option(s)): each option applied to this exchanger "
+            f"alone and the whole train solved again at its revamp throughput, every exchanger at the end of its "
+            f"run (its unit-file design fouling); the annual value is the fired duty the train saves × operating time × fuel price (the "
+            f"furnace's efficiency is in the fired duty), plus any capacity value, so heat the exchangers downstream "
+            f"no longer recover is taken off. "
+            + ("With the cycle average asked for, the train value stays at the end of run (the train is not "
+               "solved along the run). " if study.basis == "cycle_average" else "")
+            + f"This exchanger's own-duty money is kept for reference (value, payback, NPV 'own'). "
+            + "Own-duty money: " + study.value_text)
+    notes.append(Note("study", "annual_value", "info", text))
+    return dataclasses.replace(study, table=t, recommendation=recommendation, value_text=text), tuple(notes)

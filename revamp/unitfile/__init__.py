@@ -269,16 +269,18 @@ def network_option_values(path, tag: str):
 
     Each option is applied to ``tag`` alone and the train re-solved at its revamp throughput
     (:func:`revamp.train.compare_train`): what the option saves is the furnace's fired duty, after the exchangers
-    downstream have recovered less, never this exchanger's own duty gain counted as fuel.
+    downstream have recovered less, never this exchanger's own duty gain counted as fuel. Every option is judged at
+    the end of its run, as the exchanger's own study judges it: its exchanger change applied, every side at the
+    unit file's design fouling (a cleaning is not credited with a clean bundle that lasts).
     """
     unit, _, _ = load_partial(path)
     if unit is None or unit.network is None or tag not in unit.network.exchangers:
         return None
     from ..train import compare_train
-    from ._network import train_options
+    from ._network import AtDesignFouling, train_options
 
     cases, economics = train_options(unit)
-    mine = {k: v for k, v in cases.items() if set(v) == {tag}}
+    mine = {k: {t: AtDesignFouling(o) for t, o in v.items()} for k, v in cases.items() if set(v) == {tag}}
     if not mine:
         return None
     return compare_train(unit.network, mine, economics=economics, revamp=unit.network_throughput, tol=1e-3)

@@ -257,6 +257,23 @@ def build_network(si: dict, doc: dict, cases: tuple, problems: list):
         return None
 
 
+class AtDesignFouling:
+    """An option whose exchanger change is applied while its sides keep the fouling they had (the unit file's design
+    fouling): the end-of-run basis, on which the exchanger's own study judges every option, cleaning included (a
+    cleaned bundle is judged with the fouling it will have again at the end of its next run)."""
+
+    def __init__(self, option):
+        self.option = option
+        self.label = option.label
+
+    def apply(self, exchanger, service):
+        hx, _ = self.option.apply(exchanger, service)
+        return hx, service
+
+    def __repr__(self):
+        return f"AtDesignFouling({self.option!r})"
+
+
 def train_options(unit):
     """The options of the network's exchangers as train-level cases, and their economics.
 
