@@ -481,5 +481,7 @@ def train_value_items(train_study, tag: str, currency: str = "") -> list:
         }
     table = pd.DataFrame(rows).T
     return ["What each option is worth to the whole preheat train: the option applied to this exchanger alone and the "
-            "train solved again at the revamp conditions, so the heat the exchangers downstream no longer recover is "
-            "taken off (the train page compares every exchanger's options the same way).", table]
+            "train solved again at the revamp conditions, every exchanger at the end of its run (its design "
+            "fouling), so the heat the exchangers downstream no longer recover is taken off; on the fuel value basis "
+            "the options' money above is this value (the train page applies each option as it is, a cleaning "
+            "there starting from a clean bundle).", table]
