@@ -54,13 +54,14 @@ def _flow_points(values, path):
             try:
                 out.append(float(to_si(v, "volume_flow", p)))
                 kinds.append("volume_flow")
-            except InputError:
+            except InputError as first:
                 try:
                     out.append(float(to_si(v, "mass_flow", p)))
                     kinds.append("mass_flow")
                 except InputError:
-                    raise InputError(p, v, "a volume flow (e.g. '120 m**3/h') or a mass flow (e.g. '30 kg/s')") \
-                        from None
+                    why = str(first.allowed).split("; ", 1)
+                    raise InputError(p, v, "a volume flow (e.g. '120 m**3/h') or a mass flow (e.g. '30 kg/s')"
+                                     + (f"; {why[1]}" if len(why) > 1 else "")) from None
         else:
             x = to_si(v, "volume_flow", p)
             if np.ndim(x) != 0:
