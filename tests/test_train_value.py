@@ -139,3 +139,20 @@ def test_cleaning_is_judged_at_the_end_of_its_run_in_the_train_too(valued):
     # exchanger and the train are as in the base case and nothing is saved (same inputs, same solve: definition)
     assert float(train.table.loc["E-1: clean", "furnace_duty_saved"]) == pytest.approx(0.0, abs=1e-6)
     assert result.study.table.loc["clean", "annual_value"] == pytest.approx(0.0, abs=1e-6)
+
+
+def test_a_row_the_train_cannot_value_keeps_its_own_money_and_says_so(tmp_path):
+    import dataclasses
+
+    from revamp.studies.exchanger import train_valued
+
+    result, train = _study(tmp_path, with_train=False)
+    _, full = _study(tmp_path)
+    partial = dataclasses.replace(full, table=full.table.drop(index="E-1: clean"))
+    study, notes = train_valued(result.study, partial, "E-1")
+    t = study.table
+    # never a silent number: the row keeps the exchanger's own money, its basis column and a note say so
+    assert t.loc["clean", "annual_value"] == t.loc["clean", "annual_value_own"]
+    assert t.loc["clean", "money_basis"].startswith("own")
+    assert t.loc["second shell", "money_basis"].startswith("train")
+    assert any(n.source == "clean" and n.severity == "warning" for n in notes)
