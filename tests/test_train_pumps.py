@@ -26,10 +26,10 @@ from hypothesis import strategies as st
 import revamp as rv
 from revamp import unitfile
 from revamp.errors import InputError
-from revamp.train import Furnace, Match, PumpCurve, Train
+from revamp.train import Furnace, PumpCurve
 
 sys.path.insert(0, str(Path(__file__).parent))
-from test_train import CRUDE_C, KERO_C, RESID_C, hx, interlinked  # noqa: E402
+from test_train import CRUDE_C, KERO_C, RESID_C, interlinked  # noqa: E402
 from test_train_unitfile import unit_doc, write  # noqa: E402
 
 G = 9.80665  # standard gravity [m/s²], 3rd CGPM (1901)

@@ -460,8 +460,6 @@ def train_valued(study, train_study, tag: str) -> tuple:
     import dataclasses
     import math
 
-    import pandas as pd
-
     from ..economics import annual_fired_value, simple_payback
     from ..study import _criterion_key, _reason
 

@@ -122,7 +122,7 @@ class PumpCurve:
         for i, v in enumerate(given):
             x = to_si(v, qty, f"{name}[{i}]")
             if np.ndim(x) != 0:
-                raise InputError(f"{name}[{i}]", v, f"one value, not an array")
+                raise InputError(f"{name}[{i}]", v, "one value, not an array")
             y.append(float(require(x, f"{name}[{i}]", ge=0, what=what)))
         y = np.asarray(y)
         for i, v in enumerate(q):
