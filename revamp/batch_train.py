@@ -23,7 +23,7 @@ def run_train_page(job: dict) -> dict:
     from .report.train import train_page
     from .train import compare_train
     from .unitfile import load_partial
-    from .unitfile._network import train_options
+    from .unitfile._network import AtDesignFouling, train_options
 
     start = time.perf_counter()
     out = Path(job["out"])
@@ -33,6 +33,10 @@ def run_train_page(job: dict) -> dict:
         if net is None:
             raise ValueError("the network could not be built (see the problems of its exchangers)")
         options, eco = train_options(unit)
+        # the one basis of every study in the unit: each option at the end of its run (its exchanger change applied,
+        # the design fouling kept), as the exchanger reports judge it; a cleaning's worth over time is the cleaning
+        # plan's page
+        options = {k: {t: AtDesignFouling(o) for t, o in v.items()} for k, v in options.items()}
         points = int(job.get("points", 21))
         today = net.solve(tol=PAGE_TOL)
         study = compare_train(net, options, economics=eco, revamp=unit.network_throughput, throughput=True,

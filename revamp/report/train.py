@@ -277,6 +277,10 @@ def train_body(today, study, throughput=None, revamp_factor=1.0, currency="") ->
                 f"<li>{esc(w)}</li>" for w in res.warnings) + "</ul></details>")
         out.append("</section>")
     out.append('<section id="train-options"><h2>Options rated across the train (revamp conditions)</h2>')
+    out.append("<p>Each option is judged at the end of its run: its change to the exchanger applied, every side at "
+               "its design fouling, the basis of the exchanger reports. A cleaning is therefore worth nothing here "
+               "(the bundle fouls back by the end of its next run); what cleanings are worth over time, and when, is "
+               "the cleaning plan's subject.</p>")
     out.append(_study_rows(study, currency) + "</section>")
     if throughput is not None:
         out.append('<section id="train-throughput"><h2>Throughput limit</h2>'
