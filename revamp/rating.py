@@ -57,24 +57,25 @@ SHELL_METHODS = shell_corr.SHELL_METHODS
 RATERS = {"shell and tube": "revamp.rating:rate", "air cooler": "revamp.rating_air:rate_air_cooler"}
 
 
-_RESOLVED: dict = {}  # (kind, "module:function") -> the function, resolved once
+_RESOLVED: dict = {}  # "module:function" -> the function, resolved once
 
 
 def _rater(exchanger):
     """The rating function registered for the exchanger's kind; InputError naming ``exchanger`` if none is."""
     kind = getattr(type(exchanger), "kind", None)
     target = RATERS.get(kind) if isinstance(kind, str) else None
-    fn = _RESOLVED.get((kind, target))
+    if target is None:
+        raise InputError("exchanger", f"{type(exchanger).__name__} object",
+                         f"an exchanger of a registered kind ({', '.join(sorted(RATERS))}): revamp.ShellAndTube or "
+                         "revamp.AirCooler")
+    fn = _RESOLVED.get(target)
     if fn is None:
-        if target is None:
-            raise InputError("exchanger", f"{type(exchanger).__name__} object",
-                             f"an exchanger of a registered kind ({', '.join(sorted(RATERS))}): revamp.ShellAndTube "
-                             "or revamp.AirCooler")
         import importlib
 
         module, name = target.split(":")
-        fn = _RESOLVED[(kind, target)] = getattr(importlib.import_module(module), name)
+        fn = _RESOLVED[target] = getattr(importlib.import_module(module), name)
     return fn
+
 
 _MAX_ITER = 60
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]

@@ -354,3 +354,13 @@ def test_fouling_and_films_move_the_network_the_right_way(name, rf, h):
     assert sum(float(r) for r in m.network(h, 2000.0, rf, rf + 1e-4, 330.0)) > base
     clean_outer = sum(float(r) for r in m.network(h, 2000.0, 0.0, rf, 330.0))
     assert sum(float(r) for r in m.network(1.5 * h, 2000.0, 0.0, rf, 330.0)) < clean_outer
+
+
+def test_a_class_with_an_odd_kind_is_an_input_error():
+    class Odd:
+        kind = ["shell and tube"]  # not a name
+
+    for call in (lambda: rv.rate(Odd(), _svc()), lambda: model_of(Odd())):
+        with pytest.raises(InputError) as e:
+            call()
+        assert e.value.field == "exchanger"
