@@ -235,7 +235,8 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
         The two inlet streams and the fouling of each side; flows, inlet temperatures and fouling may be arrays
         (they broadcast). Another kind takes its own service (:class:`revamp.AirService`).
     shell_method : {"bell-delaware", "kern"}
-        Shell-side method; Kern (1950) is a simpler cross-check (not for X shells).
+        Shell-side method; Kern (1950) is a simpler cross-check (not for X shells). A kind without a shell side
+        does not use it (a train passes its one setting to every exchanger).
     **methods : str
         The method choices of another kind, passed to its engine (air cooler: ``h_method``, ``dp_method``,
         ``fin_method``); none for shell-and-tube.
