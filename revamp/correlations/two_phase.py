@@ -346,10 +346,13 @@ def two_phase_dp(G, x_in, x_out, length, d, rho_l, rho_v, mu_l, mu_v, sigma=None
         warnings += range_warning("Friedel (1979)", "mu_l/mu_v", mu_l / mu_v, None, 1000.0,
                                   "Whalley (1980) recommendation")
 
+    shape = np.broadcast_shapes(*(np.shape(a) for a in (G, x_in, x_out, length, d, rho_l, rho_v, mu_l, mu_v, rr,
+                                                        sigma if sigma is not None else 0.0)))
+
     def grad(x):
         return frictional_gradient(G, x, d, rho_l, rho_v, mu_l, mu_v, sigma, rr, method)
 
-    dpf = _arr(integrate_dp(grad, x_in, x_out, length))
+    dpf = _arr(integrate_dp(grad, np.broadcast_to(x_in, shape), x_out, length))
     dpm = _arr(momentum_dp(G, x_in, x_out, rho_l, rho_v)) if momentum else np.zeros_like(dpf)
     dpf, dpm = np.broadcast_arrays(dpf, dpm)
     return TwoPhaseDrop(_out(dpf + dpm), _out(np.array(dpf)), _out(np.array(dpm)), method, tuple(warnings))
