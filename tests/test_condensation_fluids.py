@@ -293,3 +293,13 @@ def test_table_sensible_zones_from_provider_heat_capacity():
 def test_superheat_beyond_the_tabulated_range_is_refused(pentane):
     with pytest.raises(InputError, match="^T"):
         pentane.superheat(pentane.t_dew + 400.0)
+
+
+@settings(max_examples=20, deadline=None)
+@given(a=st.floats(0.0, 1.0), b=st.floats(0.0, 1.0))
+def test_mixture_curve_cools_and_condenses_monotonically(mix, a, b):
+    # physical law along a condensing curve at constant pressure: releasing more heat never raises the temperature
+    # or the vapour fraction
+    q1, q2 = sorted((a * mix.latent, b * mix.latent))
+    (T1, x1), (T2, x2) = mix.at(q1), mix.at(q2)
+    assert T2 <= T1 + 1e-12 and x2 <= x1 + 1e-12

@@ -5,7 +5,9 @@ heat released per kg from the dew point ``q`` [J/kg], the temperature ``T`` [K] 
 at each point, from the dew point (q = 0, x = 1) to the bubble point (q = latent, x = 0). Beside the curve it
 carries the properties of the two phases in equilibrium at each point (the film and the vapour core of the
 condensing zone), a liquid :class:`~revamp.fluids.base.Fluid` for the subcooled condensate and a vapour property
-provider for the superheated vapour (desuperheating zone).
+provider for the superheated vapour (desuperheating zone), and the heat released in those two sensible zones
+(:meth:`CondensingFluid.superheat`, :meth:`CondensingFluid.subcooling`: CoolProp enthalpies where CoolProp made the
+curve, the providers' heat capacities for a table).
 
 Three sources:
 
