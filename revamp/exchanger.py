@@ -364,15 +364,20 @@ class AirCoolerModel:
         return _film(res.h, res.dp, res.velocity, res.Re, warns)
 
     def network(self, h_outer, h_inner, rf_outer, rf_inner, t_wall) -> tuple:
-        """See :meth:`ExchangerModel.network`: air film (with the fin efficiency of ``fin_method`` at ``h_outer``),
+        """See :meth:`ExchangerModel.network`: air film (with the fin efficiency of ``fin_method`` at the fouled
+        coefficient ``1/(1/h_outer + rf_outer)``),
         air fouling (on the finned surface), fin bond, wall, tube fouling, tube film, on the bare outside-tube area.
 
         ``h_outer`` is the air film on the finned surface, ``rf_outer`` the air-side fouling on the finned surface.
         """
         ac, fin = self.exchanger, self.exchanger.fin
         h = _arr(h_outer)
+        # the fin conducts what the film and the deposit on it pass on together: its efficiency is taken at the
+        # fouled coefficient 1/(1/h + Rf) (Kroger 2004, vol. 1, ch. 5: fouling on finned surfaces; taken at the clean
+        # film, a higher film coefficient could raise the total resistance of a heavily fouled bundle)
+        h_fouled = 1.0 / (1.0 / h + _arr(rf_outer))
         eta = _arr(air_corr.FIN_EFFICIENCY_METHODS[self.fin_method](ac.tube_od, ac.fin_diameter, fin.thickness,
-                                                                    fin.conductivity, h))
+                                                                    fin.conductivity, h_fouled))
         a_fin, a_root, a_bare = ac.area_fin_per_tube, ac.area_root_per_tube, ac.area_bare_per_tube
         h_bare = h * (eta * a_fin + a_root) / a_bare
         eta_o = (eta * a_fin + a_root) / (a_fin + a_root)

@@ -59,8 +59,8 @@ _FIELDS = {
     "U_service": ("W/m²K", "overall coefficient in service, bare outside-tube area"),
     "U_service_inside": ("W/m²K", "overall coefficient in service, tube inside area"),
     "h_air": ("W/m²K", "air film coefficient on the finned surface"),
-    "h_air_bare": ("W/m²K", "air film coefficient with the fin efficiency, bare-tube basis"),
-    "fin_efficiency": ("-", "fin efficiency"),
+    "h_air_bare": ("W/m²K", "air film coefficient with the clean fin efficiency, bare-tube basis"),
+    "fin_efficiency": ("-", "fin efficiency of the clean fin (in service it is taken at the fouled coefficient)"),
     "h_tube": ("W/m²K", "tube-side film coefficient"),
     "dp_air": ("Pa", "air-side pressure drop over the bundle"),
     "dp_tube": ("Pa", "tube-side pressure drop"),
@@ -372,7 +372,8 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
 
     R = ev["R"]
     U = ev["U"]
-    U_clean = 1.0 / (R[0] + R[2] + R[3] + R[5])
+    R_clean = model.network(air.h, tube.h, 0.0, 0.0, ev["tw"])  # the fin efficiency of a clean fin
+    U_clean = 1.0 / (R_clean[0] + R_clean[2] + R_clean[3] + R_clean[5])
     rho_fan = rho_in if ac.draft == "forced" else ev["rho_a_out"]
     volume = m_air / rho_fan
     power = air_corr.fan_power(volume, air.dp, ac.fan_efficiency, ac.fan_area, rho_fan)

@@ -146,7 +146,10 @@ def test_air_cooler_model_gives_what_the_rating_gives():
     R = m.network(r.h_air, r.h_tube, svc.fouling_air, svc.fouling_tube, r.t_wall_tube)
     for name, value in zip(m.layers, R):
         assert float(value) == pytest.approx(r.resistances[name], rel=1e-9, abs=1e-15)
-    assert 1.0 / float(R[0]) == pytest.approx(r.h_air_bare, rel=1e-9)
+    clean = m.network(r.h_air, r.h_tube, 0.0, 0.0, r.t_wall_tube)  # the reported h_air_bare is the clean fin's
+    assert 1.0 / float(clean[0]) == pytest.approx(r.h_air_bare, rel=1e-9)
+    assert 1.0 / (float(clean[0]) + float(clean[2]) + float(clean[3]) + float(clean[5])) == pytest.approx(
+        r.U_clean, rel=1e-9)
     assert 1.0 / sum(float(v) for v in R) == pytest.approx(r.U_service, rel=1e-9)
     c_min, c_max = min(r.C_air, r.C_tube), max(r.C_air, r.C_tube)
     eps, _ = m.effectiveness(r.NTU, c_min / c_max, r.C_air < r.C_tube)
@@ -364,3 +367,26 @@ def test_a_class_with_an_odd_kind_is_an_input_error():
         with pytest.raises(InputError) as e:
             call()
         assert e.value.field == "exchanger"
+
+
+def test_air_fouling_takes_the_fin_efficiency_at_the_fouled_coefficient():
+    """A fouled fin conducts what the film and the deposit pass on together: its efficiency is that of the fin at
+    1/(1/h + Rf) (Kroger 2004, vol. 1, ch. 5), here from ht's Kern & Kraus fin efficiency; the air film and the air
+    fouling are then both referred to the bare area through that efficiency (area-weighted surface efficiency)."""
+    from ht.air_cooler import fin_efficiency_Kern_Kraus
+
+    ac = _cooler()
+    m = model_of(ac)
+    h, rf = 60.0, 5e-4
+    h_f = 1.0 / (1.0 / h + rf)
+    eta = fin_efficiency_Kern_Kraus(Do=ac.tube_od, D_fin=ac.fin_diameter, t_fin=ac.fin.thickness,
+                                    k_fin=ac.fin.conductivity, h=h_f)  # ht, independent
+    a_fin, a_root, a_bare = ac.area_fin_per_tube, ac.area_root_per_tube, ac.area_bare_per_tube
+    R = m.network(h, 2000.0, rf, 0.0, 320.0)
+    eff_area = eta * a_fin + a_root
+    assert float(R[0]) == pytest.approx(a_bare / (h * eff_area), rel=1e-6)
+    assert float(R[1]) == pytest.approx(rf * a_bare / eff_area, rel=1e-6)
+    # with a heavy deposit, a better film never raises the outer resistance (it did when eta was taken at h alone)
+    hs = np.array([500.0, 1000.0, 3000.0, 5000.0])
+    Rs = m.network(hs, 2000.0, 1e-3, 0.0, 320.0)
+    assert np.all(np.diff(Rs[0] + Rs[1]) < 0)
