@@ -286,3 +286,13 @@ def test_train_page_shows_the_air_cooler(solved):
     assert f"{solved.exchangers.loc['AC-1', 'fan_power'] / 1e3:.1f}" in table
     svg = train_svg(solved, "train")
     assert "AC-1" in svg and "air 35 °C" in svg
+
+
+def test_compare_train_rates_an_air_cooler_option():
+    """A fan upgrade on the rundown cooler: more duty there, and the furnace-free train's streams still balance."""
+    study = rv.compare_train(make_train(), {"faster fans": {"AC-1": FanUpgrade(speed_ratio=1.15)}})
+    assert study.duty_changes.loc["faster fans", "AC-1"] > 0  # more air, more duty (physical law)
+    assert study.duty_changes.loc["faster fans", "E-1"] == pytest.approx(0.0, abs=1e-3)  # upstream: unchanged
+    # its isolated gain is the air cooler rated alone at its base inlet with the faster fans (consistency)
+    assert study.isolated_gains.loc["faster fans", "AC-1"] == pytest.approx(
+        study.duty_changes.loc["faster fans", "AC-1"], rel=1e-6)
