@@ -1,6 +1,8 @@
 """The study of one air cooler as the report shows it: ratings in service and clean (today and on the hottest day of
 the sweep), the resistances in series, the hot-day sweep with the ambient at which the target outlet is lost, the
-options side by side, and the fouling history from the plant data with its band. No physics here: the study is computed in :mod:`revamp.studies.air` (which calls
+options side by side, and the fouling history from the plant data with its band.
+
+No physics here: the study is computed in :mod:`revamp.studies.air` (which calls
 :func:`revamp.rate`, :func:`revamp.hot_day.hot_day` and :func:`revamp.options_air.compare_air`); this module formats
 it.
 
@@ -134,14 +136,16 @@ def air_fouling_figure(mon, system: str = "SI"):
     fig.add_scatter(x=x, y=daily["Rf_high"] * scale, mode="lines", line={"width": 0}, showlegend=False,
                     hoverinfo="skip")
     fig.add_scatter(x=x, y=daily["Rf_low"] * scale, mode="lines", line={"width": 0}, fill="tonexty",
-                    fillcolor="rgba(77,126,168,0.25)", name="band (air flow and temperatures, ±1 standard uncertainty)")
+                    fillcolor="rgba(77,126,168,0.25)",
+                    name="band (air flow and temperatures, ±1 standard uncertainty)")
     fig.add_scatter(x=x, y=daily["Rf"] * scale, mode="markers", marker={"size": 4}, name="Rf from the data "
                                                                                           "(daily median)")
     trend = mon.trend()
     if trend is not None and len(x):
         t0 = pd.to_datetime(used["timestamp"]).iloc[0]
         secs = np.array([(t - t0).total_seconds() for t in x])
-        fig.add_scatter(x=x, y=(trend[1] + trend[0] * secs) * scale, mode="lines", name="straight line through the data")
+        fig.add_scatter(x=x, y=(trend[1] + trend[0] * secs) * scale, mode="lines",
+                        name="straight line through the data")
     fig.update_layout(title="Fouling of the air cooler from plant data (tube-side heat balance)",
                       yaxis_title=f"Rf [{unit}, bare outside-tube area]", height=420,
                       legend={"orientation": "h", "y": -0.2})
@@ -162,8 +166,8 @@ def monitoring_items(study: AirStudy, system: str = "SI") -> list:
     source = {"stated": "stated in the unit file (not measured)", "measured": "measured (the air_flow column)",
               "fan_power": "scaled from the measured fan power by the fan laws"}[mon.air_flow_from]
     items = [f"The duty comes from the tube side (flow, inlet, outlet); the air flow is {source}, the ambient is "
-             f"measured. The band is wider than for a shell-and-tube exchanger: it carries ±{mon.air_flow_uncertainty:.0%} "
-             f"on the air flow and ±{fq(mon.t_uncertainty, 'temperature_difference', system)} on each temperature "
+             "measured. The band is wider than for a shell-and-tube exchanger: it carries "
+             f"±{mon.air_flow_uncertainty:.0%} on the air flow and ±{fq(mon.t_uncertainty, 'temperature_difference', system)} on each temperature "
              "(one standard uncertainty each, combined in quadrature)."]
     summ = mon.summary
     shown = {}

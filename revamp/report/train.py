@@ -188,11 +188,13 @@ def _exchanger_rows(result):
         r = ex.loc[tag]
         if _is_air(r):
             row = [tag, f"air / {r['tube_stream']}", _mw(r["duty"]),
-                   f"air {_c(r['t_in_air'])} → {_c(r['t_out_air'])}", f"{_c(r['t_in_tube'])} → {_c(r['t_out_tube'])}",
+                   f"air {_c(r['t_in_air'])} → {_c(r['t_out_air'])}",
+                   f"{_c(r['t_in_tube'])} → {_c(r['t_out_tube'])}",
                    f"{r['U_service']:.0f}", f"{r['dp_air'] / 1e3:.2f} (air)", f"{r['dp_tube'] / 1e3:.1f}"]
         else:
             row = [tag, f"{r['shell_stream']} / {r['tube_stream']}", _mw(r["duty"]),
-                   f"{_c(r['t_in_shell'])} → {_c(r['t_out_shell'])}", f"{_c(r['t_in_tube'])} → {_c(r['t_out_tube'])}",
+                   f"{_c(r['t_in_shell'])} → {_c(r['t_out_shell'])}",
+                   f"{_c(r['t_in_tube'])} → {_c(r['t_out_tube'])}",
                    f"{r['U_service']:.0f}", f"{r['dp_shell'] / 1e3:.1f}", f"{r['dp_tube'] / 1e3:.1f}"]
         if air_any:
             row.append(f"{r['fan_power'] / 1e3:.1f}" if _is_air(r) else "")

@@ -52,7 +52,8 @@ from ..errors import InputError
 from ._model import Problem
 from ._reading import _show
 
-__all__ = ["AIR_COOLER_KIND", "AIR_COOLER_SCHEMA", "AIR_PLANT_COLUMNS", "AirCoolerCase", "AirPlantData", "air_cooler_problems", "build_air_cooler"]
+__all__ = ["AIR_COOLER_KIND", "AIR_COOLER_SCHEMA", "AIR_PLANT_COLUMNS", "AirCoolerCase", "AirPlantData",
+           "air_cooler_problems", "build_air_cooler"]
 
 AIR_COOLER_KIND = "air cooler"
 
