@@ -296,3 +296,28 @@ def test_compare_train_rates_an_air_cooler_option():
     # its isolated gain is the air cooler rated alone at its base inlet with the faster fans (consistency)
     assert study.isolated_gains.loc["faster fans", "AC-1"] == pytest.approx(
         study.duty_changes.loc["faster fans", "AC-1"], rel=1e-6)
+
+
+def test_the_train_page_job_runs_with_an_air_cooler(tmp_path):
+    """The batch's train page (run in a worker) on a unit whose network ends the residue in an air cooler."""
+    from revamp.batch_train import run_train_page
+
+    path = write(tmp_path, unit_with_air_cooler())
+    out = run_train_page({"unit_file": str(path), "out": str(tmp_path), "points": 5})
+    assert out["status"] == "ok", out["reason"]
+    html = (tmp_path / out["file"]).read_text(encoding="utf-8")
+    assert "air / resid" in html and "fan power [kW]" in html
+
+
+def test_the_air_coolers_own_study_takes_the_trains_inlets(tmp_path):
+    from revamp.report.air import air_header_html
+    from revamp.studies.air import run_air_case
+
+    path = write(tmp_path, unit_with_air_cooler())
+    today, rev, text = unitfile.network_inlets(path, "AC-1")
+    unit = unitfile.load(path)
+    study = run_air_case(unit.exchanger("AC-1"), service_today=today, service_revamp=rev, inlets=text)
+    assert study.ratings["today"].service.tube.t_in == pytest.approx(float(today.tube.t_in))
+    assert study.ratings["revamp"].service.tube.flow == pytest.approx(36.0)  # 30 kg/s x 1.2 (network throughput)
+    assert "train" in study.basis
+    assert "Tube inlet from the train" in air_header_html(unit.exchanger("AC-1"), unit, "SI", study.inlets)
