@@ -321,3 +321,17 @@ def test_the_air_coolers_own_study_takes_the_trains_inlets(tmp_path):
     assert study.ratings["revamp"].service.tube.flow == pytest.approx(36.0)  # 30 kg/s x 1.2 (network throughput)
     assert "train" in study.basis
     assert "Tube inlet from the train" in air_header_html(unit.exchanger("AC-1"), unit, "SI", study.inlets)
+
+
+def test_cleaning_plan_refuses_an_air_cooler_by_path(tmp_path):
+    """The cleaning plan prices fired fuel: an air cooler's bundle is not on it (named by its path)."""
+    doc = unit_with_air_cooler()
+    doc["cleaning"] = {"horizon": "1 yr", "exchangers": {
+        "E-1": {"fouling": {"model": "linear", "rate": "0.0002 m**2*K/W/yr"}},
+        "AC-1": {"fouling": {"model": "linear", "rate": "0.0002 m**2*K/W/yr"}}}}
+    problems = unitfile.check(write(tmp_path, doc))
+    mine = [p for p in problems if "AC-1" in p.path]
+    assert [p.path for p in mine] == ["cleaning.exchangers.AC-1"], problems
+    assert "shell-and-tube" in mine[0].message
+    del doc["cleaning"]["exchangers"]["AC-1"]
+    assert unitfile.check(write(tmp_path, doc)) == []
