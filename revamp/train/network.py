@@ -158,7 +158,7 @@ class Match:
                 raise InputError("air", self.air, "a revamp.train.AirSide(air_in=..., air_flow=... or "
                                                   "face_velocity=...): the air of the air cooler")
             given = [n for n in ("shell", "dp_max_shell") if getattr(self, n) is not None]
-            if not (isinstance(self.fouling_shell, (int, float)) and self.fouling_shell == 0):
+            if np.any(np.asarray(to_si(self.fouling_shell, "fouling", "fouling_shell")) != 0):
                 given.append("fouling_shell")
             if given:
                 raise InputError(given[0], getattr(self, given[0]), "left out: an air cooler has a tube stream and "
