@@ -8,10 +8,16 @@ pump trip, an impossible temperature), so that ``revamp.monitor`` has something 
 Run from the repository root::
 
     python data/generate_plant_data.py            # writes data/demo/plant/<tag>.csv for every demo exchanger
+    python data/generate_plant_data.py AC-301     # only the exchangers named
 
 The CSVs use the standard column names in SI (``timestamp``, ``shell_flow`` [kg/s], ``shell_t_in``, ``shell_t_out``
 [K], ``tube_flow`` [kg/s], ``tube_t_in``, ``tube_t_out`` [K]) plus ``rf_true`` [m²K/W, outside area], the fouling
 resistance the series was made with (kept so that a reader can see how well it is recovered).
+
+An air cooler's series (``kind: air cooler`` in the unit file) is written as a historian would export it, with tag
+names and plant units that the unit file maps (``columns``): tube flow [t/h], tube inlet and outlet [°C], the
+ambient at the cooler [°C]; the air flow is not measured (the fans run at their fixed speed: the stated air flow).
+The ambient follows an invented season and day.
 """
 from __future__ import annotations
 
@@ -200,6 +206,73 @@ def _spoil(df: pd.DataFrame, rng) -> pd.DataFrame:
     return df
 
 
+#: historian tag of each standard column of an air cooler's series, with its unit (the unit file maps them back)
+AIR_TAGS = {"tube_flow": ("FI-{n}", "t/h"), "tube_t_in": ("TI-{n}A", "degC"), "tube_t_out": ("TI-{n}B", "degC"),
+            "air_t_in": ("TI-{n}AMB", "degC")}
+
+
+def generate_air(exchanger, service, start="2031-01-01", hours=8760, fouling_law=None, seed=0, *, number="301",
+                 flow_noise=0.01, temperature_noise=0.3, bad_rows=True) -> pd.DataFrame:
+    """An invented hourly series for one air cooler (tube side and ambient; the air flow is the stated one).
+
+    Parameters
+    ----------
+    exchanger : revamp.AirCooler
+    service : revamp.AirService
+        The design-day service: tube fluid, typical tube flow and inlet, the stated air flow, the ambient around
+        which the season turns.
+    fouling_law : callable or None
+        ``law(t) -> Rf`` [m²K/W, total on the bare outside-tube area] at run time t [s]; put on the tube side (the
+        data cannot tell the sides apart: only the total is recovered).
+    number : str
+        The loop number in the historian tags (``FI-301``...).
+
+    Returns
+    -------
+    pandas.DataFrame
+        The historian columns (``timestamp`` and :data:`AIR_TAGS`) plus ``rf_true``.
+    """
+    import revamp as rv
+
+    rng = np.random.default_rng(seed)
+    n = int(hours)
+    t = np.arange(n) * 3600.0
+    m_t = service.tube.flow * _process(rng, n)
+    tt_in = service.tube.t_in + 1.5 * np.sin(2 * np.pi * t / (9 * DAY)) + rng.normal(0, 0.1, n)
+    # invented weather: a season of ±9 K around 8 K below the design-day ambient, a day of ±3.5 K, some wander
+    season = -8.0 + 9.0 * np.sin(2 * np.pi * (t / YEAR - 0.3))
+    day = 3.5 * np.sin(2 * np.pi * (t / DAY - 0.375))
+    wander = np.cumsum(rng.normal(0.0, 0.08, n))
+    wander -= np.linspace(0, 1, n) * wander[-1]
+    ambient = service.air_in + season + day + wander
+    rf = np.zeros(n) if fouling_law is None else np.asarray(fouling_law(t), dtype=float) * np.ones(n)
+    do, di = exchanger.tube_od, exchanger.tube_id
+    r = rv.rate(exchanger, rv.AirService(tube=rv.Stream(service.tube.fluid, m_t, tt_in), air_in=ambient,
+                                         air_flow=service.air_flow, face_velocity=service.face_velocity,
+                                         altitude=service.altitude, fouling_tube=rf * di / do, fouling_air=0.0))
+    tag = {k: v[0].format(n=number) for k, v in AIR_TAGS.items()}
+    df = pd.DataFrame({
+        "timestamp": pd.date_range(start, periods=n, freq="h").strftime("%Y-%m-%d %H:%M:%S"),
+        tag["tube_flow"]: (m_t * (1 + rng.normal(0, flow_noise, n)) * 3.6).round(3),          # kg/s -> t/h
+        tag["tube_t_in"]: (tt_in + rng.normal(0, temperature_noise, n) - 273.15).round(2),   # K -> °C
+        tag["tube_t_out"]: (r.t_out_tube + rng.normal(0, temperature_noise, n) - 273.15).round(2),
+        tag["air_t_in"]: (ambient + rng.normal(0, temperature_noise, n) - 273.15).round(2),
+        "rf_true": rf,
+    })
+    if bad_rows and n > 500:
+        df = df.astype({c: object for c in df.columns if c not in ("timestamp", "rf_true")})
+        rows = rng.choice(np.arange(100, n - 100), size=6, replace=False)
+        cols = [tag[k] for k in AIR_TAGS]
+        for i in rows[:3]:
+            df.loc[i, str(rng.choice(cols))] = ""                          # missing value
+        df.loc[int(rows[3]), tag["tube_t_out"]] = "Bad Input"              # historian text instead of a number
+        i = int(rows[4])
+        df.loc[i:i + 9, tag["air_t_in"]] = df.loc[i, tag["air_t_in"]]      # a stuck ambient transmitter, 10 h
+        i = int(rows[5])
+        df.loc[i:i + 2, tag["tube_flow"]] = 0.0                            # the product pump tripped, 3 h
+    return df
+
+
 # invented fouling laws of the demo exchangers (tube side is the crude / the cooling water)
 DEMO_LAWS = {
     "E-101": Asymptotic(rf0=5e-5, rf_inf=4.0e-4, tau_days=90.0),
@@ -208,6 +281,8 @@ DEMO_LAWS = {
     "E-104": Threshold(rf0=1.0e-4, net_per_year=8.0e-4),
     "E-105": Asymptotic(rf0=5e-5, rf_inf=3.0e-4, tau_days=120.0),
     "C-201": Asymptotic(rf0=2e-5, rf_inf=2.5e-4, tau_days=60.0),
+    # air cooler: total on the bare outside-tube area (fins collect dust and pollen; invented)
+    "AC-301": Asymptotic(rf0=5e-5, rf_inf=3.5e-4, tau_days=150.0),
 }
 
 
@@ -220,6 +295,7 @@ def _load_unit(path: Path):
     doc = yaml.safe_load(path.read_text(encoding="utf-8"))
     for x in doc.get("exchangers", []):
         x.pop("plant_data", None)
+    doc.pop("cleaning", None)  # the cleaning plan needs the plant data this script is about to write
     with tempfile.TemporaryDirectory() as tmp:
         copy = Path(tmp) / path.name
         copy.write_text(yaml.safe_dump(doc, sort_keys=False), encoding="utf-8")
@@ -231,9 +307,17 @@ def main(argv=None) -> int:
     unit = _load_unit(here / "demo" / "unit.yaml")
     out = here / "demo" / "plant"
     out.mkdir(parents=True, exist_ok=True)
+    only = set((sys.argv[1:] if argv is None else argv) or [])
     for k, case in enumerate(unit.exchangers):
+        if only and case.tag not in only:
+            continue
         law = DEMO_LAWS.get(case.tag, Asymptotic(rf0=5e-5, rf_inf=3e-4, tau_days=90.0))
-        df = generate(case.exchanger, case.service, start="2031-01-01", hours=8760, fouling_law=law, seed=100 + k)
+        if getattr(case, "kind", None) == "air cooler":
+            df = generate_air(case.exchanger, case.service, start="2031-01-01", hours=8760, fouling_law=law,
+                              seed=100 + k, number=case.tag.split("-")[-1])
+        else:
+            df = generate(case.exchanger, case.service, start="2031-01-01", hours=8760, fouling_law=law,
+                          seed=100 + k)
         path = out / f"{case.tag}.csv"
         df.to_csv(path, index=False)
         print(f"{case.tag}: {len(df)} rows, Rf {df['rf_true'].iloc[0]:.2e} -> {df['rf_true'].iloc[-1]:.2e} m2K/W "

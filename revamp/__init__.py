@@ -26,6 +26,7 @@ _EXPORTS = {
     "Train": "revamp.train",
     "Match": "revamp.train",
     "Furnace": "revamp.train",
+    "AirSide": "revamp.train",
     "compare_train": "revamp.train",
     "study_exchanger": "revamp.studies",
     "ExchangerStudy": "revamp.studies",

@@ -1,6 +1,8 @@
 """The study of one air cooler as the report shows it: ratings in service and clean (today and on the hottest day of
-the sweep), the resistances in series, the hot-day sweep with the ambient at which the target outlet is lost, and the
-options side by side. No physics here: the study is computed in :mod:`revamp.studies.air` (which calls
+the sweep), the resistances in series, the hot-day sweep with the ambient at which the target outlet is lost, the
+options side by side, and the fouling history from the plant data with its band.
+
+No physics here: the study is computed in :mod:`revamp.studies.air` (which calls
 :func:`revamp.rate`, :func:`revamp.hot_day.hot_day` and :func:`revamp.options_air.compare_air`); this module formats
 it.
 
@@ -21,8 +23,9 @@ from ..studies.air import AirStudy, _interpolated_limit, _limit_text, air_unit_r
 from .case import breakdown_figure
 from .pages import esc, write_atomic
 
-__all__ = ["AirStudy", "air_header_html", "air_options_table", "air_ratings_table", "air_summary", "breakdown_items",
-           "hot_day_items", "options_items", "run_air_case", "unit_row", "write_air_summary"]
+__all__ = ["AirStudy", "air_fouling_figure", "air_header_html", "air_options_table", "air_ratings_table",
+           "air_summary", "breakdown_items", "hot_day_items", "monitoring_items", "options_items", "run_air_case",
+           "unit_row", "write_air_summary"]
 
 #: rows of the ratings table: (attribute, quantity kind, label)
 AIR_COLUMNS = [("duty", "power", "duty"), ("t_out_tube", "temperature", "tube outlet"),
@@ -116,7 +119,83 @@ def options_items(study: AirStudy, system: str = "SI") -> list:
     return items
 
 
-def air_header_html(case, unit, system: str = "SI") -> str:
+def air_fouling_figure(mon, system: str = "SI"):
+    """The fouling from the plant data against time: daily medians of the used rows with their band (one standard
+    uncertainty, mostly the stated air flow's), and a straight line through the data (plotly)."""
+    import pandas as pd
+    import plotly.graph_objects as go
+
+    from ..units import from_si
+
+    used = mon.used
+    daily = used.set_index(pd.to_datetime(used["timestamp"]))[["Rf", "Rf_low", "Rf_high"]].resample("1D").median()
+    daily = daily.dropna()
+    scale, unit = from_si(1.0, "fouling", system)
+    x = list(daily.index)
+    fig = go.Figure()
+    fig.add_scatter(x=x, y=daily["Rf_high"] * scale, mode="lines", line={"width": 0}, showlegend=False,
+                    hoverinfo="skip")
+    fig.add_scatter(x=x, y=daily["Rf_low"] * scale, mode="lines", line={"width": 0}, fill="tonexty",
+                    fillcolor="rgba(77,126,168,0.25)",
+                    name="band (air flow and temperatures, ±1 standard uncertainty)")
+    fig.add_scatter(x=x, y=daily["Rf"] * scale, mode="markers", marker={"size": 4}, name="Rf from the data "
+                                                                                          "(daily median)")
+    trend = mon.trend()
+    if trend is not None and len(x):
+        t0 = pd.to_datetime(used["timestamp"]).iloc[0]
+        secs = np.array([(t - t0).total_seconds() for t in x])
+        fig.add_scatter(x=x, y=(trend[1] + trend[0] * secs) * scale, mode="lines",
+                        name="straight line through the data")
+    fig.update_layout(title="Fouling of the air cooler from plant data (tube-side heat balance)",
+                      yaxis_title=f"Rf [{unit}, bare outside-tube area]", height=420,
+                      legend={"orientation": "h", "y": -0.2})
+    return fig
+
+
+def monitoring_items(study: AirStudy, system: str = "SI") -> list:
+    """What the plant-data section shows: how the air flow was known and how wide that makes the band, the findings,
+    the row counts by reason, the fouling history, and the notes of the analysis."""
+    import pandas as pd
+
+    from ..units import format_quantity as fq
+
+    mon = study.monitoring
+    if mon is None:
+        why = study.monitoring_error or "the unit file gives no plant data for this air cooler"
+        return [f"No plant-data analysis: {why}."]
+    source = {"stated": "stated in the unit file (not measured)", "measured": "measured (the air_flow column)",
+              "fan_power": "scaled from the measured fan power by the fan laws"}[mon.air_flow_from]
+    items = [f"The duty comes from the tube side (flow, inlet, outlet); the air flow is {source}, the ambient is "
+             "measured. The band is wider than for a shell-and-tube exchanger: it carries "
+             f"±{mon.air_flow_uncertainty:.0%} on the air flow and ±{fq(mon.t_uncertainty, 'temperature_difference', system)} on each temperature "
+             "(one standard uncertainty each, combined in quadrature)."]
+    summ = mon.summary
+    shown = {}
+    for key, value in summ.items():
+        if "[m²K/W]" in key:
+            name = key.replace(" [m²K/W]", "")
+            shown[name] = (" to ".join(fq(v, "fouling", system) for v in value) if isinstance(value, list)
+                           else fq(value, "fouling", system))
+        elif key in ("air flow uncertainty [-]", "temperature uncertainty [K]"):
+            continue
+        else:
+            shown[key] = str(value)
+    items.append(pd.DataFrame({"value": list(shown.values())}, index=list(shown)))
+    counts = {k: v for k, v in mon.counts.items() if k not in ("rows", "valid", "steady", "used")}
+    if counts:
+        items.append(pd.DataFrame({"rows": [int(v) for v in counts.values()]}, index=list(counts)).rename_axis(
+            "rows set aside, by reason"))
+    if mon.steady is not None:
+        items.append(f"Steady-state filter: window {mon.steady.window / 3600:g} h, tube and air flows within "
+                     f"{mon.steady.flow_rsd:.1%} (relative standard deviation), tube inlet and ambient within "
+                     f"{mon.steady.t_range:g} K; {mon.steady.removed} of {mon.steady.checked} valid row(s) removed.")
+    if len(mon.used):
+        items.append(air_fouling_figure(mon, system))
+    items += [f"Note: {n}" for n in mon.notes]
+    return items
+
+
+def air_header_html(case, unit, system: str = "SI", inlets: str = "") -> str:
     """Who the air cooler is and what it serves, as escaped HTML."""
     from ..units import format_quantity as fq
 
@@ -130,6 +209,8 @@ def air_header_html(case, unit, system: str = "SI") -> str:
              f"<p>Tube side: {esc(s.tube.fluid.name)}, {fq(s.tube.flow, 'mass_flow', system)} in at "
              f"{fq(s.tube.t_in, 'temperature', system)}, fouling {fq(s.fouling_tube, 'fouling', system)}. Air: ambient "
              f"{fq(s.air_in, 'temperature', system)}, {esc(air)}, fouling {fq(s.fouling_air, 'fouling', system)}.</p>"]
+    if inlets:
+        lines.append(f"<p>{esc(inlets)}</p>")
     return "".join(lines)
 
 
@@ -159,6 +240,14 @@ def air_summary(study: AirStudy) -> dict:
                 f"no option meets the target {when}")
     if study.hot is not None and study.hot.ambient_limit is not None and np.isfinite(study.hot.ambient_limit):
         out["ambient_limit"] = float(study.hot.ambient_limit)
+    mon = study.monitoring
+    if mon is not None:  # the fouling the plant data show, as for a shell-and-tube exchanger's report
+        summ = mon.summary
+        if "fouling, last week (median) [m²K/W]" in summ:
+            out["fouling_now"] = summ["fouling, last week (median) [m²K/W]"]
+            out["fouling_band"] = summ["band, last week (median) [m²K/W]"]
+    elif study.monitoring_error:
+        out["monitoring_error"] = study.monitoring_error
     return out
 
 

@@ -143,8 +143,13 @@ def train_svg(result, title: str = "") -> str:
     boxes = []
     for tag, (bx, by) in pos.items():
         duty = float(ex.loc[tag, "duty"])
-        boxes.append(f'<rect x="{bx}" y="{by}" width="{_BOX_W}" height="{_BOX_H}" rx="6" fill="#ffffff" '
-                     f'stroke="#34495e" stroke-width="2"/>')
+        air = _is_air(ex.loc[tag])
+        dash = ' stroke-dasharray="5 3"' if air else ""
+        boxes.append(f'<rect x="{bx}" y="{by}" width="{_BOX_W}" height="{_BOX_H}" rx="6" '
+                     f'fill="{"#eaf4fb" if air else "#ffffff"}" stroke="#34495e" stroke-width="2"{dash}/>')
+        if air:  # an air cooler: the air from below, its ambient and outlet written under the box
+            labels.append((bx + _BOX_W / 2, by + _BOX_H + 16, f"air {_c(ex.loc[tag, 't_in_air'])} → "
+                           f"{_c(ex.loc[tag, 't_out_air'])}", "middle", "#2471a3"))
         labels.append((bx + _BOX_W / 2, by + 19, esc(tag), "middle"))
         labels.append((bx + _BOX_W / 2, by + 36, _mw(duty), "middle"))
     width = max(end_x + 60, 600)
@@ -169,16 +174,34 @@ def _route_tags(route):
                 yield from branch
 
 
+def _is_air(row) -> bool:
+    return row.get("kind", "") == "air cooler"
+
+
 def _exchanger_rows(result):
+    """The exchangers' table; an air cooler's air stands in the shell-side columns (marked 'air'), with its fan
+    power in a column of its own when the train has one."""
     ex = result.exchangers
+    air_any = "kind" in ex.columns and bool((ex["kind"] == "air cooler").any())
     rows = []
     for tag in ex.index:
         r = ex.loc[tag]
-        rows.append([tag, f"{r['shell_stream']} / {r['tube_stream']}", _mw(r["duty"]),
-                     f"{_c(r['t_in_shell'])} → {_c(r['t_out_shell'])}", f"{_c(r['t_in_tube'])} → {_c(r['t_out_tube'])}",
-                     f"{r['U_service']:.0f}", f"{r['dp_shell'] / 1e3:.1f}", f"{r['dp_tube'] / 1e3:.1f}"])
-    return table_html(rows, ["exchanger", "shell / tube stream", "duty", "shell side", "tube side",
-                             "U in service [W/m²K]", "ΔP shell [kPa]", "ΔP tube [kPa]"])
+        if _is_air(r):
+            row = [tag, f"air / {r['tube_stream']}", _mw(r["duty"]),
+                   f"air {_c(r['t_in_air'])} → {_c(r['t_out_air'])}",
+                   f"{_c(r['t_in_tube'])} → {_c(r['t_out_tube'])}",
+                   f"{r['U_service']:.0f}", f"{r['dp_air'] / 1e3:.2f} (air)", f"{r['dp_tube'] / 1e3:.1f}"]
+        else:
+            row = [tag, f"{r['shell_stream']} / {r['tube_stream']}", _mw(r["duty"]),
+                   f"{_c(r['t_in_shell'])} → {_c(r['t_out_shell'])}",
+                   f"{_c(r['t_in_tube'])} → {_c(r['t_out_tube'])}",
+                   f"{r['U_service']:.0f}", f"{r['dp_shell'] / 1e3:.1f}", f"{r['dp_tube'] / 1e3:.1f}"]
+        if air_any:
+            row.append(f"{r['fan_power'] / 1e3:.1f}" if _is_air(r) else "")
+        rows.append(row)
+    header = ["exchanger", "shell / tube stream", "duty", "shell side (air)" if air_any else "shell side",
+              "tube side", "U in service [W/m²K]", "ΔP shell [kPa]", "ΔP tube [kPa]"]
+    return table_html(rows, header + (["fan power [kW]"] if air_any else []))
 
 
 def _limit_rows(result):

@@ -1,6 +1,9 @@
 """One air cooler's study, computed: ratings in service and clean (today, at revamp, on the hottest day of the sweep),
-the hot-day sweep with the ambient at which the target outlet is lost, and the options side by side
-(:func:`run_air_case` -> :class:`AirStudy`); :mod:`revamp.report.air` formats it.
+the hot-day sweep with the ambient at which the target outlet is lost, the options side by side, and the fouling from
+its plant data (:func:`run_air_case` -> :class:`AirStudy`); :mod:`revamp.report.air` formats it.
+
+In a unit's network (a stream's rundown cooler) the tube inlet comes from the train: the caller passes the services
+the train gives (:func:`revamp.unitfile.network_inlets`), as for a shell-and-tube exchanger's study.
 """
 from __future__ import annotations
 
@@ -11,7 +14,7 @@ import numpy as np
 
 from ..errors import InputError
 
-__all__ = ["AirStudy", "air_unit_ratings", "run_air_case"]
+__all__ = ["AirStudy", "air_monitoring", "air_unit_ratings", "run_air_case"]
 
 
 @dataclass(frozen=True)
@@ -38,6 +41,12 @@ class AirStudy:
     options_error : str
     warnings : tuple of str
         The rating's warnings (validity ranges), each once.
+    monitoring : AirPlantMonitoring or None
+        The fouling from the plant data (:func:`revamp.monitoring_air_data.monitor_air_data`; None without plant
+        data, or when it failed: ``monitoring_error``).
+    monitoring_error : str
+    inlets : str
+        Where today's and the revamp tube inlets come from, when not from the air cooler's own entry (the train).
     """
 
     case: object
@@ -49,14 +58,41 @@ class AirStudy:
     options_hot: object = None
     options_error: str = ""
     warnings: tuple = field(default=())
+    monitoring: object = None
+    monitoring_error: str = ""
+    inlets: str = ""
 
 
 def _clean(service):
     return service.replace(fouling_tube=0.0, fouling_air=0.0)
 
 
-def run_air_case(case) -> AirStudy:
-    """Rate, sweep and compare one air cooler of a unit file (an :class:`~revamp.unitfile.AirCoolerCase`)."""
+def air_monitoring(case):
+    """``(monitoring, error)``: the fouling from the case's plant data (None, "" without plant data; None and the
+    reason when the analysis fails: plant data is evidence, not a precondition of the study)."""
+    pdata = getattr(case, "plant_data", None)
+    if pdata is None:
+        return None, ""
+    from ..monitoring_air_data import monitor_air_data
+
+    try:  # the stated air flow (and the fan design point) is the entry's own service, not a train's
+        return monitor_air_data(case.exchanger, case.service, pdata.file, **pdata.monitor_options()), ""
+    except Exception as exc:
+        return None, f"{exc.__class__.__name__}: {exc}"
+
+
+def run_air_case(case, service_today=None, service_revamp=None, inlets: str = "") -> AirStudy:
+    """Rate, sweep and compare one air cooler of a unit file (an :class:`~revamp.unitfile.AirCoolerCase`), and find
+    its fouling from its plant data.
+
+    Parameters
+    ----------
+    case : AirCoolerCase
+    service_today, service_revamp : AirService, optional
+        Services replacing the entry's own (e.g. the inlets a train gives it, :func:`revamp.unitfile.network_inlets`).
+    inlets : str
+        Where those services come from (stated in the report).
+    """
     import revamp as rv
 
     from ..hot_day import hot_day
@@ -64,11 +100,15 @@ def run_air_case(case) -> AirStudy:
 
     if getattr(case, "kind", None) != "air cooler":
         raise InputError("case", type(case).__name__, "an air-cooler case of a unit file (kind: air cooler)")
-    ex, today = case.exchanger, case.service
+    ex, today = case.exchanger, (service_today if service_today is not None else case.service)
     ratings = {"today": rv.rate(ex, today), "today (clean)": rv.rate(ex, _clean(today))}
     svc = today  # the design question: the revamp flows when the unit file gives them
     basis = "today's flows (the unit file gives no revamp section for this air cooler)"
-    if getattr(case, "revamp_service", None) is not None:
+    if service_revamp is not None:
+        svc = service_revamp
+        ratings["revamp"], ratings["revamp (clean)"] = rv.rate(ex, svc), rv.rate(ex, _clean(svc))
+        basis = "the revamp conditions the unit's train gives this air cooler"
+    elif getattr(case, "revamp_service", None) is not None:
         svc = case.revamp_service
         ratings["revamp"], ratings["revamp (clean)"] = rv.rate(ex, svc), rv.rate(ex, _clean(svc))
         basis = f"the revamp conditions (tube-side flow x{case.throughput:g} on today's)"
@@ -106,9 +146,10 @@ def run_air_case(case) -> AirStudy:
             if key not in keys:
                 keys.add(key)
                 seen.append(w)
+    monitoring, monitoring_error = air_monitoring(case)
     return AirStudy(case=case, ratings=ratings, basis=basis, hot=hot, hot_note=note, options=options,
                     options_hot=options_hot, options_error=error,
-                    warnings=tuple(seen))
+                    warnings=tuple(seen), monitoring=monitoring, monitoring_error=monitoring_error, inlets=inlets)
 
 
 def _interpolated_limit(ambient, t_out, target):

@@ -1,7 +1,8 @@
 """The preheat train as one network (studies layer, above :func:`revamp.rate`).
 
 :class:`Train` holds the streams at their supply conditions, the exchangers with the stream on each side
-(:class:`Match`), each stream's route, named points (:class:`Point`), parallel branches (:class:`Split`) and the
+(:class:`Match`; an air cooler's air as :class:`AirSide`), each stream's route, named points (:class:`Point`),
+parallel branches (:class:`Split`) and the
 :class:`Furnace`. :meth:`Train.solve` rates every exchanger at the inlets the network gives it (all cases of a sweep in
 one vectorized call per exchanger and iteration) and returns a :class:`TrainResult`; :func:`compare_train` re-solves
 the train for sets of options and :func:`max_throughput` finds the largest flow factor every limit allows.
@@ -33,10 +34,11 @@ True
 True
 """
 from .hydraulics import PumpCurve
-from .network import Furnace, Match, Point, Split, Train
+from .network import AirSide, Furnace, Match, Point, Split, Train
 from .result import LimitCheck, TrainResult
 from .solver import enthalpy_change, solve
 from .study import NetworkServices, Throughput, TrainStudy, compare_train, max_throughput, network_services
 
-__all__ = ["Furnace", "LimitCheck", "Match", "NetworkServices", "Point", "PumpCurve", "Split", "Throughput", "Train", "TrainResult",
+__all__ = ["AirSide", "Furnace", "LimitCheck", "Match", "NetworkServices", "Point", "PumpCurve", "Split", "Throughput",
+           "Train", "TrainResult",
            "TrainStudy", "compare_train", "enthalpy_change", "max_throughput", "network_services", "solve"]

@@ -7,6 +7,10 @@ the desalter, with an allowed temperature band) and parallel branches (:class:`S
 after them). Every input is checked when the train is built; a bad network raises an :class:`InputError` that names
 the path of the inconsistency (``routes['crude'][2]``, ``exchangers['E-102'].shell``, ``furnace.stream``).
 
+An air cooler (:class:`revamp.AirCooler`) is a match too, with one stream only: its ``tube`` stream, cooled by
+ambient air that is a utility of the match (:class:`AirSide`: ambient, air flow or face velocity, fouling), not a
+stream of the train. It is usually a stream's rundown cooler, the last item of that stream's route.
+
 References
 ----------
 Smaïli, F., Vassiliadis, V. S., Wilson, D. I. (2001). Mitigation of fouling in refinery heat exchanger networks by
@@ -23,7 +27,7 @@ from ..errors import InputError
 from ..service import Service, Stream
 from ..units import require, to_si
 
-__all__ = ["Match", "Furnace", "Point", "Split", "Train"]
+__all__ = ["AirSide", "Match", "Furnace", "Point", "Split", "Train"]
 
 
 def _temperature_or_none(value, path):
@@ -45,33 +49,126 @@ def _pressure_or_none(value, path):
 
 
 @dataclass(frozen=True)
+class AirSide:
+    """The air of an air cooler in a train: a utility at a stated ambient, not a stream of the train.
+
+    Give the air as a mass flow (``air_flow``, all bays) or as a face velocity (``face_velocity``); exactly one of the
+    two. Ambient, air flow and fouling may be arrays that broadcast with the train's cases (an ambient sweep).
+
+    Parameters
+    ----------
+    air_in : float, ndarray or str
+        Ambient (air inlet) temperature [K].
+    air_flow : float, ndarray or str, optional
+        Air mass flow, all bays [kg/s].
+    face_velocity : float, ndarray or str, optional
+        Air velocity at the bundle face, at the inlet density [m/s].
+    altitude : float or str
+        Site altitude [m].
+    fouling : float, ndarray or str
+        Air-side (finned surface) fouling resistance [m²K/W].
+
+    Notes
+    -----
+    The checks are those of :class:`revamp.AirService` (its ``air_in``, ``air_flow``, ``face_velocity``,
+    ``altitude`` and ``fouling_air``), whose error paths are given here under this class's own field names.
+    """
+
+    air_in: object
+    air_flow: object = None
+    face_velocity: object = None
+    altitude: object = 0.0
+    fouling: object = 0.0
+
+    _NAMES = {"air_in": "air_in", "air_flow": "air_flow", "face_velocity": "face_velocity", "altitude": "altitude",
+              "fouling_air": "fouling"}
+
+    def __post_init__(self):
+        from ..fluids import constant
+        from ..service_air import AirService
+
+        probe = Stream(constant(density=1.0, heat_capacity=1.0, viscosity=1.0, conductivity=1.0), 1.0, 300.0)
+        try:  # the one place the air's rules live: AirService
+            svc = AirService(tube=probe, air_in=self.air_in, air_flow=self.air_flow,
+                             face_velocity=self.face_velocity, altitude=self.altitude, fouling_air=self.fouling)
+        except InputError as exc:
+            raise InputError(self._NAMES.get(exc.field, exc.field), exc.value, exc.allowed) from None
+        for name, value in (("air_in", svc.air_in), ("air_flow", svc.air_flow), ("face_velocity", svc.face_velocity),
+                            ("altitude", svc.altitude), ("fouling", svc.fouling_air)):
+            object.__setattr__(self, name, value)
+
+    @classmethod
+    def of(cls, service) -> "AirSide":
+        """The air of an :class:`revamp.AirService` (its tube stream and tube fouling left out)."""
+        return cls(air_in=service.air_in, air_flow=service.air_flow, face_velocity=service.face_velocity,
+                   altitude=service.altitude, fouling=service.fouling_air)
+
+    def service(self, tube: Stream, fouling_tube=0.0):
+        """The :class:`revamp.AirService` of this air with a tube stream."""
+        from ..service_air import AirService
+
+        return AirService(tube=tube, air_in=self.air_in, air_flow=self.air_flow, face_velocity=self.face_velocity,
+                          altitude=self.altitude, fouling_tube=fouling_tube, fouling_air=self.fouling)
+
+    def replace(self, **changes) -> "AirSide":
+        """A copy with some fields changed (validated again)."""
+        return dataclasses.replace(self, **changes)
+
+
+def _is_air_cooler(exchanger) -> bool:
+    return getattr(type(exchanger), "kind", None) == "air cooler"
+
+
+@dataclass(frozen=True)
 class Match:
     """One exchanger of the train and the stream on each of its sides.
 
     Parameters
     ----------
-    exchanger : ShellAndTube
+    exchanger : ShellAndTube or AirCooler
         The exchanger as built.
     shell, tube : str
-        Names of the streams (keys of ``Train.streams``) on the shell and tube sides.
+        Names of the streams (keys of ``Train.streams``) on the shell and tube sides. An air cooler has a ``tube``
+        stream only (``shell`` left out).
     fouling_shell, fouling_tube : float, ndarray or str
         Fouling resistance on each side [m²K/W] (arrays broadcast with the train's cases).
     dp_max_shell, dp_max_tube : float or str, optional
         Allowed pressure drop of each side [Pa]; checked in the result and by ``max_throughput``.
+    air : AirSide, optional
+        The air of an air cooler (required for one, refused for a shell-and-tube exchanger).
+
+    Examples
+    --------
+    An air cooler as the rundown cooler of a product stream (``Match(ac, tube="diesel", air=AirSide("35 degC",
+    air_flow="200 kg/s"), fouling_tube=2e-4)``): see ``tests/test_train_aircooler.py``.
     """
 
     exchanger: object
-    shell: str
-    tube: str
+    shell: str | None = None
+    tube: str | None = None
     fouling_shell: object = 0.0
     fouling_tube: object = 0.0
     dp_max_shell: object = None
     dp_max_tube: object = None
+    air: AirSide | None = None
 
     def __post_init__(self):
-        if not (hasattr(self.exchanger, "bell") and hasattr(self.exchanger, "tube_od")):
-            raise InputError("exchanger", self.exchanger, "a revamp.ShellAndTube")
-        for side in ("shell", "tube"):
+        if _is_air_cooler(self.exchanger):
+            if not isinstance(self.air, AirSide):
+                raise InputError("air", self.air, "a revamp.train.AirSide(air_in=..., air_flow=... or "
+                                                  "face_velocity=...): the air of the air cooler")
+            given = [n for n in ("shell", "dp_max_shell") if getattr(self, n) is not None]
+            if np.any(np.asarray(to_si(self.fouling_shell, "fouling", "fouling_shell")) != 0):
+                given.append("fouling_shell")
+            if given:
+                raise InputError(given[0], getattr(self, given[0]), "left out: an air cooler has a tube stream and "
+                                                                    "the air (air=AirSide(...)), no shell side")
+        elif hasattr(self.exchanger, "bell") and hasattr(self.exchanger, "tube_od"):
+            if self.air is not None:
+                raise InputError("air", self.air, "left out: only an air cooler takes air=AirSide(...)")
+        else:
+            raise InputError("exchanger", self.exchanger, "a revamp.ShellAndTube or a revamp.AirCooler")
+        for side in self.sides:
             if not isinstance(getattr(self, side), str) or not getattr(self, side):
                 raise InputError(side, getattr(self, side), "the name of a stream of the train")
         if self.shell == self.tube:
@@ -82,6 +179,16 @@ class Match:
             object.__setattr__(self, name, value)
         for name in ("dp_max_shell", "dp_max_tube"):
             object.__setattr__(self, name, _pressure_or_none(getattr(self, name), name))
+
+    @property
+    def is_air_cooler(self) -> bool:
+        """Whether the exchanger is an air cooler (one stream, the air a utility)."""
+        return self.air is not None
+
+    @property
+    def sides(self) -> tuple:
+        """The sides that carry a stream of the train: ``("shell", "tube")``, or ``("tube",)`` for an air cooler."""
+        return ("tube",) if _is_air_cooler(self.exchanger) else ("shell", "tube")
 
     def replace(self, **changes) -> "Match":
         """A copy with some fields changed (validated again)."""
@@ -255,7 +362,7 @@ class Train:
         for tag, m in self.exchangers.items():
             if not isinstance(m, Match):
                 raise InputError(f"exchangers[{tag!r}]", m, "a revamp.Match(exchanger, shell=..., tube=...)")
-            for side in ("shell", "tube"):
+            for side in m.sides:
                 if getattr(m, side) not in streams:
                     raise InputError(f"exchangers[{tag!r}].{side}", getattr(m, side), f"one of the streams {known}")
         if not isinstance(self.routes, dict):
@@ -287,16 +394,17 @@ class Train:
                     if tag not in self.exchangers:
                         raise InputError(p, tag, f"one of the exchangers {sorted(self.exchangers)}")
                     m = self.exchangers[tag]
-                    if name not in (m.shell, m.tube):
-                        raise InputError(p, tag, f"an exchanger that carries stream {name!r} (it carries "
-                                                 f"{m.shell!r} on the shell side and {m.tube!r} on the tube side)")
+                    if name not in [getattr(m, sd) for sd in m.sides]:
+                        carries = (f"{m.tube!r} in its tubes, cooled by air" if m.is_air_cooler else
+                                   f"{m.shell!r} on the shell side and {m.tube!r} on the tube side")
+                        raise InputError(p, tag, f"an exchanger that carries stream {name!r} (it carries {carries})")
                     key = (tag, m.side_of(name))
                     if key in seen:
                         raise InputError(p, tag, f"an exchanger visited once on the route (already at {seen[key]})")
                     seen[key] = p
             routes[name] = route
         for tag, m in self.exchangers.items():
-            for side in ("shell", "tube"):
+            for side in m.sides:
                 if (tag, side) not in seen:
                     raise InputError(f"exchangers[{tag!r}].{side}", getattr(m, side),
                                      f"a stream whose route lists {tag!r} (it is on no route)")
@@ -345,6 +453,8 @@ class Train:
         shapes = [np.shape(s.flow) for s in self.streams.values()] + [np.shape(s.t_in) for s in self.streams.values()]
         shapes += [np.shape(m.fouling_shell) for m in self.exchangers.values()]
         shapes += [np.shape(m.fouling_tube) for m in self.exchangers.values()]
+        shapes += [np.shape(getattr(m.air, f)) for m in self.exchangers.values() if m.air is not None
+                   for f in ("air_in", "air_flow", "face_velocity", "fouling")]
         return np.broadcast_shapes(*shapes)
 
     @property
@@ -365,14 +475,18 @@ class Train:
         s = self.streams[stream]
         return self.replace(streams={**self.streams, stream: s.replace(flow=np.multiply(s.flow, f))})
 
-    def service_of(self, tag: str) -> Service:
-        """The service of one exchanger at its streams' supply conditions and full flows (used by options)."""
+    def service_of(self, tag: str):
+        """The service of one exchanger at its streams' supply conditions and full flows (used by options); an
+        :class:`revamp.AirService` for an air cooler."""
         m = self.exchangers[tag]
+        if m.is_air_cooler:
+            return m.air.service(self.streams[m.tube], m.fouling_tube)
         return Service(shell=self.streams[m.shell], tube=self.streams[m.tube], fouling_shell=m.fouling_shell,
                        fouling_tube=m.fouling_tube)
 
     def apply(self, options: dict) -> "Train":
-        """A new train with options of :mod:`revamp.options` applied to some exchangers.
+        """A new train with options of :mod:`revamp.options` (:mod:`revamp.options_air` for an air cooler) applied to
+        some exchangers.
 
         Parameters
         ----------
@@ -394,11 +508,14 @@ class Train:
                 hx, new = opt.apply(matches[tag].exchanger, svc)
             except InputError as exc:
                 raise exc.with_prefix(path) from None
-            for side in ("shell", "tube"):
+            for side in matches[tag].sides:
                 a, b = getattr(svc, side), getattr(new, side)
                 if not (np.array_equal(a.flow, b.flow) and np.array_equal(a.t_in, b.t_in) and a.fluid is b.fluid):
                     raise InputError(path, opt.label, "an option that changes the exchanger or its fouling only "
                                                       "(the network sets each side's flow and inlet)")
+            if matches[tag].is_air_cooler:  # the air is the match's own: a fan upgrade or fin cleaning changes it
+                matches[tag] = matches[tag].replace(exchanger=hx, fouling_tube=new.fouling_tube, air=AirSide.of(new))
+                continue
             matches[tag] = matches[tag].replace(exchanger=hx, fouling_shell=new.fouling_shell,
                                                 fouling_tube=new.fouling_tube)
         return self.replace(exchangers=matches)

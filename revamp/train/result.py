@@ -75,19 +75,23 @@ class TrainResult:
         One row per exchanger (index ``tag``; a ``(tag, case)`` MultiIndex for sweeps): streams, ``duty`` [W],
         ``t_in_shell``, ``t_out_shell``, ``t_in_tube``, ``t_out_tube`` [K], flows [kg/s], ``effectiveness``,
         ``U_clean``, ``U_service`` [W/m²K], fouling [m²K/W], ``dp_shell``, ``dp_tube`` and their allowed values [Pa],
-        velocities [m/s].
+        velocities [m/s]. An air cooler's row (``kind`` "air cooler", empty ``shell_stream``) has its air instead of
+        a shell side: ``t_in_air``, ``t_out_air`` [K], ``flow_air`` [kg/s], ``fouling_air`` [m²K/W], ``dp_air`` [Pa],
+        ``velocity_face`` [m/s], ``fan_power`` [W] (columns present only when the train has an air cooler; NaN in the
+        other rows, as the shell columns are in its own).
     streams : DataFrame
         One row per stream: ``supply`` and ``final`` temperatures [K], ``flow`` [kg/s], ``duty`` (heat taken up
         over its exchangers, negative for a hot stream) [W], ``dp`` over its route (largest branch of a split) and
         ``dp_max`` [Pa], ``rundown`` limit [K] and the ``trim_duty`` [W] a trim cooler takes above it; with a pump
         curve, ``pump_dp``: what the pump leaves for the route at the stream's flow (its differential pressure less
-        the curve's allowance) [Pa], checked as the limit ``"<stream> pump"``.
+        the curve's allowance) [Pa], checked as the limit ``"<stream> pump"``. An air
+        cooler's duty leaves the streams to the air: with one, the streams' duties sum to minus its duty.
     points : DataFrame
         Named points: stream, ``temperature`` and the band ``t_min``, ``t_max`` [K].
     limits : tuple of LimitCheck
         Every limit of the train and whether it holds.
     ratings : dict of str -> Rating
-        Each exchanger's rating at its solved inlets.
+        Each exchanger's rating at its solved inlets (an :class:`~revamp.rating_air.AirRating` for an air cooler).
     furnace_inlet : float or ndarray
         Temperature of the furnace's stream leaving its last exchanger [K] (None without a furnace).
     furnace_absorbed, furnace_duty : float or ndarray

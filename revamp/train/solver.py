@@ -13,6 +13,11 @@ The exchangers are re-rated at the new inlets (one vectorized ``rate()`` per exc
 sweep in that call) and the system solved again, until no inlet moves by more than ``tol``. Only the temperature
 dependence of the properties makes this iterate: with constant properties the second pass is exact.
 
+An air cooler (a match with :class:`~revamp.train.AirSide`) takes the shell side's two ports for its air: the air
+inlet is tied to the stated ambient (a fixed input, like a stream's supply), the air outlet is the rated mixed outlet;
+its tube outlet feeds its stream's route like any other outlet. It is rated with its own ``rate()`` (an
+:class:`~revamp.rating_air.AirRating`), whose effectiveness and capacity rates give the same linear form.
+
 A case that does not converge, or whose ratings fail (a stream leaving its fluid's single-phase range), is flagged in
 ``TrainResult.converged`` and named in the warnings; it is never dropped or replaced.
 
@@ -145,6 +150,15 @@ class _Plan:
         self.supply = {s: self.flat(st.t_in) for s, st in train.streams.items()}
         self.fouling = {(t, side): self.flat(getattr(m, f"fouling_{side}"))
                         for t, m in train.exchangers.items() for side in _SIDES}
+        self.air = {}  # air cooler tag -> its air per case (the air takes the shell side's ports)
+        for t, m in train.exchangers.items():
+            if m.is_air_cooler:
+                a = m.air
+                self.air[t] = {"air_in": self.flat(a.air_in), "altitude": a.altitude,
+                               "air_flow": None if a.air_flow is None else self.flat(a.air_flow),
+                               "face_velocity": None if a.face_velocity is None else self.flat(a.face_velocity)}
+                self.frac[(t, "shell")] = np.ones(self.ncase)
+                self.fouling[(t, "shell")] = self.flat(a.fouling)
 
     def flat(self, v):
         return np.broadcast_to(np.asarray(v, float), self.shape).reshape(self.ncase).copy()
@@ -187,6 +201,8 @@ class _Plan:
 
         for s, route in train.routes.items():
             finals[s], dps[s] = walk(s, route, _Expr({}, supply(s)), 0.0)
+        for tag, air in self.air.items():  # an air cooler's air enters at the stated ambient
+            links.append((self.port(tag, "shell"), _Expr({}, air["air_in"] if idx is None else air["air_in"][idx])))
         for s in train.streams:
             if s not in finals:  # a stream with no exchangers leaves at its supply temperature
                 finals[s], dps[s] = _Expr({}, supply(s)), 0.0
@@ -204,7 +220,7 @@ def _rate_all(plan, x, idx, probe=0.0):
     for tag, m in train.exchangers.items():
         t_s = x[:, plan.port(tag, "shell")]
         t_t = x[:, plan.port(tag, "tube")]
-        f_s = plan.flow[m.shell][idx] * plan.frac[(tag, "shell")][idx]
+        f_s = plan.flow[m.shell][idx] * plan.frac[(tag, "shell")][idx] if m.shell is not None else np.ones(idx.size)
         f_t = plan.flow[m.tube][idx] * plan.frac[(tag, "tube")][idx]
         r_s, r_t = plan.fouling[(tag, "shell")][idx], plan.fouling[(tag, "tube")][idx]
         if probe:
@@ -212,10 +228,36 @@ def _rate_all(plan, x, idx, probe=0.0):
             t_t = np.concatenate([t_t, t_t, t_t + probe])
             f_s, f_t, r_s, r_t = (np.tile(v, 3) for v in (f_s, f_t, r_s, r_t))
         t_t = np.where(t_s == t_t, t_t + 1e-9, t_t)  # equal inlets: no duty either way; rate() needs a difference
+        if m.is_air_cooler:
+            ratings[tag] = _rate_air(plan, tag, m, t_s, t_t, f_t, r_s, r_t, idx, 3 if probe else 1)
+            continue
         svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
                       tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
         ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
     return ratings
+
+
+def _rate_air(plan, tag, m, t_air, t_t, f_t, r_air, r_t, idx, blocks):
+    """Rate an air cooler of the train: its tube stream at the network's inlet, the air at the match's ambient
+    (``t_air``, the shell-side port, probed like a stream inlet), flow and fouling."""
+    from ..service_air import AirService
+
+    air = plan.air[tag]
+
+    def cases(v):
+        return None if v is None else np.tile(v[idx], blocks)
+
+    svc = AirService(tube=Stream(plan.train.streams[m.tube].fluid, f_t, t_t), air_in=t_air,
+                     air_flow=cases(air["air_flow"]), face_velocity=cases(air["face_velocity"]),
+                     altitude=air["altitude"], fouling_tube=r_t, fouling_air=r_air)
+    return rate(m.exchanger, svc)
+
+
+def _side_value(r, name):
+    """A rating's field by its shell-and-tube name; an air cooler's air answers for the shell side."""
+    if hasattr(r, "C_air"):
+        name = {"t_out_shell": "t_out_air", "C_shell": "C_air", "dp_shell": "dp_air"}.get(name, name)
+    return getattr(r, name)
 
 
 def _coefficients(ratings, x, plan, n, probe):
@@ -226,13 +268,13 @@ def _coefficients(ratings, x, plan, n, probe):
     """
     linear, newton = {}, {}
     for tag, r in ratings.items():
-        eps, cs, ct = (np.asarray(v, float)[:n] for v in (r.effectiveness, r.C_shell, r.C_tube))
+        eps, cs, ct = (np.asarray(v, float)[:n] for v in (r.effectiveness, _side_value(r, "C_shell"), r.C_tube))
         c_min = np.minimum(cs, ct)
         a_s, a_t = eps * c_min / cs, eps * c_min / ct
         zero = np.zeros(n)
         linear[tag] = (((1.0 - a_s, a_s), (a_t, 1.0 - a_t)), (zero, zero))
         if probe:
-            o_s, o_t = np.asarray(r.t_out_shell, float), np.asarray(r.t_out_tube, float)
+            o_s, o_t = np.asarray(_side_value(r, "t_out_shell"), float), np.asarray(r.t_out_tube, float)
             j = ((( o_s[n:2 * n] - o_s[:n]) / probe, (o_s[2 * n:] - o_s[:n]) / probe),
                  ((o_t[n:2 * n] - o_t[:n]) / probe, (o_t[2 * n:] - o_t[:n]) / probe))
             xs, xt = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
@@ -305,7 +347,7 @@ def _initial(plan):
     x = np.empty((plan.ncase, plan.n))
     for tag, m in plan.train.exchangers.items():
         for side in _SIDES:
-            t = plan.supply[getattr(m, side)]
+            t = plan.air[tag]["air_in"] if (m.is_air_cooler and side == "shell") else plan.supply[getattr(m, side)]
             x[:, plan.port(tag, side)] = t
             x[:, plan.port(tag, side, out=True)] = t
     return x
@@ -375,6 +417,9 @@ def _strip_probes(ratings, n):
         if np.size(r.duty) == n:
             out[tag] = r
             continue
+        if hasattr(r, "C_air"):
+            out[tag] = _cut_air(r, slice(0, n))
+            continue
         from ..rating import _SCALAR_FIELDS
 
         changes = {name: np.asarray(getattr(r, name))[:n] for name in _SCALAR_FIELDS}
@@ -394,9 +439,51 @@ def _strip_probes(ratings, n):
     return out
 
 
+def _cut_air(r, cut):
+    """An air cooler's rating of the flattened cases restricted to ``cut`` (a slice), its service and details too."""
+    changes = {name: np.asarray(getattr(r, name))[cut] for name in r._FRAME_FIELDS}
+    changes["resistances"] = r.resistances.iloc[cut].reset_index(drop=True)
+    detail = r.tube_side
+    if dataclasses.is_dataclass(detail):
+        size = np.size(r.duty)
+        changes["tube_side"] = dataclasses.replace(detail, **{
+            f.name: getattr(detail, f.name)[cut] for f in dataclasses.fields(detail)
+            if isinstance(getattr(detail, f.name), np.ndarray) and getattr(detail, f.name).shape[:1] == (size,)})
+    svc = r.service
+
+    def part(v):
+        return None if v is None else np.broadcast_to(np.asarray(v, float), np.shape(r.duty))[cut]
+
+    changes["service"] = svc.replace(tube=svc.tube.replace(flow=part(svc.tube.flow), t_in=part(svc.tube.t_in)),
+                                     air_in=part(svc.air_in), air_flow=part(svc.air_flow),
+                                     face_velocity=part(svc.face_velocity), fouling_tube=part(svc.fouling_tube),
+                                     fouling_air=part(svc.fouling_air))
+    return dataclasses.replace(r, **changes)
+
+
+def _reshape_air(r, shape):
+    """An air cooler's rating of the flattened cases brought back to the train's case shape."""
+    if shape != ():
+        return dataclasses.replace(r, **{name: np.asarray(getattr(r, name), float).reshape(shape)
+                                         for name in r._FRAME_FIELDS})
+    one = _cut_air(r, slice(0, 1))
+    changes = {name: float(np.asarray(getattr(one, name), float)[0]) for name in r._FRAME_FIELDS}
+    res = one.resistances
+    changes["resistances"] = pd.Series(res.to_numpy(float)[0], index=list(res.columns), name="resistance [m²K/W]")
+    svc = one.service
+    first = lambda v: None if v is None else float(np.ravel(v)[0])  # noqa: E731
+    changes["service"] = svc.replace(tube=svc.tube.replace(flow=first(svc.tube.flow), t_in=first(svc.tube.t_in)),
+                                     air_in=first(svc.air_in), air_flow=first(svc.air_flow),
+                                     face_velocity=first(svc.face_velocity), fouling_tube=first(svc.fouling_tube),
+                                     fouling_air=first(svc.fouling_air))
+    return dataclasses.replace(one, **changes)
+
+
 # ------------------------------------------------------------------------------------------------------ the result
 def _reshape_rating(r, shape, ncase):
     """A rating of the flattened cases brought back to the train's case shape (scalars for one case)."""
+    if hasattr(r, "C_air"):
+        return _reshape_air(r, shape)
     from ..rating import _SCALAR_FIELDS
 
     changes = {}
@@ -451,6 +538,21 @@ def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
     rows = {}
     for tag, m in train.exchangers.items():
         r = ratings[tag]
+        if m.is_air_cooler:  # the air is no stream: its own columns, the shell ones left empty (NaN)
+            svc = r.service
+            row = {"shell_stream": "", "tube_stream": m.tube, "kind": "air cooler"}
+            for col, v in (("duty", r.duty), ("t_in_air", svc.air_in), ("t_out_air", r.t_out_air),
+                           ("t_in_tube", svc.tube.t_in), ("t_out_tube", r.t_out_tube), ("flow_air", r.air_flow),
+                           ("flow_tube", svc.tube.flow), ("effectiveness", r.effectiveness), ("U_clean", r.U_clean),
+                           ("U_service", r.U_service), ("fouling_air", svc.fouling_air),
+                           ("fouling_tube", svc.fouling_tube), ("dp_air", r.dp_air), ("dp_tube", r.dp_tube),
+                           ("velocity_tube", r.velocity_tube), ("velocity_face", r.velocity_face),
+                           ("fan_power", r.fan_power)):
+                row[col] = np.broadcast_to(np.asarray(v, float), (nc,)) + nan
+            row["dp_max_tube"] = np.nan if m.dp_max_tube is None else m.dp_max_tube
+            rows[tag] = row
+            warnings += [f"{tag}: {w}" for w in r.warnings]
+            continue
         row = {"shell_stream": m.shell, "tube_stream": m.tube}
         for col, v in (("duty", r.duty), ("t_in_shell", r.service.shell.t_in), ("t_out_shell", r.t_out_shell),
                        ("t_in_tube", r.service.tube.t_in), ("t_out_tube", r.t_out_tube),

@@ -285,7 +285,8 @@ def compare_train(train: Train, options: dict, economics=None, revamp=None, thro
             for tag in options[label]:
                 r = base.ratings[tag]
                 new = cases[label].exchangers[tag]
-                svc = r.service.replace(fouling_shell=new.fouling_shell, fouling_tube=new.fouling_tube)
+                svc = (new.air.service(r.service.tube, new.fouling_tube) if new.is_air_cooler else
+                       r.service.replace(fouling_shell=new.fouling_shell, fouling_tube=new.fouling_tube))
                 iso[tag] = float(rate(new.exchanger, svc, shell_method=train.shell_method).duty - r.duty)
             isolated[label] = iso
     table = pd.DataFrame.from_dict(rows, orient="index")

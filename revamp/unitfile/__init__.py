@@ -112,7 +112,7 @@ def _validate(path, build: bool, only=None):
     for i, x in enumerate(exchangers):
         if _is_air_cooler(x):
             own: list = []
-            air[i] = build_air_cooler(i, x, own)
+            air[i] = build_air_cooler(i, x, own, base=base, network=doc.get("network"))
             own += _air_tag_rule(x, i, tags)
             problems += [p for p in own if p.path not in seen]
         elif isinstance(x, dict):  # a place already refused (e.g. a NUL in a file name) is not reported twice
@@ -144,8 +144,7 @@ def _validate(path, build: bool, only=None):
         case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ, refused=refused)
         if case is not None:  # built without its wrong options, which keep their problems
             built.append(dataclasses.replace(case, refused_options=tuple(p for p in problems if _owned([p], i))))
-    shell_tube = tuple(c for c in built if isinstance(c, ExchangerCase))  # a train of shell-and-tube matches only
-    network = build_network(si, doc, shell_tube, problems) if only is None else None
+    network = build_network(si, doc, tuple(built), problems) if only is None else None
     problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc,
@@ -257,6 +256,11 @@ def network_inlets(path, tag: str):
                             "own inlets from the unit file.")
     today, rev = services.today[tag], services.revamp[tag]
     c = lambda t: f"{float(t) - 273.15:.1f} °C"  # noqa: E731
+    if not hasattr(today, "shell"):  # an air cooler: its tube inlet from the train, the air its own
+        text = (f"Tube inlet from the train (network section), not the one written beside the air cooler: today "
+                f"{c(today.tube.t_in)}; at the revamp throughput (x{unit.network_throughput:g} on every stream) "
+                f"{c(rev.tube.t_in)}. The air is the air cooler's own (ambient {c(today.air_in)}).")
+        return today, rev, text
     text = (f"Inlets from the train (network section), not the ones written beside the exchanger: today shell "
             f"{c(today.shell.t_in)}, tube {c(today.tube.t_in)}; at the revamp throughput (x{unit.network_throughput:g} "
             f"on every stream) shell {c(rev.shell.t_in)}, tube {c(rev.tube.t_in)}.")

@@ -22,7 +22,15 @@ An entry as written in the unit file (YAML already read; values as the user wrot
         fan_efficiency: 0.65
         draft: forced
       tube_side: {fluid: {kind: constant, ...}, flow: 25 kg/s, t_in: 150 degC, fouling: 0.0003 m**2*K/W}
+      # in a network: tube_side: {stream: diesel, fouling: ...} (fluid, flow and t_in from network.streams.diesel)
       air_side: {t_in: 35 degC, flow: 420 kg/s, altitude: 300 m, fouling: 0.0001 m**2*K/W}   # or face_velocity
+      plant_data:                 # the fouling from the tube-side heat balance (revamp.monitoring_air_data)
+        file: plant/AC-101.csv
+        columns: {tube_t_out: {column: TI-310, unit: degC}, ...}   # timestamp, tube_flow, tube_t_in, tube_t_out,
+                                                                   # air_t_in; air_flow or fan_power when used
+        air_flow_from: stated     # or measured (an air_flow column), fan_power (a fan_power column, fan laws)
+        uncertainty: {air_flow: 15 %, temperature: 1 delta_degC}
+        steady: {window: 2 h, t_range: 4 delta_degC}               # and delimiter, decimal, timestamp_format, ...
       revamp: {throughput: 1.2}   # the tube-side flow at the revamp conditions, a factor on today's
       hot_day: {ambient: [20 degC, 30 degC, 40 degC, 45 degC], t_out_target: 60 degC}
       options:
@@ -44,7 +52,8 @@ from ..errors import InputError
 from ._model import Problem
 from ._reading import _show
 
-__all__ = ["AIR_COOLER_KIND", "AIR_COOLER_SCHEMA", "AirCoolerCase", "air_cooler_problems", "build_air_cooler"]
+__all__ = ["AIR_COOLER_KIND", "AIR_COOLER_SCHEMA", "AIR_PLANT_COLUMNS", "AirCoolerCase", "AirPlantData",
+           "air_cooler_problems", "build_air_cooler"]
 
 AIR_COOLER_KIND = "air cooler"
 
@@ -52,10 +61,20 @@ _GEOMETRY = {"bays", "bundles_per_bay", "tube_rows", "tubes_per_row", "tube_pass
              "tube_wall", "transverse_pitch", "row_pitch", "tube_material", "fin", "fans_per_bay", "fan_diameter",
              "fan_efficiency", "draft", "tube_roughness"}
 _FIN = {"height", "thickness", "per_length", "material", "bond", "bond_resistance"}
-_TUBE = {"fluid", "flow", "t_in", "fouling", "dp_allowed"}
+_TUBE = {"fluid", "flow", "t_in", "fouling", "dp_allowed", "stream"}
 _AIR = {"t_in", "flow", "face_velocity", "altitude", "fouling"}
 _HOT = {"ambient", "t_out_target"}
-_ENTRY = {"tag", "kind", "description", "geometry", "tube_side", "air_side", "revamp", "hot_day", "options"}
+_ENTRY = {"tag", "kind", "description", "geometry", "tube_side", "air_side", "revamp", "hot_day", "options",
+          "plant_data"}
+#: the keys of an air cooler's plant_data section
+_PLANT = {"file", "columns", "air_flow_from", "uncertainty", "steady", "delimiter", "decimal", "timestamp_format",
+          "dayfirst", "timezone"}
+_DIALECT = ("delimiter", "decimal", "timestamp_format", "dayfirst", "timezone")
+#: standard plant-data columns of an air cooler -> quantity kind (None: the timestamp)
+AIR_PLANT_COLUMNS = {"timestamp": None, "tube_flow": "mass_flow", "tube_t_in": "temperature",
+                     "tube_t_out": "temperature", "air_t_in": "temperature", "air_flow": "mass_flow",
+                     "fan_power": "power"}
+_AIR_FLOW_FROM = {"stated": None, "measured": "air_flow", "fan_power": "fan_power"}
 #: the largest throughput factor accepted (as for a shell-and-tube entry's revamp.throughput)
 MAX_THROUGHPUT = 10.0
 #: option ``type`` -> (class name, module, fields)
@@ -83,8 +102,12 @@ AIR_COOLER_SCHEMA = {
                                     "tube_material": _Q, "draft": {"enum": ["forced", "induced"]},
                                     "fin": {"type": "object", "additionalProperties": False,
                                             "properties": {k: _Q for k in _FIN}}}},
-        "tube_side": {"type": "object", "additionalProperties": False, "required": ["fluid", "flow", "t_in"],
-                      "properties": {"fluid": {"$ref": "#/$defs/fluid"}, **{k: _Q for k in _TUBE - {"fluid"}}}},
+        "tube_side": {"type": "object", "additionalProperties": False,
+                      "description": "The process stream: fluid, flow and t_in, or a stream of the network section "
+                                     "(stream: name), which gives those it leaves out.",
+                      "properties": {"fluid": {"$ref": "#/$defs/fluid"},
+                                     "stream": {"type": "string", "minLength": 1},
+                                     **{k: _Q for k in _TUBE - {"fluid", "stream"}}}},
         "air_side": {"type": "object", "additionalProperties": False, "required": ["t_in"],
                      "properties": {k: _Q for k in _AIR}},
         "revamp": {"type": "object", "additionalProperties": False, "required": ["throughput"],
@@ -94,8 +117,48 @@ AIR_COOLER_SCHEMA = {
                                    "t_out_target": _Q}},
         "options": {"type": "array", "items": {"type": "object", "required": ["type"],
                                                "properties": {"type": {"enum": sorted(_OPTIONS)}}}},
+        "plant_data": {
+            "type": "object", "additionalProperties": False, "required": ["file"],
+            "description": "Measured tube-side data and ambient: the fouling from the tube-side heat balance at a "
+                           "stated (or fan-power, or measured) air flow.",
+            "properties": {
+                "file": {"type": "string", "minLength": 1},
+                "columns": {"type": "object", "additionalProperties": False,
+                            "properties": {k: {"$ref": "#/$defs/column"} for k in AIR_PLANT_COLUMNS}},
+                "air_flow_from": {"enum": sorted(_AIR_FLOW_FROM)},
+                "uncertainty": {"type": "object", "additionalProperties": False,
+                                "properties": {"air_flow": _Q, "temperature": _Q}},
+                "steady": {"type": ["object", "boolean"], "additionalProperties": False,
+                           "properties": {"window": _Q, "flow_rsd": _Q, "t_range": _Q,
+                                          "min_rows": {"type": "integer", "minimum": 1}}},
+                "delimiter": {"enum": [",", ";", "\t", "|"]},
+                "decimal": {"enum": [".", ","]},
+                "timestamp_format": {"type": "string", "minLength": 2},
+                "dayfirst": {"type": "boolean"},
+                "timezone": {"type": "string", "minLength": 1},
+            },
+        },
     },
 }
+
+
+@dataclass(frozen=True)
+class AirPlantData:
+    """Where an air cooler's plant data is and how to read it (:func:`revamp.monitoring_air_data.monitor_air_data`).
+    """
+
+    file: object                    #: Path of the CSV file
+    columns: dict                   #: standard name -> (CSV column, unit or None)
+    air_flow_from: str = "stated"   #: "stated", "measured" or "fan_power"
+    uncertainty: dict = None        #: {"air_flow": relative [-], "temperature": [K]} (keys present if given)
+    steady: object = None           #: steady-state settings in SI, False for none, None: defaults
+    dialect: dict = None            #: CSV dialect settings given
+
+    def monitor_options(self) -> dict:
+        """Keyword arguments of :func:`revamp.monitoring_air_data.monitor_air_data` that this section gives."""
+        return {"columns": dict(self.columns), "air_flow_from": self.air_flow_from,
+                "uncertainty": dict(self.uncertainty or {}) or None, "steady": self.steady,
+                "dialect": dict(self.dialect or {})}
 
 
 @dataclass(frozen=True)
@@ -114,6 +177,9 @@ class AirCoolerCase:
     t_out_target: float | None = None
     dp_allowed_tube: float | None = None
     kind: str = AIR_COOLER_KIND
+    index: int = -1                 #: its place in the file's exchangers list
+    stream: str | None = None       #: the network stream in its tubes (tube_side.stream), None outside a network
+    plant_data: AirPlantData | None = None
 
 
 def _unknown(section: dict, allowed: set, where: str, problems: list):
@@ -180,8 +246,156 @@ def _quantity_problems(section: dict, name: str, where: str, problems: list):
                                     f"{low:g} (SI)"))
 
 
-def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
-    """Check and build ``exchangers[i]`` of ``kind: air cooler``; problems are appended (paths from the file)."""
+def _plant_data(pd, where: str, base, problems: list):
+    """Check and build an air cooler's ``plant_data`` section (None with problems, appended)."""
+    from ..units import to_si
+    from ._building import _csv_head, _safe_file
+
+    start = len(problems)
+    _unknown(pd, _PLANT, where, problems)
+    file = pd.get("file")
+    if not isinstance(file, str) or not file.strip():
+        problems.append(Problem(f"{where}.file", _show(file), "must be the path of a CSV file"))
+        return None
+    full, reason = _safe_file(file, base) if base is not None else (None, "must be read from a unit file")
+    if reason:
+        problems.append(Problem(f"{where}.file", file, reason))
+        return None
+    source = pd.get("air_flow_from", "stated")
+    if source not in _AIR_FLOW_FROM:
+        problems.append(Problem(f"{where}.air_flow_from", _show(source), f"must be one of {', '.join(_AIR_FLOW_FROM)}"))
+        source = "stated"
+    dialect = {k: pd[k] for k in _DIALECT if k in pd}
+    from ..monitoring.data import CsvDialect, dialect_problem
+
+    try:
+        CsvDialect.make(dialect)
+    except InputError as exc:
+        problems.append(Problem(f"{where}.{exc.field}", _show(exc.value), f"must be {exc.allowed}"))
+        dialect = {}
+    cols_given = pd.get("columns") or {}
+    if not isinstance(cols_given, dict):
+        problems.append(Problem(f"{where}.columns", _show(cols_given), "must be a mapping of standard name -> column"))
+        cols_given = {}
+    _unknown(cols_given, set(AIR_PLANT_COLUMNS), f"{where}.columns", problems)
+    need = ["timestamp", "tube_flow", "tube_t_in", "tube_t_out", "air_t_in"] + (
+        [_AIR_FLOW_FROM[source]] if _AIR_FLOW_FROM[source] else [])
+    columns = {}
+    for std in need:
+        spec = cols_given.get(std, std)
+        if isinstance(spec, str):
+            name, unit = spec, None
+            if std in cols_given and AIR_PLANT_COLUMNS[std] is not None:
+                example = {"temperature": "degC", "mass_flow": "t/h", "power": "kW"}[AIR_PLANT_COLUMNS[std]]
+                problems.append(Problem(f"{where}.columns.{std}", name, f"must give its unit: {{column: {name}, "
+                                        f"unit: {example}}} (a column without one is read in SI)"))
+        elif isinstance(spec, dict) and isinstance(spec.get("column"), str):
+            name, unit = spec["column"], spec.get("unit")
+            if unit is not None and AIR_PLANT_COLUMNS[std] is not None:
+                try:
+                    to_si(f"1 {unit}", AIR_PLANT_COLUMNS[std], "unit")
+                except InputError as exc:
+                    problems.append(Problem(f"{where}.columns.{std}.unit", _show(unit), f"must be {exc.allowed}"))
+            elif unit is not None:
+                problems.append(Problem(f"{where}.columns.{std}.unit", _show(unit), "must not be given for the "
+                                                                                      "timestamp"))
+        else:
+            problems.append(Problem(f"{where}.columns.{std}", _show(spec), "must be a column name or {column, unit}"))
+            continue
+        columns[std] = (name, unit)
+    unc = pd.get("uncertainty") or {}
+    uncertainty = {}
+    if not isinstance(unc, dict):
+        problems.append(Problem(f"{where}.uncertainty", _show(unc), "must be a mapping of air_flow, temperature"))
+        unc = {}
+    _unknown(unc, {"air_flow", "temperature"}, f"{where}.uncertainty", problems)
+    for key, kind, hi in (("air_flow", "dimensionless", 1.0), ("temperature", "temperature_difference", 50.0)):
+        if key in unc:
+            try:
+                v = to_si(unc[key], kind, key)
+            except InputError as exc:
+                problems.append(Problem(f"{where}.uncertainty.{key}", _show(unc[key]), f"must be {exc.allowed}"))
+                continue
+            if not (isinstance(v, float) and 0.0 < v < hi):
+                problems.append(Problem(f"{where}.uncertainty.{key}", _show(unc[key]), f"must be > 0 and < {hi:g} "
+                                                                                      "(SI)"))
+            else:
+                uncertainty[key] = v
+    steady = pd.get("steady")
+    if isinstance(steady, dict):
+        _unknown(steady, {"window", "flow_rsd", "t_range", "min_rows"}, f"{where}.steady", problems)
+        clean = {}
+        for key, kind in (("window", "time"), ("flow_rsd", "dimensionless"), ("t_range", "temperature_difference")):
+            if key in steady:
+                try:
+                    v = to_si(steady[key], kind, key)
+                except InputError as exc:
+                    problems.append(Problem(f"{where}.steady.{key}", _show(steady[key]), f"must be {exc.allowed}"))
+                    continue
+                if not (isinstance(v, float) and v > 0):
+                    problems.append(Problem(f"{where}.steady.{key}", _show(steady[key]), "must be one value > 0"))
+                else:
+                    clean[key] = v
+        if "min_rows" in steady:
+            m = steady["min_rows"]
+            if isinstance(m, bool) or not isinstance(m, int) or m < 1:
+                problems.append(Problem(f"{where}.steady.min_rows", _show(m), "must be a whole number >= 1"))
+            else:
+                clean["min_rows"] = m
+        steady = clean
+    elif steady is not None and not isinstance(steady, bool):
+        problems.append(Problem(f"{where}.steady", _show(steady), "must be true, false or a mapping of window, "
+                                                                  "flow_rsd, t_range, min_rows"))
+    if len(problems) > start:
+        return None
+    try:
+        header, rows, lines = _csv_head(full, dialect.get("delimiter", ","))
+    except ValueError as exc:
+        problems.append(Problem(f"{where}.file", file, str(exc)))
+        return None
+    except Exception as exc:  # unreadable: one line naming the file, never a traceback
+        problems.append(Problem(f"{where}.file", file, f"must be a readable UTF-8 CSV file "
+                                                       f"({exc.__class__.__name__}: {str(exc)[:80]})"))
+        return None
+    if not any(any(cell.strip() for cell in row) for row in rows):
+        problems.append(Problem(f"{where}.file", file, "must hold at least one data row below its header"))
+        return None
+    names = [name for name, _ in columns.values()]
+    if any(name not in header for name in names):
+        problem = dialect_problem(lines, names, dialect)
+        if problem is not None:
+            problems.append(Problem(f"{where}.delimiter", _show(pd.get("delimiter", ",")),
+                                    f"must be {problem.allowed}"))
+            return None
+        for std, (name, _) in columns.items():
+            if name not in header:
+                why = (f" (air_flow_from: {source} reads it)" if std == _AIR_FLOW_FROM[source] else "")
+                problems.append(Problem(f"{where}.columns.{std}", name,
+                                        f"must be a column of {file}{why} (it has: {', '.join(header)[:200]})"))
+        return None
+    return AirPlantData(file=full, columns=columns, air_flow_from=source, uncertainty=uncertainty,
+                        steady=steady, dialect=dialect)
+
+
+def _from_stream(tube: dict, network) -> dict:
+    """The tube side with the fluid, flow and inlet of its network stream where it gives none."""
+    name = tube.get("stream")
+    streams = network.get("streams") if isinstance(network, dict) else None
+    if not isinstance(name, str) or not isinstance(streams, dict) or not isinstance(streams.get(name), dict):
+        return tube
+    out = dict(tube)
+    for key in ("fluid", "flow", "t_in"):
+        if key not in out and key in streams[name]:
+            out[key] = streams[name][key]
+    return out
+
+
+def build_air_cooler(i: int, x: dict, problems: list, base=None, network=None) -> AirCoolerCase | None:
+    """Check and build ``exchangers[i]`` of ``kind: air cooler``; problems are appended (paths from the file).
+
+    ``base`` is the unit file's folder (for ``plant_data.file``); ``network`` the file's raw ``network`` section,
+    whose stream a ``tube_side.stream`` names (its fluid, flow and supply temperature fill the tube side where it
+    gives none; the network's own rules check the name)."""
     from .. import aircooler, options, options_air, service, service_air
     from ..units import to_si
     from ._building import _build_fluid
@@ -196,6 +410,8 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
         problems.append(Problem(f"{pre}.tag", _show(tag), "must be a non-empty name"))
     geo = _mapping(x, "geometry", pre, problems)
     tube = _mapping(x, "tube_side", pre, problems)
+    if tube is not None:
+        tube = _from_stream(tube, network)
     air = _mapping(x, "air_side", pre, problems)
     hot = _mapping(x, "hot_day", pre, problems, required=False)
     exchanger = svc = None
@@ -290,6 +506,10 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
     dp_allowed = None
     if tube is not None and tube.get("dp_allowed") is not None:
         dp_allowed = _guard(problems, f"{pre}.tube_side", lambda: to_si(tube["dp_allowed"], "pressure", "dp_allowed"))
+    plant = None
+    pd_spec = _mapping(x, "plant_data", pre, problems, required=False)
+    if pd_spec is not None:
+        plant = _plant_data(pd_spec, f"{pre}.plant_data", base, problems)
     if len(problems) > start or exchanger is None or svc is None:
         return None
     revamp_service = None
@@ -300,7 +520,9 @@ def build_air_cooler(i: int, x: dict, problems: list) -> AirCoolerCase | None:
             return None
     return AirCoolerCase(tag=tag, description=str(x.get("description", "")), exchanger=exchanger, service=svc,
                          options=tuple(opts), revamp_service=revamp_service, throughput=throughput,
-                         hot_day_ambient=ambient, t_out_target=target, dp_allowed_tube=dp_allowed)
+                         hot_day_ambient=ambient, t_out_target=target, dp_allowed_tube=dp_allowed, index=i,
+                         stream=tube.get("stream") if isinstance(tube.get("stream"), str) else None,
+                         plant_data=plant)
 
 
 def air_cooler_problems(i: int, x: dict) -> list[Problem]:

@@ -51,7 +51,9 @@ def cleaning_rules(doc: dict, si: dict) -> list[Problem]:
                                                  "fired fuel)")]
     out = []
     on_routes = _network_tags(net)
-    with_data = {x.get("tag") for x in doc.get("exchangers") or [] if isinstance(x, dict) and x.get("plant_data")}
+    with_data = {x.get("tag") for x in doc.get("exchangers") or [] if isinstance(x, dict) and x.get("plant_data")
+                 and x.get("kind") != "air cooler"}  # an air cooler's bundle is not on the plan (no fired fuel)
+    air = {x.get("tag") for x in doc.get("exchangers") or [] if isinstance(x, dict) and x.get("kind") == "air cooler"}
     given = sec.get("exchangers")
     if given is None:
         if not (on_routes & with_data):
@@ -63,9 +65,9 @@ def cleaning_rules(doc: dict, si: dict) -> list[Problem]:
         out.append(Problem("cleaning.exchangers", "{}", "must name at least one exchanger of the network"))
     for tag, x in (given or {}).items():
         where = ["cleaning", "exchangers", tag]
-        if tag not in on_routes:
-            out.append(Problem(_path(where), _show(tag), f"must be an exchanger on a route of the network "
-                                                          f"({', '.join(sorted(on_routes))})"))
+        if tag not in on_routes or tag in air:
+            out.append(Problem(_path(where), _show(tag), f"must be a shell-and-tube exchanger on a route of the "
+                                                          f"network ({', '.join(sorted(on_routes - air))})"))
             continue
         f = (x or {}).get("fouling") if isinstance(x, dict) else None
         if not isinstance(f, dict):
@@ -98,7 +100,8 @@ def cleaning_inputs(unit, mc_draws: int = 0) -> dict:
     tags = [t for t in unit.network.exchangers]
     given = sec.get("exchangers")
     if given is None:
-        given = {x.tag: {} for x in unit.exchangers if x.tag in tags and x.plant_data is not None}
+        given = {x.tag: {} for x in unit.exchangers if x.tag in tags and getattr(x, "plant_data", None) is not None
+                 and getattr(x, "kind", None) != "air cooler"}
     fouling, costs, sides = {}, {}, {}
     default_cost = sec.get("cleaning_cost", econ.cleaning_cost if econ.cleaning_cost is not None else 0.0)
     for tag, x in given.items():

@@ -192,7 +192,7 @@ def build_network(si: dict, doc: dict, cases: tuple, problems: list):
     if not isinstance(doc.get("network"), dict) or not isinstance(net, dict):
         return None
     from ..service import Stream
-    from ..train import Furnace, Match, Point, Split, Train
+    from ..train import AirSide, Furnace, Match, Point, Split, Train
     from ._building import _build_fluid, _guard
 
     start = len(problems)
@@ -217,6 +217,12 @@ def build_network(si: dict, doc: dict, cases: tuple, problems: list):
                 pumps[name] = curve
     matches = {}
     for tag, case in by_tag.items():
+        if getattr(case, "kind", None) == "air cooler":  # one stream (its tubes); the air is the match's own
+            if case.stream is not None:
+                matches[tag] = _guard(problems, f"exchangers[{case.index}]", lambda c=case: Match(
+                    c.exchanger, tube=c.stream, fouling_tube=c.service.fouling_tube, dp_max_tube=c.dp_allowed_tube,
+                    air=AirSide.of(c.service)))
+            continue
         sides = {side: (case.raw.get(f"{side}_side") or {}).get("stream") for side in ("shell", "tube")}
         if not all(sides.values()):
             if any(sides.values()):
@@ -288,6 +294,8 @@ def train_options(unit):
     cases, capex = {}, {}
     for tag in network.exchangers:
         case = unit.exchanger(tag)
+        if getattr(case, "kind", None) == "air cooler":  # a rundown cooler saves no fuel: its options are judged
+            continue                                      # in its own study, at the inlet the train gives it
         for opt in case.options:
             label = f"{tag}: {opt.label}"
             cases[label] = {tag: opt}
