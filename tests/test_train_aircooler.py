@@ -335,3 +335,20 @@ def test_cleaning_plan_refuses_an_air_cooler_by_path(tmp_path):
     assert "shell-and-tube" in mine[0].message
     del doc["cleaning"]["exchangers"]["AC-1"]
     assert unitfile.check(write(tmp_path, doc)) == []
+
+
+def test_an_air_coolers_shell_side_cannot_be_drawn_or_scheduled():
+    """An air cooler has no shell side: a Monte Carlo draw on it, or a cleaning plan for it, is refused by path
+    (common practice, no source: the input names what it cannot mean)."""
+    from revamp.cleaning import schedule_cleaning
+    from revamp.fouling.growth import Linear
+    from revamp.train.montecarlo import monte_carlo
+
+    train = make_train()
+    with pytest.raises(InputError) as err:
+        monte_carlo(train, 10, {"AC-1.fouling_shell": 0.2})
+    assert "uncertainty['AC-1.fouling_shell']" in str(err.value) and "no shell side" in str(err.value)
+    with pytest.raises(InputError) as err:
+        schedule_cleaning(train.replace(furnace=rv.train.Furnace("crude", "360 degC", 0.85)),
+                          {"AC-1": Linear("1e-10 m**2*K/W/s")})
+    assert "fouling['AC-1']" in str(err.value)

@@ -279,6 +279,9 @@ def schedule_cleaning(train, fouling, horizon="3 yr", period="1 week", cleaning_
     for tag in tags:
         if tag not in train.exchangers:
             raise InputError(f"fouling[{tag!r}]", tag, f"one of the exchangers {sorted(train.exchangers)}")
+        if train.exchangers[tag].is_air_cooler:
+            raise InputError(f"fouling[{tag!r}]", tag, "a shell-and-tube exchanger of the train (an air cooler's "
+                             "cleaning is not planned here: see its own report's fin-cleaning option)")
     res_val = require(float(to_si(residual, "fouling", "residual")), "residual", ge=0)
     laws = tuple(growth_law(fouling[t], f"fouling[{t!r}]", residual=res_val) for t in tags)
     if not isinstance(crews, (int, np.integer)) or isinstance(crews, bool) or crews < 1:

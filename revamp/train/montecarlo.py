@@ -61,6 +61,9 @@ def _parse(train, uncertainty):
         elif what in ("fouling_shell", "fouling_tube"):
             if owner not in train.exchangers:
                 raise InputError(f"uncertainty[{path!r}]", owner, f"one of the exchangers {sorted(train.exchangers)}")
+            if what == "fouling_shell" and train.exchangers[owner].is_air_cooler:
+                raise InputError(f"uncertainty[{path!r}]", what, "fouling_tube: an air cooler has no shell side (its "
+                                 "air-side fouling is set by its AirSide)")
         else:
             raise InputError(f"uncertainty[{path!r}]", what, "flow, t_in, fouling_shell or fouling_tube")
         kind = "temperature_difference" if what == "t_in" else "dimensionless"
