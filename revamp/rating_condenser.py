@@ -1,0 +1,669 @@
+"""Rating of a condenser, zone by zone along the condensing curve (layer 5).
+
+:func:`rate_condenser` (reached through :func:`revamp.rate` when a stream is vapour or two-phase) rates a
+shell-and-tube exchanger with condensation on the shell or the tube side, or an air cooler condensing in its tubes.
+It does not use one mean coefficient over the whole duty: the condensing stream's path is cut into zones
+(desuperheating of the vapour, condensation along the curve, subcooling of the condensate) and each zone into
+increments of heat released. For each increment it takes
+
+1. the duty of the increment (flow x heat released, from the curve);
+2. the local condensing film (:mod:`revamp.correlations.condensation`: Nusselt with Kern's row correction and the
+   vapour-shear form on a shell-side bundle, Shah / stratified Nusselt inside tubes, the Bell & Ghaly correction of a
+   mixture's vapour-phase resistance), or the single-phase vapour/condensate film in the desuperheating and
+   subcooling zones, and the coolant film at its local temperature, both from the exchanger's model
+   (:func:`revamp.exchanger.model_of`);
+3. the local overall coefficient through the model's network of resistances (its own layers);
+4. the local temperature difference and from it the area the increment needs.
+
+The areas are summed along the path until the exchanger's area is used up: that point gives the duty, the outlet
+temperature and quality of the condensing stream and the coolant outlet. The two-phase frictional pressure drop is
+integrated along the path (:mod:`revamp.correlations.two_phase`, the default method stated there), and the
+saturation-temperature drop it causes is fed back into the curve (it matters at vacuum).
+
+Flow arrangement (stated, screening level): in a shell-and-tube exchanger the coolant meets the increments in
+counterflow (the coolant leaves where the vapour enters), the usual assumption of a zone analysis (Bell & Ghaly
+1973; Serth & Lestina 2014, ch. 11). Where the condensing temperature is constant (a pure fluid) this is exact for
+any arrangement; where it changes (desuperheating, subcooling, a mixture's glide) multi-pass coolant makes it
+optimistic, and the rating says so. In an air cooler every increment meets air at the ambient temperature (air in
+crossflow, unmixed across the bundle), which is exact for isothermal condensation with a uniform coefficient.
+
+References
+----------
+Bell, K. J., Ghaly, M. A. (1973). An approximate generalized design method for multicomponent/partial condensers.
+*AIChE Symp. Ser.* 69(131):72-79.
+Kern, D. Q. (1950). *Process Heat Transfer*, McGraw-Hill, ch. 12 (condensation of single vapours; the shell-side
+pressure drop of a condensing vapour).
+Serth, R. W., Lestina, T. G. (2014). *Process Heat Transfer: Principles and Applications*, 2nd ed., Academic Press,
+ch. 11 (condensers: zone and incremental analysis).
+Butterworth, D. (1983). Film condensation of pure vapor. *Heat Exchanger Design Handbook* §2.6.2, Hemisphere.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from . import thermal
+from ._arrays import as_out
+from .correlations import air as air_corr
+from .correlations import condensation as cond
+from .correlations import two_phase
+from .errors import InputError
+from .rating_result import ResultFrames
+from .service import Service, Stream
+
+__all__ = ["CondenserRating", "ZONES", "condensing_pressure_for", "CondensingPressure", "is_condensing",
+           "rate_condenser"]
+
+#: The zones along a condensing stream's path, in order.
+ZONES = ("desuperheating", "condensing", "subcooling")
+
+#: Increments per zone (the condensing zone's curvature in U and temperature difference is resolved to well below
+#: a percent of area with this many; tested against a finer cut).
+INCREMENTS = 16
+
+_G = 9.80665  # standard gravity [m/s²]
+_BISECTIONS = 48
+_OUTER = 3  # passes of the pressure-drop / saturation-temperature feedback
+
+
+def is_condensing(service) -> bool:
+    """True when a service carries a vapour or two-phase stream (the rating is then a condenser rating)."""
+    for side in ("shell", "tube"):
+        s = getattr(service, side, None)
+        if isinstance(s, Stream) and s.condensing:
+            return True
+    return False
+
+
+# ------------------------------------------------------------------------------------------------------ the result
+_FIELDS = {
+    "duty": ("W", "heat duty"),
+    "t_out_condensing": ("K", "condensing-stream outlet temperature"),
+    "quality_out": ("-", "condensing-stream outlet vapour fraction"),
+    "t_out_coolant": ("K", "coolant outlet temperature"),
+    "U_service": ("W/m²K", "overall coefficient in service (area-weighted resistance)"),
+    "U_clean": ("W/m²K", "overall coefficient clean (area-weighted resistance)"),
+    "dp_condensing": ("Pa", "condensing-side pressure drop"),
+    "dp_coolant": ("Pa", "coolant-side pressure drop"),
+    "dt_sat_drop": ("K", "saturation-temperature drop caused by the condensing-side pressure drop"),
+    "condensed": ("kg/s", "vapour condensed"),
+}
+
+
+@dataclass(frozen=True)
+class CondenserRating(ResultFrames):
+    """The result of rating a condenser. SI; arrays of the service's broadcast shape for sweeps.
+
+    Attributes
+    ----------
+    duty : heat duty [W]
+    condensing_side, coolant_side : the side names (``"shell"``/``"tube"``, or ``"tube"``/``"air"``)
+    t_out_condensing, quality_out : outlet temperature [K] and vapour fraction [-] of the condensing stream (1.0
+        while the outlet is still in the desuperheating zone, 0.0 once subcooled)
+    t_out_coolant : coolant outlet temperature [K] (air: mixed outlet)
+    t_out_shell, t_out_tube, t_out_air : the same outlets under the side names (None for a side the kind lacks)
+    quality_out_shell, quality_out_tube : the outlet vapour fraction under the condensing side's name (None on the
+        other side)
+    U_service, U_clean : the reciprocal of the area-weighted mean total resistance, in service and clean [W/m²K] on
+        the exchanger's area basis (the layers of :attr:`resistances` sum to ``1/U_service``)
+    dp_condensing, dp_coolant : pressure drops [Pa] (also as ``dp_<side>``)
+    dt_sat_drop : drop of the saturation temperature between inlet and outlet caused by the condensing-side pressure
+        drop [K]
+    condensed : vapour condensed [kg/s]
+    area : the exchanger's area (the basis of U) [m²]
+    zones : DataFrame, one row per zone (and case): ``case``, ``zone``, ``duty`` [W], ``area`` [m²],
+        ``area_share`` [-], ``U`` [W/m²K] (area-weighted within the zone), ``t_in``/``t_out`` of the condensing
+        stream and ``t_coolant_in``/``t_coolant_out`` [K], ``x_in``/``x_out`` [-], ``dp`` [Pa]
+    increments : DataFrame, one row per increment: the local state (``x``, ``T``, ``T_coolant``, ``h_condensing``,
+        ``h_coolant``, ``U``, ``dT``, ``duty``, ``area``, ``length``, ``dp``, ``G``) for checks and plots
+    resistances : Series (one case) or DataFrame of the model's layers [m²K/W], area-weighted means
+    layers : the layer names (from the exchanger's model)
+    warnings : tuple of str
+    exchanger, service : the inputs
+    """
+
+    duty: object
+    t_out_condensing: object
+    quality_out: object
+    t_out_coolant: object
+    U_service: object
+    U_clean: object
+    dp_condensing: object
+    dp_coolant: object
+    dt_sat_drop: object
+    condensed: object
+    area: float
+    condensing_side: str
+    coolant_side: str
+    zones: object = field(repr=False)
+    increments: object = field(repr=False)
+    resistances: object = field(repr=False)
+    layers: tuple = ()
+    t_out_shell: object = None
+    t_out_tube: object = None
+    t_out_air: object = None
+    quality_out_shell: object = None
+    quality_out_tube: object = None
+    dp_shell: object = None
+    dp_tube: object = None
+    dp_air: object = None
+    warnings: tuple = ()
+    exchanger: object = field(default=None, repr=False)
+    service: object = field(default=None, repr=False)
+
+    _FRAME_FIELDS = tuple(_FIELDS)
+
+
+# ------------------------------------------------------------------------------------------------------ helpers
+def _curve_of(fluid):
+    """The condensing curve of a stream's fluid (a curve as it is; a pure CoolProp fluid at its pressure)."""
+    if all(hasattr(fluid, a) for a in ("t_dew", "t_bubble", "q", "T", "x")):
+        return fluid
+    from .fluids import condensing
+
+    return condensing(fluid)
+
+
+def _cum_trapz(y, x):
+    out = np.zeros_like(np.asarray(x, dtype=float))
+    out[1:] = np.cumsum(0.5 * (y[1:] + y[:-1]) * np.diff(x))
+    return out
+
+
+@dataclass(frozen=True)
+class _Path:
+    """The condensing stream's path, the same for every case: heat released per kg ``s`` [J/kg] from the inlet
+    against temperature, vapour fraction and zone (0, 1, 2)."""
+
+    s: np.ndarray
+    T: np.ndarray
+    x: np.ndarray
+    bounds: tuple  # s at the end of desuperheating and at the end of condensation [J/kg]
+    t_floor: float
+
+    def T_at(self, s):
+        return np.interp(s, self.s, self.T)
+
+    def x_at(self, s):
+        return np.interp(s, self.s, self.x)
+
+    def s_at_T(self, T):
+        """Heat released [J/kg] down to a temperature in the subcooling zone (past the bubble point)."""
+        s2 = self.bounds[1]
+        sub = self.s >= s2
+        return np.interp(-np.asarray(T, dtype=float), -self.T[sub], self.s[sub])
+
+
+def _path(curve, t_in, x_in, t_floor) -> _Path:
+    """Tabulate the path from the inlet (vapour at ``t_in`` or two-phase at ``x_in``) down to ``t_floor``."""
+    q, Tc, xc = (np.asarray(a, dtype=float) for a in (curve.q, curve.T, curve.x))
+    parts_s, parts_T, parts_x = [], [], []
+    s0 = 0.0
+    if x_in is None and t_in > curve.t_dew + 1e-9:  # desuperheating: cp of the vapour integrated
+        Tg = np.linspace(t_in, curve.t_dew, 41)
+        cp = np.asarray(curve.vapour.props(Tg).heat_capacity, dtype=float) * np.ones_like(Tg)
+        sg = _cum_trapz(cp, -Tg)
+        parts_s.append(sg), parts_T.append(Tg), parts_x.append(np.ones_like(Tg))
+        s0 = float(sg[-1])
+    s1 = s0
+    xin = 1.0 if x_in is None else float(x_in)
+    order = np.argsort(xc)
+    q_in = float(np.interp(xin, xc[order], q[order]))
+    qg = np.unique(np.concatenate((np.linspace(q_in, q[-1], 81), q[(q > q_in) & (q < q[-1])])))
+    Tq, xq = curve.at(qg)
+    parts_s.append(s1 + qg - q_in), parts_T.append(np.asarray(Tq, dtype=float) * np.ones_like(qg))
+    parts_x.append(np.asarray(xq, dtype=float) * np.ones_like(qg))
+    s2 = s1 + float(q[-1]) - q_in
+    t_b = float(curve.t_bubble)
+    t_floor = min(t_floor, t_b - 1e-3)
+    Tl = np.linspace(t_b, t_floor, 61)
+    cpl = np.asarray(curve.liquid.props(np.clip(Tl, curve.liquid.t_min, t_b - 1e-6)).heat_capacity, dtype=float)
+    sl = s2 + _cum_trapz(cpl * np.ones_like(Tl), -Tl)
+    parts_s.append(sl), parts_T.append(Tl), parts_x.append(np.zeros_like(Tl))
+    s = np.concatenate(parts_s)
+    keep = np.concatenate(([True], np.diff(s) > 0))
+    return _Path(s=s[keep], T=np.concatenate(parts_T)[keep], x=np.concatenate(parts_x)[keep], bounds=(s1, s2),
+                 t_floor=t_floor)
+
+
+# ------------------------------------------------------------------------------------------------------ the engine
+def _sides(model, service):
+    """(condensing side, its stream, coolant side, coolant stream or None for air, fouling by side)."""
+    kind = model.kind
+    if kind == "air cooler":
+        from .service_air import AirService
+
+        if not isinstance(service, AirService):
+            raise InputError("service", service, "a revamp.AirService(tube=Stream(vapour, flow, quality=...), "
+                             "air_in=..., air_flow=...)")
+        if not service.tube.condensing:
+            raise InputError("service.tube", service.tube, "a vapour or two-phase stream (quality= or "
+                             "phase='vapour') for a condenser rating")
+        return "tube", service.tube, "air", None, {"tube": service.fouling_tube, "air": service.fouling_air}
+    if not isinstance(service, Service):
+        raise InputError("service", service, "a revamp.Service(shell=Stream(...), tube=Stream(...))")
+    c_shell, c_tube = service.shell.condensing, service.tube.condensing
+    if c_shell and c_tube:
+        raise InputError("service.tube", service.tube, "a single-phase coolant (only one side may condense)")
+    if not (c_shell or c_tube):
+        raise InputError("service", service, "a vapour or two-phase stream on one side for a condenser rating")
+    side, other = ("shell", "tube") if c_shell else ("tube", "shell")
+    return side, getattr(service, side), other, getattr(service, other), {
+        "shell": service.fouling_shell, "tube": service.fouling_tube}
+
+
+def _layer_index(model, side):
+    return 0 if side == model.sides[0] else len(model.layers) - 1
+
+
+def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) -> CondenserRating:
+    """Rate a condenser zone by zone: duty, outlets, zones, pressure drops.
+
+    Parameters
+    ----------
+    exchanger : revamp.ShellAndTube or revamp.AirCooler
+    service : revamp.Service (one side vapour or two-phase, the other a single-phase coolant) or revamp.AirService
+        (a vapour or two-phase tube stream). Coolant flow and inlet, condensing flow and fouling may be arrays (they
+        broadcast); the condensing stream has one inlet temperature and quality.
+    increments : int
+        Increments per zone (default :data:`INCREMENTS`).
+    **methods
+        Passed to :func:`revamp.exchanger.model_of` (e.g. ``shell_method``).
+
+    Returns
+    -------
+    CondenserRating
+
+    Raises
+    ------
+    InputError
+        A service of the wrong kind for the exchanger, two condensing sides or none, a coolant that is not a
+        liquid at its inlet, a coolant inlet at or above the condensing inlet in a single case.
+
+    Notes
+    -----
+    Coolant properties at each increment's local temperature; the condensing film and the wall iterate locally
+    (Nusselt's film coefficient depends on the film temperature difference). The coolant's heat balance uses its
+    heat capacity at the mean of its inlet and outlet, so the balance between the streams is exact at that value.
+    The shell-side condensing pressure drop is Kern's (1950) rule, half the pressure drop of the inlet vapour at
+    the whole flow (screening); inside tubes the two-phase frictional gradient of
+    :mod:`revamp.correlations.two_phase` (its default method) is integrated along the path. The pressure drop
+    lowers the saturation temperature along the path (pure fluid: exact at the outlet pressure; a curve shifted as
+    :meth:`CondensingFluid.at_pressure` states), distributed along the path in proportion to the accumulated
+    pressure drop, and the rating is repeated with it.
+
+    References
+    ----------
+    Bell & Ghaly (1973); Kern (1950); Serth & Lestina (2014), ch. 11 (see the module).
+    """
+    from .exchanger import model_of
+
+    increments = int(increments)
+    if increments < 2:
+        raise InputError("increments", increments, "an integer >= 2")
+    model = model_of(exchanger, **methods)
+    c_side, stream, k_side, coolant, fouling = _sides(model, service)
+    curve = _curve_of(stream.fluid)
+    bundle = model.bundle
+    n_par = float(model.n_parallel)
+    area_unit = float(model.area) / n_par
+    air = k_side == "air"
+
+    # ---- the cases (flat)
+    if air:
+        air_given = service.air_flow if service.air_flow is not None else service.face_velocity
+        arrays = (stream.flow, service.air_in, air_given, service.fouling_tube, service.fouling_air)
+    else:
+        arrays = (stream.flow, coolant.flow, coolant.t_in, fouling["shell"], fouling["tube"])
+    try:
+        shape = np.broadcast_shapes(*(np.shape(a) for a in arrays))
+    except ValueError:
+        raise InputError("service", f"arrays of shapes {[np.shape(a) for a in arrays]}",
+                         "arrays that broadcast together (numpy rules)") from None
+    n = int(np.prod(shape, dtype=int))
+
+    def flat(v):
+        return np.array(np.broadcast_to(np.asarray(v, dtype=float), shape), dtype=float).reshape(n)
+
+    m_h = flat(stream.flow) / n_par  # condensing stream, one parallel unit [kg/s]
+    if air:
+        p_air = air_corr.pressure_at_altitude(service.altitude)
+        tc_in = flat(service.air_in)
+        if service.air_flow is not None:
+            m_c = flat(service.air_flow) / n_par
+        else:
+            rho_in = p_air / (air_corr.R_AIR * tc_in)
+            m_c = flat(service.face_velocity) * rho_in * exchanger.face_area
+        c_fluid = None
+    else:
+        tc_in = flat(coolant.t_in)
+        m_c = flat(coolant.flow) / n_par
+        c_fluid = coolant.fluid
+    rf = {s: flat(v) for s, v in fouling.items()}
+    rf_outer, rf_inner = rf[model.sides[0]], rf[model.sides[1]]
+    t_h_in = float(stream.t_in)
+    x_in = stream.quality
+    if not air:
+        bad = (tc_in < c_fluid.t_min) | (tc_in >= c_fluid.t_max)
+        if np.any(bad):
+            raise InputError(f"service.{k_side}.t_in", float(tc_in[bad][0]),
+                             f"within the coolant's liquid range {c_fluid.t_min:.1f}..{c_fluid.t_max:.1f} K")
+    hot = tc_in < t_h_in
+    if shape == () and not hot[0]:
+        raise InputError(f"service.{k_side}.t_in", float(tc_in[0]), f"below the condensing stream's inlet "
+                         f"{t_h_in:.2f} K (a coolant)")
+    tc_low = float(np.min(tc_in))
+    path = _path(curve, t_h_in, x_in, max(tc_low, float(curve.liquid.t_min)))
+    s1, s2 = path.bounds
+
+    # geometry of the condensing path
+    d_o, d_i = float(bundle.d_o), float(bundle.d_i)
+    tube_cond = c_side != model.sides[0]  # condensing inside the tubes
+    n_tpp = float(bundle.tubes_per_pass)
+    flow_area_tube = n_tpp * np.pi * d_i ** 2 / 4.0
+    path_length = float(bundle.passes) * float(bundle.length)
+    area_per_length = area_unit / path_length  # m² of the basis per m of path
+    rows = float(bundle.rows_vertical)
+    p_crit = float(curve.critical_pressure)
+    latent = float(curve.latent)
+    i_c, i_k = _layer_index(model, c_side), _layer_index(model, k_side)
+    warnings: list[str] = []
+
+    def coolant_props(T):
+        if air:
+            return air_corr.air_properties(T, pressure=p_air)
+        return c_fluid.props(np.clip(T, c_fluid.t_min, c_fluid.t_max - 1e-6 * c_fluid.t_max))
+
+    # the coolant's heat capacity rate, per case (at the mean of inlet and outlet; updated in the search)
+    cp_c = np.asarray(coolant_props(tc_in).heat_capacity, dtype=float) * np.ones(n)
+    # the limits of the path: down to the coolant inlet; the coolant up to the condensing inlet (or its boiling)
+    s_cold = np.minimum(path.s_at_T(np.maximum(tc_in, path.t_floor)), path.s[-1])
+    t_c_cap = t_h_in if air else min(t_h_in, c_fluid.t_max * (1 - 1e-6))
+    s_max = np.where(hot, s_cold, 0.0)
+    if not air:
+        s_max = np.minimum(s_max, m_c * cp_c * np.maximum(t_c_cap - tc_in, 0.0) / m_h)
+
+    k = increments
+    frac = np.arange(k + 1) / k
+    q_in = _q_in(curve, x_in)
+
+    def evaluate(s_out, dtsat, cp_c, detail=False):
+        """Area one unit needs to release ``s_out`` per kg (per case), with the saturation-drop profile."""
+        starts = np.array([0.0, s1, s2])
+        ends = np.array([s1, s2, np.inf])
+        a = np.minimum(starts[None, :], s_out[:, None])
+        b = np.minimum(ends[None, :], s_out[:, None])
+        nodes = a[:, :, None] + (b - a)[:, :, None] * frac  # (n, 3, k+1)
+        Th = path.T_at(nodes) - dtsat(nodes)
+        if air:
+            Tc = np.broadcast_to(tc_in[:, None, None], nodes.shape)
+        else:
+            Tc = tc_in[:, None, None] + (m_h / (m_c * cp_c))[:, None, None] * (s_out[:, None, None] - nodes)
+        ds = nodes[..., 1:] - nodes[..., :-1]
+        s_mid = 0.5 * (nodes[..., 1:] + nodes[..., :-1])
+        Th_m, Tc_m = 0.5 * (Th[..., 1:] + Th[..., :-1]), 0.5 * (Tc[..., 1:] + Tc[..., :-1])
+        shp = s_mid.shape
+        N = s_mid.size
+
+        def per_case(v):
+            return np.broadcast_to(np.asarray(v, dtype=float)[:, None, None], shp).reshape(N)
+
+        z = np.broadcast_to(np.arange(3)[None, :, None], shp).reshape(N)
+        mh, mc, ro, ri = per_case(m_h), per_case(m_c), per_case(rf_outer), per_case(rf_inner)
+        xm, thm, tcm, sm = path.x_at(s_mid).reshape(N), Th_m.reshape(N), Tc_m.reshape(N), s_mid.reshape(N)
+        ones = np.ones(N)
+        # coolant film at its local temperature
+        pc = coolant_props(tcm)
+        fc = model.film(k_side, mc, pc)
+        h_k = np.asarray(fc.h, dtype=float) * ones
+        # condensing side: condensate and vapour properties at the local temperature
+        pl = curve.liquid.props(np.clip(thm, curve.liquid.t_min, curve.t_bubble * (1 - 1e-9)))
+        pv = curve.vapour.props(thm)
+        rho_l, mu_l, k_l, cp_l = (np.asarray(v, dtype=float) * ones for v in
+                                  (pl.density, pl.viscosity, pl.conductivity, pl.heat_capacity))
+        rho_v, mu_v = (np.asarray(v, dtype=float) * ones for v in (pv.density, pv.viscosity))
+        # single-phase films of the condensing side: the vapour (desuperheating; Bell-Ghaly's h_g at the local
+        # vapour flow) and the condensate (subcooling)
+        m_v = np.maximum(mh * np.where(z == 0, 1.0, xm), 1e-9 * mh)
+        fv = model.film(c_side, m_v, pv)
+        fl = model.film(c_side, mh, pl)
+        h_v = np.asarray(fv.h, dtype=float) * ones
+        h_l = np.asarray(fl.h, dtype=float) * ones
+        u_v = np.asarray(fv.velocity, dtype=float) * ones
+        G = mh / flow_area_tube
+        Z = np.asarray(curve.z_factor(np.clip(sm - s1 + q_in, 0.0, latent)), dtype=float) * ones
+        dT_loc = np.maximum(thm - tcm, 1e-9)
+        dtf = 0.5 * dT_loc  # film temperature difference of the condensing film, iterated
+        for _ in range(8):
+            if tube_cond:
+                h_f = cond_tube(G, xm, d_i, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf)
+            else:
+                h_f = cond_shell(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v)
+            h_f = np.asarray(h_f, dtype=float) * ones
+            h_eff = 1.0 / (1.0 / h_f + Z / h_v)  # Silver (1947), Bell & Ghaly (1973)
+            h_c = np.where(z == 1, h_eff, np.where(z == 0, h_v, h_l))
+            h_outer, h_inner = (h_c, h_k) if i_c == 0 else (h_k, h_c)
+            R = model.network(h_outer, h_inner, ro, ri, 0.5 * (thm + tcm))
+            R = [np.asarray(r, dtype=float) * ones for r in R]
+            Rt = sum(R)
+            dtf_new = dT_loc * R[i_c] / Rt
+            done = np.allclose(dtf_new, dtf, rtol=1e-5, atol=1e-9)
+            dtf = dtf_new
+            if done:
+                break
+        U = 1.0 / Rt
+        dQ = mh * ds.reshape(N)
+        if air:
+            Ga = mc * np.asarray(pc.heat_capacity, dtype=float) / area_unit  # air capacity per m² of basis [W/m²K]
+            with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+                dA = dQ / ((thm - tcm) * Ga * -np.expm1(-U / Ga))
+            dA = np.where(thm > tcm, dA, np.inf)
+        else:
+            lm = thermal.lmtd_kernel((Th[..., :-1] - Tc[..., :-1]).reshape(N), (Th[..., 1:] - Tc[..., 1:]).reshape(N))
+            with np.errstate(divide="ignore", invalid="ignore"):
+                dA = np.where(lm > 0, dQ / (U * lm), np.inf)
+        dA = np.where(dQ > 0, dA, 0.0)
+        A = dA.reshape(shp).sum(axis=(1, 2))
+        if not detail:
+            return A
+        return dict(A=A, dA=dA.reshape(shp), dQ=dQ.reshape(shp), U=U.reshape(shp), R=[r.reshape(shp) for r in R],
+                    Th=Th, Tc=Tc, x=xm.reshape(shp), x_nodes=path.x_at(nodes), h_c=h_c.reshape(shp),
+                    h_k=h_k.reshape(shp), G=G.reshape(shp), rho_l=rho_l.reshape(shp), rho_v=rho_v.reshape(shp),
+                    mu_l=mu_l.reshape(shp), mu_v=mu_v.reshape(shp), nodes=nodes, thm=Th_m, tcm=Tc_m,
+                    h_film=h_f.reshape(shp), Z=Z.reshape(shp), dtf=dtf.reshape(shp), u_v=u_v.reshape(shp),
+                    warnings=tuple(fc.warnings) + tuple(fv.warnings) + tuple(fl.warnings))
+
+    def solve(dtsat, cp_c):
+        lo, hi = np.zeros(n), s_max.copy()
+        full = evaluate(hi, dtsat, cp_c) <= area_unit  # more area than the whole path needs: it ends at its limit
+        for _ in range(_BISECTIONS):
+            mid = 0.5 * (lo + hi)
+            under = evaluate(mid, dtsat, cp_c) < area_unit
+            lo, hi = np.where(under, mid, lo), np.where(under, hi, mid)
+        return np.where(full, s_max, 0.5 * (lo + hi))
+
+    def no_drop(s):
+        return np.zeros(np.shape(s))
+
+    dtsat = no_drop
+    for _ in range(_OUTER):
+        for _ in range(2):  # the coolant's heat capacity at the mean of its inlet and outlet
+            s_out = solve(dtsat, cp_c)
+            if not air:
+                t_c_out = tc_in + m_h * s_out / (m_c * cp_c)
+                cp_c = np.asarray(coolant_props(0.5 * (tc_in + t_c_out)).heat_capacity, dtype=float) * np.ones(n)
+        d = evaluate(s_out, dtsat, cp_c, detail=True)
+        dp_total, dt_drop, dtsat = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve,
+                                                 m_h, s_out, s1, s2, t_h_in)
+    d = evaluate(s_out, dtsat, cp_c, detail=True)
+    dp_total, dt_drop, _ = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve, m_h,
+                                         s_out, s1, s2, t_h_in)
+    return _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, cp_c, n_par, shape, n,
+                   c_side, k_side, dp_total, dt_drop, air, warnings, coolant_props, x_in, hot)
+
+
+def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve, m_h, s_out, s1, s2, t_h_in):
+    """The condensing side's pressure drop (stored per increment in ``d``), the saturation-temperature drop over
+    the condensing zone and its profile along the path (a function of s, for the next pass)."""
+    dp_inc, length = _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h)
+    if tube_cond:
+        dp_total = dp_inc.reshape(n, -1).sum(axis=1)
+    else:  # Kern's rule for the shell side (see rate_condenser's Notes), spread in proportion to the area
+        pv_in = curve.vapour.props(np.full(n, t_h_in))
+        dp_total = 0.5 * np.asarray(model.film(c_side, m_h, pv_in).dp, dtype=float) * np.ones(n)
+        dA = np.where(np.isfinite(d["dA"]), d["dA"], 0.0)
+        tot = dA.reshape(n, -1).sum(axis=1)
+        dp_inc = dp_total[:, None, None] * dA / np.where(tot > 0, tot, 1.0)[:, None, None]
+    d["dp"], d["length"] = dp_inc, length
+    cum = np.cumsum(dp_inc.reshape(n, -1), axis=1)
+    zone = np.broadcast_to(np.arange(3)[None, :, None], dp_inc.shape).reshape(n, -1)
+    dp_cond = np.where(zone <= 1, dp_inc.reshape(n, -1), 0.0).sum(axis=1)  # up to the end of condensation
+    dt_drop = _sat_drop(curve, dp_cond, s_out, s1)
+    ends = d["nodes"][..., 1:].reshape(n, -1)
+
+    def dtsat(s):
+        s = np.asarray(s, dtype=float)
+        out = np.zeros(s.shape)
+        for i in range(n):
+            if dt_drop[i] > 0:
+                share = np.interp(s[i], ends[i], cum[i], left=0.0) / max(dp_cond[i], 1e-300)
+                out[i] = dt_drop[i] * np.minimum(share, 1.0)
+        return np.where((s > s1), out, 0.0) if s.ndim else out
+
+    return dp_total, dt_drop, dtsat
+
+
+def _q_in(curve, x_in):
+    if x_in is None:
+        return 0.0
+    xc, q = np.asarray(curve.x, dtype=float), np.asarray(curve.q, dtype=float)
+    order = np.argsort(xc)
+    return float(np.interp(x_in, xc[order], q[order]))
+
+
+def _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h):
+    """Frictional pressure drop of each increment of the condensing path [Pa] and its path length [m].
+
+    Inside tubes: the two-phase gradient of :mod:`revamp.correlations.two_phase` (default method) at the
+    increment's vapour fraction and mass flux over the increment's length (the area it needs over the area per metre
+    of path); single-phase vapour (x = 1) and condensate (x = 0) in the first and last zones, where the two-phase
+    forms reduce to the single-phase gradients. On the shell side the lengths only (the caller applies Kern's rule).
+    """
+    dA = d["dA"]
+    length = np.where(np.isfinite(dA), dA, 0.0) / area_per_length
+    if not tube_cond:
+        return np.zeros_like(length), length
+    zone = np.broadcast_to(np.arange(3)[None, :, None], dA.shape)
+    x = np.where(zone == 0, 1.0, np.where(zone == 2, 0.0, d["x"]))
+    m_tube = np.broadcast_to(m_h[:, None, None], dA.shape) / float(bundle.tubes_per_pass)
+    grad = two_phase.gradient(m_tube, x, d["rho_l"], d["rho_v"], d["mu_l"], d["mu_v"], float(bundle.d_i),
+                              float(bundle.roughness))
+    return np.asarray(grad, dtype=float) * length, length
+
+
+def _sat_drop(curve, dp_total, s_out, s1):
+    """Saturation-temperature drop [K] caused by a pressure drop ``dp_total`` [Pa] from the inlet pressure.
+
+    The dew point at the lowered pressure from :meth:`CondensingFluid.at_pressure` (pure: CoolProp; a curve:
+    shifted as that method states), tabulated at a few pressures between the inlet and the largest drop and
+    interpolated per case."""
+    p = float(curve.pressure)
+    dp = np.clip(np.asarray(dp_total, dtype=float), 0.0, 0.9 * p)
+    dp = np.where((s_out > s1) & np.isfinite(dp), dp, 0.0)
+    top = float(np.max(dp)) if dp.size else 0.0
+    if top <= 0.0:
+        return np.zeros_like(dp)
+    grid = np.linspace(0.0, top, 5)
+    t_grid = np.array([curve.t_dew] + [curve.at_pressure(p - g).t_dew for g in grid[1:]])
+    return curve.t_dew - np.interp(dp, grid, t_grid)
+
+
+def _zone_frames(d, n, shape, c_side, k_side):
+    dA, dQ, U = d["dA"], d["dQ"], d["U"]
+    Th, Tc, nodes = d["Th"], d["Tc"], d["nodes"]
+    case = np.broadcast_to(np.arange(n)[:, None, None], dA.shape)
+    zone = np.broadcast_to(np.arange(3)[None, :, None], dA.shape)
+    inc = pd.DataFrame({
+        "case": case.ravel(), "zone": np.asarray(ZONES)[zone.ravel()], "x": d["x"].ravel(),
+        "T": d["thm"].ravel(), "T_coolant": d["tcm"].ravel(), "h_condensing": d["h_c"].ravel(),
+        "h_coolant": d["h_k"].ravel(), "U": U.ravel(), "dT": (d["thm"] - d["tcm"]).ravel(), "duty": dQ.ravel(),
+        "area": dA.ravel(), "length": d["length"].ravel(), "dp": d["dp"].ravel(), "G": d["G"].ravel(),
+        "rho_l": d["rho_l"].ravel(), "rho_v": d["rho_v"].ravel(), "mu_l": d["mu_l"].ravel(),
+        "mu_v": d["mu_v"].ravel()})
+    inc = inc[inc["duty"] > 0].reset_index(drop=True)
+    rows = []
+    area_tot = dA.sum(axis=(1, 2))
+    x_nodes = d["x_nodes"]
+    for i in range(n):
+        for z, name in enumerate(ZONES):
+            q = float(dQ[i, z].sum())
+            if q <= 0:
+                continue
+            a = float(dA[i, z].sum())
+            rows.append(dict(case=i, zone=name, duty=q, area=a, area_share=a / area_tot[i],
+                             U=float((U[i, z] * dA[i, z]).sum() / a) if a > 0 else np.nan,
+                             t_in=float(Th[i, z, 0]), t_out=float(Th[i, z, -1]), t_coolant_in=float(Tc[i, z, -1]),
+                             t_coolant_out=float(Tc[i, z, 0]), x_in=float(x_nodes[i, z, 0]),
+                             x_out=float(x_nodes[i, z, -1]), dp=float(d["dp"][i, z].sum())))
+    zones = pd.DataFrame(rows, columns=["case", "zone", "duty", "area", "area_share", "U", "t_in", "t_out",
+                                        "t_coolant_in", "t_coolant_out", "x_in", "x_out", "dp"])
+    return zones, inc
+
+
+def _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, cp_c, n_par, shape, n, c_side,
+            k_side, dp_total, dt_drop, air, warnings, coolant_props, x_in, hot):
+    s1, s2 = path.bounds
+    valid = hot
+    q = m_h * s_out
+    Th_out = d["Th"][:, 2, -1]  # the last node of the last zone reached is s_out (zones past it collapse there)
+    x_out = path.x_at(s_out)
+    if air:
+        t_guess = tc_in + q / (m_c * np.asarray(coolant_props(tc_in).heat_capacity, dtype=float))
+        cpa = np.asarray(coolant_props(0.5 * (tc_in + t_guess)).heat_capacity, dtype=float)
+        tc_out = tc_in + q / (m_c * cpa)
+    else:
+        tc_out = tc_in + q / (m_c * cp_c)
+    fk = model.film(k_side, m_c, coolant_props(0.5 * (tc_in + tc_out)))
+    dp_k = np.asarray(fk.dp, dtype=float) * np.ones(n)
+    x_in = 1.0 if x_in is None else x_in
+    dA = d["dA"]
+    A = dA.sum(axis=(1, 2))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        R_mean = [np.where(A > 0, (r * dA).sum(axis=(1, 2)) / A, np.nan) for r in d["R"]]
+    layers = tuple(model.layers)
+    R_tot = sum(R_mean)
+    R_clean = sum(r for r, name in zip(R_mean, layers) if "fouling" not in name)
+    fields = dict(duty=q * n_par, t_out_condensing=Th_out, quality_out=x_out, t_out_coolant=tc_out,
+                  U_service=1.0 / R_tot, U_clean=1.0 / R_clean, dp_condensing=dp_total, dp_coolant=dp_k,
+                  dt_sat_drop=dt_drop, condensed=m_h * n_par * np.maximum(x_in - x_out, 0.0))
+    for key, value in fields.items():
+        value = np.where(valid | (key in ("duty", "condensed")), np.broadcast_to(value, (n,)), np.nan)
+        fields[key] = as_out(value.reshape(shape))
+    if shape == ():
+        resistances = pd.Series([float(r[0]) for r in R_mean], index=pd.Index(layers), name="resistance [m²K/W]")
+    else:
+        resistances = pd.DataFrame({name: r for name, r in zip(layers, R_mean)})
+    zones, inc = _zone_frames(d, n, shape, c_side, k_side)
+    warnings = list(warnings) + list(d["warnings"])
+    if not air and float(getattr(exchanger, "tube_passes", 1)) > 1 and (
+            s1 > 0 or np.any(s_out > s2) or float(curve.t_dew) - float(curve.t_bubble) > 0.5):
+        warnings.append("zones: the coolant is taken in counterflow with the condensing stream; with several tube "
+                        "passes this is optimistic where the condensing temperature changes (desuperheating, "
+                        "subcooling, a mixture's glide)")
+    if not air and c_side == "shell" and np.any(s_out > s2):
+        warnings.append("subcooling zone: the condensate is taken to flow over the bundle as a single-phase "
+                        "liquid at the shell-side flow areas (no flooded zone modelled); screening only")
+    if np.any(~valid):
+        warnings.append(f"{int(np.sum(~valid))} case(s) with a coolant not colder than the condensing inlet: no "
+                        "duty")
+    warnings.append("screening-level rating: mechanical design, vibration, venting of non-condensables and code "
+                    "compliance must be verified by licensed engineers")
+    side_fields = {f"t_out_{c_side}": fields["t_out_condensing"], f"t_out_{k_side}": fields["t_out_coolant"],
+                   f"quality_out_{c_side}": fields["quality_out"], f"dp_{c_side}": fields["dp_condensing"],
+                   f"dp_{k_side}": fields["dp_coolant"]}
+    return CondenserRating(**fields, area=float(model.area), condensing_side=c_side, coolant_side=k_side,
+                           zones=zones, increments=inc, resistances=resistances, layers=layers,
+                           warnings=tuple(dict.fromkeys(warnings)), exchanger=exchanger, service=service,
+                           **side_fields)
