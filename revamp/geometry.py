@@ -37,6 +37,7 @@ from __future__ import annotations
 import dataclasses
 import math
 from dataclasses import dataclass, field
+from typing import ClassVar
 
 from .errors import InputError
 from .geometry_bell import (  # noqa: F401  (the Bell-Delaware geometry and tube counts, re-exported here)
@@ -280,6 +281,7 @@ class ShellAndTube:
     defaults_used: tuple = field(init=False, default=(), compare=False)
     notes: tuple = field(init=False, default=(), compare=False)
     _bell: BellGeometry = field(init=False, default=None, repr=False, compare=False)
+    kind: ClassVar[str] = "shell and tube"  # the exchanger kind (revamp.exchanger.MODELS, revamp.rating.RATERS)
 
     def __post_init__(self):  # noqa: C901 - one straight list of checks reads best
         put = lambda name, value: object.__setattr__(self, name, value)  # noqa: E731

@@ -51,16 +51,19 @@ __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"
 #: Shell-side methods by name: the one registry, defined beside the correlations and dispatched here only.
 SHELL_METHODS = shell_corr.SHELL_METHODS
 
-#: Exchanger kinds other than shell-and-tube: the exchanger class's ``kind`` -> "module:function" that rates it
-#: (imported on first use; see docs/architecture.md, "The exchanger protocol"). Shell-and-tube is the default path.
-RATERS = {"air cooler": "revamp.rating_air:rate_air_cooler"}
+#: Exchanger kinds: the exchanger class's ``kind`` -> "module:function" that rates it (imported on first use), the
+#: engine of each kind beside its model in :data:`revamp.exchanger.MODELS` (see docs/architecture.md, "The exchanger
+#: protocol"). Every kind is registered, shell-and-tube included: an unregistered object is an InputError.
+RATERS = {"shell and tube": "revamp.rating:rate", "air cooler": "revamp.rating_air:rate_air_cooler"}
 
 
 def _rater(exchanger):
-    """The rating function registered for the exchanger's kind, or None for shell-and-tube."""
+    """The rating function registered for the exchanger's kind; InputError naming ``exchanger`` if none is."""
     target = RATERS.get(getattr(type(exchanger), "kind", None))
     if target is None:
-        return None
+        raise InputError("exchanger", f"{type(exchanger).__name__} object",
+                         f"an exchanger of a registered kind ({', '.join(sorted(RATERS))}): revamp.ShellAndTube or "
+                         "revamp.AirCooler")
     import importlib
 
     module, name = target.split(":")
@@ -210,19 +213,24 @@ class _Eval:
     mu_ratio_t: np.ndarray
 
 
-def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Rating:
-    """Rate an existing shell-and-tube exchanger at a service.
+def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> Rating:
+    """Rate an existing exchanger at a service (shell-and-tube here; every other kind through :data:`RATERS`).
 
     Parameters
     ----------
-    exchanger : revamp.ShellAndTube
-        The geometry as built; its ``shell_type`` (E, F, J, X) selects the effectiveness relation and the
+    exchanger : revamp.ShellAndTube or another registered kind
+        The geometry as built; its class's ``kind`` selects the engine (:data:`RATERS`: a
+        :class:`revamp.AirCooler` is rated by :func:`revamp.rating_air.rate_air_cooler` with its own service and
+        result). For shell-and-tube, ``shell_type`` (E, F, J, X) selects the effectiveness relation and the
         shell-side adaptation (see :func:`arrangement`).
     service : revamp.Service
         The two inlet streams and the fouling of each side; flows, inlet temperatures and fouling may be arrays
-        (they broadcast).
+        (they broadcast). Another kind takes its own service (:class:`revamp.AirService`).
     shell_method : {"bell-delaware", "kern"}
         Shell-side method; Kern (1950) is a simpler cross-check (not for X shells).
+    **methods : str
+        The method choices of another kind, passed to its engine (air cooler: ``h_method``, ``dp_method``,
+        ``fin_method``); none for shell-and-tube.
 
     Returns
     -------
@@ -232,7 +240,8 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     Raises
     ------
     InputError
-        On a bad input: equal inlet temperatures in a single case (no driving force), a service that is not a
+        On a bad input: an exchanger of no registered kind (the error names ``exchanger`` and the kinds), equal
+        inlet temperatures in a single case (no driving force), a service that is not a
         Service, an unknown method, or a single case whose stream would leave its fluid's liquid range (it would
         boil or freeze; the error names the side). In a sweep such cases come back as NaN with one warning, and
         equal inlets give zero duty.
@@ -254,9 +263,12 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     Identical shells in series (``exchanger.shells``) combine by the series effectiveness relation; identical trains
     in parallel (``exchanger.shells_parallel``) each take ``flow / shells_parallel`` of both streams.
     """
-    other = _rater(exchanger)
-    if other is not None:  # another exchanger kind rates itself (its own service and result types)
-        return other(exchanger, service)
+    rater = _rater(exchanger)
+    if rater is not rate:  # another exchanger kind rates itself (its own service, methods and result types)
+        return rater(exchanger, service, **methods)
+    if methods:
+        name = next(iter(methods))
+        raise InputError(name, methods[name], "not a method choice of a shell-and-tube exchanger (shell_method)")
     if shell_method not in SHELL_METHODS:
         raise InputError("shell_method", shell_method, f"one of {sorted(SHELL_METHODS)}")
     if not isinstance(service, Service):

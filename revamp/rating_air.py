@@ -34,6 +34,7 @@ from .aircooler import FIN_BONDS, AirCooler
 from .correlations import air as air_corr
 from .correlations import tube as tube_corr
 from .errors import InputError
+from .exchanger import AirCoolerModel, model_of
 from .rating_result import ResultFrames
 from .service_air import AirService
 from .thermal_air import effectiveness_air_cooler
@@ -41,7 +42,7 @@ from .thermal_air import effectiveness_air_cooler
 __all__ = ["AIR_LAYERS", "AirRating", "air_side", "AirSideResult", "rate_air_cooler"]
 
 #: The resistances in series of an air cooler, air to tube fluid, all on the bare outside-tube area.
-AIR_LAYERS = ("air film", "air fouling", "fin bond", "wall", "tube fouling", "tube film")
+AIR_LAYERS = AirCoolerModel.layers
 
 _MAX_ITER = 80
 _TOL_K = 1e-6

@@ -115,7 +115,8 @@ class Rating(ResultFrames):
     rho_tube, rho_shell : densities at the mean temperatures [kg/m³]
     C_shell, C_tube : heat-capacity rates of the whole streams [W/K]
     resistances : pandas Series (scalar) or DataFrame (one row per case) of the five series resistances on the
-        outside area [m²K/W], summing to ``1/U_service``
+        outside area [m²K/W], summing to ``1/U_service``, named as :attr:`layers`
+    layers : the names of the resistances, from the exchanger's kind (:data:`revamp.resistance.TUBE_LAYERS`)
     tube_side, shell_side : the correlation results (details)
     warnings : tuple of str
     defaults : tuple of str, the geometry defaults applied (TEMA clearances ...)
@@ -161,4 +162,15 @@ class Rating(ResultFrames):
     shell_method: str = "bell-delaware"
 
     _FRAME_FIELDS = tuple(_SCALAR_FIELDS)
-    layers = TUBE_LAYERS
+
+    @property
+    def layers(self) -> tuple:
+        """The names of the resistances in series, from the exchanger's kind (:data:`revamp.exchanger.MODELS`);
+        those of the resistances themselves when the result carries no exchanger of a registered kind."""
+        from .exchanger import MODELS  # same layer, imported on use (the exchanger module imports rating)
+
+        model = MODELS.get(getattr(type(self.exchanger), "kind", None))
+        if model is not None:
+            return model.layers
+        r = self.resistances
+        return tuple(r.index if isinstance(r, pd.Series) else r.columns) if r is not None else TUBE_LAYERS
