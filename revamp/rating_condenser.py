@@ -64,8 +64,8 @@ ZONES = ("desuperheating", "condensing", "subcooling")
 INCREMENTS = 16
 
 _G = 9.80665  # standard gravity [m/s²]
-_BISECTIONS = 48
-_OUTER = 3  # passes of the pressure-drop / saturation-temperature feedback
+_BISECTIONS = 44
+_OUTER = 4  # passes of the pressure-drop / saturation-temperature feedback
 
 
 def is_condensing(service) -> bool:
@@ -366,7 +366,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     path_length = float(bundle.passes) * float(bundle.length)
     area_per_length = area_unit / path_length  # m² of the basis per m of path
     rows = float(bundle.rows_vertical)
-    p_crit = float(curve.critical_pressure)
+    p_red = float(curve.pressure) / float(curve.critical_pressure)
     latent = float(curve.latent)
     i_c, i_k = _layer_index(model, c_side), _layer_index(model, k_side)
     warnings: list[str] = []
@@ -416,7 +416,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         ones = np.ones(N)
         # coolant film at its local temperature
         pc = coolant_props(tcm)
-        fc = model.film(k_side, mc, pc)
+        fc = _model_film(model, k_side, mc, pc, detail)
         h_k = np.asarray(fc.h, dtype=float) * ones
         # condensing side: condensate and vapour properties at the local temperature
         pl = curve.liquid.props(np.clip(thm, curve.liquid.t_min, curve.t_bubble * (1 - 1e-9)))
@@ -427,8 +427,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         # single-phase films of the condensing side: the vapour (desuperheating; Bell-Ghaly's h_g at the local
         # vapour flow) and the condensate (subcooling)
         m_v = np.maximum(mh * np.where(z == 0, 1.0, xm), 1e-9 * mh)
-        fv = model.film(c_side, m_v, pv)
-        fl = model.film(c_side, mh, pl)
+        fv = _model_film(model, c_side, m_v, pv, detail)
+        fl = _model_film(model, c_side, mh, pl, detail)
         h_v = np.asarray(fv.h, dtype=float) * ones
         h_l = np.asarray(fl.h, dtype=float) * ones
         u_v = np.asarray(fv.velocity, dtype=float) * ones
@@ -442,7 +442,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
             else:
                 h_f = cond_shell(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v)
             h_f = np.asarray(h_f, dtype=float) * ones
-            h_eff = 1.0 / (1.0 / h_f + Z / h_v)  # Silver (1947), Bell & Ghaly (1973)
+            with np.errstate(divide="ignore"):
+                h_eff = np.where(Z > 0, 1.0 / (1.0 / h_f + Z / h_v), h_f)  # Silver (1947), Bell & Ghaly (1973)
             h_c = np.where(z == 1, h_eff, np.where(z == 0, h_v, h_l))
             h_outer, h_inner = (h_c, h_k) if i_c == 0 else (h_k, h_c)
             R = model.network(h_outer, h_inner, ro, ri, 0.5 * (thm + tcm))
@@ -473,12 +474,22 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                     h_k=h_k.reshape(shp), G=G.reshape(shp), rho_l=rho_l.reshape(shp), rho_v=rho_v.reshape(shp),
                     mu_l=mu_l.reshape(shp), mu_v=mu_v.reshape(shp), nodes=nodes, thm=Th_m, tcm=Tc_m,
                     h_film=h_f.reshape(shp), Z=Z.reshape(shp), dtf=dtf.reshape(shp), u_v=u_v.reshape(shp),
-                    warnings=tuple(fc.warnings) + tuple(fv.warnings) + tuple(fl.warnings))
+                    warnings=tuple(fc.warnings) + _used_warnings(model, c_side, m_v, pv, (dQ > 0) & (
+                        (z == 0) | ((z == 1) & (Z > 0)))) + _used_warnings(model, c_side, mh, pl, (dQ > 0) & (z == 2)))
 
-    def solve(dtsat, cp_c):
+    def solve(dtsat, cp_c, guess=None):
+        """The heat released per kg at which the needed area equals the unit's area (per case, bisection; from a
+        bracket around ``guess`` when it holds)."""
         lo, hi = np.zeros(n), s_max.copy()
         full = evaluate(hi, dtsat, cp_c) <= area_unit  # more area than the whole path needs: it ends at its limit
-        for _ in range(_BISECTIONS):
+        steps = _BISECTIONS
+        if guess is not None:
+            width = 0.02 * s_max
+            g_lo, g_hi = np.maximum(guess - width, 0.0), np.minimum(guess + width, s_max)
+            ok = (evaluate(g_lo, dtsat, cp_c) < area_unit) & (evaluate(g_hi, dtsat, cp_c) >= area_unit)
+            lo, hi = np.where(ok, g_lo, lo), np.where(ok, g_hi, hi)
+            steps = _BISECTIONS if not ok.all() else _BISECTIONS - 6
+        for _ in range(steps):
             mid = 0.5 * (lo + hi)
             under = evaluate(mid, dtsat, cp_c) < area_unit
             lo, hi = np.where(under, mid, lo), np.where(under, hi, mid)
@@ -487,16 +498,16 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     def no_drop(s):
         return np.zeros(np.shape(s))
 
-    dtsat = no_drop
-    for _ in range(_OUTER):
-        for _ in range(2):  # the coolant's heat capacity at the mean of its inlet and outlet
-            s_out = solve(dtsat, cp_c)
-            if not air:
-                t_c_out = tc_in + m_h * s_out / (m_c * cp_c)
-                cp_c = np.asarray(coolant_props(0.5 * (tc_in + t_c_out)).heat_capacity, dtype=float) * np.ones(n)
+    dtsat, s_out = no_drop, None
+    for _ in range(_OUTER):  # the coolant's heat capacity at the mean of its inlet and outlet; the saturation drop
+        s_out = solve(dtsat, cp_c, s_out)
+        if not air:
+            t_c_out = tc_in + m_h * s_out / (m_c * cp_c)
+            cp_c = np.asarray(coolant_props(0.5 * (tc_in + t_c_out)).heat_capacity, dtype=float) * np.ones(n)
         d = evaluate(s_out, dtsat, cp_c, detail=True)
         dp_total, dt_drop, dtsat = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve,
                                                  m_h, s_out, s1, s2, t_h_in)
+    s_out = solve(dtsat, cp_c, s_out)
     d = evaluate(s_out, dtsat, cp_c, detail=True)
     dp_total, dt_drop, _ = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve, m_h,
                                          s_out, s1, s2, t_h_in)
@@ -533,6 +544,36 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
         return np.where((s > s1), out, 0.0) if s.ndim else out
 
     return dp_total, dt_drop, dtsat
+
+
+def _used_warnings(model, side, m, props, used):
+    """The validity warnings of a single-phase film of the condensing side over the increments that use it."""
+    if not np.any(used):
+        return ()
+    pick = type(props)(*(np.broadcast_to(np.asarray(getattr(props, f), dtype=float), used.shape)[used]
+                         for f in ("density", "heat_capacity", "viscosity", "conductivity")))
+    return tuple(_model_film(model, side, m[used], pick, True).warnings)
+
+
+def _model_film(model, side, m, props, warn):
+    """The model's film, skipping validity warnings inside the search when the model allows it."""
+    try:
+        return model.film(side, m, props, warn=warn)
+    except TypeError:  # a model without the keyword
+        return model.film(side, m, props)
+
+
+def cond_shell(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v):
+    """Shell-side condensing film on a horizontal tube bundle [W/m²K] (outside surface): the gravity-controlled
+    Nusselt (1916) film with Kern's row correction, combined with the vapour-shear form as
+    :mod:`revamp.correlations.condensation` states."""
+    return cond.shell_bundle_kernel(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v)
+
+
+def cond_tube(G, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf):
+    """In-tube condensing film [W/m²K] (inside surface): Shah's correlation, with the stratified Nusselt form at low
+    vapour velocity as :mod:`revamp.correlations.condensation` states."""
+    return cond.in_tube_kernel(G, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf)
 
 
 def _q_in(curve, x_in):
