@@ -180,6 +180,13 @@ def _liquid(fluid: str, pressure, field_prefix: str, label: str, t_low_override=
         t_low = t_low_override
     else:
         t_low = max(CP.PropsSI("Ttriple", fluid), CP.PropsSI("Tmin", fluid))
+        for _ in range(20):  # some fluids' (T, P) flash fails right at the triple point: start just above it
+            try:
+                if np.isfinite(_evaluate(CP, fluid, np.array([t_low]), p)).all():
+                    break
+            except ValueError:  # below the melting line at this pressure
+                pass
+            t_low += 0.25
     t_low = float(t_low)
     if t_sat - t_low < 1.0:
         raise InputError(f"{field_prefix}.pressure", f"{p:.6g} Pa", f"a pressure where {fluid} is liquid over at "
@@ -233,14 +240,39 @@ def water(pressure="10 bar") -> CoolPropLiquid:
     return _liquid("Water", pressure, "water", "water (IAPWS-95 via CoolProp)", t_low_override=273.16)
 
 
+@lru_cache(maxsize=1)
+def _names_lowercase() -> dict:
+    """CoolProp's fluid names and aliases, lower-cased -> canonical name (for case-insensitive look-up)."""
+    CP = _coolprop()
+    out = {}
+    for canonical in CP.FluidsList():
+        out[canonical.lower()] = canonical
+        for alias in CP.get_fluid_param_string(canonical, "aliases").split(","):
+            if alias.strip():
+                out.setdefault(alias.strip().lower(), canonical)
+    return out
+
+
+def _canonical_name(CP, name: str) -> str:
+    """CoolProp's canonical name of ``name`` (an exact name or alias, else matched ignoring case)."""
+    try:
+        return CP.get_fluid_param_string(name, "name")
+    except ValueError:
+        found = _names_lowercase().get(name.lower())
+        if found is None:
+            raise
+        return found
+
+
 def pure(name: str, pressure="10 bar") -> CoolPropLiquid:
     """A pure fluid from CoolProp as a liquid at ``pressure``, from its triple point up to saturation.
 
     Parameters
     ----------
     name : str
-        A CoolProp fluid name or alias, e.g. ``"n-Heptane"``, ``"Toluene"``, ``"R134a"``, ``"Ethanol"``. The
-        full list is ``CoolProp.CoolProp.FluidsList()``.
+        A CoolProp fluid name or alias, e.g. ``"n-Heptane"``, ``"Toluene"``, ``"R134a"``, ``"Ethanol"``
+        (matched ignoring case when not exact, so ``"pentane"`` is n-Pentane). The full list is
+        ``CoolProp.CoolProp.FluidsList()``.
     pressure : float or str
         Absolute pressure [Pa], or a string with a unit; between the triple-point and critical pressures.
 
@@ -264,7 +296,7 @@ def pure(name: str, pressure="10 bar") -> CoolPropLiquid:
                                             "prefixes are not supported: give the mixture as a property table)")
     CP = _coolprop()
     try:
-        canonical = CP.get_fluid_param_string(name.strip(), "name")
+        canonical = _canonical_name(CP, name.strip())
     except ValueError:
         some = ", ".join(sorted(CP.FluidsList())[:12])
         raise InputError("pure.name", name, f"a CoolProp fluid name; list them with "
