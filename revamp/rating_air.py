@@ -1,7 +1,8 @@
 """Rating of an air-cooled exchanger: what an existing air cooler gives at a service (layer 5).
 
 :func:`rate_air_cooler` (reached through :func:`revamp.rate`) finds the outlet temperatures by effectiveness-NTU
-with properties at the mean temperature of each side, iterating until the outlets and the wall settle:
+with properties at the mean temperature of each side, iterating until the outlets and the wall settle. The air
+side, the network and the effectiveness come from the exchanger's model (:class:`revamp.exchanger.AirCoolerModel`):
 
 1. tube side: :func:`revamp.correlations.tube.tube_side_kernel` (plain tubes or an insert), as for shell-and-tube;
 2. air side: Briggs & Young (1963) film coefficient on the finned surface (ESDU 86022 as a choice), the fin
@@ -37,7 +38,6 @@ from .errors import InputError
 from .exchanger import AirCoolerModel, model_of
 from .rating_result import ResultFrames
 from .service_air import AirService
-from .thermal_air import effectiveness_air_cooler
 
 __all__ = ["AIR_LAYERS", "AirRating", "air_side", "AirSideResult", "rate_air_cooler"]
 
@@ -255,11 +255,7 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
         raise InputError("exchanger", ac, "a revamp.AirCooler")
     if not isinstance(service, AirService):
         raise InputError("service", service, "a revamp.AirService(tube=Stream(...), air_in=..., air_flow=...)")
-    for name, value, allowed in (("h_method", h_method, air_corr.AIR_H_METHODS),
-                                 ("dp_method", dp_method, air_corr.AIR_DP_METHODS),
-                                 ("fin_method", fin_method, air_corr.FIN_EFFICIENCY_METHODS)):
-        if value not in allowed:
-            raise InputError(name, value, f"one of {sorted(allowed)}")
+    model = model_of(ac, h_method=h_method, dp_method=dp_method, fin_method=fin_method)  # checks the methods
     fluid = service.tube.fluid
     air_given = service.air_flow if service.air_flow is not None else service.face_velocity
     shapes = [np.shape(v) for v in (service.tube.flow, service.tube.t_in, service.air_in, air_given,
@@ -274,7 +270,7 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
     def flat(v):
         return np.array(np.broadcast_to(np.asarray(v, dtype=float), shape), dtype=float).reshape(n)
 
-    nb = float(ac.bundles)
+    nb = model.n_parallel
     p_air = air_corr.pressure_at_altitude(service.altitude)
     tt_in, ta_in = flat(service.tube.t_in), flat(service.air_in)
     rho_in = p_air / (air_corr.R_AIR * ta_in)
@@ -293,12 +289,10 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
     dt_in = np.abs(tt_in - ta_in)
     t_lo, t_hi = np.minimum(tt_in, ta_in), np.maximum(tt_in, ta_in)
     do, di = ac.tube_od, ac.tube_id
-    area_bundle = ac.area / nb
+    area_bundle = model.area / nb
     rel_rough = ac.tube_roughness / di
     bond = ac.fin.contact_resistance
-    r_bond = 0.0 if bond is None else bond
     f_lo, f_hi = fluid.t_min, _below(fluid.t_max)
-    a_fin, a_root, a_bare = ac.area_fin_per_tube, ac.area_root_per_tube, ac.area_bare_per_tube
 
     def evaluate(xt, xa, tw):
         tm_t, tm_a = 0.5 * (tt_in + xt), 0.5 * (ta_in + xa)
@@ -309,22 +303,15 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
         tube = tube_corr.tube_side_kernel(m_t, float(ac.tubes_per_pass), di, ac.tube_length, ac.tube_passes, rho_t,
                                           cp_t, mu_t, k_t, mu_w, rel_rough, ac.insert, warn=False)
         pa = air_corr.air_properties(tm_a, pressure=p_air)
-        air = air_side(ac, m_a, pa.density, pa.heat_capacity, pa.viscosity, pa.conductivity, h_method, dp_method,
-                       fin_method)
-        k_w = ac.tube_material.conductivity(tw)
-        R = (1.0 / air.h_bare,
-             rf_a * a_bare / (air.surface_efficiency * (a_fin + a_root)),
-             np.full(n, r_bond),
-             do * np.log(do / di) / (2.0 * k_w),
-             rf_t * do / di,
-             do / (di * tube.h))
+        air = model.air_side(m_a, pa)
+        R = model.network(air.h, tube.h, rf_a, rf_t, tw)  # AIR_LAYERS, the fin efficiency at this air film
         U = 1.0 / sum(R)
         C_t, C_a = m_t * cp_t, m_a * np.asarray(pa.heat_capacity)
         tube_min = C_t <= C_a
         C_min = np.minimum(C_t, C_a)
         Cr = C_min / np.maximum(C_t, C_a)
         NTU = U * area_bundle / C_min
-        eps, w = effectiveness_air_cooler(NTU, Cr, tube_min, ac.tube_rows, ac.tube_passes)
+        eps, w = model.effectiveness(NTU, Cr, ~tube_min)
         q = eps * C_min * dt_in
         flux = U * (tm_t - tm_a)  # on the bare area, positive tube -> air
         return dict(to_t=tt_in + sign * q / C_t, to_a=ta_in - sign * q / C_a, tw=tm_t - flux * (R[5] + R[4]),
@@ -401,11 +388,11 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
         value = np.broadcast_to(np.asarray(value, dtype=float), (n,))
         value = np.where(out, np.nan, value)
         fields[key] = as_out(value.reshape(shape))
-    cols = {name: np.where(out, np.nan, np.broadcast_to(v, (n,))) for name, v in zip(AIR_LAYERS, R)}
+    cols = {name: np.where(out, np.nan, np.broadcast_to(v, (n,))) for name, v in zip(model.layers, R)}
     if shape == ():
         resistances = pd.Series({k: float(v[0]) for k, v in cols.items()}, name="resistance [m²K/W]")
     else:
         resistances = pd.DataFrame(cols)
-    return AirRating(**fields, area=ac.area, area_inside=ac.area_inside, area_air=ac.area_air,
+    return AirRating(**fields, area=model.area, area_inside=model.area_inside, area_air=model.area_air,
                      resistances=resistances, tube_side=tube, warnings=tuple(dict.fromkeys(warnings)), exchanger=ac,
-                     service=service)
+                     service=service, layers=model.layers)

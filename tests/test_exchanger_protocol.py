@@ -309,3 +309,12 @@ def test_bad_methods_and_sides_are_input_errors():
     with pytest.raises(InputError) as e:
         model_of(_cooler()).film("shell", 1.0, OIL.props(300.0))
     assert e.value.field == "side"
+
+
+def test_report_labels_read_the_names_from_the_result():
+    from revamp.report.labels import RESISTANCE_COLOURS, resistance_names
+
+    r, ra = rv.rate(_hx(), _svc()), rv.rate(_cooler(), _air_service())
+    assert resistance_names(r) == TUBE_LAYERS and resistance_names(ra) == AIR_LAYERS
+    for cls in MODELS.values():  # every layer of every kind has its own colour in the charts
+        assert all(name in RESISTANCE_COLOURS for name in cls.layers)

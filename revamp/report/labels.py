@@ -19,15 +19,41 @@ import math
 import numbers
 import re
 
-__all__ = ["to_system", "NAMES", "RESISTANCES", "RESISTANCE_COLOURS", "SPELLING", "display_frame", "display_name",
+from ..resistance import TUBE_LAYERS
+
+__all__ = ["to_system", "NAMES", "RESISTANCES", "RESISTANCE_COLOURS", "SPELLING", "resistance_names",
+           "resistance_colour", "display_frame", "display_name",
            "format_frame", "format_value", "rescale", "resistance_axis", "split_label", "unit_of"]
 
-#: the five series resistances, in the order heat crosses them from the shell side
-RESISTANCES = ("shell film", "shell fouling", "wall", "tube fouling", "tube film")
+#: the five series resistances of a shell-and-tube exchanger, in the order heat crosses them from the shell side
+#: (another kind names its own: a result's are :func:`resistance_names`)
+RESISTANCES = TUBE_LAYERS
 
-#: one colour per resistance, in every chart (films blue, fouling brown/orange, wall grey)
+#: one colour per resistance, in every chart (films blue, fouling brown/orange, wall grey; the air cooler's outer
+#: film and fouling take the shell side's colours, the fin bond a lighter grey)
 RESISTANCE_COLOURS = {"shell film": "#1b4f72", "shell fouling": "#a04000", "wall": "#7f8c8d",
-                      "tube fouling": "#e67e22", "tube film": "#5dade2"}
+                      "tube fouling": "#e67e22", "tube film": "#5dade2",
+                      "air film": "#1b4f72", "air fouling": "#a04000", "fin bond": "#bdc3c7"}
+
+
+def resistance_names(result) -> tuple:
+    """The names of a rating result's resistances in series, outer film first: the exchanger kind's ``layers``
+    (the names of its ``resistances`` when it states none).
+
+    >>> class _R: layers = ("air film", "air fouling", "fin bond", "wall", "tube fouling", "tube film")
+    >>> resistance_names(_R())[:2]
+    ('air film', 'air fouling')
+    """
+    names = getattr(result, "layers", None)
+    if names is None:
+        r = result.resistances
+        names = r.index if getattr(r, "ndim", 1) == 1 else r.columns
+    return tuple(names)
+
+
+def resistance_colour(name: str) -> str:
+    """The chart colour of a resistance (a neutral grey for a name without its own)."""
+    return RESISTANCE_COLOURS.get(name, "#888888")
 
 #: identifier -> the words an engineer writes
 NAMES = {
