@@ -50,6 +50,7 @@ from .correlations import air as air_corr
 from .correlations import condensation as cond
 from .correlations import two_phase
 from .errors import InputError
+from .fluids.base import Props
 from .rating_result import ResultFrames
 from .service import Service, Stream
 
@@ -418,12 +419,17 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         pc = coolant_props(tcm)
         fc = _model_film(model, k_side, mc, pc, detail)
         h_k = np.asarray(fc.h, dtype=float) * ones
-        # condensing side: condensate and vapour properties at the local temperature
-        pl = curve.liquid.props(np.clip(thm, curve.liquid.t_min, curve.t_bubble * (1 - 1e-9)))
-        pv = curve.vapour.props(thm)
-        rho_l, mu_l, k_l, cp_l = (np.asarray(v, dtype=float) * ones for v in
-                                  (pl.density, pl.viscosity, pl.conductivity, pl.heat_capacity))
-        rho_v, mu_v = (np.asarray(v, dtype=float) * ones for v in (pv.density, pv.viscosity))
+        # condensing side: in the condensing zone the liquid and vapour in equilibrium along the curve; the
+        # superheated vapour in the desuperheating zone, the subcooled condensate in the subcooling zone
+        q_loc = np.clip(sm - s1 + q_in, 0.0, latent)
+        sat = curve.saturation(q_loc)
+        vap = curve.vapour
+        pvs = vap.props(np.clip(thm, vap.t_min, vap.t_max))
+        pls = curve.liquid.props(np.clip(thm, curve.liquid.t_min, curve.liquid.t_max * (1 - 1e-9)))
+        pl = _pick(z == 1, sat.liquid, pls, ones)
+        pv = _pick(z == 1, sat.vapour, pvs, ones)
+        rho_l, mu_l, k_l, cp_l = pl.density, pl.viscosity, pl.conductivity, pl.heat_capacity
+        rho_v, mu_v = pv.density, pv.viscosity
         # single-phase films of the condensing side: the vapour (desuperheating; Bell-Ghaly's h_g at the local
         # vapour flow) and the condensate (subcooling)
         m_v = np.maximum(mh * np.where(z == 0, 1.0, xm), 1e-9 * mh)
@@ -544,6 +550,15 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
         return np.where((s > s1), out, 0.0) if s.ndim else out
 
     return dp_total, dt_drop, dtsat
+
+
+def _pick(where, a, b, ones):
+    """Properties: ``a`` where ``where`` holds, else ``b`` (arrays of the increments' flat shape)."""
+    return Props(*(np.where(where, np.asarray(getattr(a, f), dtype=float) * ones,
+                            np.asarray(getattr(b, f), dtype=float) * ones) for f in _PROPS))
+
+
+_PROPS = ("density", "heat_capacity", "viscosity", "conductivity")
 
 
 def _used_warnings(model, side, m, props, used):
