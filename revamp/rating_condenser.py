@@ -397,12 +397,23 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         a = np.minimum(starts[None, :], s_out[:, None])
         b = np.minimum(ends[None, :], s_out[:, None])
         nodes = a[:, :, None] + (b - a)[:, :, None] * frac  # (n, 3, k+1)
-        Th = path.T_at(nodes) - dtsat(nodes)
+        drop = dtsat(nodes)
+        Th = path.T_at(nodes) - drop
+        # heat released per kg to each node: along the curve, plus the sensible cooling of both phases as the
+        # saturation temperature falls with the pressure (liquid: its cp; vapour: its cp along the curve, as an
+        # ideal gas whose enthalpy depends on temperature only)
+        x_n = path.x_at(nodes)
+        cpl_n = np.asarray(curve.liquid.props(np.clip(Th, curve.liquid.t_min, curve.liquid.t_max * (1 - 1e-9)))
+                           .heat_capacity, dtype=float)
+        cpv_n = np.asarray(curve.saturation(np.clip(nodes - s1 + q_in, 0.0, latent)).vapour.heat_capacity,
+                           dtype=float)
+        E = nodes + ((1.0 - x_n) * cpl_n + x_n * cpv_n) * drop
+        E_out = E[:, 2, -1]  # the last node is s_out (the zones past it collapse onto it)
         if air:
             Tc = np.broadcast_to(tc_in[:, None, None], nodes.shape)
         else:
-            Tc = tc_in[:, None, None] + (m_h / (m_c * cp_c))[:, None, None] * (s_out[:, None, None] - nodes)
-        ds = nodes[..., 1:] - nodes[..., :-1]
+            Tc = tc_in[:, None, None] + (m_h / (m_c * cp_c))[:, None, None] * (E_out[:, None, None] - E)
+        ds = E[..., 1:] - E[..., :-1]
         s_mid = 0.5 * (nodes[..., 1:] + nodes[..., :-1])
         Th_m, Tc_m = 0.5 * (Th[..., 1:] + Th[..., :-1]), 0.5 * (Tc[..., 1:] + Tc[..., :-1])
         shp = s_mid.shape
@@ -475,7 +486,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         A = dA.reshape(shp).sum(axis=(1, 2))
         if not detail:
             return A
-        return dict(A=A, dA=dA.reshape(shp), dQ=dQ.reshape(shp), U=U.reshape(shp), R=[r.reshape(shp) for r in R],
+        return dict(A=A, E_out=E_out, dA=dA.reshape(shp), dQ=dQ.reshape(shp), U=U.reshape(shp), R=[r.reshape(shp) for r in R],
                     Th=Th, Tc=Tc, x=xm.reshape(shp), x_nodes=path.x_at(nodes), h_c=h_c.reshape(shp),
                     h_k=h_k.reshape(shp), G=G.reshape(shp), rho_l=rho_l.reshape(shp), rho_v=rho_v.reshape(shp),
                     mu_l=mu_l.reshape(shp), mu_v=mu_v.reshape(shp), nodes=nodes, thm=Th_m, tcm=Tc_m,
@@ -508,7 +519,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     for _ in range(_OUTER):  # the coolant's heat capacity at the mean of its inlet and outlet; the saturation drop
         s_out = solve(dtsat, cp_c, s_out)
         if not air:
-            t_c_out = tc_in + m_h * s_out / (m_c * cp_c)
+            t_c_out = tc_in + m_h * s_out / (m_c * cp_c)  # (the small pressure-drop term left out here)
             cp_c = np.asarray(coolant_props(0.5 * (tc_in + t_c_out)).heat_capacity, dtype=float) * np.ones(n)
         d = evaluate(s_out, dtsat, cp_c, detail=True)
         dp_total, dt_drop, dtsat = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve,
@@ -672,7 +683,7 @@ def _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, c
             k_side, dp_total, dt_drop, air, warnings, coolant_props, x_in, hot):
     s1, s2 = path.bounds
     valid = hot
-    q = m_h * s_out
+    q = m_h * d["E_out"]
     Th_out = d["Th"][:, 2, -1]  # the last node of the last zone reached is s_out (zones past it collapse there)
     x_out = path.x_at(s_out)
     if air:
