@@ -460,7 +460,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                 h_f = cond_shell(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v)
             h_f = np.asarray(h_f, dtype=float) * ones
             with np.errstate(divide="ignore"):
-                h_eff = np.where(Z > 0, 1.0 / (1.0 / h_f + Z / h_v), h_f)  # Silver (1947), Bell & Ghaly (1973)
+                h_eff = np.where(Z > 0, cond.bell_ghaly(h_f, h_v, Z), h_f)  # Silver (1947), Bell & Ghaly (1973)
             h_c = np.where(z == 1, h_eff, np.where(z == 0, h_v, h_l))
             h_outer, h_inner = (h_c, h_k) if i_c == 0 else (h_k, h_c)
             R = model.network(h_outer, h_inner, ro, ri, 0.5 * (thm + tcm))
@@ -491,7 +491,9 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                     h_k=h_k.reshape(shp), G=G.reshape(shp), rho_l=rho_l.reshape(shp), rho_v=rho_v.reshape(shp),
                     mu_l=mu_l.reshape(shp), mu_v=mu_v.reshape(shp), nodes=nodes, thm=Th_m, tcm=Tc_m,
                     h_film=h_f.reshape(shp), Z=Z.reshape(shp), dtf=dtf.reshape(shp), u_v=u_v.reshape(shp),
-                    warnings=tuple(fc.warnings) + _used_warnings(model, c_side, m_v, pv, (dQ > 0) & (
+                    warnings=tuple(fc.warnings) + _film_warnings(tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o,
+                                                                  rows, rho_l, rho_v, mu_l, k_l, cp_l, latent,
+                                                                  p_red, dtf, u_v) + _used_warnings(model, c_side, m_v, pv, (dQ > 0) & (
                         (z == 0) | ((z == 1) & (Z > 0)))) + _used_warnings(model, c_side, mh, pl, (dQ > 0) & (z == 2)))
 
     def solve(dtsat, cp_c, guess=None):
@@ -563,6 +565,20 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
     return dp_total, dt_drop, dtsat
 
 
+def _film_warnings(tube_cond, used, G, x, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf, u_v):
+    """The condensing correlations' validity warnings over the condensing increments (the validating wrappers)."""
+    if not np.any(used):
+        return ()
+    u = used
+    if tube_cond:
+        res = cond.tube_condensation(G[u], np.clip(x[u], 0.0, 1.0), d_i, rho_l[u], rho_v[u], mu_l[u], k_l[u],
+                                     cp_l[u], latent, p_red, np.maximum(dtf[u], 1e-9))
+    else:
+        res = cond.shell_condensation(rho_l[u], rho_v[u], k_l[u], mu_l[u], latent, d_o, np.maximum(dtf[u], 1e-9),
+                                      max(rows, 1.0), u_v[u])
+    return tuple(res.warnings)
+
+
 def _pick(where, a, b, ones):
     """Properties: ``a`` where ``where`` holds, else ``b`` (arrays of the increments' flat shape)."""
     return Props(*(np.where(where, np.asarray(getattr(a, f), dtype=float) * ones,
@@ -590,16 +606,19 @@ def _model_film(model, side, m, props, warn):
 
 
 def cond_shell(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v):
-    """Shell-side condensing film on a horizontal tube bundle [W/m²K] (outside surface): the gravity-controlled
-    Nusselt (1916) film with Kern's row correction, combined with the vapour-shear form as
-    :mod:`revamp.correlations.condensation` states."""
-    return cond.shell_bundle_kernel(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v)
+    """Shell-side condensing film on a horizontal tube bundle [W/m²K] (outside surface): Nusselt (1916) with Kern's
+    row correction N^(-1/6), combined with Shekriladze & Gomelauri's (1966) vapour-shear form by Butterworth's (1977)
+    rule (:mod:`revamp.correlations.condensation`: the gravity form at low vapour velocity, the shear form at high)."""
+    h_grav = np.asarray(cond.nusselt_horizontal_tube(rho_l, rho_v, k_l, mu_l, latent, d_o, dtf)) * float(
+        cond.row_factor(rows, "kern"))
+    return cond.butterworth_combination(cond.shear_horizontal_tube(rho_l, k_l, mu_l, u_v, d_o), h_grav)
 
 
 def cond_tube(G, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf):
-    """In-tube condensing film [W/m²K] (inside surface): Shah's correlation, with the stratified Nusselt form at low
-    vapour velocity as :mod:`revamp.correlations.condensation` states."""
-    return cond.in_tube_kernel(G, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf)
+    """In-tube condensing film [W/m²K] (inside surface): the larger of Shah (1979) and the stratified Jaster &
+    Kosky (1976) form (the default of :func:`revamp.correlations.condensation.tube_condensation`)."""
+    return np.maximum(cond.shah_1979(G, x, d_i, rho_l, mu_l, k_l, cp_l, p_red),
+                      cond.stratified_jaster_kosky(x, rho_l, rho_v, k_l, mu_l, latent, d_i, dtf))
 
 
 def _q_in(curve, x_in):
@@ -625,26 +644,22 @@ def _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h):
     zone = np.broadcast_to(np.arange(3)[None, :, None], dA.shape)
     x = np.where(zone == 0, 1.0, np.where(zone == 2, 0.0, d["x"]))
     m_tube = np.broadcast_to(m_h[:, None, None], dA.shape) / float(bundle.tubes_per_pass)
-    grad = two_phase.gradient(m_tube, x, d["rho_l"], d["rho_v"], d["mu_l"], d["mu_v"], float(bundle.d_i),
-                              float(bundle.roughness))
+    d_i = float(bundle.d_i)
+    grad = two_phase.frictional_gradient(m_tube / (np.pi * d_i ** 2 / 4.0), x, d_i, d["rho_l"], d["rho_v"],
+                                         d["mu_l"], d["mu_v"], None, float(bundle.roughness) / d_i)
     return np.asarray(grad, dtype=float) * length, length
 
 
 def _sat_drop(curve, dp_total, s_out, s1):
-    """Saturation-temperature drop [K] caused by a pressure drop ``dp_total`` [Pa] from the inlet pressure.
-
-    The dew point at the lowered pressure from :meth:`CondensingFluid.at_pressure` (pure: CoolProp; a curve:
-    shifted as that method states), tabulated at a few pressures between the inlet and the largest drop and
-    interpolated per case."""
+    """Drop of the dew point [K] caused by a pressure drop ``dp_total`` [Pa] from the inlet pressure
+    (:func:`revamp.correlations.two_phase.saturation_temperature_drop`: pure fluid by CoolProp, a curve by
+    Clausius-Clapeyron)."""
     p = float(curve.pressure)
     dp = np.clip(np.asarray(dp_total, dtype=float), 0.0, 0.9 * p)
     dp = np.where((s_out > s1) & np.isfinite(dp), dp, 0.0)
-    top = float(np.max(dp)) if dp.size else 0.0
-    if top <= 0.0:
+    if not np.any(dp > 0):
         return np.zeros_like(dp)
-    grid = np.linspace(0.0, top, 5)
-    t_grid = np.array([curve.t_dew] + [curve.at_pressure(p - g).t_dew for g in grid[1:]])
-    return curve.t_dew - np.interp(dp, grid, t_grid)
+    return np.asarray(two_phase.saturation_temperature_drop(curve, dp), dtype=float) * np.ones_like(dp)
 
 
 def _zone_frames(d, n, shape, c_side, k_side):
