@@ -275,3 +275,68 @@ def test_air_cooled_condenser_energy_balance():
         expected = 2.0 * (h_mass(Q=1.0) - h_mass(T=r.t_out_tube))
     assert r.duty == pytest.approx(expected, rel=2e-3)
     assert r.layers[0] == "air film"
+
+
+# ------------------------------------------------------------------------------------------------------ pressure
+def test_condensing_pressure_for_a_vapour_load():
+    hx = exchanger()
+    svc = shell_condenser(flow=4.0, water=60.0)
+    low = rv.condensing_pressure_for(hx, svc, "6 kg/s", increments=6)
+    high = rv.condensing_pressure_for(hx, svc, 8.0, increments=6)
+    for c, load in ((low, 6.0), (high, 8.0)):
+        # the definition: the whole load condenses, the outlet at the bubble point
+        assert c.rating.quality_out == pytest.approx(0.0, abs=1e-4)
+        assert c.vapour_load == pytest.approx(load, rel=1e-4)
+        # CoolProp: the dew point at the pressure found
+        assert c.temperature == pytest.approx(PropsSI("T", "P", c.pressure, "Q", 1.0, HEXANE), abs=1e-6)
+    assert high.pressure > low.pressure  # more vapour needs a higher condensing pressure (law)
+
+
+def test_condensing_pressure_errors():
+    with pytest.raises(InputError) as exc:
+        rv.condensing_pressure_for(exchanger(), shell_condenser(), -1.0)
+    assert exc.value.field == "duty_or_vapour_load"
+    with pytest.raises(InputError) as exc:
+        rv.condensing_pressure_for(exchanger(), shell_condenser(water=np.array([30.0, 60.0])), 6.0)
+    assert exc.value.field == "service"
+
+
+# ------------------------------------------------------------------------------------------------------ vacuum
+def test_vacuum_steam_condenser_saturation_drop():
+    steam = rv.fluids.water("0.2 bar")
+    cw = rv.fluids.water("3 bar")
+    hx = exchanger(tube_length="6 m")
+    r = rv.rate(hx, rv.Service(tube=rv.Stream(steam, "0.3 kg/s", quality=1.0), shell=rv.Stream(cw, 80.0, "20 degC")))
+    z = r.zones.set_index("zone")
+    dp = z.loc["condensing", "dp"]
+    # CoolProp (IAPWS-95): the saturation temperature at 0.15 bar less that after the condensing zone's drop
+    expected = PropsSI("T", "P", 0.2e5, "Q", 1.0, "Water") - PropsSI("T", "P", 0.2e5 - dp, "Q", 1.0, "Water")
+    assert r.dt_sat_drop == pytest.approx(expected, rel=1e-6)
+    assert r.dt_sat_drop > 0.05
+    # CoolProp: heat released to the engine's outlet state at the outlet pressure
+    p_out = 0.2e5 - r.dp_tube
+    h_out = PropsSI("H", "T", r.t_out_tube, "P", p_out, "Water") if r.quality_out == 0 else PropsSI(
+        "H", "P", p_out, "Q", r.quality_out, "Water")
+    assert r.duty == pytest.approx(0.3 * (PropsSI("H", "P", 0.2e5, "Q", 1.0, "Water") - h_out), rel=2e-3)
+
+
+# ------------------------------------------------------------------------------------------------------ mixture
+def test_mixture_condenses_with_its_glide():
+    mix = rv.fluids.condensing_curve(mixture="HEOS::n-Pentane[0.5]&n-Hexane[0.5]", pressure="1.5 bar")
+    assert mix.t_dew - mix.t_bubble > 3.0
+    hx = exchanger()
+    r = rv.rate(hx, rv.Service(shell=rv.Stream(mix, 3.0, quality=1.0), tube=rv.Stream(WATER, 60.0, "25 degC")))
+    cond = r.increments[r.increments.zone == "condensing"]
+    assert (cond["T"].diff().dropna() <= 1e-9).all()  # the temperature glides down the curve (definition)
+    # Bell & Ghaly lowers the condensing coefficient below the film's where Z > 0: h_condensing <= film
+    assert (cond["h_condensing"] <= cond["h_film"] * (1 + 1e-12)).all()
+    assert (cond["h_condensing"] < cond["h_film"]).any()
+    # CoolProp's mixture model directly: enthalpy of the saturated vapour at 1.5 bar less that of the subcooled
+    # outlet (the condensate's enthalpy barely depends on the small pressure drop)
+    assert r.quality_out == 0.0
+    state = CP.AbstractState("HEOS", "n-Pentane&n-Hexane")
+    state.set_mole_fractions([0.5, 0.5])
+    state.update(CP.PQ_INPUTS, 1.5e5, 1.0)
+    h_in = state.hmass()
+    state.update(CP.PT_INPUTS, 1.5e5, float(r.t_out_shell))
+    assert r.duty == pytest.approx(3.0 * (h_in - state.hmass()), rel=5e-3)
