@@ -369,8 +369,12 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     area_per_length = area_unit / path_length  # m² of the basis per m of path
     rows = float(bundle.rows_vertical)
     p_red = float(curve.pressure) / float(curve.critical_pressure)
+    if tube_cond and not 0.0 < p_red < 1.0:
+        raise InputError(f"service.{c_side}.fluid.critical_pressure", curve.critical_pressure,
+                         "the critical (or pseudo-critical) pressure of the condensing fluid, above its pressure "
+                         "(Shah's in-tube correlation needs the reduced pressure): condensing_curve(critical_pressure=)")
     latent = float(curve.latent)
-    i_c, i_k = _layer_index(model, c_side), _layer_index(model, k_side)
+    i_c = _layer_index(model, c_side)
     warnings: list[str] = []
 
     def coolant_props(T):
