@@ -401,7 +401,7 @@ MODELS: dict = {ShellAndTubeModel.kind: ShellAndTubeModel, AirCoolerModel.kind: 
 
 def _kind(exchanger):
     kind = getattr(type(exchanger), "kind", None)
-    if kind not in MODELS:
+    if not isinstance(kind, str) or kind not in MODELS:
         raise InputError("exchanger", f"{type(exchanger).__name__} object",
                          f"an exchanger of a registered kind ({', '.join(sorted(MODELS))}): revamp.ShellAndTube or "
                          "revamp.AirCooler")

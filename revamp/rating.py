@@ -57,17 +57,25 @@ SHELL_METHODS = shell_corr.SHELL_METHODS
 RATERS = {"shell and tube": "revamp.rating:rate", "air cooler": "revamp.rating_air:rate_air_cooler"}
 
 
+_RESOLVED: dict = {}  # "module:function" -> the function, resolved once
+
+
 def _rater(exchanger):
     """The rating function registered for the exchanger's kind; InputError naming ``exchanger`` if none is."""
-    target = RATERS.get(getattr(type(exchanger), "kind", None))
+    kind = getattr(type(exchanger), "kind", None)
+    target = RATERS.get(kind) if isinstance(kind, str) else None
     if target is None:
         raise InputError("exchanger", f"{type(exchanger).__name__} object",
                          f"an exchanger of a registered kind ({', '.join(sorted(RATERS))}): revamp.ShellAndTube or "
                          "revamp.AirCooler")
-    import importlib
+    fn = _RESOLVED.get(target)
+    if fn is None:
+        import importlib
 
-    module, name = target.split(":")
-    return getattr(importlib.import_module(module), name)
+        module, name = target.split(":")
+        fn = _RESOLVED[target] = getattr(importlib.import_module(module), name)
+    return fn
+
 
 _MAX_ITER = 60
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
@@ -227,7 +235,8 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
         The two inlet streams and the fouling of each side; flows, inlet temperatures and fouling may be arrays
         (they broadcast). Another kind takes its own service (:class:`revamp.AirService`).
     shell_method : {"bell-delaware", "kern"}
-        Shell-side method; Kern (1950) is a simpler cross-check (not for X shells).
+        Shell-side method; Kern (1950) is a simpler cross-check (not for X shells). A kind without a shell side
+        does not use it (a train passes its one setting to every exchanger).
     **methods : str
         The method choices of another kind, passed to its engine (air cooler: ``h_method``, ``dp_method``,
         ``fin_method``); none for shell-and-tube.

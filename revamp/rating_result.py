@@ -167,9 +167,10 @@ class Rating(ResultFrames):
     def layers(self) -> tuple:
         """The names of the resistances in series, from the exchanger's kind (:data:`revamp.exchanger.MODELS`);
         those of the resistances themselves when the result carries no exchanger of a registered kind."""
-        from .exchanger import MODELS  # same layer, imported on use (the exchanger module imports rating)
+        from .exchanger import MODELS  # same layer, imported on use (exchanger.py builds on rating's helpers)
 
-        model = MODELS.get(getattr(type(self.exchanger), "kind", None))
+        kind = getattr(type(self.exchanger), "kind", None)
+        model = MODELS.get(kind) if isinstance(kind, str) else None
         if model is not None:
             return model.layers
         r = self.resistances

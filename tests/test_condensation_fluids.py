@@ -252,3 +252,54 @@ def test_table_needs_property_providers():
     tab = {"temperature": [360.0, 350.0], "heat_released": [0.0, 3e5], "vapour_fraction": [1.0, 0.0]}
     with pytest.raises(InputError, match="^condensing_curve.liquid"):
         condensing_curve(tab, pressure=3e5)
+
+
+# ------------------------------------------------------------------------------------ desuperheating, subcooling
+def test_pure_total_heat_from_superheated_vapour_to_subcooled_liquid(pentane):
+    # energy balance against CoolProp enthalpies: h(T_in, P) - h(T_out, P) = superheat + latent + subcooling
+    t_in = np.array([pentane.t_dew + 7.3, pentane.t_dew + 60.0, pentane.t_dew + 140.0])
+    t_out = np.array([pentane.t_dew - 0.5, pentane.t_dew - 33.3, pentane.t_dew - 120.0])
+    expected = CP.PropsSI("H", "T", t_in, "P", [3e5] * 3, "n-Pentane") - CP.PropsSI("H", "T", t_out, "P", [3e5] * 3,
+                                                                                  "n-Pentane")
+    total = pentane.superheat(t_in) + pentane.latent + pentane.subcooling(t_out)
+    assert total == pytest.approx(expected, rel=1e-6)
+    assert pentane.superheat(pentane.t_dew) == 0.0 and pentane.subcooling(pentane.t_bubble) == 0.0
+
+
+def test_mixture_sensible_zones_against_coolprop(mix):
+    # CoolProp mixture enthalpies at (T, P) and at the dew / bubble points
+    t = mix.t_dew + 23.1
+    assert mix.superheat(t) == pytest.approx(CP.PropsSI("H", "T", t, "P", 3e5, MIX) - CP.PropsSI("H", "P", 3e5, "Q", 1,
+                                                                                             MIX), rel=1e-6)
+    t = mix.t_bubble - 23.1
+    assert mix.subcooling(t) == pytest.approx(CP.PropsSI("H", "P", 3e5, "Q", 0, MIX) - CP.PropsSI("H", "T", t, "P",
+                                                                                              3e5, MIX), rel=1e-6)
+
+
+def test_table_sensible_zones_from_provider_heat_capacity():
+    # constant heat capacities: heat = cp ΔT (definition)
+    tab = {"temperature": [360.0, 350.0], "heat_released": [0.0, 3e5], "vapour_fraction": [1.0, 0.0]}
+    liq = rv.fluids.constant(density=600, heat_capacity=2500, viscosity=2e-4, conductivity=0.1)
+    vap = rv.fluids.constant(density=8, heat_capacity=2000, viscosity=8e-6, conductivity=0.02)
+    c = condensing_curve(tab, pressure=3e5, liquid=liq, vapour=vap)
+    assert c.superheat([360.0, 380.0]) == pytest.approx([0.0, 2000 * 20])
+    assert c.subcooling(330.0) == pytest.approx(2500 * 20)
+    with pytest.raises(InputError, match="^T"):
+        c.superheat(355.0)  # below the dew point
+    with pytest.raises(InputError, match="^T"):
+        c.subcooling(351.0)  # above the bubble point
+
+
+def test_superheat_beyond_the_tabulated_range_is_refused(pentane):
+    with pytest.raises(InputError, match="^T"):
+        pentane.superheat(pentane.t_dew + 400.0)
+
+
+@settings(max_examples=20, deadline=None)
+@given(a=st.floats(0.0, 1.0), b=st.floats(0.0, 1.0))
+def test_mixture_curve_cools_and_condenses_monotonically(mix, a, b):
+    # physical law along a condensing curve at constant pressure: releasing more heat never raises the temperature
+    # or the vapour fraction
+    q1, q2 = sorted((a * mix.latent, b * mix.latent))
+    (T1, x1), (T2, x2) = mix.at(q1), mix.at(q2)
+    assert T2 <= T1 + 1e-12 and x2 <= x1 + 1e-12

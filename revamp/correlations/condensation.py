@@ -156,7 +156,7 @@ def nusselt_horizontal_tube_loading(rho_l, rho_v, k_l, mu_l, gamma):
         As :func:`nusselt_horizontal_tube`.
     gamma : float or array_like
         Condensate leaving the tube per unit tube length [kg/s/m]. For Kern's (1958) bundle form pass
-        Γ = W / (L N_t^(2/3)) with W the bundle's condensate and N_t the tube count.
+        Γ = W / (L N_t^(2/3)) with W the bundle's condensate and N_t the tube count (from memory).
 
     Returns
     -------

@@ -5,7 +5,9 @@ heat released per kg from the dew point ``q`` [J/kg], the temperature ``T`` [K] 
 at each point, from the dew point (q = 0, x = 1) to the bubble point (q = latent, x = 0). Beside the curve it
 carries the properties of the two phases in equilibrium at each point (the film and the vapour core of the
 condensing zone), a liquid :class:`~revamp.fluids.base.Fluid` for the subcooled condensate and a vapour property
-provider for the superheated vapour (desuperheating zone).
+provider for the superheated vapour (desuperheating zone), and the heat released in those two sensible zones
+(:meth:`CondensingFluid.superheat`, :meth:`CondensingFluid.subcooling`: CoolProp enthalpies where CoolProp made the
+curve, the providers' heat capacities for a table).
 
 Three sources:
 
@@ -83,6 +85,39 @@ def _out(a):
 
 
 @dataclass(frozen=True, eq=False)
+class _Enthalpy:
+    """Specific enthalpy [J/kg] of one phase at one pressure on nodes T (ascending), with cp = dh/dT at each node:
+    cubic Hermite interpolation (exact for h quadratic in T between nodes; NaN outside the nodes)."""
+
+    T: np.ndarray
+    h: np.ndarray
+    cp: np.ndarray
+
+    def __call__(self, T):
+        T = np.asarray(T, dtype=float)
+        i = np.clip(np.searchsorted(self.T, T, side="right") - 1, 0, self.T.size - 2)
+        dt = self.T[i + 1] - self.T[i]
+        t = (T - self.T[i]) / dt
+        h = ((2 * t ** 3 - 3 * t ** 2 + 1) * self.h[i] + (t ** 3 - 2 * t ** 2 + t) * dt * self.cp[i]
+             + (-2 * t ** 3 + 3 * t ** 2) * self.h[i + 1] + (t ** 3 - t ** 2) * dt * self.cp[i + 1])
+        tol = 1e-9 * self.T[-1]
+        return np.where((T >= self.T[0] - tol) & (T <= self.T[-1] + tol), h, np.nan)
+
+
+_GL_NODES, _GL_WEIGHTS = np.polynomial.legendre.leggauss(8)
+
+
+def _cp_integral(provider, t_low, t_high):
+    """∫ cp dT [J/kg] from t_low to t_high of a provider's heat capacity (8-point Gauss-Legendre)."""
+    a, b = np.broadcast_arrays(np.asarray(t_low, dtype=float), np.asarray(t_high, dtype=float))
+    shape = a.shape
+    nodes = 0.5 * (a + b)[None] + 0.5 * (b - a)[None] * _GL_NODES.reshape((-1,) + (1,) * len(shape))
+    cp = np.asarray(provider.props(np.ascontiguousarray(nodes, dtype=float)).heat_capacity, dtype=float)
+    w = _GL_WEIGHTS.reshape((-1,) + (1,) * len(shape))
+    return 0.5 * (b - a) * np.sum(w * cp, axis=0)
+
+
+@dataclass(frozen=True, eq=False)
 class CondensingFluid:
     """A condensing curve at one pressure; also a liquid :class:`~revamp.fluids.base.Fluid` (the condensate).
 
@@ -133,6 +168,8 @@ class CondensingFluid:
     sat_liquid: np.ndarray = field(repr=False, default=None)  # (4, n): rho, cp, mu, k of the equilibrium liquid
     sat_vapour: np.ndarray = field(repr=False, default=None)  # (4, n): the same for the equilibrium vapour
     sigma: np.ndarray = field(repr=False, default=None)  # (n,) surface tension [N/m], NaN where unknown
+    vapour_enthalpy: object = field(repr=False, default=None)  # _Enthalpy of the superheated vapour, or None
+    liquid_enthalpy: object = field(repr=False, default=None)  # _Enthalpy of the subcooled condensate, or None
 
     # ------------------------------------------------------------------ the Fluid protocol (condensate liquid)
     @property
@@ -213,6 +250,58 @@ class CondensingFluid:
         cp_v = np.interp(qq, self.q, self.sat_vapour[1])
         return _out(np.asarray(x) * cp_v * np.abs(np.asarray(self.slope(qq))))
 
+    # ------------------------------------------------------------------------------------ sensible zones
+    def superheat(self, T):
+        """Heat released [J/kg] by the vapour cooling from ``T`` [K] down to its dew point (desuperheating).
+
+        A pure fluid or a CoolProp mixture: CoolProp enthalpies at this pressure, tabulated every 5 K over
+        150 K above the dew point with their heat capacities (cubic Hermite). A table: ∫ cp dT of the vapour
+        provider.
+
+        Raises
+        ------
+        InputError
+            For ``T`` below the dew point or above the tabulated range.
+        """
+        T = np.asarray(to_si(T, "temperature", "T"), dtype=float)
+        tol = 1e-9 * self.t_dew
+        if not np.all(T >= self.t_dew - tol):
+            raise InputError("T", float(np.min(T)), f"a vapour temperature at or above the dew point "
+                             f"{self.t_dew:.2f} K of {self.name}")
+        if self.vapour_enthalpy is None:
+            return _out(_cp_integral(self.vapour, self.t_dew, np.maximum(T, self.t_dew)))
+        e = self.vapour_enthalpy
+        out = e(np.maximum(T, self.t_dew)) - e.h[0]
+        if not np.all(np.isfinite(out)):
+            raise InputError("T", float(np.max(T)), f"a vapour temperature within the tabulated superheat, up to "
+                             f"{e.T[-1]:.2f} K")
+        return _out(out)
+
+    def subcooling(self, T):
+        """Heat released [J/kg] by the condensate cooling from its bubble point down to ``T`` [K] (subcooling).
+
+        A pure fluid or a CoolProp mixture: CoolProp enthalpies at this pressure (cubic Hermite on nodes with
+        their heat capacities). A table: ∫ cp dT of the liquid provider.
+
+        Raises
+        ------
+        InputError
+            For ``T`` above the bubble point or below the tabulated range.
+        """
+        T = np.asarray(to_si(T, "temperature", "T"), dtype=float)
+        tol = 1e-9 * self.t_bubble
+        if not np.all(T <= self.t_bubble + tol):
+            raise InputError("T", float(np.max(T)), f"a condensate temperature at or below the bubble point "
+                             f"{self.t_bubble:.2f} K of {self.name}")
+        if self.liquid_enthalpy is None:
+            return _out(_cp_integral(self.liquid, np.minimum(T, self.t_bubble), self.t_bubble))
+        e = self.liquid_enthalpy
+        out = e.h[-1] - e(np.minimum(T, self.t_bubble))
+        if not np.all(np.isfinite(out)):
+            raise InputError("T", float(np.min(T)), f"a condensate temperature within the tabulated subcooling, "
+                             f"down to {e.T[0]:.2f} K")
+        return _out(out)
+
     # ------------------------------------------------------------------------------------------ other pressures
     def _clapeyron_b(self) -> float:
         """B = latent ρv T_dew / p [K] of ln(p2/p1) = -B (1/T2 - 1/T1) (ideal-gas vapour: M/R = ρv T / p)."""
@@ -289,10 +378,28 @@ def _vapour_table(CP, fluid_names, fractions, p, t_dew, label):
             AS.specify_phase(CP.iphase_gas)
             AS.update(CP.PT_INPUTS, p, float(t))
             AS.unspecify_phase()
-        rows.append((AS.rhomass(), AS.cpmass(), AS.viscosity(), AS.conductivity()))
+        rows.append((AS.rhomass(), AS.cpmass(), AS.viscosity(), AS.conductivity(), AS.hmass()))
     r = np.array(rows).T
+    if not np.isfinite(r).all():
+        raise InputError("pressure", f"{p:.6g} Pa", f"a pressure at which CoolProp gives the superheated vapour "
+                         f"properties of {label} above its dew point {t_dew:.2f} K")
+    enthalpy = _Enthalpy(T, r[4], r[1])
+    _freeze(T, r)
     return table(T=T, density=r[0], heat_capacity=r[1], viscosity=r[2], conductivity=r[3],
-                 name=f"{label} vapour at {p:.6g} Pa")
+                 name=f"{label} vapour at {p:.6g} Pa"), enthalpy
+
+
+def _pure_liquid_enthalpy(CP, name, p, t_low, t_sat):
+    """CoolProp enthalpy and heat capacity of the subcooled liquid on 31 nodes up to saturation."""
+    T = np.linspace(max(t_low, t_sat - SUBCOOL_SPAN - 70.0), t_sat, 31)
+    h = np.empty_like(T)
+    cp = np.empty_like(T)
+    h[:-1] = CP.PropsSI("H", "T", T[:-1], "P", np.full(T.size - 1, p), name)
+    cp[:-1] = CP.PropsSI("C", "T", T[:-1], "P", np.full(T.size - 1, p), name)
+    h[-1] = CP.PropsSI("H", "P", p, "Q", 0.0, name)
+    cp[-1] = CP.PropsSI("C", "P", p, "Q", 0.0, name)
+    _freeze(T, h, cp)
+    return _Enthalpy(T, h, cp)
 
 
 def condensing(fluid) -> CondensingFluid:
@@ -345,11 +452,13 @@ def condensing(fluid) -> CondensingFluid:
     sat_v = np.repeat(vap[:, None], n, axis=1)
     sig = np.full(n, sigma)
     _freeze(q, T, x, sat_l, sat_v, sig)
+    vapour, h_vap = _vapour_table(CP, [name], [1.0], p, t_sat, name)
     return CondensingFluid(
         name=f"{name} condensing at {p:.6g} Pa", pressure=p, q=q, T=T, x=x, liquid=fluid,
-        vapour=_vapour_table(CP, [name], [1.0], p, t_sat, name), t_dew=t_sat, t_bubble=t_sat, latent=h_fg,
+        vapour=vapour, t_dew=t_sat, t_bubble=t_sat, latent=h_fg,
         pure_name=name, critical_pressure=float(CP.PropsSI("pcrit", name)), mixture=None,
-        source=f"CoolProp saturation of {name} at {p:.6g} Pa", sat_liquid=sat_l, sat_vapour=sat_v, sigma=sig)
+        source=f"CoolProp saturation of {name} at {p:.6g} Pa", sat_liquid=sat_l, sat_vapour=sat_v, sigma=sig,
+        vapour_enthalpy=h_vap, liquid_enthalpy=_pure_liquid_enthalpy(CP, name, p, fluid.t_min, t_sat))
 
 
 # ------------------------------------------------------------------------------------------------ mixtures
@@ -445,8 +554,10 @@ def _mixture_curve(spec, p, name):
         raise InputError("condensing_curve.mixture", spec, f"a mixture whose curve at {p:.6g} Pa releases heat and "
                          f"cools monotonically from dew to bubble point (CoolProp's flash did not)")
     if not (np.isfinite(sat_l).all() and np.isfinite(sat_v).all()):
-        raise InputError("condensing_curve.mixture", spec, "a mixture with CoolProp transport properties for both "
-                         "phases")
+        j = int(np.flatnonzero(~(np.isfinite(sat_l).all(axis=0) & np.isfinite(sat_v).all(axis=0)))[0])
+        raise InputError("condensing_curve.mixture", spec, f"a mixture with CoolProp transport properties for both "
+                         f"phases from dew to bubble point (none at {T[j]:.2f} K, vapour fraction {x[j]:.3g}; a "
+                         f"mixture with non-condensables that never condenses fully is not supported)")
     # subcooled condensate (feed composition) below the bubble point
     liq_state = CP.AbstractState("HEOS", "&".join(names))
     liq_state.set_mole_fractions(list(z))
@@ -455,21 +566,23 @@ def _mixture_curve(spec, p, name):
     rows = []
     for j, t in enumerate(Tl):
         if j == Tl.size - 1:
-            rows.append(sat_l[:, -1])
+            rows.append((*sat_l[:, -1], h[-1]))
             continue
         liq_state.specify_phase(CP.iphase_liquid)
         try:
             liq_state.update(CP.PT_INPUTS, p, float(t))
-            rows.append((liq_state.rhomass(), liq_state.cpmass(), liq_state.viscosity(), liq_state.conductivity()))
+            rows.append((liq_state.rhomass(), liq_state.cpmass(), liq_state.viscosity(), liq_state.conductivity(),
+                         liq_state.hmass()))
         except ValueError:
-            rows.append((np.nan,) * 4)
+            rows.append((np.nan,) * 5)
         liq_state.unspecify_phase()
     r = np.array(rows, dtype=float).T
     ok = np.isfinite(r).all(axis=0)
     label = name or spec.split("::")[-1]
     liquid = table(T=Tl[ok], density=r[0, ok], heat_capacity=r[1, ok], viscosity=r[2, ok], conductivity=r[3, ok],
                    name=f"{label} condensate at {p:.6g} Pa")
-    vapour = _vapour_table(CP, names, z, p, float(T[0]), label)
+    h_liq = _Enthalpy(np.ascontiguousarray(Tl[ok]), np.ascontiguousarray(r[4, ok]), np.ascontiguousarray(r[1, ok]))
+    vapour, h_vap = _vapour_table(CP, names, z, p, float(T[0]), label)
     pc = float(z @ np.array([CP.PropsSI("pcrit", n) for n in names]))  # Kay's rule (mole fractions)
     _freeze(q, T, x, sat_l, sat_v, sig)
     return CondensingFluid(
@@ -477,7 +590,7 @@ def _mixture_curve(spec, p, name):
         t_dew=float(T[0]), t_bubble=t_b, latent=float(q[-1]), pure_name=None, critical_pressure=pc, mixture=spec,
         source=f"CoolProp HEOS mixture {spec} at {p:.6g} Pa ({MIXTURE_POINTS} points; critical pressure by Kay's "
                f"rule; surface tension the mole-fraction average of the components')",
-        sat_liquid=sat_l, sat_vapour=sat_v, sigma=sig)
+        sat_liquid=sat_l, sat_vapour=sat_v, sigma=sig, vapour_enthalpy=h_vap, liquid_enthalpy=h_liq)
 
 
 # ---------------------------------------------------------------------------------------------------- tables
