@@ -66,7 +66,7 @@ INCREMENTS = 16
 
 #: A condensing-side pressure drop above this share of the inlet pressure is beyond the rating (near choking): NaN.
 CHOKE_SHARE = 0.5
-_BISECTIONS = 36
+_MAX_SEARCH = 80
 _OUTER = 4  # passes of the pressure-drop / saturation-temperature feedback
 
 
@@ -502,21 +502,39 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                         (z == 0) | ((z == 1) & (Z > 0)))) + _used_warnings(model, c_side, mh, pl, (dQ > 0) & (z == 2)))
 
     def solve(dtsat, cp_c, guess=None):
-        """The heat released per kg at which the needed area equals the unit's area (per case, bisection; from a
-        bracket around ``guess`` when it holds)."""
+        """The heat released per kg at which the needed area equals the unit's area, per case: regula falsi with
+        the Illinois modification on a bracket (bisection while an end needs infinite area, at a pinch), from a
+        bracket around ``guess`` when it holds."""
         lo, hi = np.zeros(n), s_max.copy()
-        full = evaluate(hi, dtsat, cp_c) <= area_unit  # more area than the whole path needs: it ends at its limit
-        steps = _BISECTIONS
+        f_lo = np.full(n, -area_unit)
+        f_hi = evaluate(hi, dtsat, cp_c) - area_unit
+        full = f_hi <= 0  # more area than the whole path needs: it ends at its limit
         if guess is not None:
             width = 0.02 * s_max
             g_lo, g_hi = np.maximum(guess - width, 0.0), np.minimum(guess + width, s_max)
-            ok = (evaluate(g_lo, dtsat, cp_c) < area_unit) & (evaluate(g_hi, dtsat, cp_c) >= area_unit)
+            fl_, fh_ = evaluate(g_lo, dtsat, cp_c) - area_unit, evaluate(g_hi, dtsat, cp_c) - area_unit
+            ok = (fl_ < 0) & (fh_ >= 0)
             lo, hi = np.where(ok, g_lo, lo), np.where(ok, g_hi, hi)
-            steps = _BISECTIONS if not ok.all() else _BISECTIONS - 6
-        for _ in range(steps):
-            mid = 0.5 * (lo + hi)
-            under = evaluate(mid, dtsat, cp_c) < area_unit
-            lo, hi = np.where(under, mid, lo), np.where(under, hi, mid)
+            f_lo, f_hi = np.where(ok, fl_, f_lo), np.where(ok, fh_, f_hi)
+        side = np.zeros(n)
+        tol = 1e-10 * area_unit
+        for _ in range(_MAX_SEARCH):
+            finite = np.isfinite(f_hi)
+            with np.errstate(invalid="ignore", divide="ignore"):
+                falsi = (lo * f_hi - hi * f_lo) / (f_hi - f_lo)
+            mid = np.where(finite & (falsi > lo) & (falsi < hi), falsi, 0.5 * (lo + hi))
+            f = evaluate(mid, dtsat, cp_c) - area_unit
+            under = f < 0
+            # Illinois: halve the function value kept at an end that is kept twice in a row
+            f_hi = np.where(under & (side < 0), 0.5 * f_hi, f_hi)
+            f_lo = np.where(~under & (side > 0), 0.5 * f_lo, f_lo)
+            lo, f_lo = np.where(under, mid, lo), np.where(under, f, f_lo)
+            hi, f_hi = np.where(under, hi, mid), np.where(under, f_hi, f)
+            side = np.where(under, -1.0, 1.0)
+            if np.all(full | (np.abs(f) < tol) | (hi - lo < 1e-12 * np.maximum(s_max, 1.0))):
+                lo = np.where(np.abs(f) < tol, mid, lo)
+                hi = np.where(np.abs(f) < tol, mid, hi)
+                break
         return np.where(full, s_max, 0.5 * (lo + hi))
 
     def no_drop(s):
