@@ -691,8 +691,9 @@ def _sat_drop(curve, dp_total, s_out, s1):
 
 
 def _zone_frames(d, n, shape, c_side, k_side):
+    """The zones (one row per zone reached, per case) and the increments (one row per increment with duty)."""
     dA, dQ, U = d["dA"], d["dQ"], d["U"]
-    Th, Tc, nodes = d["Th"], d["Tc"], d["nodes"]
+    Th, Tc = d["Th"], d["Tc"]
     case = np.broadcast_to(np.arange(n)[:, None, None], dA.shape)
     zone = np.broadcast_to(np.arange(3)[None, :, None], dA.shape)
     inc = pd.DataFrame({
@@ -705,8 +706,16 @@ def _zone_frames(d, n, shape, c_side, k_side):
         "rho_l": d["rho_l"].ravel(), "rho_v": d["rho_v"].ravel(), "mu_l": d["mu_l"].ravel(),
         "mu_v": d["mu_v"].ravel()})
     inc = inc[inc["duty"] > 0].reset_index(drop=True)
-    rows = []
     area_tot = dA.sum(axis=(1, 2))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        rows = _zone_rows(dA, dQ, U, Th, Tc, d, n, area_tot)
+    zones = pd.DataFrame(rows, columns=["case", "zone", "duty", "area", "area_share", "U", "t_in", "t_out",
+                                        "t_coolant_in", "t_coolant_out", "x_in", "x_out", "dp"])
+    return zones, inc
+
+
+def _zone_rows(dA, dQ, U, Th, Tc, d, n, area_tot):
+    rows = []
     x_nodes = d["x_nodes"]
     for i in range(n):
         for z, name in enumerate(ZONES):
@@ -719,9 +728,7 @@ def _zone_frames(d, n, shape, c_side, k_side):
                              t_in=float(Th[i, z, 0]), t_out=float(Th[i, z, -1]), t_coolant_in=float(Tc[i, z, -1]),
                              t_coolant_out=float(Tc[i, z, 0]), x_in=float(x_nodes[i, z, 0]),
                              x_out=float(x_nodes[i, z, -1]), dp=float(d["dp"][i, z].sum())))
-    zones = pd.DataFrame(rows, columns=["case", "zone", "duty", "area", "area_share", "U", "t_in", "t_out",
-                                        "t_coolant_in", "t_coolant_out", "x_in", "x_out", "dp"])
-    return zones, inc
+    return rows
 
 
 def _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, cp_c, n_par, shape, n, c_side,
