@@ -372,7 +372,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     if tube_cond and not 0.0 < p_red < 1.0:
         raise InputError(f"service.{c_side}.fluid.critical_pressure", curve.critical_pressure,
                          "the critical (or pseudo-critical) pressure of the condensing fluid, above its pressure "
-                         "(Shah's in-tube correlation needs the reduced pressure): condensing_curve(critical_pressure=)")
+                         "(Shah's in-tube correlation needs the reduced pressure): "
+                         "condensing_curve(critical_pressure=)")
     latent = float(curve.latent)
     i_c = _layer_index(model, c_side)
     warnings: list[str] = []
@@ -484,22 +485,26 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                 dA = dQ / ((thm - tcm) * Ga * -np.expm1(-U / Ga))
             dA = np.where(thm > tcm, dA, np.inf)
         else:
-            lm = thermal.lmtd_kernel((Th[..., :-1] - Tc[..., :-1]).reshape(N), (Th[..., 1:] - Tc[..., 1:]).reshape(N))
+            lm = thermal.lmtd_kernel((Th[..., :-1] - Tc[..., :-1]).reshape(N),
+                                     (Th[..., 1:] - Tc[..., 1:]).reshape(N))
             with np.errstate(divide="ignore", invalid="ignore"):
                 dA = np.where(lm > 0, dQ / (U * lm), np.inf)
         dA = np.where(dQ > 0, dA, 0.0)
         A = dA.reshape(shp).sum(axis=(1, 2))
         if not detail:
             return A
-        return dict(A=A, E_out=E_out, dA=dA.reshape(shp), dQ=dQ.reshape(shp), U=U.reshape(shp), R=[r.reshape(shp) for r in R],
-                    Th=Th, Tc=Tc, x=xm.reshape(shp), x_nodes=path.x_at(nodes), h_c=h_c.reshape(shp),
-                    h_k=h_k.reshape(shp), G=G.reshape(shp), rho_l=rho_l.reshape(shp), rho_v=rho_v.reshape(shp),
-                    mu_l=mu_l.reshape(shp), mu_v=mu_v.reshape(shp), nodes=nodes, thm=Th_m, tcm=Tc_m,
-                    h_film=h_f.reshape(shp), Z=Z.reshape(shp), dtf=dtf.reshape(shp), u_v=u_v.reshape(shp),
-                    warnings=tuple(fc.warnings) + _film_warnings(tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o,
-                                                                  rows, rho_l, rho_v, mu_l, k_l, cp_l, latent,
-                                                                  p_red, dtf, u_v) + _used_warnings(model, c_side, m_v, pv, (dQ > 0) & (
-                        (z == 0) | ((z == 1) & (Z > 0)))) + _used_warnings(model, c_side, mh, pl, (dQ > 0) & (z == 2)))
+        warns = (tuple(fc.warnings)
+                 + _film_warnings(tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l,
+                                  cp_l, latent, p_red, dtf, u_v)
+                 + _used_warnings(model, c_side, m_v, pv, (dQ > 0) & ((z == 0) | ((z == 1) & (Z > 0))))
+                 + _used_warnings(model, c_side, mh, pl, (dQ > 0) & (z == 2)))
+        out = dict(A=A, E_out=E_out, Th=Th, Tc=Tc, x_nodes=path.x_at(nodes), nodes=nodes, thm=Th_m, tcm=Tc_m,
+                   R=[r.reshape(shp) for r in R], warnings=warns)
+        for key, v in (("dA", dA), ("dQ", dQ), ("U", U), ("x", xm), ("h_c", h_c), ("h_k", h_k), ("G", G),
+                       ("rho_l", rho_l), ("rho_v", rho_v), ("mu_l", mu_l), ("mu_v", mu_v), ("h_film", h_f),
+                       ("Z", Z), ("dtf", dtf), ("u_v", u_v)):
+            out[key] = np.asarray(v).reshape(shp)
+        return out
 
     def solve(dtsat, cp_c, guess=None):
         """The heat released per kg at which the needed area equals the unit's area, per case: regula falsi with
@@ -933,6 +938,7 @@ def condensing_pressure_for(exchanger, service, duty_or_vapour_load, *, incremen
     p = float(np.exp(logp))
     r, c = rated(p)
     basis = (f"lowest condensing pressure at which {'the vapour load' if load_kind == 'mass_flow' else 'the duty'} "
-             f"condenses fully, the coolant as given; inlet {'quality held' if superheat is None else 'superheat held'}")
+             "condenses fully, the coolant as given; inlet "
+             f"{'quality held' if superheat is None else 'superheat held'}")
     return CondensingPressure(pressure=p, temperature=float(c.t_dew), vapour_load=float(r.condensed), rating=r,
                               basis=basis)
