@@ -340,3 +340,17 @@ def test_mixture_condenses_with_its_glide():
     h_in = state.hmass()
     state.update(CP.PT_INPUTS, 1.5e5, float(r.t_out_shell))
     assert r.duty == pytest.approx(3.0 * (h_in - state.hmass()), rel=5e-3)
+
+
+def test_air_cooled_condenser_sweep_more_air_more_duty():
+    ac = rv.AirCooler(bays=1, bundles_per_bay=2, tube_rows=4, tubes_per_row=30, tube_passes=2, tube_length="6 m",
+                      tube_od="25.4 mm", tube_wall="2.11 mm", transverse_pitch="63.5 mm", row_pitch="55 mm",
+                      fin=rv.Fin(height="15.9 mm", thickness="0.4 mm", per_length="394 /m"))
+    velocity = np.array([2.0, 3.0, 4.0])
+    svc = rv.AirService(tube=rv.Stream(VAPOUR, "3 kg/s", quality=1.0), air_in="30 degC", face_velocity=velocity)
+    r = rv.rate(ac, svc)
+    assert r.duty.shape == (3,)
+    assert np.all(np.diff(r.duty) > 0)  # more air, more duty (law)
+    assert np.all(r.t_out_air > 303.15) and np.all(r.t_out_air < r.service.tube.t_in)
+    one = rv.rate(ac, svc.replace(face_velocity=3.0))
+    assert one.duty == pytest.approx(r.duty[1], rel=1e-6)  # the sweep is the cases one by one
