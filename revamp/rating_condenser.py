@@ -501,7 +501,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         out = dict(A=A, E_out=E_out, Th=Th, Tc=Tc, x_nodes=path.x_at(nodes), nodes=nodes, thm=Th_m, tcm=Tc_m,
                    R=[r.reshape(shp) for r in R], warnings=warns)
         for key, v in (("dA", dA), ("dQ", dQ), ("U", U), ("x", xm), ("h_c", h_c), ("h_k", h_k), ("G", G),
-                       ("rho_l", rho_l), ("rho_v", rho_v), ("mu_l", mu_l), ("mu_v", mu_v), ("h_film", h_f),
+                       ("rho_l", rho_l), ("rho_v", rho_v), ("mu_l", mu_l), ("mu_v", mu_v), ("k_l", k_l),
+                       ("cp_l", cp_l), ("h_film", h_f),
                        ("Z", Z), ("dtf", dtf), ("u_v", u_v)):
             out[key] = np.asarray(v).reshape(shp)
         return out
@@ -709,7 +710,7 @@ def _zone_frames(d, n, shape, c_side, k_side):
         "u_vapour": d["u_v"].ravel(), "U": U.ravel(), "dT": (d["thm"] - d["tcm"]).ravel(), "duty": dQ.ravel(),
         "area": dA.ravel(), "length": d["length"].ravel(), "dp": d["dp"].ravel(), "G": d["G"].ravel(),
         "rho_l": d["rho_l"].ravel(), "rho_v": d["rho_v"].ravel(), "mu_l": d["mu_l"].ravel(),
-        "mu_v": d["mu_v"].ravel()})
+        "mu_v": d["mu_v"].ravel(), "k_l": d["k_l"].ravel(), "cp_l": d["cp_l"].ravel()})
     inc = inc[inc["duty"] > 0].reset_index(drop=True)
     area_tot = dA.sum(axis=(1, 2))
     with np.errstate(invalid="ignore", divide="ignore"):

@@ -202,6 +202,9 @@ def test_sweep_matches_single_cases():
         assert sweep.t_out_tube[i] == pytest.approx(one.t_out_tube, abs=1e-4)
     assert sweep.duty[1] > sweep.duty[0]  # more coolant, more duty (law)
     assert set(sweep.zones["case"]) == {0, 1}
+    frame = sweep.to_frame()
+    assert frame.shape[0] == 2 and "R tube film" in frame
+    assert np.allclose(frame[[f"R {name}" for name in sweep.layers]].sum(axis=1), 1.0 / sweep.U_service)
 
 
 # ------------------------------------------------------------------------------------------------------ films, dp
@@ -354,3 +357,42 @@ def test_air_cooled_condenser_sweep_more_air_more_duty():
     assert np.all(r.t_out_air > 303.15) and np.all(r.t_out_air < r.service.tube.t_in)
     one = rv.rate(ac, svc.replace(face_velocity=3.0))
     assert one.duty == pytest.approx(r.duty[1], rel=1e-6)  # the sweep is the cases one by one
+
+
+# ------------------------------------------------------------------------------------------------------ films
+def test_in_tube_condensing_film_against_ht():
+    hx = exchanger()
+    r = rv.rate(hx, tube_condenser(flow=4.0, water=60.0))
+    cond = r.increments[r.increments.zone == "condensing"]
+    m_tube = 4.0 / float(hx.tubes_per_pass)
+    p_crit = PropsSI("pcrit", HEXANE)  # CoolProp
+    for _, row in cond.iterrows():
+        # ht.condensation.Shah (Bell): Shah (1979) at the engine's state (reduced pressure at the inlet pressure)
+        shah = ht.condensation.Shah(m=m_tube, x=row.x, D=float(hx.tube_id), rhol=row.rho_l, mul=row.mu_l,
+                                    kl=row.k_l, Cpl=row.cp_l, P=P_HEX, Pc=p_crit)
+        assert row.h_film >= shah * (1 - 1e-9)  # the larger of Shah and the stratified form
+    upper = cond[cond.x > 0.3]
+    shah_upper = [ht.condensation.Shah(m=m_tube, x=row.x, D=float(hx.tube_id), rhol=row.rho_l, mul=row.mu_l,
+                                       kl=row.k_l, Cpl=row.cp_l, P=P_HEX, Pc=p_crit) for _, row in upper.iterrows()]
+    # at these mass fluxes and qualities Shah governs (annular flow): the engine's film is Shah's value
+    assert np.allclose(upper.h_film, shah_upper, rtol=1e-9)
+
+
+def test_shell_condensing_film_from_the_published_equations(full_shell):
+    hx = exchanger()
+    inc = full_shell.increments
+    cond = inc[inc.zone == "condensing"]
+    rows_vertical = math.pi / 4.0 * hx.bell().Dctl / hx.bell().pitch_parallel  # the model's stated estimate
+    g = 9.80665
+    h_fg = h_mass(Q=1.0) - h_mass(Q=0.0)  # CoolProp latent heat at the inlet pressure
+    for _, row in cond.iloc[[0, len(cond) // 2, -1]].iterrows():
+        d = float(hx.tube_od)
+        # Nusselt (1916) horizontal tube, 0.725 [rho_l (rho_l - rho_v) g h_fg k_l^3 / (mu_l dT d)]^(1/4), with Kern's
+        # N^(-1/6) (Kern 1958)
+        h_grav = 0.725 * (row.rho_l * (row.rho_l - row.rho_v) * g * h_fg * row.k_l ** 3
+                          / (row.mu_l * row.dT_film * d)) ** 0.25 * rows_vertical ** (-1 / 6)
+        # Shekriladze & Gomelauri (1966): Nu = 0.59 Re^(1/2), Re = rho_l u_v d / mu_l
+        h_shear = 0.59 * math.sqrt(row.rho_l * row.u_vapour * d / row.mu_l) * row.k_l / d
+        # Butterworth (1977): h^2 = h_sh^2 / 2 + sqrt(h_sh^4 / 4 + h_gr^4)
+        expected = math.sqrt(0.5 * h_shear ** 2 + math.sqrt(0.25 * h_shear ** 4 + h_grav ** 4))
+        assert row.h_film == pytest.approx(expected, rel=1e-3)
