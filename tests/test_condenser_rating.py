@@ -396,3 +396,11 @@ def test_shell_condensing_film_from_the_published_equations(full_shell):
         # Butterworth (1977): h^2 = h_sh^2 / 2 + sqrt(h_sh^4 / 4 + h_gr^4)
         expected = math.sqrt(0.5 * h_shear ** 2 + math.sqrt(0.25 * h_shear ** 4 + h_grav ** 4))
         assert row.h_film == pytest.approx(expected, rel=1e-3)
+
+
+def test_stream_replace_moves_to_the_new_saturation():
+    s = rv.Stream(VAPOUR, 4.0, quality=0.8)
+    other = s.replace(fluid=rv.fluids.pure(HEXANE, pressure=3e5))
+    # CoolProp: saturation temperature of n-hexane at 3 bar
+    assert other.t_in == pytest.approx(PropsSI("T", "P", 3e5, "Q", 1.0, HEXANE), abs=1e-6)
+    assert other.quality == 0.8 and s.replace(flow=5.0).t_in == s.t_in
