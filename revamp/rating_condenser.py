@@ -168,12 +168,6 @@ def _curve_of(fluid):
     return condensing(fluid)
 
 
-def _cum_trapz(y, x):
-    out = np.zeros_like(np.asarray(x, dtype=float))
-    out[1:] = np.cumsum(0.5 * (y[1:] + y[:-1]) * np.diff(x))
-    return out
-
-
 @dataclass(frozen=True)
 class _Path:
     """The condensing stream's path, the same for every case: heat released per kg ``s`` [J/kg] from the inlet
@@ -203,10 +197,14 @@ def _path(curve, t_in, x_in, t_floor) -> _Path:
     q, Tc, xc = (np.asarray(a, dtype=float) for a in (curve.q, curve.T, curve.x))
     parts_s, parts_T, parts_x = [], [], []
     s0 = 0.0
-    if x_in is None and t_in > curve.t_dew + 1e-9:  # desuperheating: cp of the vapour integrated
+    if x_in is None and t_in > curve.t_dew + 1e-9:  # desuperheating: the curve's vapour enthalpies
         Tg = np.linspace(t_in, curve.t_dew, 41)
-        cp = np.asarray(curve.vapour.props(Tg).heat_capacity, dtype=float) * np.ones_like(Tg)
-        sg = _cum_trapz(cp, -Tg)
+        try:
+            hs = np.asarray(curve.superheat(Tg), dtype=float)
+        except InputError as exc:
+            raise InputError("t_in", f"{t_in:.2f} K", f"a vapour inlet within the condensing fluid's "
+                             f"superheat range ({exc.allowed})") from None
+        sg = hs[0] - hs
         parts_s.append(sg), parts_T.append(Tg), parts_x.append(np.ones_like(Tg))
         s0 = float(sg[-1])
     s1 = s0
@@ -219,10 +217,12 @@ def _path(curve, t_in, x_in, t_floor) -> _Path:
     parts_x.append(np.asarray(xq, dtype=float) * np.ones_like(qg))
     s2 = s1 + float(q[-1]) - q_in
     t_b = float(curve.t_bubble)
+    enthalpy = getattr(curve, "liquid_enthalpy", None)
+    if enthalpy is not None:  # the subcooling the curve tabulates
+        t_floor = max(t_floor, float(enthalpy.T[0]))
     t_floor = min(t_floor, t_b - 1e-3)
     Tl = np.linspace(t_b, t_floor, 61)
-    cpl = np.asarray(curve.liquid.props(np.clip(Tl, curve.liquid.t_min, t_b - 1e-6)).heat_capacity, dtype=float)
-    sl = s2 + _cum_trapz(cpl * np.ones_like(Tl), -Tl)
+    sl = s2 + np.asarray(curve.subcooling(Tl), dtype=float)  # the curve's condensate enthalpies
     parts_s.append(sl), parts_T.append(Tl), parts_x.append(np.zeros_like(Tl))
     s = np.concatenate(parts_s)
     keep = np.concatenate(([True], np.diff(s) > 0))
@@ -357,7 +357,10 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         raise InputError(f"service.{k_side}.t_in", float(tc_in[0]), f"below the condensing stream's inlet "
                          f"{t_h_in:.2f} K (a coolant)")
     tc_low = float(np.min(tc_in))
-    path = _path(curve, t_h_in, x_in, max(tc_low, float(curve.liquid.t_min)))
+    try:
+        path = _path(curve, t_h_in, x_in, max(tc_low, float(curve.liquid.t_min)))
+    except InputError as exc:
+        raise exc.with_prefix(f"service.{c_side}") from None
     s1, s2 = path.bounds
 
     # geometry of the condensing path
@@ -896,8 +899,7 @@ def condensing_pressure_for(exchanger, service, duty_or_vapour_load, *, incremen
             return value
         per_kg = float(c.latent) - _q_in(c, s.quality)
         if superheat:
-            T = np.linspace(float(s.t_in), float(c.t_dew), 21)
-            per_kg += float(np.trapezoid(np.asarray(c.vapour.props(T).heat_capacity) * np.ones_like(T), -T))
+            per_kg += float(c.superheat(float(s.t_in)))
         return value / per_kg
 
     def rated(p):

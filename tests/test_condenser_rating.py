@@ -404,3 +404,10 @@ def test_stream_replace_moves_to_the_new_saturation():
     # CoolProp: saturation temperature of n-hexane at 3 bar
     assert other.t_in == pytest.approx(PropsSI("T", "P", 3e5, "Q", 1.0, HEXANE), abs=1e-6)
     assert other.quality == 0.8 and s.replace(flow=5.0).t_in == s.t_in
+
+
+def test_vapour_beyond_the_tabulated_superheat_is_refused():
+    t_in = PropsSI("T", "P", P_HEX, "Q", 1.0, HEXANE) + 400.0
+    with pytest.raises(InputError) as exc:
+        rv.rate(exchanger(), shell_condenser(phase="vapour", t_in=t_in))
+    assert exc.value.field == "service.shell.t_in"
