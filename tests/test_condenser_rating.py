@@ -411,3 +411,13 @@ def test_vapour_beyond_the_tabulated_superheat_is_refused():
     with pytest.raises(InputError) as exc:
         rv.rate(exchanger(), shell_condenser(phase="vapour", t_in=t_in))
     assert exc.value.field == "service.shell.t_in"
+
+
+def test_default_increments_resolve_the_path():
+    # the default cut against a three times finer one (numerical convergence; no outside number needed)
+    t_in = PropsSI("T", "P", P_HEX, "Q", 1.0, HEXANE) + 30.0
+    svc = tube_condenser(flow=4.0, water=30.0, phase="vapour", t_in=t_in)
+    coarse = rv.rate(exchanger(), svc)
+    fine = rv.rate(exchanger(), svc, increments=48)
+    assert coarse.duty == pytest.approx(fine.duty, rel=1e-3)
+    assert coarse.t_out_tube == pytest.approx(fine.t_out_tube, abs=0.2)
