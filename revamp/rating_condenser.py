@@ -122,7 +122,8 @@ class CondenserRating(ResultFrames):
         ``h_coolant``, ``U``, ``dT``, ``duty``, ``area``, ``length``, ``dp``, ``G``) for checks and plots
     resistances : Series (one case) or DataFrame of the model's layers [m²K/W], area-weighted means
     layers : the layer names (from the exchanger's model)
-    warnings : tuple of str
+    warnings : tuple of str, each film's prefixed with the film and side (in those, "cases" count the increments
+        along the path where the film is used)
     exchanger, service : the inputs
     """
 
@@ -496,11 +497,14 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         A = dA.reshape(shp).sum(axis=(1, 2))
         if not detail:
             return A
-        warns = (tuple(fc.warnings)
-                 + _film_warnings(tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l,
-                                  cp_l, latent, p_red, dtf, u_v)
-                 + _used_warnings(model, c_side, m_v, pv, (dQ > 0) & ((z == 0) | ((z == 1) & (Z > 0))))
-                 + _used_warnings(model, c_side, mh, pl, (dQ > 0) & (z == 2)))
+        warns = (tuple(f"coolant ({k_side} side) film: {w}" for w in fc.warnings)
+                 + tuple(f"condensing film ({c_side} side): {w}" for w in _film_warnings(
+                     tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent,
+                     p_red, dtf, u_v))
+                 + tuple(f"vapour film ({c_side} side): {w}" for w in _used_warnings(
+                     model, c_side, m_v, pv, (dQ > 0) & ((z == 0) | ((z == 1) & (Z > 0)))))
+                 + tuple(f"condensate film ({c_side} side, subcooling): {w}" for w in _used_warnings(
+                     model, c_side, mh, pl, (dQ > 0) & (z == 2))))
         out = dict(A=A, E_out=E_out, Th=Th, Tc=Tc, x_nodes=path.x_at(nodes), nodes=nodes, thm=Th_m, tcm=Tc_m,
                    R=[r.reshape(shp) for r in R], warnings=warns)
         for key, v in (("dA", dA), ("dQ", dQ), ("U", U), ("x", xm), ("h_c", h_c), ("h_k", h_k), ("G", G),
