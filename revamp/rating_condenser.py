@@ -115,11 +115,12 @@ class CondenserRating(ResultFrames):
         drop [K]
     condensed : vapour condensed [kg/s]
     area : the exchanger's area (the basis of U) [m²]
-    zones : DataFrame, one row per zone (and case): ``case``, ``zone``, ``duty`` [W], ``area`` [m²],
+    zones : DataFrame, one row per zone (and case): ``case``, ``zone``, ``duty`` [W], ``area`` [m²] (whole exchanger),
         ``area_share`` [-], ``U`` [W/m²K] (area-weighted within the zone), ``t_in``/``t_out`` of the condensing
         stream and ``t_coolant_in``/``t_coolant_out`` [K], ``x_in``/``x_out`` [-], ``dp`` [Pa]
     increments : DataFrame, one row per increment: the local state (``x``, ``T``, ``T_coolant``, ``h_condensing``,
-        ``h_coolant``, ``U``, ``dT``, ``duty``, ``area``, ``length``, ``dp``, ``G``) for checks and plots
+        ``h_coolant``, ``U``, ``dT``, ``duty`` and ``area`` (whole exchanger), ``length`` (along one tube path),
+        ``dp``, ``G``, the phase properties) for checks and plots
     resistances : Series (one case) or DataFrame of the model's layers [m²K/W], area-weighted means
     layers : the layer names (from the exchanger's model)
     warnings : tuple of str, each film's prefixed with the film and side (in those, "cases" count the increments
@@ -778,6 +779,9 @@ def _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, c
     else:
         resistances = pd.DataFrame({name: r for name, r in zip(layers, R_mean)})
     zones, inc = _zone_frames(d, n, shape, c_side, k_side)
+    for frame in (zones, inc):  # the whole exchanger: every parallel unit alike
+        frame["duty"] *= n_par
+        frame["area"] *= n_par
     warnings = list(warnings) + list(d["warnings"])
     if not air and float(getattr(exchanger, "tube_passes", 1)) > 1 and (
             s1 > 0 or np.any(s_out > s2) or float(curve.t_dew) - float(curve.t_bubble) > 0.5):

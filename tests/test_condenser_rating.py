@@ -357,6 +357,9 @@ def test_air_cooled_condenser_sweep_more_air_more_duty():
     assert np.all(r.t_out_air > 303.15) and np.all(r.t_out_air < r.service.tube.t_in)
     one = rv.rate(ac, svc.replace(face_velocity=3.0))
     assert one.duty == pytest.approx(r.duty[1], rel=1e-6)  # the sweep is the cases one by one
+    z = r.zones[r.zones.case == 1]
+    assert z["duty"].sum() == pytest.approx(r.duty[1], rel=1e-9)  # two bundles: the zones are the whole cooler
+    assert z["area"].sum() == pytest.approx(r.area, rel=1e-6)
 
 
 # ------------------------------------------------------------------------------------------------------ films
@@ -421,3 +424,26 @@ def test_default_increments_resolve_the_path():
     fine = rv.rate(exchanger(), svc, increments=48)
     assert coarse.duty == pytest.approx(fine.duty, rel=1e-3)
     assert coarse.t_out_tube == pytest.approx(fine.t_out_tube, abs=0.2)
+
+
+@settings(max_examples=3, deadline=None)
+@given(flow=st.floats(2.0, 10.0), fouling=st.floats(1e-4, 1e-3))
+def test_fouling_never_more_duty_and_zones_add_up(flow, fouling):
+    clean = rv.rate(exchanger(), tube_condenser(flow=flow, water=40.0))
+    fouled = rv.rate(exchanger(), tube_condenser(flow=flow, water=40.0).replace(fouling_tube=fouling))
+    assert fouled.duty <= clean.duty * (1 + 1e-9)  # a deposit only adds resistance (law)
+    for r in (clean, fouled):
+        # energy along the curve: the zones' duties and areas add up to the whole (conservation, definition)
+        assert r.zones["duty"].sum() == pytest.approx(r.duty, rel=1e-9)
+        assert r.zones["area"].sum() == pytest.approx(r.area, rel=1e-6)
+        assert r.increments["duty"].sum() == pytest.approx(r.duty, rel=1e-9)
+
+
+def test_parallel_units_share_the_load():
+    one = rv.rate(exchanger(), tube_condenser(flow=4.0, water=40.0))
+    two = rv.rate(exchanger(shells_parallel=2), tube_condenser(flow=8.0, water=80.0))
+    # two identical trains in parallel, each with the single train's flows: twice the duty, same outlets (definition)
+    assert two.duty == pytest.approx(2.0 * one.duty, rel=1e-6)
+    assert two.t_out_tube == pytest.approx(one.t_out_tube, abs=1e-4)
+    assert two.zones["duty"].sum() == pytest.approx(two.duty, rel=1e-9)
+    assert two.zones["area"].sum() == pytest.approx(two.area, rel=1e-6)
