@@ -67,7 +67,8 @@ INCREMENTS = 16
 #: A condensing-side pressure drop above this share of the inlet pressure is beyond the rating (near choking): NaN.
 CHOKE_SHARE = 0.5
 _MAX_SEARCH = 80
-_OUTER = 4  # passes of the pressure-drop / saturation-temperature feedback
+_OUTER = 8  # passes (at most) of the pressure-drop / saturation-temperature feedback
+_SETTLED_K = 0.05  # a saturation drop that still moves by more than this between the last passes is reported [K]
 
 
 def is_condensing(service) -> bool:
@@ -296,7 +297,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     :mod:`revamp.correlations.two_phase` (its default method) is integrated along the path. The pressure drop
     lowers the saturation temperature along the path (pure fluid: exact at the outlet pressure; a curve shifted as
     :meth:`CondensingFluid.at_pressure` states), distributed along the path in proportion to the accumulated
-    pressure drop, and the rating is repeated with it.
+    pressure drop, and the rating is repeated with it until the drop settles (at most eight passes; one still
+    moving by more than 0.05 K between the last passes is reported in the warnings).
 
     References
     ----------
@@ -554,8 +556,9 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     def no_drop(s):
         return np.zeros(np.shape(s))
 
-    dtsat, s_out = no_drop, None
-    for _ in range(_OUTER):  # the coolant's heat capacity at the mean of its inlet and outlet; the saturation drop
+    dtsat, s_out, dt_drop = no_drop, None, np.zeros(n)
+    for it in range(_OUTER):  # the coolant's heat capacity at the mean of its inlet and outlet; the saturation drop
+        dt_before = dt_drop
         s_out = solve(dtsat, cp_c, s_out)
         if not air:
             t_c_out = tc_in + m_h * s_out / (m_c * cp_c)  # (the small pressure-drop term left out here)
@@ -563,10 +566,18 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         d = evaluate(s_out, dtsat, cp_c, detail=True)
         dp_total, dt_drop, dtsat = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve,
                                                  m_h, s_out, s1, s2, t_h_in)
+        if it >= 1 and np.all(~(np.abs(dt_drop - dt_before) > 0.2 * _SETTLED_K) | ~hot):
+            break
+    dt_used = dt_drop
     s_out = solve(dtsat, cp_c, s_out)
     d = evaluate(s_out, dtsat, cp_c, detail=True)
     dp_total, dt_drop, _ = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve, m_h,
                                          s_out, s1, s2, t_h_in)
+    unsettled = np.abs(dt_drop - dt_used) > _SETTLED_K
+    if np.any(unsettled & hot):
+        warnings.append(f"saturation-temperature feedback: in {int(np.sum(unsettled & hot))} case(s) the drop "
+                        f"settled only to within {float(np.max(np.abs(dt_drop - dt_used)[hot])):.2g} K after "
+                        f"{_OUTER} passes (a large pressure drop at low pressure)")
     choked = ~(dp_total < CHOKE_SHARE * float(curve.pressure))
     if np.any(choked & hot):
         warnings.append(f"condensing side: in {int(np.sum(choked & hot))} case(s) the pressure drop is more than "
