@@ -34,6 +34,8 @@ _EXPORTS = {
     "Fin": "revamp.aircooler",
     "AirService": "revamp.service_air",
     "AirRating": "revamp.rating_air",
+    "CondenserRating": "revamp.rating_condenser",
+    "condensing_pressure_for": "revamp.rating_condenser",
     "hot_day": "revamp.hot_day",
 }
 _SUBMODULES = {"fluids", "materials", "fouling", "units", "options", "screening", "economics", "thermal",

@@ -275,6 +275,10 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
     rater = _rater(exchanger)
     if rater is not rate:  # another exchanger kind rates itself (its own service, methods and result types)
         return rater(exchanger, service, **methods)
+    if any(getattr(getattr(service, side, None), "condensing", False) for side in ("shell", "tube")):
+        from .rating_condenser import rate_condenser  # a vapour or two-phase stream: rated zone by zone
+
+        return rate_condenser(exchanger, service, shell_method=shell_method, **methods)
     if methods:
         name = next(iter(methods))
         raise InputError(name, methods[name], "not a method choice of a shell-and-tube exchanger (shell_method)")

@@ -255,6 +255,10 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
         raise InputError("exchanger", ac, "a revamp.AirCooler")
     if not isinstance(service, AirService):
         raise InputError("service", service, "a revamp.AirService(tube=Stream(...), air_in=..., air_flow=...)")
+    if service.tube.condensing:  # a vapour or two-phase tube stream: rated zone by zone
+        from .rating_condenser import rate_condenser
+
+        return rate_condenser(ac, service, h_method=h_method, dp_method=dp_method, fin_method=fin_method)
     model = model_of(ac, h_method=h_method, dp_method=dp_method, fin_method=fin_method)  # checks the methods
     fluid = service.tube.fluid
     air_given = service.air_flow if service.air_flow is not None else service.face_velocity
