@@ -362,6 +362,11 @@ def compare(exchanger, service, options=(), target=None, limits=None, economics=
     from .rating import rate
     from .service import Service
 
+    for side in ("shell", "tube"):
+        if getattr(getattr(service, side, None), "condensing", False):
+            raise InputError(f"service.{side}", "a vapour or two-phase stream",
+                             "a liquid service here: compare a condenser's options with "
+                             "revamp.options_condenser.compare_condenser")
     tgt = Target.of(target)
     lim = Limits.of(limits)
     eco = Economics.of(economics)

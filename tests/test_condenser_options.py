@@ -68,3 +68,11 @@ def test_more_area_holds_a_lower_condensing_pressure():
     assert np.isfinite(table["condensing_pressure"]).all()
     assert table.loc["add 1 shell in series", "condensing_pressure"] < table.loc["base", "condensing_pressure"]
     assert table.loc["add 1 shell in series", "condensing_temperature"] < table.loc["base", "condensing_temperature"]
+
+
+def test_the_liquid_comparison_refuses_a_condensing_service_by_path():
+    """study.compare judges liquid services; a condensing one is named and pointed to compare_condenser
+    (common practice, no source: an unsupported input is a path-named error, never an AttributeError)."""
+    with pytest.raises(InputError) as err:
+        rv.compare(exchanger(), service(), [Clean()])
+    assert "service.shell" in str(err.value) and "compare_condenser" in str(err.value)
