@@ -40,8 +40,10 @@ import pandas as pd
 from . import thermal
 from ._arrays import as_out
 from .correlations import shell as shell_corr
+from .correlations import shell_bell
 from .correlations import tube as tube_corr
 from .errors import InputError
+from .fluids.table import ConstantFluid
 from .resistance import TUBE_LAYERS, tube_resistances
 from .rating_result import _SCALAR_FIELDS, Rating, ResultFrames  # noqa: F401  (re-exported)
 from .service import Service, Stream
@@ -127,6 +129,19 @@ def _near_seam(Re):
     """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits."""
     Re = np.asarray(Re, dtype=float)
     return np.min(np.abs(np.log(Re[..., None] / _SEAM_RE)), axis=-1) < 0.05
+
+
+def _bell_loop(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None):
+    """Bell-Delaware in the rating loop: the unchecked kernel, without its warnings (the rating collects them once,
+    at the converged state)."""
+    return shell_bell.bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall, d_nozzle, warn=False)
+
+
+def _constant_props(fluid):
+    """``(rho, cp, mu, k, mu_wall)`` of a constant-property fluid (the same at every temperature), else None."""
+    if type(fluid) is not ConstantFluid:
+        return None
+    return (fluid.density, fluid.heat_capacity, fluid.viscosity, fluid.conductivity, fluid.viscosity)
 
 
 def _accepts(fn, name: str) -> bool:
@@ -297,7 +312,10 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     rel_rough = getattr(hx, "tube_roughness", 0.0) / di
     n_tpp, length, passes = float(hx.tubes_per_pass), float(hx.tube_length), int(hx.tube_passes)
     d_noz_t = getattr(hx, "nozzle_tube", None)
-    shell_call, noz_scale, type_notes = _shell_side_by_type(kind, SHELL_METHODS[shell_method], hx.bell())
+    geom = hx.bell()
+    bell_kernel = shell_method == "bell-delaware" and kind != "X"  # the unchecked kernel, warnings at the end
+    shell_fn = _bell_loop if bell_kernel else SHELL_METHODS[shell_method]
+    shell_call, noz_scale, type_notes = _shell_side_by_type(kind, shell_fn, geom)
     shell_kw, notes = {}, list(type_notes)
     d_noz_s = getattr(hx, "nozzle_shell", None)
     if d_noz_s is not None:
@@ -307,6 +325,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             notes.append("shell side: nozzle pressure drop not included (not available for this shell type or method)")
     s_lo, s_hi = s_fluid.t_min, _below(s_fluid.t_max)
     t_lo_f, t_hi_f = t_fluid.t_min, _below(t_fluid.t_max)
+    s_const, t_const = _constant_props(s_fluid), _constant_props(t_fluid)
 
     def evaluate(sel, xs, xt, tws, twt) -> _Eval:
         """The outlet and wall temperatures the correlations give at a state (cases ``sel``, None for all)."""
@@ -316,12 +335,20 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             ms, mt, tsi, tti, rfs, rft, sg, dT = (a[sel] for a in (m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in))
         na = xs.size
         tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
-        ps = s_fluid.props(np.clip(np.concatenate((tm_s, tws)), s_lo, s_hi))
-        pt = t_fluid.props(np.clip(np.concatenate((tm_t, twt)), t_lo_f, t_hi_f))
-        rho_s, cp_s, mu_s, k_s, rho_t, cp_t, mu_t, k_t = (_head(v, na) for v in (
-            ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity,
-            pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
-        mu_ws, mu_wt = _tail(ps.viscosity, na), _tail(pt.viscosity, na)
+        if s_const is None:
+            ps = s_fluid.props(np.minimum(np.maximum(np.concatenate((tm_s, tws)), s_lo), s_hi))
+            rho_s, cp_s, mu_s, k_s = (_head(v, na) for v in (ps.density, ps.heat_capacity, ps.viscosity,
+                                                            ps.conductivity))
+            mu_ws = _tail(ps.viscosity, na)
+        else:  # constant properties: the same floats at every temperature
+            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
+        if t_const is None:
+            pt = t_fluid.props(np.minimum(np.maximum(np.concatenate((tm_t, twt)), t_lo_f), t_hi_f))
+            rho_t, cp_t, mu_t, k_t = (_head(v, na) for v in (pt.density, pt.heat_capacity, pt.viscosity,
+                                                            pt.conductivity))
+            mu_wt = _tail(pt.viscosity, na)
+        else:
+            rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
                                           insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=False)
         shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **shell_kw)
@@ -438,7 +465,9 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
 
     warnings = [f"geometry: {note}" for note in getattr(hx, "notes", ())] + notes
     tube_warnings = tube_corr.tube_side_warnings(ev.tube.Re, ev.tube.Pr, ev.mu_ratio_t, insert)
-    warnings += tube_warnings + list(ev.shell.warnings)
+    shell_warnings = (shell_bell.bell_delaware_warnings(geom, ev.shell.Re, ev.shell.Jl, ev.shell.Jb) if bell_kernel
+                      else list(ev.shell.warnings))
+    warnings += tube_warnings + shell_warnings
     ok = ~invalid
     for side, fluid, temps in (("shell", s_fluid, (ts_in, to_s)), ("tube", t_fluid, (tt_in, to_t))):
         warnings += [f"{side} side: {w}" for w in fluid.check(np.concatenate([t[ok] for t in temps]))]
@@ -494,7 +523,7 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     return Rating(
         **fields, area=hx.area_outside, area_inside=hx.area_inside, resistances=resistances,
         tube_side=_reshape_fields(dataclasses.replace(tube, warnings=tube_warnings), shape),
-        shell_side=_reshape_fields(ev.shell, shape),
+        shell_side=_reshape_fields(dataclasses.replace(ev.shell, warnings=shell_warnings), shape),
         warnings=tuple(dict.fromkeys(warnings)), defaults=tuple(getattr(hx, "defaults_used", ())), exchanger=hx,
         service=service, shell_method=shell_method,
     )
