@@ -32,6 +32,7 @@ from __future__ import annotations
 
 import dataclasses
 import inspect
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -181,22 +182,87 @@ def _shell_side_by_type(kind, shell_fn, geom):
         return f_shell, 8.0 ** 0.25, ("F shell: two shell passes, each with half the flow area; the longitudinal "
                                       "baffle is assumed sealed (no leakage or heat conduction across it)",)
     if kind == "J":
-        half = dataclasses.replace(geom, Nb=max(1, geom.Nb // 2), length=geom.length / 2.0)
+        half = _shell_flow_geometry("J", geom)[0]
         return ((lambda m, *p, **kw: shell_fn(half, 0.5 * m, *p, **kw)), 0.5 ** 0.5,
                 ("J shell: divided flow, each half of the stream through half the length and half the baffles",))
     return (lambda m, *p, **kw: shell_fn(geom, m, *p, **kw)), 1.0, ()
 
 
+def _shell_flow_geometry(kind, geom):
+    """The geometry and the flow multiplier the shell-side method sees for one shell of a TEMA type (E, F, J; see
+    :func:`_shell_side_by_type`): F, the whole geometry at twice the flow; J, half the length and baffles at half
+    the flow."""
+    if kind == "F":
+        return geom, 2.0
+    if kind == "J":
+        return dataclasses.replace(geom, Nb=max(1, geom.Nb // 2), length=geom.length / 2.0), 0.5
+    return geom, 1.0
+
+
+_LN_SEAM_RE = tuple(math.log(e) for e in _SEAM_RE)
+
+
+def _near_seam_one(Re):
+    """:func:`_near_seam` for one case (a float)."""
+    lr = math.log(Re)
+    return min(abs(lr - e) for e in _LN_SEAM_RE) < 0.05
+
+
+def _iterate_one(evaluate_one, ts_in, tt_in, seams):
+    """The property iteration of :func:`rate` for one case on Python floats: the same steps as the array loop
+    (substitution, then Anderson depth one; plain and halved steps at a seam) and the same stops. Returns the state
+    ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at."""
+    lo, hi = min(ts_in, tt_in), max(ts_in, tt_in)
+    X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
+    f_prev = g_prev = (0.0, 0.0, 0.0, 0.0)
+    r_prev, s_prev, om, damped = math.inf, 0.0, 1.0, False
+    for it in range(_MAX_ITER):
+        G, Re = evaluate_one(*X)
+        f = tuple(g - x for g, x in zip(G, X))
+        r = max(abs(f[0]), abs(f[1]))
+        conv = r < _TOL_K
+        edge = seams and _near_seam_one(Re)
+        s_now = 1.0 if f[1] > 0.0 else -1.0 if f[1] < 0.0 else 0.0 if f[1] == 0.0 else math.nan  # np.sign
+        flip = it >= _SEAM_FROM and edge and s_now * s_prev < 0 and r > 0.7 * r_prev
+        dm = damped or flip
+        if flip:
+            om = 0.5 * om
+        if it >= _ANDERSON_FROM:
+            df = tuple(a - b for a, b in zip(f, f_prev))
+            den = sum(d * d for d in df)
+            gam = 0.0
+            if den > 0.0 and r <= r_prev and not edge:
+                try:
+                    gam = sum(a * d for a, d in zip(f, df)) / den
+                except (OverflowError, ZeroDivisionError):  # pragma: no cover - not finite: a plain step
+                    gam = 0.0
+                if not math.isfinite(gam):
+                    gam = 0.0
+            Xn = tuple(g - gam * (g - gp) for g, gp in zip(G, g_prev))
+        else:
+            Xn = G
+        if dm:
+            Xn = tuple(x + om * a for x, a in zip(X, f))
+        Xn = tuple(min(max(v, lo), hi) for v in Xn)
+        if conv or (dm and om * r < _SEAM_STEP_K):
+            return X
+        X, f_prev, g_prev, r_prev, s_prev, damped = Xn, f, G, r, s_now, dm
+    return X
+
+
 def _reshape_fields(res, shape):
     """A correlation result with every array field reshaped to the sweep's shape (floats for a single case)."""
+    n = math.prod(shape)
     changes = {}
     for f in dataclasses.fields(res):
         v = getattr(res, f.name)
         if isinstance(v, np.ndarray) and v.ndim == 1:
-            v = np.broadcast_to(v, (int(np.prod(shape, dtype=int)),)) if v.size == 1 else v
-            changes[f.name] = as_out(v.reshape(shape))
-        elif isinstance(v, (float, np.floating)) and shape != ():
-            changes[f.name] = np.full(shape, float(v))
+            if shape == ():
+                changes[f.name] = float(v[0])
+            else:
+                changes[f.name] = np.full(shape, float(v[0])) if v.size == 1 and n != 1 else v.reshape(shape)
+        elif isinstance(v, (float, np.floating)):
+            changes[f.name] = float(v) if shape == () else np.full(shape, float(v))
     return dataclasses.replace(res, **changes)
 
 
@@ -370,64 +436,104 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
                      shell_min=shell_min, R=R, tube=tube, shell=shell, rho_s=rho_s, rho_t=rho_t,
                      Pr_s=cp_s * mu_s / k_s, mu_ratio_t=mu_t / mu_wt)
 
+    g_eff, m_factor = _shell_flow_geometry(kind, geom)
+    ratio_d, ln_ratio_d = do / di, float(np.log(do / di))
+
+    def evaluate_one(xs, xt, tws, twt):
+        """:func:`evaluate` for a single case on Python floats: the next outlet and wall temperatures, and the
+        shell-side Re (Bell-Delaware on E, F and J shells, plain tubes)."""
+        ms, mt, tsi, tti = float(m_s[0]), float(m_t[0]), float(ts_in[0]), float(tt_in[0])
+        tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
+        if s_const is None:
+            ps = s_fluid.props(min(max(tm_s, s_lo), s_hi))
+            rho_s, cp_s, mu_s, k_s = (float(v) for v in (ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity))
+            mu_ws = float(s_fluid.props(min(max(tws, s_lo), s_hi)).viscosity)
+        else:
+            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
+        if t_const is None:
+            pt = t_fluid.props(min(max(tm_t, t_lo_f), t_hi_f))
+            rho_t, cp_t, mu_t, k_t = (float(v) for v in (pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
+            mu_wt = float(t_fluid.props(min(max(twt, t_lo_f), t_hi_f)).viscosity)
+        else:
+            rho_t, cp_t, mu_t, k_t, mu_wt = t_const
+        h_t = tube_corr.tube_h_float(mt, n_tpp, di, length, rho_t, cp_t, mu_t, k_t, mu_wt)
+        h_s, Re_s = shell_bell.bell_delaware_h_float(g_eff, m_factor * ms, cp_s, mu_s, k_s, mu_ws)
+        k_w = float(material.conductivity(0.5 * (tws + twt)))
+        R0, R2, R4 = 1.0 / h_s, do * ln_ratio_d / (2.0 * k_w), ratio_d / h_t
+        U = 1.0 / (R0 + float(rf_s[0]) + R2 + float(rf_t[0]) * ratio_d + R4)
+        C_s, C_t = ms * cp_s, mt * cp_t
+        shell_min = C_s <= C_t
+        C_min, Cr = (C_s, C_s / C_t) if shell_min else (C_t, C_t / C_s)
+        eps, _ = thermal.effectiveness_float(U * area_train / C_min, Cr, arr_name, n_units, shell_min)
+        q = min(eps, 1.0) * C_min * float(dt_in[0])
+        sg = float(sign[0])
+        flux = U * (tm_s - tm_t)
+        return (tsi + sg * q / C_s, tti - sg * q / C_t, tm_s - flux * R0, tm_t + flux * R4), Re_s
+
     seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
-    S = np.empty((4, n))
-    S[0], S[1] = ts_in, tt_in
-    S[2] = S[3] = 0.5 * (ts_in + tt_in)
-    f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
-    r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
-    omega, damped = np.ones(n), np.zeros(n, dtype=bool)
-    active = np.arange(n)
-    last_full = False
-    for it in range(_MAX_ITER):
-        if active.size == 0:
-            break
-        full_set = active.size == n
-        X = S if full_set else S[:, active]
-        ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3])
-        G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
-        f = G - X
-        r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
-        conv = r < _TOL_K
-        rp, om = r_prev[active], omega[active]
-        # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
-        # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
-        # the step is halved at each change of sign, so that the case settles at the edge.
-        edge = _near_seam(ev.shell.Re) if seams else np.zeros(r.shape, dtype=bool)
-        s_now = np.sign(f[1])
-        flip = (it >= _SEAM_FROM) & edge & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
-        dm = damped[active] | flip
-        om = np.where(flip, 0.5 * om, om)
-        if it >= _ANDERSON_FROM:
-            df = f - f_prev[:, active]
-            den = np.einsum("ij,ij->j", df, df)
-            with np.errstate(divide="ignore", invalid="ignore"):
-                gam = np.einsum("ij,ij->j", f, df) / den
-            gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp) & ~edge, gam, 0.0)  # else a plain step
-            Xn = G - gam * (G - g_prev[:, active])
-        else:
-            Xn = G
-        if dm.any():
-            Xn = np.where(dm, X + om * f, Xn)
-        Xn = np.clip(Xn, t_lo[active], t_hi[active])  # outlets and walls stay between the inlets
-        stop = conv | (dm & (om * r < _SEAM_STEP_K))
-        Xn = np.where(stop, X, Xn)
-        if full_set:
-            S, f_prev, g_prev = Xn, f, G
-            r_prev, s_prev, omega, damped = r, s_now, om, dm
-        else:
-            S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
-            r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
-        last_full = full_set and bool(stop.all())
-        if stop.sum() >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
-            active = active[~stop]
-
-    # every case stopped at the state of its last evaluation: evaluate once more, all together (skipped when that
-    # last evaluation was already of every case at once)
-    if not last_full:
+    if shape == () and bell_kernel and insert is None:
+        # one case: the iteration on Python floats (no per-element numpy overhead), the same steps and stops;
+        # the converged state is then evaluated once by the array kernels, which give every reported number
+        S = np.array(_iterate_one(evaluate_one, ts_in[0], tt_in[0], seams), dtype=float).reshape(4, 1)
         ev = evaluate(None, S[0], S[1], S[2], S[3])
+    else:
+        S = np.empty((4, n))
+        S[0], S[1] = ts_in, tt_in
+        S[2] = S[3] = 0.5 * (ts_in + tt_in)
+        f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
+        r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
+        omega, damped = np.ones(n), np.zeros(n, dtype=bool)
+        active = np.arange(n)
+        last_full = False
+        for it in range(_MAX_ITER):
+            if active.size == 0:
+                break
+            full_set = active.size == n
+            X = S if full_set else S[:, active]
+            ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3])
+            G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
+            f = G - X
+            r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
+            conv = r < _TOL_K
+            rp, om = r_prev[active], omega[active]
+            # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
+            # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
+            # the step is halved at each change of sign, so that the case settles at the edge.
+            edge = _near_seam(ev.shell.Re) if seams else np.zeros(r.shape, dtype=bool)
+            s_now = np.sign(f[1])
+            flip = (it >= _SEAM_FROM) & edge & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
+            dm = damped[active] | flip
+            om = np.where(flip, 0.5 * om, om)
+            if it >= _ANDERSON_FROM:
+                df = f - f_prev[:, active]
+                den = np.einsum("ij,ij->j", df, df)
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    gam = np.einsum("ij,ij->j", f, df) / den
+                gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp) & ~edge, gam, 0.0)  # else a plain step
+                Xn = G - gam * (G - g_prev[:, active])
+            else:
+                Xn = G
+            if dm.any():
+                Xn = np.where(dm, X + om * f, Xn)
+            Xn = np.clip(Xn, t_lo[active], t_hi[active])  # outlets and walls stay between the inlets
+            stop = conv | (dm & (om * r < _SEAM_STEP_K))
+            Xn = np.where(stop, X, Xn)
+            if full_set:
+                S, f_prev, g_prev = Xn, f, G
+                r_prev, s_prev, omega, damped = r, s_now, om, dm
+            else:
+                S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
+                r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
+            last_full = full_set and bool(stop.all())
+            if stop.sum() >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
+                active = active[~stop]
+
+        # every case stopped at the state of its last evaluation: evaluate once more, all together (skipped when that
+        # last evaluation was already of every case at once)
+        if not last_full:
+            ev = evaluate(None, S[0], S[1], S[2], S[3])
     xs, xt = S[0], S[1]
     to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
     residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))

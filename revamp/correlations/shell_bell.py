@@ -615,3 +615,43 @@ def bell_delaware_warnings(geom, Re, Jl, Jb) -> list[str]:
         warnings.append(f"Bell-Delaware: bypass correction Jb = {jb_min:.2f} < 0.7: bundle bypass is large (sealing "
                         "strips help); h and dp are less certain")
     return warnings
+
+
+def _fit_ln_float(Re, lr, ln_ratio, coefs):
+    """:func:`_fit_ln` for one case, on Python floats (the same formulas)."""
+    ln_c1, c2, c3, c4 = coefs
+    band = 0 if Re < 10.0 else 1 if Re < 100.0 else 2 if Re < 1e3 else 3 if Re < 1e4 else 4
+    ln_core = float(ln_c1[band]) + float(c2[band]) * lr
+    edge = min(max(round(lr / math.log(10.0)) - 1, 0), len(_EDGES) - 1)
+    u = 0.5 + (lr - float(_LN_EDGES[edge])) / _HALF_BAND
+    if 0.0 < u < 1.0:
+        w = u * u * (3.0 - 2.0 * u)
+        ln_core = ((1.0 - w) * (float(ln_c1[edge]) + float(c2[edge]) * lr)
+                   + w * (float(ln_c1[edge + 1]) + float(c2[edge + 1]) * lr))
+    return ln_core + c3 / (1.0 + 0.14 * math.exp(c4 * lr)) * ln_ratio
+
+
+def bell_delaware_h_float(geom, m, cp, mu, k, mu_wall):
+    """The film coefficient and Reynolds number of :func:`bell_delaware_kernel` for one case, on Python floats:
+    ``(h [W/m²K], Re [-])``. The single-case rating iterates on it; its result is then evaluated once more by the
+    array kernel, so the two must agree (checked by the tests)."""
+    c = _constants(geom)
+    G = m / geom.Sm
+    Re = geom.tube_od * G / mu
+    Pr = cp * mu / k
+    lr = math.log(Re)
+    j = math.exp(_fit_ln_float(Re, lr, c["ln_ratio"], c["fit_j"]))
+    u = 0.5 + (lr - _LN_LAMINAR) / (2.0 * _LN_SWITCH)
+    if u >= 1.0:
+        Jb, Js, Jr = c["Jb_turb"], c["Js_turb"], 1.0
+    else:
+        u = min(max(u, 0.0), 1.0)
+        w = u * u * (3.0 - 2.0 * u)
+        Jb = math.exp(-(1.35 + (1.25 - 1.35) * w) * c["bypass"])
+        lo, hi = c["Js_lam"], c["Js_turb"]
+        Js = lo if w <= 0.0 else hi if w >= 1.0 else lo ** (1.0 - w) * hi ** w
+        jr20 = c["jr20"]
+        Jr = max(jr20 if Re <= 20.0 else jr20 + (Re - 20.0) / 80.0 * (1.0 - jr20) if Re < _LAMINAR_RE else 1.0,
+                 0.4)
+    h = j * cp * G * Pr ** (-2.0 / 3.0) * (mu / mu_wall) ** 0.14 * (c["Jc"] * c["Jl"] * Jb * Js * Jr)
+    return h, Re
