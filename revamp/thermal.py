@@ -276,7 +276,7 @@ def _eps_E(ntu, cr):
         den = 1.0 + cr + s * (1.0 + g)
         eps = 2.0 / den
         w = (s * g + cr * cr / (s + 1.0) + cr) / den  # (s coth + Cr - 1)/den with s - 1 = Cr²/(s + 1)
-    zero = ntu == 0
+    zero = ntu < 1e-150  # 0 there to within 1e-150 (below it the closed form is 0·inf)
     return np.where(zero, 0.0, eps), np.where(zero, 1.0, w)
 
 
@@ -615,7 +615,7 @@ def effectiveness_float(ntu, cr, arrangement, units=1, shell_is_cmin=True):
             em = math.expm1(-n1 * (1.0 - cr))
             den = (1.0 - cr) - cr * em
             eps1, w1 = -em / den, (1.0 - cr) * (1.0 + em) / den
-    elif n1 == 0:
+    elif n1 < 1e-150:  # as _eps_E
         eps1, w1 = 0.0, 1.0
     else:
         s = math.sqrt(1.0 + cr * cr)
