@@ -127,15 +127,17 @@ _SEAM_RE = np.array([10.0, 100.0, 1e3, 1e4])
 
 
 def _near_seam(Re):
-    """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits."""
-    Re = np.asarray(Re, dtype=float)
-    return np.min(np.abs(np.log(Re[..., None] / _SEAM_RE)), axis=-1) < 0.05
+    """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits (the nearest edge in ln Re is
+    10^k with k = round(log10 Re), kept within the edges)."""
+    lr = np.log(np.asarray(Re, dtype=float))
+    k = np.fmin(np.fmax(np.rint(lr * (1.0 / math.log(10.0))), 1.0), 4.0)
+    return np.abs(lr - k * math.log(10.0)) < 0.05
 
 
-def _bell_loop(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None):
+def _bell_loop(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None, h_only=False):
     """Bell-Delaware in the rating loop: the unchecked kernel, without its warnings (the rating collects them once,
-    at the converged state)."""
-    return shell_bell.bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall, d_nozzle, warn=False)
+    at the converged state); ``h_only`` inside the iteration."""
+    return shell_bell.bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall, d_nozzle, warn=False, h_only=h_only)
 
 
 def _constant_props(fluid):
@@ -154,6 +156,8 @@ def _accepts(fn, name: str) -> bool:
 
 def _scaled_dp(res, factor):
     """A shell-side result with its pressure drops multiplied by ``factor`` (two shell passes in series)."""
+    if res.dp is None:  # a heat-transfer-only result (inside the iteration)
+        return res
     return dataclasses.replace(res, dp=res.dp * factor, dp_crossflow=res.dp_crossflow * factor,
                                dp_window=res.dp_window * factor, dp_ends=res.dp_ends * factor)
 
@@ -393,8 +397,11 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     t_lo_f, t_hi_f = t_fluid.t_min, _below(t_fluid.t_max)
     s_const, t_const = _constant_props(s_fluid), _constant_props(t_fluid)
 
-    def evaluate(sel, xs, xt, tws, twt) -> _Eval:
-        """The outlet and wall temperatures the correlations give at a state (cases ``sel``, None for all)."""
+    shell_kw_loop = {**shell_kw, "h_only": True} if bell_kernel else shell_kw
+
+    def evaluate(sel, xs, xt, tws, twt, detail=True) -> _Eval:
+        """The outlet and wall temperatures the correlations give at a state (cases ``sel``, None for all); without
+        ``detail`` (inside the iteration) the pressure drops are not computed."""
         if sel is None:
             ms, mt, tsi, tti, rfs, rft, sg, dT = m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in
         else:
@@ -416,8 +423,9 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         else:
             rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
-                                          insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=False)
-        shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **shell_kw)
+                                          insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=False,
+                                          h_only=not detail)
+        shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **(shell_kw if detail else shell_kw_loop))
         h_s = np.asarray(shell.h, dtype=float)
         k_w = material.conductivity(0.5 * (tws + twt))
         R = tube_resistances(h_s, tube.h, rfs, rft, do, di, k_w)
@@ -486,13 +494,12 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
         omega, damped = np.ones(n), np.zeros(n, dtype=bool)
         active = np.arange(n)
-        last_full = False
         for it in range(_MAX_ITER):
             if active.size == 0:
                 break
             full_set = active.size == n
             X = S if full_set else S[:, active]
-            ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3])
+            ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3], detail=False)
             G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
             f = G - X
             r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
@@ -526,14 +533,12 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             else:
                 S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
                 r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
-            last_full = full_set and bool(stop.all())
             if stop.sum() >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
                 active = active[~stop]
 
-        # every case stopped at the state of its last evaluation: evaluate once more, all together (skipped when that
-        # last evaluation was already of every case at once)
-        if not last_full:
-            ev = evaluate(None, S[0], S[1], S[2], S[3])
+        # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
+        # pressure drops the iteration did not need
+        ev = evaluate(None, S[0], S[1], S[2], S[3])
     xs, xt = S[0], S[1]
     to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
     residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))

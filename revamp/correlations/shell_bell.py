@@ -130,22 +130,32 @@ def _fit_coefficients(layout, kind):
     return np.log(np.asarray(c[k1], dtype=float)), np.asarray(c[k2], dtype=float), float(c[k3]), float(c[k4])
 
 
-def _fit_ln(Re, lr, ln_ratio, coefs):
-    """The logarithm of an ideal-bank fit (:func:`_fit`) from ``lr = ln Re`` and ``ln_ratio = ln(1.33/(Pt/do))``:
+def _fit_ln(lr, ln_ratio, fits):
+    """The logarithms of ideal-bank fits (:func:`_fit`) from ``lr = ln Re`` and ``ln_ratio = ln(1.33/(Pt/do))``:
     ``ln c1 + c2 ln Re + a ln_ratio`` with ``a = c3 / (1 + 0.14 Re^c4)``, blended across the band edges as
-    :func:`_fit` (one exponential left to the caller instead of three powers)."""
-    ln_c1, c2, c3, c4 = coefs
-    band = np.searchsorted(_EDGES, Re, side="right")
-    ln_core = ln_c1[band] + c2[band] * lr
-    edge = np.clip(np.rint(lr / math.log(10.0)) - 1, 0, len(_EDGES) - 1).astype(int)
-    u = 0.5 + (lr - _LN_EDGES[edge]) / _HALF_BAND
-    near = (u > 0.0) & (u < 1.0)
-    if np.any(near):
-        uc = np.clip(u, 0.0, 1.0)
-        w = uc * uc * (3.0 - 2.0 * uc)
-        ln_blend = (1.0 - w) * (ln_c1[edge] + c2[edge] * lr) + w * (ln_c1[edge + 1] + c2[edge + 1] * lr)
-        ln_core = np.where(near, ln_blend, ln_core)
-    return ln_core + c3 / (1.0 + 0.14 * np.exp(c4 * lr)) * ln_ratio
+    :func:`_fit` (one exponential left to the caller instead of three powers). ``fits`` is a tuple of
+    :func:`_fit_coefficients` (j and f share the band lookup); returns one array per fit.
+
+    The band is ``floor(log10 Re)`` (0 to 4), which can differ from the comparison with the edges only within
+    rounding of an edge, where the blend replaces the band's value anyway."""
+    shape = np.shape(lr)
+    lr = np.reshape(lr, -1)
+    t = lr * (1.0 / math.log(10.0))
+    band = np.fmin(np.fmax(t, 0.0), 4.0).astype(np.intp)  # floor for t >= 0 (fmax/fmin: NaN gives band 0)
+    edge = np.fmin(np.fmax(np.rint(t) - 1.0, 0.0), len(_EDGES) - 1.0).astype(np.intp)
+    u = 0.5 + (lr - _LN_EDGES.take(edge)) / _HALF_BAND
+    near = np.flatnonzero((u > 0.0) & (u < 1.0))
+    if near.size:
+        un, en, ln_ = u[near], edge[near], lr[near]
+        w = un * un * (3.0 - 2.0 * un)
+    out = []
+    for ln_c1, c2, c3, c4 in fits:
+        ln_core = ln_c1.take(band) + c2.take(band) * lr
+        if near.size:
+            ln_core[near] = ((1.0 - w) * (ln_c1.take(en) + c2.take(en) * ln_)
+                             + w * (ln_c1.take(en + 1) + c2.take(en + 1) * ln_))
+        out.append((ln_core + c3 / (1.0 + 0.14 * np.exp(c4 * lr)) * ln_ratio).reshape(shape))
+    return out
 
 
 def ideal_j(Re, pitch_ratio, layout):
@@ -537,7 +547,7 @@ def _constants(geom):
 
 
 def bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_nozzle=None,
-                         warn=True) -> ShellSideResult:
+                         warn=True, h_only=False) -> ShellSideResult:
     """:func:`bell_delaware` without input checks or unit parsing: SI float arrays in (any shape, broadcast
     together), the same numbers out.
 
@@ -545,15 +555,21 @@ def bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None, r
     geometry; the ideal-bank j and f share one logarithm of Re and are formed as one exponential each; the
     Reynolds-dependent corrections are constants when every case is past the laminar-turbulent band. Correction
     factors that are the same for every case come back as floats. ``warn=False`` skips the validity warnings
-    (the loop asks for them only on its last evaluation). ``d_nozzle`` is a diameter [m] or None.
+    (the loop asks for them only on its last evaluation). ``d_nozzle`` is a diameter [m] or None. ``h_only=True``
+    returns h, Re and the heat-transfer factors only (the pressure-drop fields are None): what an iteration on the
+    outlet temperatures needs.
     """
     c = _constants(geom)
     G = m / geom.Sm
     Re = geom.tube_od * G / mu
     Pr = cp * mu / k
     lr = np.log(Re)
-    j = np.exp(_fit_ln(Re, lr, c["ln_ratio"], c["fit_j"]))
-    f = np.exp(_fit_ln(Re, lr, c["ln_ratio"], c["fit_f"]))
+    if h_only:
+        (ln_j,) = _fit_ln(lr, c["ln_ratio"], (c["fit_j"],))
+        j, f = np.exp(ln_j), None
+    else:
+        ln_j, ln_f = _fit_ln(lr, c["ln_ratio"], (c["fit_j"], c["fit_f"]))
+        j, f = np.exp(ln_j), np.exp(ln_f)
     # 0 laminar, 1 turbulent constants, blended between (see correction_factors)
     u = 0.5 + (lr - _LN_LAMINAR) / (2.0 * _LN_SWITCH)
     if np.min(u) >= 1.0:  # every case past the band: the turbulent constants
@@ -571,6 +587,12 @@ def bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None, r
                                                              1.0)), 0.4)
         turbulent = False
     Jc, Jl, Rl = c["Jc"], c["Jl"], c["Rl"]
+    if h_only:
+        h = j * cp * G * Pr ** (-2.0 / 3.0) * (1.0 if mu_wall is None else (mu / mu_wall) ** 0.14) * (
+            Jc * Jl * Jb * Js * Jr)
+        return ShellSideResult(h=h, dp=None, dp_crossflow=None, dp_window=None, dp_ends=None, Re=Re,
+                               velocity_crossflow=None, j_ideal=j, f_ideal=None, Jc=Jc, Jl=Jl, Jb=Jb, Js=Js, Jr=Jr,
+                               Rl=Rl, Rb=Rb, Rs=Rs, dp_nozzles=None)
     if mu_wall is None:
         h = j * cp * G * Pr ** (-2.0 / 3.0) * (Jc * Jl * Jb * Js * Jr)
         dp_bi = 2.0 * geom.Nc * f * G ** 2 / rho

@@ -490,11 +490,13 @@ def _friction_kernel(Re, rr):
 
 
 def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.0, insert=None, d_nozzle=None,
-                     rho_nozzle=None, laminar="sieder-tate", warn=True) -> TubeSideResult:
+                     rho_nozzle=None, laminar="sieder-tate", warn=True, h_only=False) -> TubeSideResult:
     """:func:`tube_side` without input checks or unit parsing: SI floats or float arrays in, arrays out.
 
     The rating loop's kernel (inputs checked once at the edge). ``warn=False`` skips the validity-range warnings
     (the loop asks for them only on its last evaluation). Fields are not broadcast to a common shape.
+    ``h_only=True`` skips the friction factor and the pressure drops (None): what an iteration on the outlet
+    temperatures needs.
     """
     area = n * np.pi * d ** 2 / 4.0
     v = m_dot / (rho * area)
@@ -503,14 +505,16 @@ def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.
     dl = d / L
     if insert is None:
         Nu = _nu_tube_kernel(Re, Pr, dl, laminar)
-        f = _friction_kernel(Re, rr)
+        f = None if h_only else _friction_kernel(Re, rr)
     else:
         Nu = _arr(insert.nu(Re, Pr, dl))
-        f = _arr(insert.friction(Re))
+        f = None if h_only else _arr(insert.friction(Re))
     if mu_wall is not None:
         phi = (mu / mu_wall) ** 0.14
         Nu = Nu * phi
-        f = f / phi
+        f = None if h_only else f / phi
+    if h_only:
+        return TubeSideResult(Nu * k / d, None, None, None, None, Re, Pr, Nu, None, v, warnings=[])
     warns = tube_side_warnings(Re, Pr, None if mu_wall is None else mu / mu_wall, insert) if warn else []
     h = Nu * k / d
     head = rho * v**2 / 2.0
