@@ -498,42 +498,55 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             if active.size == 0:
                 break
             full_set = active.size == n
-            X = S if full_set else S[:, active]
+            if full_set:  # no gathers while every case is still iterating
+                X, rp, om, sp, dmp, lo, hi = S, r_prev, omega, s_prev, damped, t_lo, t_hi
+            else:
+                X = S[:, active]
+                rp, om, sp, dmp, lo, hi = (a[active] for a in (r_prev, omega, s_prev, damped, t_lo, t_hi))
             ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3], detail=False)
             G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
             f = G - X
             r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
             conv = r < _TOL_K
-            rp, om = r_prev[active], omega[active]
             # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
             # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
             # the step is halved at each change of sign, so that the case settles at the edge.
-            edge = _near_seam(ev.shell.Re) if seams else np.zeros(r.shape, dtype=bool)
+            edge = _near_seam(ev.shell.Re) if seams else None
+            any_edge = edge is not None and bool(edge.any())
             s_now = np.sign(f[1])
-            flip = (it >= _SEAM_FROM) & edge & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
-            dm = damped[active] | flip
-            om = np.where(flip, 0.5 * om, om)
+            if any_edge and it >= _SEAM_FROM:
+                flip = edge & (s_now * sp < 0) & (r > 0.7 * rp)
+                dm = dmp | flip
+                om = np.where(flip, 0.5 * om, om)
+            else:  # no case flips
+                dm = dmp
             if it >= _ANDERSON_FROM:
-                df = f - f_prev[:, active]
+                df = f - (f_prev if full_set else f_prev[:, active])
                 den = np.einsum("ij,ij->j", df, df)
                 with np.errstate(divide="ignore", invalid="ignore"):
                     gam = np.einsum("ij,ij->j", f, df) / den
-                gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp) & ~edge, gam, 0.0)  # else a plain step
-                Xn = G - gam * (G - g_prev[:, active])
+                ok = (den > 0) & np.isfinite(gam) & (r <= rp)
+                if any_edge:
+                    ok &= ~edge
+                gam = np.where(ok, gam, 0.0)  # else a plain step
+                Xn = G - gam * (G - (g_prev if full_set else g_prev[:, active]))
             else:
                 Xn = G
-            if dm.any():
+            any_damped = bool(dm.any())
+            if any_damped:
                 Xn = np.where(dm, X + om * f, Xn)
-            Xn = np.clip(Xn, t_lo[active], t_hi[active])  # outlets and walls stay between the inlets
-            stop = conv | (dm & (om * r < _SEAM_STEP_K))
-            Xn = np.where(stop, X, Xn)
+            Xn = np.minimum(np.maximum(Xn, lo), hi)  # outlets and walls stay between the inlets
+            stop = (conv | (dm & (om * r < _SEAM_STEP_K))) if any_damped else conv
+            n_stop = int(np.count_nonzero(stop))
+            if n_stop:
+                Xn = np.where(stop, X, Xn)
             if full_set:
                 S, f_prev, g_prev = Xn, f, G
                 r_prev, s_prev, omega, damped = r, s_now, om, dm
             else:
                 S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
                 r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
-            if stop.sum() >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
+            if n_stop >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
                 active = active[~stop]
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
