@@ -31,6 +31,7 @@ Anderson, D. G. (1965). Iterative procedures for nonlinear integral equations. *
 from __future__ import annotations
 
 import dataclasses
+import functools
 import inspect
 import math
 from dataclasses import dataclass
@@ -70,6 +71,7 @@ def _rater(exchanger):
     return getattr(importlib.import_module(module), name)
 
 _MAX_ITER = 60
+_FLOAT_CASES = 8  # up to this many cases iterate one by one on floats (cheaper than array calls on so few)
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
 _SEAM_STEP_K = 1e-3  # a case at a seam stops when its halved step moves it by less than this [K]
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
@@ -447,10 +449,10 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     g_eff, m_factor = _shell_flow_geometry(kind, geom)
     ratio_d, ln_ratio_d = do / di, float(np.log(do / di))
 
-    def evaluate_one(xs, xt, tws, twt):
-        """:func:`evaluate` for a single case on Python floats: the next outlet and wall temperatures, and the
+    def evaluate_one(i, xs, xt, tws, twt):
+        """:func:`evaluate` for case ``i`` alone on Python floats: the next outlet and wall temperatures, and the
         shell-side Re (Bell-Delaware on E, F and J shells, plain tubes)."""
-        ms, mt, tsi, tti = float(m_s[0]), float(m_t[0]), float(ts_in[0]), float(tt_in[0])
+        ms, mt, tsi, tti = float(m_s[i]), float(m_t[i]), float(ts_in[i]), float(tt_in[i])
         tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
         if s_const is None:
             ps = s_fluid.props(min(max(tm_s, s_lo), s_hi))
@@ -468,23 +470,25 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         h_s, Re_s = shell_bell.bell_delaware_h_float(g_eff, m_factor * ms, cp_s, mu_s, k_s, mu_ws)
         k_w = float(material.conductivity(0.5 * (tws + twt)))
         R0, R2, R4 = 1.0 / h_s, do * ln_ratio_d / (2.0 * k_w), ratio_d / h_t
-        U = 1.0 / (R0 + float(rf_s[0]) + R2 + float(rf_t[0]) * ratio_d + R4)
+        U = 1.0 / (R0 + float(rf_s[i]) + R2 + float(rf_t[i]) * ratio_d + R4)
         C_s, C_t = ms * cp_s, mt * cp_t
         shell_min = C_s <= C_t
         C_min, Cr = (C_s, C_s / C_t) if shell_min else (C_t, C_t / C_s)
         eps, _ = thermal.effectiveness_float(U * area_train / C_min, Cr, arr_name, n_units, shell_min)
-        q = min(eps, 1.0) * C_min * float(dt_in[0])
-        sg = float(sign[0])
+        q = min(eps, 1.0) * C_min * float(dt_in[i])
+        sg = float(sign[i])
         flux = U * (tm_s - tm_t)
         return (tsi + sg * q / C_s, tti - sg * q / C_t, tm_s - flux * R0, tm_t + flux * R4), Re_s
 
     seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
-    if shape == () and bell_kernel and insert is None:
-        # one case: the iteration on Python floats (no per-element numpy overhead), the same steps and stops;
-        # the converged state is then evaluated once by the array kernels, which give every reported number
-        S = np.array(_iterate_one(evaluate_one, ts_in[0], tt_in[0], seams), dtype=float).reshape(4, 1)
+    if n <= _FLOAT_CASES and bell_kernel and insert is None:
+        # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
+        # the array loop; the converged states are then evaluated once by the array kernels, which give every
+        # reported number
+        S = np.array([_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams)
+                      for i in range(n)], dtype=float).T.reshape(4, n)
         ev = evaluate(None, S[0], S[1], S[2], S[3])
     else:
         S = np.empty((4, n))

@@ -18,7 +18,7 @@ import revamp as rv
 from revamp import thermal
 from revamp.correlations import shell_bell
 from revamp.correlations import tube as tube_corr
-from revamp.rating import _SCALAR_FIELDS
+from revamp.rating import _FLOAT_CASES, _SCALAR_FIELDS
 
 WATER = rv.fluids.water(pressure="10 bar")
 OIL = rv.fluids.constant(density=730.0, heat_capacity=2470.0, viscosity=4.0e-4, conductivity=0.132)
@@ -50,7 +50,7 @@ def _assert_same(one, sweep, i):
 @pytest.mark.parametrize("shell_fluid, tube_fluid", [(OIL, WATER), (CRUDE, OIL), (OIL, CRUDE)])
 def test_one_case_equals_the_same_case_in_a_sweep(kind, passes, shells, method, shell_fluid, tube_fluid):
     rng = np.random.default_rng(7)
-    n = 6
+    n = 2 * _FLOAT_CASES + 1  # a sweep this large iterates on arrays; a single case and small sweeps on floats
     hot_shell = shell_fluid is CRUDE or tube_fluid is WATER
     t_hot, t_cold = rng.uniform(400.0, 445.0, n), rng.uniform(300.0, 340.0, n)
     # flows from laminar to turbulent on both sides (shell Re about 30 to 3e4: both of Taborek's switch bands)
@@ -60,7 +60,13 @@ def test_one_case_equals_the_same_case_in_a_sweep(kind, passes, shells, method, 
     hx = _exchanger(kind, passes, shells)
     sweep = rv.rate(hx, rv.Service(shell=rv.Stream(shell_fluid, m_s, ts), tube=rv.Stream(tube_fluid, m_t, tt),
                                    fouling_shell=2e-4, fouling_tube=rf_t), shell_method=method)
-    for i in range(n):
+    small = rv.rate(hx, rv.Service(shell=rv.Stream(shell_fluid, m_s[:3], ts[:3]), tube=rv.Stream(tube_fluid, m_t[:3],
+                                                                                           tt[:3]),
+                                   fouling_shell=2e-4, fouling_tube=rf_t[:3]), shell_method=method)
+    for i in range(3):
+        for name in _SCALAR_FIELDS:
+            assert getattr(small, name)[i] == pytest.approx(getattr(sweep, name)[i], rel=1e-9, nan_ok=True)
+    for i in range(6):
         one = rv.rate(hx, rv.Service(shell=rv.Stream(shell_fluid, float(m_s[i]), float(ts[i])),
                                      tube=rv.Stream(tube_fluid, float(m_t[i]), float(tt[i])),
                                      fouling_shell=2e-4, fouling_tube=float(rf_t[i])), shell_method=method)
@@ -76,8 +82,9 @@ def test_random_single_cases_match_the_array_path(lg_s, lg_t, t_hot, t_cold, lay
     ts, tt = (t_hot, t_cold) if shell_hot else (t_cold, t_hot)
     svc = rv.Service(shell=rv.Stream(OIL, 10 ** lg_s, ts), tube=rv.Stream(WATER, 10 ** lg_t, tt),
                      fouling_shell=1e-4, fouling_tube=2e-4)
-    pair = rv.Service(shell=rv.Stream(OIL, [10 ** lg_s, 3.0], [ts, ts]), tube=rv.Stream(WATER, [10 ** lg_t, 3.0],
-                                                                                         [tt, tt]),
+    k = _FLOAT_CASES + 1  # the case among others, in a sweep that iterates on arrays
+    flows_s, flows_t = np.r_[10 ** lg_s, np.linspace(0.5, 20.0, k - 1)], np.r_[10 ** lg_t, np.linspace(1.0, 30.0, k - 1)]
+    pair = rv.Service(shell=rv.Stream(OIL, flows_s, np.full(k, ts)), tube=rv.Stream(WATER, flows_t, np.full(k, tt)),
                       fouling_shell=1e-4, fouling_tube=2e-4)
     _assert_same(rv.rate(hx, svc, shell_method=method), rv.rate(hx, pair, shell_method=method), 0)
 
