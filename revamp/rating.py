@@ -30,6 +30,8 @@ Anderson, D. G. (1965). Iterative procedures for nonlinear integral equations. *
 """
 from __future__ import annotations
 
+import contextlib
+import contextvars
 import dataclasses
 import functools
 import inspect
@@ -47,7 +49,7 @@ from .correlations import tube as tube_corr
 from .errors import InputError
 from .fluids.table import ConstantFluid
 from .resistance import TUBE_LAYERS, tube_resistances
-from .rating_result import _SCALAR_FIELDS, Rating, ResultFrames  # noqa: F401  (re-exported)
+from .rating_result import _SCALAR_FIELDS, LazyResistances, Rating, ResultFrames  # noqa: F401  (re-exported)
 from .service import Service, Stream
 
 __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"]
@@ -71,12 +73,31 @@ def _rater(exchanger):
     return getattr(importlib.import_module(module), name)
 
 _MAX_ITER = 60
+#: A first guess of the iteration's state for the next shell-and-tube ratings in this context (see warm_start)
+_WARM_START: contextvars.ContextVar = contextvars.ContextVar("revamp_rating_warm_start", default=None)
 _FLOAT_CASES = 8  # up to this many cases iterate one by one on floats (cheaper than array calls on so few)
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
 _SEAM_STEP_K = 1e-3  # a case at a seam stops when its halved step moves it by less than this [K]
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
 _ANDERSON_FROM = 2  # iteration from which the Anderson step is tried (plain substitution before)
 _SEAM_FROM = 4  # iteration from which a residual that changes sign without shrinking marks a seam
+
+
+@contextlib.contextmanager
+def warm_start(state):
+    """Start the shell-and-tube ratings made inside the ``with`` block from ``state`` instead of the inlets.
+
+    ``state`` is a ``(4, n)`` array of the outlet temperatures (shell, tube) and the wall temperatures (shell side,
+    tube side) [K] of the ``n`` flattened cases, e.g. those of a previous rating at nearby inlets (a network solve
+    re-rating its exchangers). Only the number of iterations changes: each case still stops where its outlets move by
+    less than 1e-6 K (a state that does not fit the cases is ignored; a case whose state is not finite starts from
+    its inlets). Internal to the package.
+    """
+    token = _WARM_START.set(state)
+    try:
+        yield
+    finally:
+        _WARM_START.reset(token)
 
 
 def arrangement(exchanger) -> tuple[str, int]:
@@ -214,12 +235,16 @@ def _near_seam_one(Re):
     return min(abs(lr - e) for e in _LN_SEAM_RE) < 0.05
 
 
-def _iterate_one(evaluate_one, ts_in, tt_in, seams):
+def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None):
     """The property iteration of :func:`rate` for one case on Python floats: the same steps as the array loop
     (substitution, then Anderson depth one; plain and halved steps at a seam) and the same stops. Returns the state
-    ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at."""
+    ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at. ``start``: a first state other
+    than the inlets (see :func:`warm_start`)."""
     lo, hi = min(ts_in, tt_in), max(ts_in, tt_in)
-    X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
+    if start is None or not all(math.isfinite(v) for v in start):
+        X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
+    else:
+        X = tuple(min(max(float(v), lo), hi) for v in start)
     f_prev = g_prev = (0.0, 0.0, 0.0, 0.0)
     r_prev, s_prev, om, damped = math.inf, 0.0, 1.0, False
     for it in range(_MAX_ITER):
@@ -481,19 +506,29 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         return (tsi + sg * q / C_s, tti - sg * q / C_t, tm_s - flux * R0, tm_t + flux * R4), Re_s
 
     seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
+    start = _WARM_START.get()
+    if start is not None:  # a caller's first guess of the state (see warm_start), used only when it fits
+        start = np.asarray(start, dtype=float)
+        start = start if start.shape == (4, n) else None
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
     if n <= _FLOAT_CASES and bell_kernel and insert is None:
         # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
         # the array loop; the converged states are then evaluated once by the array kernels, which give every
         # reported number
-        S = np.array([_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams)
-                      for i in range(n)], dtype=float).T.reshape(4, n)
+        S = np.array([_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
+                                   None if start is None else start[:, i]) for i in range(n)],
+                     dtype=float).T.reshape(4, n)
         ev = evaluate(None, S[0], S[1], S[2], S[3])
     else:
         S = np.empty((4, n))
-        S[0], S[1] = ts_in, tt_in
-        S[2] = S[3] = 0.5 * (ts_in + tt_in)
+        if start is None:
+            S[0], S[1] = ts_in, tt_in
+            S[2] = S[3] = 0.5 * (ts_in + tt_in)
+        else:  # a case whose start is not finite starts from its inlets
+            cold = ~np.all(np.isfinite(start), axis=0)
+            S[:] = np.minimum(np.maximum(np.where(cold, np.stack((ts_in, tt_in, 0.5 * (ts_in + tt_in),
+                                                                   0.5 * (ts_in + tt_in))), start), t_lo), t_hi)
         f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
         r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
         omega, damped = np.ones(n), np.zeros(n, dtype=bool)
@@ -639,15 +674,13 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
         if shape == () and not any_invalid:
             fields[key] = float(value.reshape(-1)[0])
             continue
-        value = np.broadcast_to(value, (n,))
+        if value.shape != (n,):
+            value = np.broadcast_to(value, (n,))
         if any_invalid:
             value = np.where(invalid, np.nan, value)
         fields[key] = as_out(value.reshape(shape))
-    if shape == ():
-        resistances = pd.Series(np.array([float(v[0]) for v in res_cols.values()]), index=_RESISTANCE_INDEX,
-                                name="resistance [m²K/W]")
-    else:
-        resistances = pd.DataFrame({k: np.where(invalid, np.nan, v) for k, v in res_cols.items()})
+    resistances = LazyResistances(TUBE_LAYERS, tuple(res_cols.values()), invalid if any_invalid else None,
+                                  scalar=shape == ())
     return Rating(
         **fields, area=hx.area_outside, area_inside=hx.area_inside, resistances=resistances,
         tube_side=_reshape_fields(dataclasses.replace(tube, warnings=tube_warnings), shape),

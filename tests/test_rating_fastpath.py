@@ -122,3 +122,28 @@ def test_float_effectiveness_equals_the_array_kernel(ntu, cr, arrangement, units
     assert e1 == pytest.approx(float(eps[0]), rel=1e-12, abs=1e-15)
     assert w1 == pytest.approx(float(w[0]), rel=1e-9, abs=1e-15)
     assert math.isfinite(e1) and math.isfinite(w1)
+
+
+@pytest.mark.parametrize("n", [1, 3, 2 * _FLOAT_CASES + 1])
+def test_warm_start_changes_only_the_iterations(n):
+    # A rating started from a nearby state stops within the iteration tolerance of the cold rating (invariant: the
+    # fixed point does not depend on where the iteration starts); a case whose start is NaN starts cold, exactly.
+    from revamp.rating import warm_start
+
+    rng = np.random.default_rng(3)
+    hx = _exchanger("E", 2, 2)
+    svc = rv.Service(shell=rv.Stream(CRUDE, rng.uniform(5.0, 30.0, n), rng.uniform(520.0, 560.0, n)),
+                     tube=rv.Stream(OIL, rng.uniform(10.0, 40.0, n), rng.uniform(300.0, 340.0, n)),
+                     fouling_shell=3e-4, fouling_tube=2e-4)
+    cold = rv.rate(hx, svc)
+    state = np.array([np.atleast_1d(getattr(cold, k)) + 0.3 for k in
+                      ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube")])
+    state[:, 0] = np.nan
+    with warm_start(state):
+        warm = rv.rate(hx, svc)
+    for name in ("t_out_shell", "t_out_tube"):
+        a, b = np.atleast_1d(getattr(warm, name)), np.atleast_1d(getattr(cold, name))
+        assert np.allclose(a, b, rtol=0.0, atol=1e-5)
+        assert a[0] == b[0]  # the NaN start: the cold path
+    with warm_start(np.zeros((4, n + 1))):  # a state that does not fit the cases is ignored
+        assert np.array_equal(np.atleast_1d(rv.rate(hx, svc).duty), np.atleast_1d(cold.duty))

@@ -30,7 +30,7 @@ import numpy as np
 import pandas as pd
 
 from ..errors import InputError
-from ..rating import rate
+from ..rating import rate, warm_start
 from ..service import Service, Stream
 from .network import Point, Split
 from .result import LimitCheck, TrainResult
@@ -38,6 +38,7 @@ from .result import LimitCheck, TrainResult
 __all__ = ["solve", "enthalpy_change"]
 
 _SIDES = ("shell", "tube")
+_STATE_FIELDS = ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube")  # a rating's iteration state
 # Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
 _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
 _PROBE_K = 0.01  # inlet step of the finite differences for the Newton step [K]
@@ -192,11 +193,13 @@ class _Plan:
         return links, points, finals, dps
 
 
-def _rate_all(plan, x, idx, probe=0.0):
+def _rate_all(plan, x, idx, probe=0.0, starts=None):
     """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
 
     With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
-    [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step.
+    [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step. ``starts``: per
+    exchanger, the outlet and wall temperatures ``(4, ncase)`` of its last rating, which the ratings start from
+    (updated here from the new ratings; the converged states of one pass are close to the next pass's).
     """
     train = plan.train
     ratings = {}
@@ -213,7 +216,23 @@ def _rate_all(plan, x, idx, probe=0.0):
         t_t = np.where(t_s == t_t, t_t + 1e-9, t_t)  # equal inlets: no duty either way; rate() needs a difference
         svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
                       tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
-        ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
+        # warm starts only for the probe blocks: a rating the result may keep (the base block) starts from the
+        # inlets, as rate() alone does, so that rating an exchanger at its solved inlets gives back exactly the
+        # result's numbers
+        state = None if starts is None or not probe else starts.get(tag)
+        if state is None:
+            ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
+        else:
+            first = state[:, idx]
+            with warm_start(np.concatenate([np.full_like(first, np.nan), first, first], axis=1)):
+                ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
+        if starts is not None:
+            r = ratings[tag]
+            new = np.array([np.broadcast_to(np.asarray(getattr(r, k), float).reshape(-1), (t_s.size,))[:idx.size]
+                            for k in _STATE_FIELDS])
+            if tag not in starts:
+                starts[tag] = np.full((4, plan.ncase), np.nan)
+            starts[tag][:, idx] = new  # NaN (a failed case): its next rating starts from the inlets
     return ratings
 
 
@@ -324,6 +343,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     residual = np.full(plan.ncase, np.inf)
     stalled = np.zeros(plan.ncase, dtype=bool)
     iterations, ratings, rated_all, history = 0, None, False, []
+    starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
     for iterations in range(1, max_iter + 1):
         idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
         xa = x[idx]
@@ -331,7 +351,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
         probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
-        ratings = _rate_all(plan, xa, idx, probe=probe)
+        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
         g, bad = _linear_solve(plan, xa, linear, idx)
@@ -363,7 +383,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     if rated_all:  # the last pass rated every case: its base block is the rating at the solved inlets
         ratings = _strip_probes(ratings, plan.ncase)
     else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger
-        ratings = _rate_all(plan, x, np.arange(plan.ncase))
+        ratings = _rate_all(plan, x, np.arange(plan.ncase), starts=starts)
     return _result(plan, x, ratings, converged, failed, residual, iterations, tol)
 
 
