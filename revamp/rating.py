@@ -378,6 +378,32 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     if kind == "X" and shell_method == "kern":
         raise InputError("shell_method", shell_method, "'bell-delaware' for an X shell (Kern's method assumes "
                          "baffled crossflow; the X shell is rated as one crossflow pass over the bundle)")
+    return _rate_shell_and_tube(hx, service, shell_method)
+
+
+@dataclass(frozen=True)
+class OutletMap:
+    """What an iteration over ratings needs of one (a network solve): per flattened case, the outlets, the wall
+    temperatures, the effectiveness, the heat-capacity rates of the whole streams and the pressure drops over all
+    shells (SI; NaN where a stream would leave its fluid's range). Built by :func:`_rate_shell_and_tube` with
+    ``outlets_only``; the same numbers as the :class:`Rating` of the same call."""
+
+    t_out_shell: np.ndarray
+    t_out_tube: np.ndarray
+    t_wall_shell: np.ndarray
+    t_wall_tube: np.ndarray
+    effectiveness: np.ndarray
+    C_shell: np.ndarray
+    C_tube: np.ndarray
+    dp_shell: np.ndarray
+    dp_tube: np.ndarray
+
+
+def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False):
+    """The body of :func:`rate` for a shell-and-tube exchanger (method and service already checked). With
+    ``outlets_only`` it returns an :class:`OutletMap` of the flattened cases instead of a :class:`Rating` (no
+    warnings, no result objects: for a network solve's intermediate passes)."""
+    kind = getattr(hx, "shell_type", "E")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
         service.shell.flow, service.shell.t_in, service.tube.flow, service.tube.t_in,
@@ -612,6 +638,11 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
             range_msgs.append(f"{side} side: {int(np.sum(out))} case(s) would leave the single-phase range of "
                               f"{fluid.name} ({fluid.t_min:.1f}..{fluid.t_max:.1f} K) at an inlet or an outlet; "
                               "their results are NaN")
+
+    if outlets_only:
+        bad = np.where(invalid, np.nan, 0.0)
+        return OutletMap(to_s + bad, to_t + bad, ev.tw_s + bad, ev.tw_t + bad, ev.eps + bad, ev.C_s * n_par + bad,
+                         ev.C_t * n_par + bad, np.asarray(ev.shell.dp) * hx.shells + bad, ev.tube.dp * hx.shells + bad)
 
     # ---- counterflow terminal differences from 1 - eps (no cancellation near eps = 1), F and LMTD
     Cr = np.where(ev.shell_min, ev.C_s / ev.C_t, ev.C_t / ev.C_s)

@@ -30,7 +30,7 @@ import numpy as np
 import pandas as pd
 
 from ..errors import InputError
-from ..rating import rate, warm_start
+from ..rating import _FLOAT_CASES, _rate_shell_and_tube, _rater, rate, warm_start
 from ..service import Service, Stream
 from .network import Point, Split
 from .result import LimitCheck, TrainResult
@@ -193,13 +193,14 @@ class _Plan:
         return links, points, finals, dps
 
 
-def _rate_all(plan, x, idx, probe=0.0, starts=None):
+def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
     """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
 
     With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
     [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step. ``starts``: per
     exchanger, the outlet and wall temperatures ``(4, ncase)`` of its last rating, which the ratings start from
     (updated here from the new ratings; the converged states of one pass are close to the next pass's).
+    ``outlets_only``: shell-and-tube exchangers return only what the next pass needs (:class:`OutletMap`).
     """
     train = plan.train
     ratings = {}
@@ -220,11 +221,12 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None):
         # inlets, as rate() alone does, so that rating an exchanger at its solved inlets gives back exactly the
         # result's numbers
         state = None if starts is None or not probe else starts.get(tag)
-        if state is None:
-            ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
-        else:
-            first = state[:, idx]
-            with warm_start(np.concatenate([np.full_like(first, np.nan), first, first], axis=1)):
+        light = outlets_only and _rater(m.exchanger) is None
+        with warm_start(None if state is None else np.concatenate(
+                [np.full_like(state[:, idx], np.nan), state[:, idx], state[:, idx]], axis=1)):
+            if light:
+                ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True)
+            else:
                 ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
         if starts is not None:
             r = ratings[tag]
@@ -344,6 +346,9 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     stalled = np.zeros(plan.ncase, dtype=bool)
     iterations, ratings, rated_all, history = 0, None, False, []
     starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
+    # a few cases: the passes ask only for the outlet maps, and the exchangers are rated in full once, at the solved
+    # inlets (the result objects cost more than such small ratings); a sweep's last pass gives its ratings
+    light = plan.ncase <= _FLOAT_CASES
     for iterations in range(1, max_iter + 1):
         idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
         xa = x[idx]
@@ -351,7 +356,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
         probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
-        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts)
+        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
         g, bad = _linear_solve(plan, xa, linear, idx)
@@ -380,7 +385,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         if np.all(failed | done | stalled):
             break
     converged = done & ~failed
-    if rated_all:  # the last pass rated every case: its base block is the rating at the solved inlets
+    if rated_all and not light:  # the last pass rated every case: its base block is the rating at the solved inlets
         ratings = _strip_probes(ratings, plan.ncase)
     else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger
         ratings = _rate_all(plan, x, np.arange(plan.ncase), starts=starts)
