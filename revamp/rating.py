@@ -39,7 +39,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-import pandas as pd
 
 from . import thermal
 from ._arrays import as_out
@@ -142,9 +141,6 @@ def _tail(v, na):
     return v[na:] if v.ndim else v
 
 
-_RESISTANCE_INDEX = pd.Index(TUBE_LAYERS)
-
-
 #: Reynolds numbers where Taborek's ideal-bank fits change coefficients (Taborek 1983): the map may jump there
 _SEAM_RE = np.array([10.0, 100.0, 1e3, 1e4])
 
@@ -235,11 +231,12 @@ def _near_seam_one(Re):
     return min(abs(lr - e) for e in _LN_SEAM_RE) < 0.05
 
 
-def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None):
+def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None):
     """The property iteration of :func:`rate` for one case on Python floats: the same steps as the array loop
     (substitution, then Anderson depth one; plain and halved steps at a seam) and the same stops. Returns the state
     ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at. ``start``: a first state other
-    than the inlets (see :func:`warm_start`)."""
+    than the inlets (see :func:`warm_start`). ``resume``: the array loop's state of this case after its iteration
+    ``it`` (``(it + 1, X, f_prev, g_prev, r_prev, s_prev, omega, damped)``), to carry on from there."""
     lo, hi = min(ts_in, tt_in), max(ts_in, tt_in)
     if start is None or not all(math.isfinite(v) for v in start):
         X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
@@ -247,7 +244,10 @@ def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None):
         X = tuple(min(max(float(v), lo), hi) for v in start)
     f_prev = g_prev = (0.0, 0.0, 0.0, 0.0)
     r_prev, s_prev, om, damped = math.inf, 0.0, 1.0, False
-    for it in range(_MAX_ITER):
+    it0 = 0
+    if resume is not None:
+        it0, X, f_prev, g_prev, r_prev, s_prev, om, damped = resume
+    for it in range(it0, _MAX_ITER):
         G, Re = evaluate_one(*X)
         f = tuple(g - x for g, x in zip(G, X))
         r = max(abs(f[0]), abs(f[1]))
@@ -538,7 +538,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False):
         start = start if start.shape == (4, n) else None
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
-    if n <= _FLOAT_CASES and bell_kernel and insert is None:
+    floats = bell_kernel and insert is None  # the float evaluation covers these
+    if n <= _FLOAT_CASES and floats:
         # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
         # the array loop; the converged states are then evaluated once by the array kernels, which give every
         # reported number
@@ -613,6 +614,14 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False):
                 r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
             if n_stop >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
                 active = active[~stop]
+            if floats and 0 < active.size <= _FLOAT_CASES:
+                # the last few cases carry on one by one on floats, from the state they reached (the same steps)
+                for i in active:
+                    S[:, i] = _iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]),
+                                           seams, resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
+                                                          tuple(g_prev[:, i].tolist()), float(r_prev[i]),
+                                                          float(s_prev[i]), float(omega[i]), bool(damped[i])))
+                break
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
         # pressure drops the iteration did not need

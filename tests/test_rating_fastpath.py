@@ -83,7 +83,8 @@ def test_random_single_cases_match_the_array_path(lg_s, lg_t, t_hot, t_cold, lay
     svc = rv.Service(shell=rv.Stream(OIL, 10 ** lg_s, ts), tube=rv.Stream(WATER, 10 ** lg_t, tt),
                      fouling_shell=1e-4, fouling_tube=2e-4)
     k = _FLOAT_CASES + 1  # the case among others, in a sweep that iterates on arrays
-    flows_s, flows_t = np.r_[10 ** lg_s, np.linspace(0.5, 20.0, k - 1)], np.r_[10 ** lg_t, np.linspace(1.0, 30.0, k - 1)]
+    flows_s = np.r_[10 ** lg_s, np.linspace(0.5, 20.0, k - 1)]
+    flows_t = np.r_[10 ** lg_t, np.linspace(1.0, 30.0, k - 1)]
     pair = rv.Service(shell=rv.Stream(OIL, flows_s, np.full(k, ts)), tube=rv.Stream(WATER, flows_t, np.full(k, tt)),
                       fouling_shell=1e-4, fouling_tube=2e-4)
     _assert_same(rv.rate(hx, svc, shell_method=method), rv.rate(hx, pair, shell_method=method), 0)

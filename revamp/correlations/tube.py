@@ -547,5 +547,6 @@ def tube_h_float(m_dot, n, d, L, rho, cp, mu, k, mu_wall, laminar="sieder-tate")
         lam = 3.66 + 0.0668 * gz / (1.0 + 0.04 * gz ** (2.0 / 3.0))
     re_t = max(Re, RE_TURBULENT)
     f8 = (0.790 * math.log(re_t) - 1.64) ** -2 / 8.0
-    turb = f8 * (re_t - 1000.0) * Pr / (1.0 + 12.7 * math.sqrt(f8) * (Pr ** (2.0 / 3.0) - 1.0)) * (1.0 + dl ** (2.0 / 3.0))
+    turb = (f8 * (re_t - 1000.0) * Pr / (1.0 + 12.7 * math.sqrt(f8) * (Pr ** (2.0 / 3.0) - 1.0))
+            * (1.0 + dl ** (2.0 / 3.0)))
     return ((1.0 - g) * lam + g * turb) * (mu / mu_wall) ** 0.14 * k / d
