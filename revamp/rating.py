@@ -36,6 +36,7 @@ import dataclasses
 import functools
 import inspect
 import math
+import types
 from dataclasses import dataclass
 
 import numpy as np
@@ -231,12 +232,13 @@ def _near_seam_one(Re):
     return min(abs(lr - e) for e in _LN_SEAM_RE) < 0.05
 
 
-def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None):
+def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None, last=None):
     """The property iteration of :func:`rate` for one case on Python floats: the same steps as the array loop
     (substitution, then Anderson depth one; plain and halved steps at a seam) and the same stops. Returns the state
     ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at. ``start``: a first state other
     than the inlets (see :func:`warm_start`). ``resume``: the array loop's state of this case after its iteration
-    ``it`` (``(it + 1, X, f_prev, g_prev, r_prev, s_prev, omega, damped)``), to carry on from there."""
+    ``it`` (``(it + 1, X, f_prev, g_prev, r_prev, s_prev, omega, damped)``), to carry on from there. ``last``: a list
+    that receives ``(G, extra)`` of the evaluation at the returned state when the case stopped there."""
     lo, hi = min(ts_in, tt_in), max(ts_in, tt_in)
     if start is None or not all(math.isfinite(v) for v in start):
         X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
@@ -248,7 +250,7 @@ def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None):
     if resume is not None:
         it0, X, f_prev, g_prev, r_prev, s_prev, om, damped = resume
     for it in range(it0, _MAX_ITER):
-        G, Re = evaluate_one(*X)
+        G, Re, extra = evaluate_one(*X)
         f = tuple(g - x for g, x in zip(G, X))
         r = max(abs(f[0]), abs(f[1]))
         conv = r < _TOL_K
@@ -276,6 +278,8 @@ def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None):
             Xn = tuple(x + om * a for x, a in zip(X, f))
         Xn = tuple(min(max(v, lo), hi) for v in Xn)
         if conv or (dm and om * r < _SEAM_STEP_K):
+            if last is not None:
+                last.append((G, extra))
             return X
         X, f_prev, g_prev, r_prev, s_prev, damped = Xn, f, G, r, s_now, dm
     return X
@@ -381,6 +385,9 @@ def rate(exchanger, service: Service, shell_method: str = "bell-delaware") -> Ra
     return _rate_shell_and_tube(hx, service, shell_method)
 
 
+_NO_DP = types.SimpleNamespace(dp=np.nan)  # the correlation details of an evaluation that computed no pressure drop
+
+
 @dataclass(frozen=True)
 class OutletMap:
     """What an iteration over ratings needs of one (a network solve): per flattened case, the outlets, the wall
@@ -399,10 +406,11 @@ class OutletMap:
     dp_tube: np.ndarray
 
 
-def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False):
+def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True):
     """The body of :func:`rate` for a shell-and-tube exchanger (method and service already checked). With
     ``outlets_only`` it returns an :class:`OutletMap` of the flattened cases instead of a :class:`Rating` (no
-    warnings, no result objects: for a network solve's intermediate passes)."""
+    warnings, no result objects: for a network solve's intermediate passes); without ``with_dp`` its pressure drops
+    may be NaN (not computed)."""
     kind = getattr(hx, "shell_type", "E")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
@@ -529,7 +537,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False):
         q = min(eps, 1.0) * C_min * float(dt_in[i])
         sg = float(sign[i])
         flux = U * (tm_s - tm_t)
-        return (tsi + sg * q / C_s, tti - sg * q / C_t, tm_s - flux * R0, tm_t + flux * R4), Re_s
+        return (tsi + sg * q / C_s, tti - sg * q / C_t, tm_s - flux * R0, tm_t + flux * R4), Re_s, (min(eps, 1.0),
+                                                                                                 C_s, C_t)
 
     seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
     start = _WARM_START.get()
@@ -543,10 +552,21 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False):
         # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
         # the array loop; the converged states are then evaluated once by the array kernels, which give every
         # reported number
-        S = np.array([_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                   None if start is None else start[:, i]) for i in range(n)],
-                     dtype=float).T.reshape(4, n)
-        ev = evaluate(None, S[0], S[1], S[2], S[3])
+        rows, lasts = [], []
+        for i in range(n):
+            hold = []
+            rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
+                                     None if start is None else start[:, i], last=hold))
+            lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
+        S = np.array(rows, dtype=float).T.reshape(4, n)
+        if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs
+            G = np.array([g for g, _ in lasts], dtype=float).T.reshape(4, n)
+            E = np.array([e for _, e in lasts], dtype=float).T.reshape(3, n)
+            ev = _Eval(to_s=G[0], to_t=G[1], tw_s=G[2], tw_t=G[3], q=None, eps=E[0], w=None, NTU=None, U=None,
+                       C_s=E[1], C_t=E[2], shell_min=None, R=None, tube=_NO_DP, shell=_NO_DP, rho_s=None,
+                       rho_t=None, Pr_s=None, mu_ratio_t=None)
+        else:
+            ev = evaluate(None, S[0], S[1], S[2], S[3])
     else:
         S = np.empty((4, n))
         if start is None:

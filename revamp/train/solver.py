@@ -31,6 +31,7 @@ import pandas as pd
 
 from ..errors import InputError
 from ..rating import _FLOAT_CASES, _rate_shell_and_tube, _rater, rate, warm_start
+from ..rating_result import LazyResistances
 from ..service import Service, Stream
 from .network import Point, Split
 from .result import LimitCheck, TrainResult
@@ -225,7 +226,8 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
         with warm_start(None if state is None else np.concatenate(
                 [np.full_like(state[:, idx], np.nan), state[:, idx], state[:, idx]], axis=1)):
             if light:
-                ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True)
+                ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
+                                                    with_dp=bool(plan.equal_dp))
             else:
                 ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
         if starts is not None:
@@ -428,8 +430,14 @@ def _reshape_rating(r, shape, ncase):
         v = np.asarray(getattr(r, name), float).reshape(shape)
         changes[name] = float(v) if shape == () else v
     if shape == ():
-        res = r.resistances
-        changes["resistances"] = pd.Series(res.to_numpy(float)[0], index=list(res.columns), name="resistance [m²K/W]")
+        lazy = r.__dict__.get("_resistance_values") if "resistances" not in r.__dict__ else None
+        if lazy is not None:  # not built yet: the one case's values, still built only when asked for
+            changes["resistances"] = LazyResistances(lazy.layers, tuple(np.asarray(v, float)[:1] for v in lazy.values),
+                                                     None, scalar=True)
+        else:
+            res = r.resistances
+            changes["resistances"] = pd.Series(res.to_numpy(float)[0], index=list(res.columns),
+                                               name="resistance [m²K/W]")
         svc = r.service
         changes["service"] = svc.replace(
             shell=svc.shell.replace(flow=float(svc.shell.flow[0]), t_in=float(svc.shell.t_in[0])),
