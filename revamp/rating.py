@@ -30,6 +30,7 @@ Anderson, D. G. (1965). Iterative procedures for nonlinear integral equations. *
 """
 from __future__ import annotations
 
+import bisect
 import contextlib
 import contextvars
 import dataclasses
@@ -226,6 +227,17 @@ def _shell_flow_geometry(kind, geom):
 _LN_SEAM_RE = tuple(math.log(e) for e in _SEAM_RE)
 
 
+def _interp_float(x, table):
+    """``np.interp(x, *table)`` for one float: linear between the points, held constant outside them."""
+    xs, fs = table
+    if x <= xs[0]:
+        return fs[0]
+    if x >= xs[-1]:
+        return fs[-1]
+    j = bisect.bisect_right(xs, x) - 1
+    return (fs[j + 1] - fs[j]) / (xs[j + 1] - xs[j]) * (x - xs[j]) + fs[j]
+
+
 def _near_seam_one(Re):
     """:func:`_near_seam` for one case (a float)."""
     lr = math.log(Re)
@@ -419,6 +431,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     n = int(np.prod(shape, dtype=int))
 
     def flat(v):
+        if type(v) is np.ndarray and v.shape == shape:
+            return v.astype(float).reshape(n)  # a copy
         return np.array(np.broadcast_to(np.asarray(v, dtype=float), shape), dtype=float).reshape(n)
 
     n_par = float(getattr(hx, "shells_parallel", 1))
@@ -507,6 +521,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
 
     g_eff, m_factor = _shell_flow_geometry(kind, geom)
     ratio_d, ln_ratio_d = do / di, float(np.log(do / di))
+    k_table = (tuple(float(t) for t in material.temperatures), tuple(float(k) for k in material.conductivities))
 
     def evaluate_one(i, xs, xt, tws, twt):
         """:func:`evaluate` for case ``i`` alone on Python floats: the next outlet and wall temperatures, and the
@@ -527,7 +542,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         h_t = tube_corr.tube_h_float(mt, n_tpp, di, length, rho_t, cp_t, mu_t, k_t, mu_wt)
         h_s, Re_s = shell_bell.bell_delaware_h_float(g_eff, m_factor * ms, cp_s, mu_s, k_s, mu_ws)
-        k_w = float(material.conductivity(0.5 * (tws + twt)))
+        k_w = _interp_float(0.5 * (tws + twt), k_table)
         R0, R2, R4 = 1.0 / h_s, do * ln_ratio_d / (2.0 * k_w), ratio_d / h_t
         U = 1.0 / (R0 + float(rf_s[i]) + R2 + float(rf_t[i]) * ratio_d + R4)
         C_s, C_t = ms * cp_s, mt * cp_t

@@ -232,8 +232,7 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
                 ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
         if starts is not None:
             r = ratings[tag]
-            new = np.array([np.broadcast_to(np.asarray(getattr(r, k), float).reshape(-1), (t_s.size,))[:idx.size]
-                            for k in _STATE_FIELDS])
+            new = np.array([np.asarray(getattr(r, k), float).reshape(-1)[:idx.size] for k in _STATE_FIELDS])
             if tag not in starts:
                 starts[tag] = np.full((4, plan.ncase), np.nan)
             starts[tag][:, idx] = new  # NaN (a failed case): its next rating starts from the inlets
