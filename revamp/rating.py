@@ -12,7 +12,9 @@ viscosity correction at the wall temperature from the resistance split, iteratin
 6. wall temperatures from the resistance split, for the next pass.
 
 Inputs are checked once; the loop calls unchecked array kernels and stops each case when its outlets have
-converged (Anderson-accelerated substitution, see :func:`rate`). The shell type (TEMA E, F, J, X) selects the
+converged (Anderson-accelerated substitution, see :func:`rate`). A single case, a sweep of a few cases and the last
+few cases of a sweep iterate one by one on Python floats (the same steps: numpy's per-call overhead dominates arrays
+that small); every reported number then comes from one array evaluation at the converged states. The shell type (TEMA E, F, J, X) selects the
 effectiveness relation and the shell-side adaptation (:func:`arrangement`). Every input may be an array (flows,
 inlet temperatures, fouling): the whole sweep runs in one call, with no Python loop over cases, and no single case
 can make it fail (a close approach is rated; a stream that would boil or freeze is NaN with a warning). Numbers
