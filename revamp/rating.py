@@ -14,11 +14,11 @@ viscosity correction at the wall temperature from the resistance split, iteratin
 Inputs are checked once; the loop calls unchecked array kernels and stops each case when its outlets have
 converged (Anderson-accelerated substitution, see :func:`rate`). A single case, a sweep of a few cases and the last
 few cases of a sweep iterate one by one on Python floats (the same steps: numpy's per-call overhead dominates arrays
-that small); every reported number then comes from one array evaluation at the converged states. The shell type (TEMA E, F, J, X) selects the
-effectiveness relation and the shell-side adaptation (:func:`arrangement`). Every input may be an array (flows,
-inlet temperatures, fouling): the whole sweep runs in one call, with no Python loop over cases, and no single case
-can make it fail (a close approach is rated; a stream that would boil or freeze is NaN with a warning). Numbers
-outside a correlation's published range come back with a warning in ``Rating.warnings``.
+that small); every reported number then comes from one array evaluation at the converged states. The shell type
+(TEMA E, F, J, X) selects the effectiveness relation and the shell-side adaptation (:func:`arrangement`). Every input
+may be an array (flows, inlet temperatures, fouling): the whole sweep runs in one call, with no Python loop over
+cases, and no single case can make it fail (a close approach is rated; a stream that would boil or freeze is NaN
+with a warning). Numbers outside a correlation's published range come back with a warning in ``Rating.warnings``.
 
 References
 ----------
@@ -565,26 +565,31 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
     floats = bell_kernel and insert is None  # the float evaluation covers these
+    on_floats = False
     if n <= _FLOAT_CASES and floats:
-        # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
-        # the array loop; the converged states are then evaluated once by the array kernels, which give every
-        # reported number
-        rows, lasts = [], []
-        for i in range(n):
-            hold = []
-            rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                     None if start is None else start[:, i], last=hold))
-            lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
-        S = np.array(rows, dtype=float).T.reshape(4, n)
-        if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs
-            G = np.array([g for g, _ in lasts], dtype=float).T.reshape(4, n)
-            E = np.array([e for _, e in lasts], dtype=float).T.reshape(3, n)
-            ev = _Eval(to_s=G[0], to_t=G[1], tw_s=G[2], tw_t=G[3], q=None, eps=E[0], w=None, NTU=None, U=None,
-                       C_s=E[1], C_t=E[2], shell_min=None, R=None, tube=_NO_DP, shell=_NO_DP, rho_s=None,
-                       rho_t=None, Pr_s=None, mu_ratio_t=None)
-        else:
-            ev = evaluate(None, S[0], S[1], S[2], S[3])
-    else:
+        try:
+            # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
+            # the array loop; the converged states are then evaluated once by the array kernels, which give every
+            # reported number
+            rows, lasts = [], []
+            for i in range(n):
+                hold = []
+                rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
+                                         None if start is None else start[:, i], last=hold))
+                lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
+            S = np.array(rows, dtype=float).T.reshape(4, n)
+            if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs
+                G = np.array([g for g, _ in lasts], dtype=float).T.reshape(4, n)
+                E = np.array([e for _, e in lasts], dtype=float).T.reshape(3, n)
+                ev = _Eval(to_s=G[0], to_t=G[1], tw_s=G[2], tw_t=G[3], q=None, eps=E[0], w=None, NTU=None, U=None,
+                           C_s=E[1], C_t=E[2], shell_min=None, R=None, tube=_NO_DP, shell=_NO_DP, rho_s=None,
+                           rho_t=None, Pr_s=None, mu_ratio_t=None)
+            else:
+                ev = evaluate(None, S[0], S[1], S[2], S[3])
+            on_floats = True
+        except (ValueError, ZeroDivisionError, OverflowError):  # a float domain error: the arrays give NaN
+            on_floats = False
+    if not on_floats:
         S = np.empty((4, n))
         if start is None:
             S[0], S[1] = ts_in, tt_in
@@ -653,11 +658,15 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 active = active[~stop]
             if floats and 0 < active.size <= _FLOAT_CASES:
                 # the last few cases carry on one by one on floats, from the state they reached (the same steps)
-                for i in active:
-                    S[:, i] = _iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]),
-                                           seams, resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
-                                                          tuple(g_prev[:, i].tolist()), float(r_prev[i]),
-                                                          float(s_prev[i]), float(omega[i]), bool(damped[i])))
+                try:
+                    for i in active:
+                        S[:, i] = _iterate_one(
+                            functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
+                            resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
+                                    tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
+                                    float(omega[i]), bool(damped[i])))
+                except (ValueError, ZeroDivisionError, OverflowError):  # carry on with the arrays (NaN there)
+                    continue
                 break
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
