@@ -345,10 +345,10 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     done = np.zeros(plan.ncase, dtype=bool)
     residual = np.full(plan.ncase, np.inf)
     stalled = np.zeros(plan.ncase, dtype=bool)
-    iterations, ratings, rated_all, history = 0, None, False, []
+    iterations, ratings, rated_all, history, light_pass = 0, None, False, [], False
     starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
-    # a few cases: the passes ask only for the outlet maps, and the exchangers are rated in full once, at the solved
-    # inlets (the result objects cost more than such small ratings); a sweep's last pass gives its ratings
+    # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more than
+    # such small ratings); a sweep's passes rate in full
     light = plan.ncase <= _FLOAT_CASES
     for iterations in range(1, max_iter + 1):
         idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
@@ -357,7 +357,9 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
         probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
-        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light)
+        # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones
+        light_pass = light and (bool(probe) or iterations == 1)
+        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
         g, bad = _linear_solve(plan, xa, linear, idx)
@@ -386,7 +388,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         if np.all(failed | done | stalled):
             break
     converged = done & ~failed
-    if rated_all and not light:  # the last pass rated every case: its base block is the rating at the solved inlets
+    if rated_all and not light_pass:  # the last pass rated every case in full: its base block is the rating there
         ratings = _strip_probes(ratings, plan.ncase)
     else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger
         ratings = _rate_all(plan, x, np.arange(plan.ncase), starts=starts)
