@@ -87,8 +87,8 @@ def run(constant: bool, tol: float):
     sweep = train(constant, crude_flow=np.linspace(40.0, 90.0, N_SWEEP))
     t_sweep, sres = _median(lambda: sweep.solve(tol=tol), repeats=1)
     name = "constant properties" if constant else "petroleum fractions"
-    print(f"{name}, tol {tol:g} K: one solve {t_solve * 1e3:.0f} ms ({res.iterations} passes = "
-          f"{res.iterations * len(tr.exchangers)} rate() calls, converged "
+    print(f"{name}, tol {tol:g} K: one solve {t_solve * 1e3:.0f} ms ({res.iterations} passes of "
+          f"{len(tr.exchangers)} exchangers, then each rated in full at the solved inlets; converged "
           f"{res.converged}); 30 scalar ratings {t_30 * 1e3:.0f} ms -> solve / 30 ratings = {t_solve / t_30:.2f} "
           f"(goal <= 1)")
     print(f"    {N_SWEEP}-case sweep {t_sweep * 1e3:.0f} ms ({sres.iterations} passes, "

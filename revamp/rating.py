@@ -12,11 +12,13 @@ viscosity correction at the wall temperature from the resistance split, iteratin
 6. wall temperatures from the resistance split, for the next pass.
 
 Inputs are checked once; the loop calls unchecked array kernels and stops each case when its outlets have
-converged (Anderson-accelerated substitution, see :func:`rate`). The shell type (TEMA E, F, J, X) selects the
-effectiveness relation and the shell-side adaptation (:func:`arrangement`). Every input may be an array (flows,
-inlet temperatures, fouling): the whole sweep runs in one call, with no Python loop over cases, and no single case
-can make it fail (a close approach is rated; a stream that would boil or freeze is NaN with a warning). Numbers
-outside a correlation's published range come back with a warning in ``Rating.warnings``.
+converged (Anderson-accelerated substitution, see :func:`rate`). A single case, a sweep of a few cases and the last
+few cases of a sweep iterate one by one on Python floats (the same steps: numpy's per-call overhead dominates arrays
+that small); every reported number then comes from one array evaluation at the converged states. The shell type
+(TEMA E, F, J, X) selects the effectiveness relation and the shell-side adaptation (:func:`arrangement`). Every input
+may be an array (flows, inlet temperatures, fouling): the whole sweep runs in one call, with no Python loop over
+cases, and no single case can make it fail (a close approach is rated; a stream that would boil or freeze is NaN
+with a warning). Numbers outside a correlation's published range come back with a warning in ``Rating.warnings``.
 
 References
 ----------
@@ -30,20 +32,27 @@ Anderson, D. G. (1965). Iterative procedures for nonlinear integral equations. *
 """
 from __future__ import annotations
 
+import bisect
+import contextlib
+import contextvars
 import dataclasses
+import functools
 import inspect
+import math
+import types
 from dataclasses import dataclass
 
 import numpy as np
-import pandas as pd
 
 from . import thermal
 from ._arrays import as_out
 from .correlations import shell as shell_corr
+from .correlations import shell_bell
 from .correlations import tube as tube_corr
 from .errors import InputError
+from .fluids.table import ConstantFluid
 from .resistance import TUBE_LAYERS, tube_resistances
-from .rating_result import _SCALAR_FIELDS, Rating, ResultFrames  # noqa: F401  (re-exported)
+from .rating_result import _SCALAR_FIELDS, LazyResistances, Rating, ResultFrames  # noqa: F401  (re-exported)
 from .service import Service, Stream
 
 __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"]
@@ -78,11 +87,31 @@ def _rater(exchanger):
 
 
 _MAX_ITER = 60
+#: A first guess of the iteration's state for the next shell-and-tube ratings in this context (see warm_start)
+_WARM_START: contextvars.ContextVar = contextvars.ContextVar("revamp_rating_warm_start", default=None)
+_FLOAT_CASES = 8  # up to this many cases iterate one by one on floats (cheaper than array calls on so few)
 _TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
 _SEAM_STEP_K = 1e-3  # a case at a seam stops when its halved step moves it by less than this [K]
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
 _ANDERSON_FROM = 2  # iteration from which the Anderson step is tried (plain substitution before)
 _SEAM_FROM = 4  # iteration from which a residual that changes sign without shrinking marks a seam
+
+
+@contextlib.contextmanager
+def warm_start(state):
+    """Start the shell-and-tube ratings made inside the ``with`` block from ``state`` instead of the inlets.
+
+    ``state`` is a ``(4, n)`` array of the outlet temperatures (shell, tube) and the wall temperatures (shell side,
+    tube side) [K] of the ``n`` flattened cases, e.g. those of a previous rating at nearby inlets (a network solve
+    re-rating its exchangers). Only the number of iterations changes: each case still stops where its outlets move by
+    less than 1e-6 K (a state that does not fit the cases is ignored; a case whose state is not finite starts from
+    its inlets). Internal to the package.
+    """
+    token = _WARM_START.set(state)
+    try:
+        yield
+    finally:
+        _WARM_START.reset(token)
 
 
 def arrangement(exchanger) -> tuple[str, int]:
@@ -127,17 +156,29 @@ def _tail(v, na):
     return v[na:] if v.ndim else v
 
 
-_RESISTANCE_INDEX = pd.Index(TUBE_LAYERS)
-
-
 #: Reynolds numbers where Taborek's ideal-bank fits change coefficients (Taborek 1983): the map may jump there
 _SEAM_RE = np.array([10.0, 100.0, 1e3, 1e4])
 
 
 def _near_seam(Re):
-    """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits."""
-    Re = np.asarray(Re, dtype=float)
-    return np.min(np.abs(np.log(Re[..., None] / _SEAM_RE)), axis=-1) < 0.05
+    """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits (the nearest edge in ln Re is
+    10^k with k = round(log10 Re), kept within the edges)."""
+    lr = np.log(np.asarray(Re, dtype=float))
+    k = np.fmin(np.fmax(np.rint(lr * (1.0 / math.log(10.0))), 1.0), 4.0)
+    return np.abs(lr - k * math.log(10.0)) < 0.05
+
+
+def _bell_loop(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None, h_only=False):
+    """Bell-Delaware in the rating loop: the unchecked kernel, without its warnings (the rating collects them once,
+    at the converged state); ``h_only`` inside the iteration."""
+    return shell_bell.bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall, d_nozzle, warn=False, h_only=h_only)
+
+
+def _constant_props(fluid):
+    """``(rho, cp, mu, k, mu_wall)`` of a constant-property fluid (the same at every temperature), else None."""
+    if type(fluid) is not ConstantFluid:
+        return None
+    return (fluid.density, fluid.heat_capacity, fluid.viscosity, fluid.conductivity, fluid.viscosity)
 
 
 def _accepts(fn, name: str) -> bool:
@@ -149,6 +190,8 @@ def _accepts(fn, name: str) -> bool:
 
 def _scaled_dp(res, factor):
     """A shell-side result with its pressure drops multiplied by ``factor`` (two shell passes in series)."""
+    if res.dp is None:  # a heat-transfer-only result (inside the iteration)
+        return res
     return dataclasses.replace(res, dp=res.dp * factor, dp_crossflow=res.dp_crossflow * factor,
                                dp_window=res.dp_window * factor, dp_ends=res.dp_ends * factor)
 
@@ -177,22 +220,109 @@ def _shell_side_by_type(kind, shell_fn, geom):
         return f_shell, 8.0 ** 0.25, ("F shell: two shell passes, each with half the flow area; the longitudinal "
                                       "baffle is assumed sealed (no leakage or heat conduction across it)",)
     if kind == "J":
-        half = dataclasses.replace(geom, Nb=max(1, geom.Nb // 2), length=geom.length / 2.0)
+        half = _shell_flow_geometry("J", geom)[0]
         return ((lambda m, *p, **kw: shell_fn(half, 0.5 * m, *p, **kw)), 0.5 ** 0.5,
                 ("J shell: divided flow, each half of the stream through half the length and half the baffles",))
     return (lambda m, *p, **kw: shell_fn(geom, m, *p, **kw)), 1.0, ()
 
 
+def _shell_flow_geometry(kind, geom):
+    """The geometry and the flow multiplier the shell-side method sees for one shell of a TEMA type (E, F, J; see
+    :func:`_shell_side_by_type`): F, the whole geometry at twice the flow; J, half the length and baffles at half
+    the flow."""
+    if kind == "F":
+        return geom, 2.0
+    if kind == "J":
+        return dataclasses.replace(geom, Nb=max(1, geom.Nb // 2), length=geom.length / 2.0), 0.5
+    return geom, 1.0
+
+
+_LN_SEAM_RE = tuple(math.log(e) for e in _SEAM_RE)
+
+
+def _interp_float(x, table):
+    """``np.interp(x, *table)`` for one float: linear between the points, held constant outside them."""
+    xs, fs = table
+    if x <= xs[0]:
+        return fs[0]
+    if x >= xs[-1]:
+        return fs[-1]
+    j = bisect.bisect_right(xs, x) - 1
+    return (fs[j + 1] - fs[j]) / (xs[j + 1] - xs[j]) * (x - xs[j]) + fs[j]
+
+
+def _near_seam_one(Re):
+    """:func:`_near_seam` for one case (a float)."""
+    lr = math.log(Re)
+    return min(abs(lr - e) for e in _LN_SEAM_RE) < 0.05
+
+
+def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None, last=None):
+    """The property iteration of :func:`rate` for one case on Python floats: the same steps as the array loop
+    (substitution, then Anderson depth one; plain and halved steps at a seam) and the same stops. Returns the state
+    ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at. ``start``: a first state other
+    than the inlets (see :func:`warm_start`). ``resume``: the array loop's state of this case after its iteration
+    ``it`` (``(it + 1, X, f_prev, g_prev, r_prev, s_prev, omega, damped)``), to carry on from there. ``last``: a list
+    that receives ``(G, extra)`` of the evaluation at the returned state when the case stopped there."""
+    lo, hi = min(ts_in, tt_in), max(ts_in, tt_in)
+    if start is None or not all(math.isfinite(v) for v in start):
+        X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
+    else:
+        X = tuple(min(max(float(v), lo), hi) for v in start)
+    f_prev = g_prev = (0.0, 0.0, 0.0, 0.0)
+    r_prev, s_prev, om, damped = math.inf, 0.0, 1.0, False
+    it0 = 0
+    if resume is not None:
+        it0, X, f_prev, g_prev, r_prev, s_prev, om, damped = resume
+    for it in range(it0, _MAX_ITER):
+        G, Re, extra = evaluate_one(*X)
+        f = tuple(g - x for g, x in zip(G, X))
+        r = max(abs(f[0]), abs(f[1]))
+        conv = r < _TOL_K
+        edge = seams and _near_seam_one(Re)
+        s_now = 1.0 if f[1] > 0.0 else -1.0 if f[1] < 0.0 else 0.0 if f[1] == 0.0 else math.nan  # np.sign
+        flip = it >= _SEAM_FROM and edge and s_now * s_prev < 0 and r > 0.7 * r_prev
+        dm = damped or flip
+        if flip:
+            om = 0.5 * om
+        if it >= _ANDERSON_FROM:
+            df = tuple(a - b for a, b in zip(f, f_prev))
+            den = sum(d * d for d in df)
+            gam = 0.0
+            if den > 0.0 and r <= r_prev and not edge:
+                try:
+                    gam = sum(a * d for a, d in zip(f, df)) / den
+                except (OverflowError, ZeroDivisionError):  # pragma: no cover - not finite: a plain step
+                    gam = 0.0
+                if not math.isfinite(gam):
+                    gam = 0.0
+            Xn = tuple(g - gam * (g - gp) for g, gp in zip(G, g_prev))
+        else:
+            Xn = G
+        if dm:
+            Xn = tuple(x + om * a for x, a in zip(X, f))
+        Xn = tuple(min(max(v, lo), hi) for v in Xn)
+        if conv or (dm and om * r < _SEAM_STEP_K):
+            if last is not None:
+                last.append((G, extra))
+            return X
+        X, f_prev, g_prev, r_prev, s_prev, damped = Xn, f, G, r, s_now, dm
+    return X
+
+
 def _reshape_fields(res, shape):
     """A correlation result with every array field reshaped to the sweep's shape (floats for a single case)."""
+    n = math.prod(shape)
     changes = {}
     for f in dataclasses.fields(res):
         v = getattr(res, f.name)
         if isinstance(v, np.ndarray) and v.ndim == 1:
-            v = np.broadcast_to(v, (int(np.prod(shape, dtype=int)),)) if v.size == 1 else v
-            changes[f.name] = as_out(v.reshape(shape))
-        elif isinstance(v, (float, np.floating)) and shape != ():
-            changes[f.name] = np.full(shape, float(v))
+            if shape == ():
+                changes[f.name] = float(v[0])
+            else:
+                changes[f.name] = np.full(shape, float(v[0])) if v.size == 1 and n != 1 else v.reshape(shape)
+        elif isinstance(v, (float, np.floating)):
+            changes[f.name] = float(v) if shape == () else np.full(shape, float(v))
     return dataclasses.replace(res, **changes)
 
 
@@ -291,6 +421,36 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
     if kind == "X" and shell_method == "kern":
         raise InputError("shell_method", shell_method, "'bell-delaware' for an X shell (Kern's method assumes "
                          "baffled crossflow; the X shell is rated as one crossflow pass over the bundle)")
+    return _rate_shell_and_tube(hx, service, shell_method)
+
+
+_NO_DP = types.SimpleNamespace(dp=np.nan)  # the correlation details of an evaluation that computed no pressure drop
+
+
+@dataclass(frozen=True)
+class OutletMap:
+    """What an iteration over ratings needs of one (a network solve): per flattened case, the outlets, the wall
+    temperatures, the effectiveness, the heat-capacity rates of the whole streams and the pressure drops over all
+    shells (SI; NaN where a stream would leave its fluid's range). Built by :func:`_rate_shell_and_tube` with
+    ``outlets_only``; the same numbers as the :class:`Rating` of the same call."""
+
+    t_out_shell: np.ndarray
+    t_out_tube: np.ndarray
+    t_wall_shell: np.ndarray
+    t_wall_tube: np.ndarray
+    effectiveness: np.ndarray
+    C_shell: np.ndarray
+    C_tube: np.ndarray
+    dp_shell: np.ndarray
+    dp_tube: np.ndarray
+
+
+def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True):
+    """The body of :func:`rate` for a shell-and-tube exchanger (method and service already checked). With
+    ``outlets_only`` it returns an :class:`OutletMap` of the flattened cases instead of a :class:`Rating` (no
+    warnings, no result objects: for a network solve's intermediate passes); without ``with_dp`` its pressure drops
+    may be NaN (not computed)."""
+    kind = getattr(hx, "shell_type", "E")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
         service.shell.flow, service.shell.t_in, service.tube.flow, service.tube.t_in,
@@ -298,6 +458,8 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
     n = int(np.prod(shape, dtype=int))
 
     def flat(v):
+        if type(v) is np.ndarray and v.shape == shape:
+            return v.astype(float).reshape(n)  # a copy
         return np.array(np.broadcast_to(np.asarray(v, dtype=float), shape), dtype=float).reshape(n)
 
     n_par = float(getattr(hx, "shells_parallel", 1))
@@ -322,7 +484,10 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
     rel_rough = getattr(hx, "tube_roughness", 0.0) / di
     n_tpp, length, passes = float(hx.tubes_per_pass), float(hx.tube_length), int(hx.tube_passes)
     d_noz_t = getattr(hx, "nozzle_tube", None)
-    shell_call, noz_scale, type_notes = _shell_side_by_type(kind, SHELL_METHODS[shell_method], hx.bell())
+    geom = hx.bell()
+    bell_kernel = shell_method == "bell-delaware" and kind != "X"  # the unchecked kernel, warnings at the end
+    shell_fn = _bell_loop if bell_kernel else SHELL_METHODS[shell_method]
+    shell_call, noz_scale, type_notes = _shell_side_by_type(kind, shell_fn, geom)
     shell_kw, notes = {}, list(type_notes)
     d_noz_s = getattr(hx, "nozzle_shell", None)
     if d_noz_s is not None:
@@ -332,24 +497,37 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
             notes.append("shell side: nozzle pressure drop not included (not available for this shell type or method)")
     s_lo, s_hi = s_fluid.t_min, _below(s_fluid.t_max)
     t_lo_f, t_hi_f = t_fluid.t_min, _below(t_fluid.t_max)
+    s_const, t_const = _constant_props(s_fluid), _constant_props(t_fluid)
 
-    def evaluate(sel, xs, xt, tws, twt) -> _Eval:
-        """The outlet and wall temperatures the correlations give at a state (cases ``sel``, None for all)."""
+    shell_kw_loop = {**shell_kw, "h_only": True} if bell_kernel else shell_kw
+
+    def evaluate(sel, xs, xt, tws, twt, detail=True) -> _Eval:
+        """The outlet and wall temperatures the correlations give at a state (cases ``sel``, None for all); without
+        ``detail`` (inside the iteration) the pressure drops are not computed."""
         if sel is None:
             ms, mt, tsi, tti, rfs, rft, sg, dT = m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in
         else:
             ms, mt, tsi, tti, rfs, rft, sg, dT = (a[sel] for a in (m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in))
         na = xs.size
         tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
-        ps = s_fluid.props(np.clip(np.concatenate((tm_s, tws)), s_lo, s_hi))
-        pt = t_fluid.props(np.clip(np.concatenate((tm_t, twt)), t_lo_f, t_hi_f))
-        rho_s, cp_s, mu_s, k_s, rho_t, cp_t, mu_t, k_t = (_head(v, na) for v in (
-            ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity,
-            pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
-        mu_ws, mu_wt = _tail(ps.viscosity, na), _tail(pt.viscosity, na)
+        if s_const is None:
+            ps = s_fluid.props(np.minimum(np.maximum(np.concatenate((tm_s, tws)), s_lo), s_hi))
+            rho_s, cp_s, mu_s, k_s = (_head(v, na) for v in (ps.density, ps.heat_capacity, ps.viscosity,
+                                                            ps.conductivity))
+            mu_ws = _tail(ps.viscosity, na)
+        else:  # constant properties: the same floats at every temperature
+            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
+        if t_const is None:
+            pt = t_fluid.props(np.minimum(np.maximum(np.concatenate((tm_t, twt)), t_lo_f), t_hi_f))
+            rho_t, cp_t, mu_t, k_t = (_head(v, na) for v in (pt.density, pt.heat_capacity, pt.viscosity,
+                                                            pt.conductivity))
+            mu_wt = _tail(pt.viscosity, na)
+        else:
+            rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
-                                          insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=False)
-        shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **shell_kw)
+                                          insert, d_noz_t, rho_t if d_noz_t is not None else None, warn=False,
+                                          h_only=not detail)
+        shell = shell_call(ms, rho_s, cp_s, mu_s, k_s, mu_ws, **(shell_kw if detail else shell_kw_loop))
         h_s = np.asarray(shell.h, dtype=float)
         k_w = material.conductivity(0.5 * (tws + twt))
         R = tube_resistances(h_s, tube.h, rfs, rft, do, di, k_w)
@@ -368,63 +546,156 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
                      shell_min=shell_min, R=R, tube=tube, shell=shell, rho_s=rho_s, rho_t=rho_t,
                      Pr_s=cp_s * mu_s / k_s, mu_ratio_t=mu_t / mu_wt)
 
+    g_eff, m_factor = _shell_flow_geometry(kind, geom)
+    ratio_d, ln_ratio_d = do / di, float(np.log(do / di))
+    k_table = (tuple(float(t) for t in material.temperatures), tuple(float(k) for k in material.conductivities))
+
+    def evaluate_one(i, xs, xt, tws, twt):
+        """:func:`evaluate` for case ``i`` alone on Python floats: the next outlet and wall temperatures, and the
+        shell-side Re (Bell-Delaware on E, F and J shells, plain tubes)."""
+        ms, mt, tsi, tti = float(m_s[i]), float(m_t[i]), float(ts_in[i]), float(tt_in[i])
+        tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
+        if s_const is None:
+            ps = s_fluid.props(min(max(tm_s, s_lo), s_hi))
+            rho_s, cp_s, mu_s, k_s = (float(v) for v in (ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity))
+            mu_ws = float(s_fluid.props(min(max(tws, s_lo), s_hi)).viscosity)
+        else:
+            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
+        if t_const is None:
+            pt = t_fluid.props(min(max(tm_t, t_lo_f), t_hi_f))
+            rho_t, cp_t, mu_t, k_t = (float(v) for v in (pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
+            mu_wt = float(t_fluid.props(min(max(twt, t_lo_f), t_hi_f)).viscosity)
+        else:
+            rho_t, cp_t, mu_t, k_t, mu_wt = t_const
+        h_t = tube_corr.tube_h_float(mt, n_tpp, di, length, rho_t, cp_t, mu_t, k_t, mu_wt)
+        h_s, Re_s = shell_bell.bell_delaware_h_float(g_eff, m_factor * ms, cp_s, mu_s, k_s, mu_ws)
+        k_w = _interp_float(0.5 * (tws + twt), k_table)
+        R0, R2, R4 = 1.0 / h_s, do * ln_ratio_d / (2.0 * k_w), ratio_d / h_t
+        U = 1.0 / (R0 + float(rf_s[i]) + R2 + float(rf_t[i]) * ratio_d + R4)
+        C_s, C_t = ms * cp_s, mt * cp_t
+        shell_min = C_s <= C_t
+        C_min, Cr = (C_s, C_s / C_t) if shell_min else (C_t, C_t / C_s)
+        eps, _ = thermal.effectiveness_float(U * area_train / C_min, Cr, arr_name, n_units, shell_min)
+        q = min(eps, 1.0) * C_min * float(dt_in[i])
+        sg = float(sign[i])
+        flux = U * (tm_s - tm_t)
+        return (tsi + sg * q / C_s, tti - sg * q / C_t, tm_s - flux * R0, tm_t + flux * R4), Re_s, (min(eps, 1.0),
+                                                                                                 C_s, C_t)
+
     seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
+    start = _WARM_START.get()
+    if start is not None:  # a caller's first guess of the state (see warm_start), used only when it fits
+        start = np.asarray(start, dtype=float)
+        start = start if start.shape == (4, n) else None
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
-    S = np.empty((4, n))
-    S[0], S[1] = ts_in, tt_in
-    S[2] = S[3] = 0.5 * (ts_in + tt_in)
-    f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
-    r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
-    omega, damped = np.ones(n), np.zeros(n, dtype=bool)
-    active = np.arange(n)
-    last_full = False
-    for it in range(_MAX_ITER):
-        if active.size == 0:
-            break
-        full_set = active.size == n
-        X = S if full_set else S[:, active]
-        ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3])
-        G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
-        f = G - X
-        r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
-        conv = r < _TOL_K
-        rp, om = r_prev[active], omega[active]
-        # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
-        # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
-        # the step is halved at each change of sign, so that the case settles at the edge.
-        edge = _near_seam(ev.shell.Re) if seams else np.zeros(r.shape, dtype=bool)
-        s_now = np.sign(f[1])
-        flip = (it >= _SEAM_FROM) & edge & (s_now * s_prev[active] < 0) & (r > 0.7 * rp)
-        dm = damped[active] | flip
-        om = np.where(flip, 0.5 * om, om)
-        if it >= _ANDERSON_FROM:
-            df = f - f_prev[:, active]
-            den = np.einsum("ij,ij->j", df, df)
-            with np.errstate(divide="ignore", invalid="ignore"):
-                gam = np.einsum("ij,ij->j", f, df) / den
-            gam = np.where((den > 0) & np.isfinite(gam) & (r <= rp) & ~edge, gam, 0.0)  # else a plain step
-            Xn = G - gam * (G - g_prev[:, active])
-        else:
-            Xn = G
-        if dm.any():
-            Xn = np.where(dm, X + om * f, Xn)
-        Xn = np.clip(Xn, t_lo[active], t_hi[active])  # outlets and walls stay between the inlets
-        stop = conv | (dm & (om * r < _SEAM_STEP_K))
-        Xn = np.where(stop, X, Xn)
-        if full_set:
-            S, f_prev, g_prev = Xn, f, G
-            r_prev, s_prev, omega, damped = r, s_now, om, dm
-        else:
-            S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
-            r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
-        last_full = full_set and bool(stop.all())
-        if stop.sum() >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
-            active = active[~stop]
+    floats = bell_kernel and insert is None  # the float evaluation covers these
+    on_floats = False
+    if n <= _FLOAT_CASES and floats:
+        try:
+            # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
+            # the array loop; the converged states are then evaluated once by the array kernels, which give every
+            # reported number
+            rows, lasts = [], []
+            for i in range(n):
+                hold = []
+                rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
+                                         None if start is None else start[:, i], last=hold))
+                lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
+            S = np.array(rows, dtype=float).T.reshape(4, n)
+            if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs
+                G = np.array([g for g, _ in lasts], dtype=float).T.reshape(4, n)
+                E = np.array([e for _, e in lasts], dtype=float).T.reshape(3, n)
+                ev = _Eval(to_s=G[0], to_t=G[1], tw_s=G[2], tw_t=G[3], q=None, eps=E[0], w=None, NTU=None, U=None,
+                           C_s=E[1], C_t=E[2], shell_min=None, R=None, tube=_NO_DP, shell=_NO_DP, rho_s=None,
+                           rho_t=None, Pr_s=None, mu_ratio_t=None)
+            else:
+                ev = evaluate(None, S[0], S[1], S[2], S[3])
+            on_floats = True
+        except (ValueError, ZeroDivisionError, OverflowError):  # a float domain error: the arrays give NaN
+            on_floats = False
+    if not on_floats:
+        S = np.empty((4, n))
+        if start is None:
+            S[0], S[1] = ts_in, tt_in
+            S[2] = S[3] = 0.5 * (ts_in + tt_in)
+        else:  # a case whose start is not finite starts from its inlets
+            cold = ~np.all(np.isfinite(start), axis=0)
+            S[:] = np.minimum(np.maximum(np.where(cold, np.stack((ts_in, tt_in, 0.5 * (ts_in + tt_in),
+                                                                   0.5 * (ts_in + tt_in))), start), t_lo), t_hi)
+        f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
+        r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
+        omega, damped = np.ones(n), np.zeros(n, dtype=bool)
+        active = np.arange(n)
+        for it in range(_MAX_ITER):
+            if active.size == 0:
+                break
+            full_set = active.size == n
+            if full_set:  # no gathers while every case is still iterating
+                X, rp, om, sp, dmp, lo, hi = S, r_prev, omega, s_prev, damped, t_lo, t_hi
+            else:
+                X = S[:, active]
+                rp, om, sp, dmp, lo, hi = (a[active] for a in (r_prev, omega, s_prev, damped, t_lo, t_hi))
+            ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3], detail=False)
+            G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
+            f = G - X
+            r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
+            conv = r < _TOL_K
+            # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
+            # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
+            # the step is halved at each change of sign, so that the case settles at the edge.
+            edge = _near_seam(ev.shell.Re) if seams else None
+            any_edge = edge is not None and bool(edge.any())
+            s_now = np.sign(f[1])
+            if any_edge and it >= _SEAM_FROM:
+                flip = edge & (s_now * sp < 0) & (r > 0.7 * rp)
+                dm = dmp | flip
+                om = np.where(flip, 0.5 * om, om)
+            else:  # no case flips
+                dm = dmp
+            if it >= _ANDERSON_FROM:
+                df = f - (f_prev if full_set else f_prev[:, active])
+                den = np.einsum("ij,ij->j", df, df)
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    gam = np.einsum("ij,ij->j", f, df) / den
+                ok = (den > 0) & np.isfinite(gam) & (r <= rp)
+                if any_edge:
+                    ok &= ~edge
+                gam = np.where(ok, gam, 0.0)  # else a plain step
+                Xn = G - gam * (G - (g_prev if full_set else g_prev[:, active]))
+            else:
+                Xn = G
+            any_damped = bool(dm.any())
+            if any_damped:
+                Xn = np.where(dm, X + om * f, Xn)
+            Xn = np.minimum(np.maximum(Xn, lo), hi)  # outlets and walls stay between the inlets
+            stop = (conv | (dm & (om * r < _SEAM_STEP_K))) if any_damped else conv
+            n_stop = int(np.count_nonzero(stop))
+            if n_stop:
+                Xn = np.where(stop, X, Xn)
+            if full_set:
+                S, f_prev, g_prev = Xn, f, G
+                r_prev, s_prev, omega, damped = r, s_now, om, dm
+            else:
+                S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
+                r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
+            if n_stop >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
+                active = active[~stop]
+            if floats and 0 < active.size <= _FLOAT_CASES:
+                # the last few cases carry on one by one on floats, from the state they reached (the same steps)
+                try:
+                    for i in active:
+                        S[:, i] = _iterate_one(
+                            functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
+                            resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
+                                    tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
+                                    float(omega[i]), bool(damped[i])))
+                except (ValueError, ZeroDivisionError, OverflowError):  # carry on with the arrays (NaN there)
+                    continue
+                break
 
-    # every case stopped at the state of its last evaluation: evaluate once more, all together (skipped when that
-    # last evaluation was already of every case at once)
-    if not last_full:
+        # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
+        # pressure drops the iteration did not need
         ev = evaluate(None, S[0], S[1], S[2], S[3])
     xs, xt = S[0], S[1]
     to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
@@ -448,6 +719,11 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
                               f"{fluid.name} ({fluid.t_min:.1f}..{fluid.t_max:.1f} K) at an inlet or an outlet; "
                               "their results are NaN")
 
+    if outlets_only:
+        bad = np.where(invalid, np.nan, 0.0)
+        return OutletMap(to_s + bad, to_t + bad, ev.tw_s + bad, ev.tw_t + bad, ev.eps + bad, ev.C_s * n_par + bad,
+                         ev.C_t * n_par + bad, np.asarray(ev.shell.dp) * hx.shells + bad, ev.tube.dp * hx.shells + bad)
+
     # ---- counterflow terminal differences from 1 - eps (no cancellation near eps = 1), F and LMTD
     Cr = np.where(ev.shell_min, ev.C_s / ev.C_t, ev.C_t / ev.C_s)
     far = (1.0 - Cr) + Cr * ev.w  # 1 - eps Cmin/Cmax: the approach at the Cmax stream's outlet, per dT
@@ -463,7 +739,9 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
 
     warnings = [f"geometry: {note}" for note in getattr(hx, "notes", ())] + notes
     tube_warnings = tube_corr.tube_side_warnings(ev.tube.Re, ev.tube.Pr, ev.mu_ratio_t, insert)
-    warnings += tube_warnings + list(ev.shell.warnings)
+    shell_warnings = (shell_bell.bell_delaware_warnings(geom, ev.shell.Re, ev.shell.Jl, ev.shell.Jb) if bell_kernel
+                      else list(ev.shell.warnings))
+    warnings += tube_warnings + shell_warnings
     ok = ~invalid
     for side, fluid, temps in (("shell", s_fluid, (ts_in, to_s)), ("tube", t_fluid, (tt_in, to_t))):
         warnings += [f"{side} side: {w}" for w in fluid.check(np.concatenate([t[ok] for t in temps]))]
@@ -507,19 +785,17 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
         if shape == () and not any_invalid:
             fields[key] = float(value.reshape(-1)[0])
             continue
-        value = np.broadcast_to(value, (n,))
+        if value.shape != (n,):
+            value = np.broadcast_to(value, (n,))
         if any_invalid:
             value = np.where(invalid, np.nan, value)
         fields[key] = as_out(value.reshape(shape))
-    if shape == ():
-        resistances = pd.Series(np.array([float(v[0]) for v in res_cols.values()]), index=_RESISTANCE_INDEX,
-                                name="resistance [m²K/W]")
-    else:
-        resistances = pd.DataFrame({k: np.where(invalid, np.nan, v) for k, v in res_cols.items()})
+    resistances = LazyResistances(TUBE_LAYERS, tuple(res_cols.values()), invalid if any_invalid else None,
+                                  scalar=shape == ())
     return Rating(
         **fields, area=hx.area_outside, area_inside=hx.area_inside, resistances=resistances,
         tube_side=_reshape_fields(dataclasses.replace(tube, warnings=tube_warnings), shape),
-        shell_side=_reshape_fields(ev.shell, shape),
+        shell_side=_reshape_fields(dataclasses.replace(ev.shell, warnings=shell_warnings), shape),
         warnings=tuple(dict.fromkeys(warnings)), defaults=tuple(getattr(hx, "defaults_used", ())), exchanger=hx,
         service=service, shell_method=shell_method,
     )

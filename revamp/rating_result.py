@@ -10,7 +10,7 @@ import pandas as pd
 from .errors import InputError
 from .resistance import TUBE_LAYERS
 
-__all__ = ["Rating", "ResultFrames"]
+__all__ = ["Rating", "ResultFrames", "LazyResistances"]
 
 
 class ResultFrames:
@@ -91,6 +91,29 @@ _SCALAR_FIELDS = {
     "C_shell": ("W/K", "shell-side heat-capacity rate"),
     "C_tube": ("W/K", "tube-side heat-capacity rate"),
 }
+
+
+@dataclass(frozen=True, slots=True)
+class LazyResistances:
+    """The series resistances of a rating as arrays, turned into the pandas object :attr:`Rating.resistances`
+    (a Series for one case, a DataFrame with one row per case) only when it is first asked for: building pandas
+    objects costs more than a small rating itself.
+
+    ``values``: one flat array per layer of ``layers`` [m²K/W]; ``invalid``: cases reported as NaN (None: none);
+    ``scalar``: one case (a Series)."""
+
+    layers: tuple
+    values: tuple
+    invalid: object = None
+    scalar: bool = False
+
+    def build(self):
+        if self.scalar:
+            return pd.Series(np.array([float(np.ravel(v)[0]) for v in self.values]), index=pd.Index(self.layers),
+                             name="resistance [m²K/W]")
+        cols = [np.array(v, dtype=float) if self.invalid is None else np.where(self.invalid, np.nan, v)
+                for v in self.values]
+        return pd.DataFrame(dict(zip(self.layers, cols)))
 
 
 @dataclass(frozen=True)
@@ -175,3 +198,17 @@ class Rating(ResultFrames):
             return model.layers
         r = self.resistances
         return tuple(r.index if isinstance(r, pd.Series) else r.columns) if r is not None else TUBE_LAYERS
+
+    def __post_init__(self):
+        # resistances given as their values (LazyResistances): the pandas object is built on first access
+        if isinstance(self.__dict__.get("resistances"), LazyResistances):
+            self.__dict__["_resistance_values"] = self.__dict__.pop("resistances")
+
+    def __getattr__(self, name):  # called only for attributes not found: the resistances not yet built
+        if name == "resistances":
+            values = self.__dict__.get("_resistance_values")
+            if values is not None:
+                frame = values.build()
+                self.__dict__["resistances"] = frame
+                return frame
+        raise AttributeError(f"{type(self).__name__!r} object has no attribute {name!r}")

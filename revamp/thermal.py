@@ -26,6 +26,8 @@ References
 """
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from scipy.special import gammainc
 
@@ -274,7 +276,7 @@ def _eps_E(ntu, cr):
         den = 1.0 + cr + s * (1.0 + g)
         eps = 2.0 / den
         w = (s * g + cr * cr / (s + 1.0) + cr) / den  # (s coth + Cr - 1)/den with s - 1 = Cr²/(s + 1)
-    zero = ntu == 0
+    zero = ntu < 1e-150  # 0 there to within 1e-150 (below it the closed form is 0·inf)
     return np.where(zero, 0.0, eps), np.where(zero, 1.0, w)
 
 
@@ -337,7 +339,9 @@ def _p1_J2N(N, R, passes):
             e = np.exp(-R * N / 2.0)
             first = 1.0 + R / 4.0 * (3.0 + e) / (1.0 + e)  # (R/4)(1 + 3E)/(1 + E), E = e^{RN/2}
         p = 1.0 / (first + lam * B - 2.0 * lam * C * D)
-    return np.where(N == 0, 0.0, p)
+    # below NTU1 ~ 1e-150 the closed form loses itself in 0·inf; P1 = NTU1 there (the first-order term of every
+    # arrangement: at vanishing area the whole driving force acts)
+    return np.where(N < 1e-150, N, p)
 
 
 def _eps_J(ntu, cr, shell_min, passes):
@@ -591,3 +595,42 @@ def outlets(t_hot_in, t_cold_in, C_hot, C_cold, eps):
         raise InputError("t_hot_in", th, "a hot inlet temperature >= the cold inlet temperature")
     q = e * np.minimum(ch, cc) * (th - tc)
     return _out(th - q / ch), _out(tc + q / cc), _out(q)
+
+
+def effectiveness_float(ntu, cr, arrangement, units=1, shell_is_cmin=True):
+    """:func:`effectiveness_kernel` for one case, on Python floats: ``(eps, 1 - eps)``.
+
+    Counterflow and the E shell (one unit or ``units`` in series) are written out in floats, with the same
+    cancellation-free forms as the array kernels; the other arrangements call the array kernel. The single-case
+    rating iterates on it (the tests check it against the array kernel).
+    """
+    if arrangement not in ("counterflow", "E"):
+        eps, w = effectiveness_kernel(np.array([ntu]), np.array([cr]), arrangement, units, np.array([shell_is_cmin]))
+        return float(eps[0]), float(w[0])
+    n1 = ntu / units
+    if arrangement == "counterflow":
+        if cr >= 1.0:
+            eps1, w1 = n1 / (1.0 + n1), 1.0 / (1.0 + n1)
+        else:
+            em = math.expm1(-n1 * (1.0 - cr))
+            den = (1.0 - cr) - cr * em
+            eps1, w1 = -em / den, (1.0 - cr) * (1.0 + em) / den
+    elif n1 < 1e-150:  # as _eps_E
+        eps1, w1 = 0.0, 1.0
+    else:
+        s = math.sqrt(1.0 + cr * cr)
+        x = n1 * s
+        g = 2.0 / math.expm1(x) if x < 700.0 else 0.0  # coth(NTU s / 2) - 1
+        den = 1.0 + cr + s * (1.0 + g)
+        eps1, w1 = 2.0 / den, (s * g + cr * cr / (s + 1.0) + cr) / den
+    if units == 1:
+        return eps1, w1
+    if cr >= 1.0:
+        return units * eps1 / (1.0 + (units - 1) * eps1), w1 / (1.0 + (units - 1) * eps1)
+    if w1 <= 0.0:
+        return 1.0, 0.0
+    lny = math.log1p(eps1 * (1.0 - cr) / w1)
+    top = math.expm1(units * lny) if units * lny < 700.0 else math.inf
+    if math.isinf(top):
+        return 1.0, 0.0
+    return top / (top + (1.0 - cr)), (1.0 - cr) / (top + (1.0 - cr))

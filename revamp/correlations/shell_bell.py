@@ -15,6 +15,8 @@ Serth, R. W., Lestina, T. (2014). *Process Heat Transfer*, 2nd ed., Academic Pre
 """
 from __future__ import annotations
 
+import dataclasses
+import functools
 import math
 from dataclasses import dataclass, field
 
@@ -25,7 +27,8 @@ from ..units import require, to_si
 from ._validity import range_warning
 
 __all__ = ["ShellSideResult", "bell_delaware", "ideal_j", "ideal_f", "correction_factors", "baffle_cut_factor",
-           "nozzle_pressure_drop", "TABOREK_FITS"]
+           "nozzle_pressure_drop", "TABOREK_FITS", "bell_delaware_kernel",
+           "bell_delaware_warnings"]
 
 _SOURCE = "Taborek (1983), HEDH §3.3"
 
@@ -74,6 +77,8 @@ def _log_blend(lower, upper, w):
 
 
 _LN_EDGES = np.log(_EDGES)
+_LN_LAMINAR = math.log(_LAMINAR_RE)
+_LN_SWITCH = math.log(_SWITCH_BLEND)
 _HALF_BAND = 2.0 * math.log(_FIT_BLEND)
 
 
@@ -115,6 +120,42 @@ def _fit(Re, pitch_ratio, layout, kind):
     expo = c[k3] / (1.0 + 0.14 * Re ** c[k4])
     out = core * (1.33 / pitch_ratio) ** expo
     return float(out) if out.ndim == 0 else out
+
+
+@functools.lru_cache(maxsize=16)
+def _fit_coefficients(layout, kind):
+    """Taborek's coefficients of one fit as arrays: ``(ln c1, c2, c3, c4)`` per band."""
+    c = TABOREK_FITS[layout]
+    k1, k2, k3, k4 = ("a1", "a2", "a3", "a4") if kind == "j" else ("b1", "b2", "b3", "b4")
+    return np.log(np.asarray(c[k1], dtype=float)), np.asarray(c[k2], dtype=float), float(c[k3]), float(c[k4])
+
+
+def _fit_ln(lr, ln_ratio, fits):
+    """The logarithms of ideal-bank fits (:func:`_fit`) from ``lr = ln Re`` and ``ln_ratio = ln(1.33/(Pt/do))``:
+    ``ln c1 + c2 ln Re + a ln_ratio`` with ``a = c3 / (1 + 0.14 Re^c4)``, blended across the band edges as
+    :func:`_fit` (one exponential left to the caller instead of three powers). ``fits`` is a tuple of
+    :func:`_fit_coefficients` (j and f share the band lookup); returns one array per fit.
+
+    The band is ``floor(log10 Re)`` (0 to 4), which can differ from the comparison with the edges only within
+    rounding of an edge, where the blend replaces the band's value anyway."""
+    shape = np.shape(lr)
+    lr = np.reshape(lr, -1)
+    t = lr * (1.0 / math.log(10.0))
+    band = np.fmin(np.fmax(t, 0.0), 4.0).astype(np.intp)  # floor for t >= 0 (fmax/fmin: NaN gives band 0)
+    edge = np.fmin(np.fmax(np.rint(t) - 1.0, 0.0), len(_EDGES) - 1.0).astype(np.intp)
+    u = 0.5 + (lr - _LN_EDGES.take(edge)) / _HALF_BAND
+    near = np.flatnonzero((u > 0.0) & (u < 1.0))
+    if near.size:
+        un, en, ln_ = u[near], edge[near], lr[near]
+        w = un * un * (3.0 - 2.0 * un)
+    out = []
+    for ln_c1, c2, c3, c4 in fits:
+        ln_core = ln_c1.take(band) + c2.take(band) * lr
+        if near.size:
+            ln_core[near] = ((1.0 - w) * (ln_c1.take(en) + c2.take(en) * ln_)
+                             + w * (ln_c1.take(en + 1) + c2.take(en + 1) * ln_))
+        out.append((ln_core + c3 / (1.0 + 0.14 * np.exp(c4 * lr)) * ln_ratio).reshape(shape))
+    return out
 
 
 def ideal_j(Re, pitch_ratio, layout):
@@ -457,44 +498,182 @@ def bell_delaware(geom, m_dot, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_
     mu = require(np.asarray(mu, dtype=float), "mu", gt=0)
     k = require(np.asarray(k, dtype=float), "k", gt=0)
     scalar = all(np.ndim(v) == 0 for v in (m_dot, rho, cp, mu, k, mu_wall if mu_wall is not None else 0.0))
-    if mu_wall is None:
-        phi = 1.0
+    if mu_wall is not None:
+        mu_wall = require(np.asarray(mu_wall, dtype=float), "mu_wall", gt=0)
+    dn, rn = None, None
+    if d_nozzle is None:
+        if rho_nozzle is not None:
+            raise InputError("rho_nozzle", rho_nozzle, "None unless d_nozzle is given")
     else:
-        phi = (mu / require(np.asarray(mu_wall, dtype=float), "mu_wall", gt=0)) ** 0.14
+        dn = to_si(d_nozzle, "length", "d_nozzle")
+        if np.ndim(dn) != 0 or not np.isfinite(dn) or not dn > 0:
+            raise InputError("d_nozzle", d_nozzle, "one nozzle inside diameter > 0 (m, or a string with a unit)")
+        dn = float(dn)
+        if rho_nozzle is not None:
+            rn = require(np.asarray(to_si(rho_nozzle, "density", "rho_nozzle"), dtype=float), "rho_nozzle", gt=0)
+    res = bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall, dn, rn)
+    scalar = scalar and (rho_nozzle is None or np.ndim(rho_nozzle) == 0)
+    numeric = {f.name: getattr(res, f.name) for f in dataclasses.fields(res)
+               if isinstance(getattr(res, f.name), (float, np.floating, np.ndarray))}
+    shape = np.broadcast_shapes(*(np.shape(v) for v in numeric.values()))
+    return dataclasses.replace(res, **{name: float(v) if scalar else np.array(np.broadcast_to(v, shape), dtype=float)
+                                       for name, v in numeric.items()})
 
+
+@functools.lru_cache(maxsize=256)
+def _constants(geom):
+    """The geometry-only numbers of the method for one shell, computed once per geometry (see
+    :func:`correction_factors`): the baffle-cut, leakage and bypass factors, the end-spacing factors and window
+    pressure-drop coefficients of both regimes, and the pitch-ratio logarithm of the ideal-bank fits."""
+    Jc, Jl, Rl, bypass = _geometry_factors(geom)
+    ri, ro = geom.Lbi / geom.Lbc, geom.Lbo / geom.Lbc
+
+    def js(n):
+        return ((geom.Nb - 1) + ri ** (1 - n) + ro ** (1 - n)) / ((geom.Nb - 1) + ri + ro)
+
+    def rs(n2):
+        return 0.5 * ((1.0 / ro) ** (2 - n2) + (1.0 / ri) ** (2 - n2))
+
+    nct = (geom.Nb + 1) * (geom.Nc + geom.Ncw)
+    jr20 = max((10.0 / nct) ** 0.18, 0.4) if nct > 0 else 1.0
+    return dict(
+        Jc=float(Jc), Jl=Jl, Rl=Rl, bypass=bypass, Js_lam=js(1.0 / 3.0), Js_turb=js(0.6), Rs_lam=rs(1.0),
+        Rs_turb=rs(0.2), jr20=jr20, ln_ratio=math.log(1.33 / (geom.pitch / geom.tube_od)),
+        Jb_turb=math.exp(-(1.35 + (1.25 - 1.35) * 1.0) * bypass), Rb_turb=math.exp(-(4.5 + (3.7 - 4.5) * 1.0) * bypass),
+        window_lam=26.0 * (geom.Ncw / (geom.pitch - geom.tube_od) + geom.Lbc / geom.Dw ** 2),
+        window_turb=(2.0 + 0.6 * geom.Ncw) / 2.0, sqrt_smsw=math.sqrt(geom.Sm * geom.Sw),
+        fit_j=_fit_coefficients(int(geom.layout), "j"), fit_f=_fit_coefficients(int(geom.layout), "f"),
+    )
+
+
+def bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None, rho_nozzle=None,
+                         warn=True, h_only=False) -> ShellSideResult:
+    """:func:`bell_delaware` without input checks or unit parsing: SI float arrays in (any shape, broadcast
+    together), the same numbers out.
+
+    The rating loop's kernel (inputs checked once at the edge). The geometry-only parts are computed once per
+    geometry; the ideal-bank j and f share one logarithm of Re and are formed as one exponential each; the
+    Reynolds-dependent corrections are constants when every case is past the laminar-turbulent band. Correction
+    factors that are the same for every case come back as floats. ``warn=False`` skips the validity warnings
+    (the loop asks for them only on its last evaluation). ``d_nozzle`` is a diameter [m] or None. ``h_only=True``
+    returns h, Re and the heat-transfer factors only (the pressure-drop fields are None): what an iteration on the
+    outlet temperatures needs.
+    """
+    c = _constants(geom)
     G = m / geom.Sm
     Re = geom.tube_od * G / mu
     Pr = cp * mu / k
-    ratio = geom.pitch / geom.tube_od
-    j = ideal_j(Re, ratio, geom.layout)
-    f = ideal_f(Re, ratio, geom.layout)
-    c = correction_factors(geom, Re)
-    h = j * cp * G * Pr ** (-2.0 / 3.0) * phi * c["Jc"] * c["Jl"] * c["Jb"] * c["Js"] * c["Jr"]
+    lr = np.log(Re)
+    if h_only:
+        (ln_j,) = _fit_ln(lr, c["ln_ratio"], (c["fit_j"],))
+        j, f = np.exp(ln_j), None
+    else:
+        ln_j, ln_f = _fit_ln(lr, c["ln_ratio"], (c["fit_j"], c["fit_f"]))
+        j, f = np.exp(ln_j), np.exp(ln_f)
+    # 0 laminar, 1 turbulent constants, blended between (see correction_factors)
+    u = 0.5 + (lr - _LN_LAMINAR) / (2.0 * _LN_SWITCH)
+    if np.min(u) >= 1.0:  # every case past the band: the turbulent constants
+        Jb, Rb, Js, Rs, Jr = c["Jb_turb"], c["Rb_turb"], c["Js_turb"], c["Rs_turb"], 1.0
+        turbulent = True
+    else:
+        u = np.minimum(np.maximum(u, 0.0), 1.0)
+        w = u * u * (3.0 - 2.0 * u)
+        Jb = np.exp(-(1.35 + (1.25 - 1.35) * w) * c["bypass"])
+        Rb = np.exp(-(4.5 + (3.7 - 4.5) * w) * c["bypass"])
+        Js = _log_blend(c["Js_lam"], c["Js_turb"], w)
+        Rs = _log_blend(c["Rs_lam"], c["Rs_turb"], w)
+        jr20 = c["jr20"]
+        Jr = np.maximum(np.where(Re <= 20.0, jr20, np.where(Re < _LAMINAR_RE, jr20 + (Re - 20.0) / 80.0 * (1.0 - jr20),
+                                                             1.0)), 0.4)
+        turbulent = False
+    Jc, Jl, Rl = c["Jc"], c["Jl"], c["Rl"]
+    if h_only:
+        h = j * cp * G * Pr ** (-2.0 / 3.0) * (1.0 if mu_wall is None else (mu / mu_wall) ** 0.14) * (
+            Jc * Jl * Jb * Js * Jr)
+        return ShellSideResult(h=h, dp=None, dp_crossflow=None, dp_window=None, dp_ends=None, Re=Re,
+                               velocity_crossflow=None, j_ideal=j, f_ideal=None, Jc=Jc, Jl=Jl, Jb=Jb, Js=Js, Jr=Jr,
+                               Rl=Rl, Rb=Rb, Rs=Rs, dp_nozzles=None)
+    if mu_wall is None:
+        h = j * cp * G * Pr ** (-2.0 / 3.0) * (Jc * Jl * Jb * Js * Jr)
+        dp_bi = 2.0 * geom.Nc * f * G ** 2 / rho
+    else:
+        phi = (mu / mu_wall) ** 0.14
+        h = j * cp * G * Pr ** (-2.0 / 3.0) * phi * (Jc * Jl * Jb * Js * Jr)
+        dp_bi = 2.0 * geom.Nc * f * G ** 2 / rho / phi
+    dp_c = dp_bi * ((geom.Nb - 1) * Rb * Rl)
+    Gw = m / c["sqrt_smsw"]
+    if turbulent:
+        dp_wi = c["window_turb"] * Gw ** 2 / rho
+    else:
+        dp_wi = _window_dp(geom, Gw, Re, rho, mu)
+    dp_w = dp_wi * (geom.Nb * Rl)
+    dp_e = dp_bi * (2.0 * (1.0 + geom.Ncw / geom.Nc) * Rb * Rs)
+    if d_nozzle is None:
+        dp_n = 0.0
+        dp = dp_c + dp_w + dp_e
+    else:
+        dp_n = nozzle_pressure_drop(m, d_nozzle, rho if rho_nozzle is None else rho_nozzle)
+        dp = dp_c + dp_w + dp_e + dp_n
+    warnings = bell_delaware_warnings(geom, Re, Jl, Jb) if warn else []
+    return ShellSideResult(
+        h=h, dp=dp, dp_nozzles=dp_n, dp_crossflow=dp_c, dp_window=dp_w, dp_ends=dp_e, Re=Re,
+        velocity_crossflow=G / rho, j_ideal=j, f_ideal=f, Jc=Jc, Jl=Jl, Jb=Jb, Js=Js, Jr=Jr, Rl=Rl, Rb=Rb, Rs=Rs,
+        warnings=warnings)
 
-    dp_bi = 2.0 * f * geom.Nc * G ** 2 / rho / phi
-    dp_c = (geom.Nb - 1) * dp_bi * c["Rb"] * c["Rl"]
-    Gw = m / math.sqrt(geom.Sm * geom.Sw)
-    dp_wi = _window_dp(geom, Gw, Re, rho, mu)
-    dp_w = geom.Nb * dp_wi * c["Rl"]
-    dp_e = 2.0 * dp_bi * (1.0 + geom.Ncw / geom.Nc) * c["Rb"] * c["Rs"]
 
+def bell_delaware_warnings(geom, Re, Jl, Jb) -> list[str]:
+    """The validity warnings of a Bell-Delaware result: Re of the ideal-bank fits, baffle cut and central spacing
+    (Taborek 1983), and leakage (Jl) or bypass (Jb) corrections below Taborek's design guidance."""
     warnings = range_warning("Bell-Delaware ideal tube-bank fits", "Re", Re, 1.0, 1e5, _SOURCE)
     warnings += range_warning("Bell-Delaware", "baffle cut (fraction of Ds)", geom.Bc, 0.15, 0.45, _SOURCE)
     warnings += range_warning("Bell-Delaware", "central baffle spacing / Ds", geom.Lbc / geom.Ds, 0.2, 1.0, _SOURCE)
     # Leakage and bypass streams this large make the method less reliable and the bundle a poor design: Taborek
     # advises keeping Jl above about 0.6 and Jb above about 0.7 (design guidance, from memory).
-    jl_min, jb_min = float(np.min(c["Jl"])), float(np.min(c["Jb"]))
+    jl_min, jb_min = float(np.min(Jl)), float(np.min(Jb))
     if jl_min < 0.6:
         warnings.append(f"Bell-Delaware: leakage correction Jl = {jl_min:.2f} < 0.6: baffle leakage streams are large "
                         "(tighter clearances or a wider baffle spacing help); h and dp are less certain")
     if jb_min < 0.7:
         warnings.append(f"Bell-Delaware: bypass correction Jb = {jb_min:.2f} < 0.7: bundle bypass is large (sealing "
                         "strips help); h and dp are less certain")
-    dp_n = _nozzles(m, rho, d_nozzle, rho_nozzle)
-    scalar = scalar and (rho_nozzle is None or np.ndim(rho_nozzle) == 0)
-    s = lambda x: _scalar(x, scalar)  # noqa: E731
-    return ShellSideResult(
-        h=s(h), dp=s(dp_c + dp_w + dp_e + dp_n), dp_nozzles=s(dp_n + np.zeros_like(h)), dp_crossflow=s(dp_c),
-        dp_window=s(dp_w), dp_ends=s(dp_e), Re=s(Re),
-        velocity_crossflow=s(G / rho), j_ideal=s(j), f_ideal=s(f), Jc=s(c["Jc"]), Jl=s(c["Jl"]), Jb=s(c["Jb"]),
-        Js=s(c["Js"]), Jr=s(c["Jr"]), Rl=s(c["Rl"]), Rb=s(c["Rb"]), Rs=s(c["Rs"]), warnings=warnings)
+    return warnings
+
+
+def _fit_ln_float(Re, lr, ln_ratio, coefs):
+    """:func:`_fit_ln` for one case, on Python floats (the same formulas)."""
+    ln_c1, c2, c3, c4 = coefs
+    band = 0 if Re < 10.0 else 1 if Re < 100.0 else 2 if Re < 1e3 else 3 if Re < 1e4 else 4
+    ln_core = float(ln_c1[band]) + float(c2[band]) * lr
+    edge = min(max(round(lr / math.log(10.0)) - 1, 0), len(_EDGES) - 1)
+    u = 0.5 + (lr - float(_LN_EDGES[edge])) / _HALF_BAND
+    if 0.0 < u < 1.0:
+        w = u * u * (3.0 - 2.0 * u)
+        ln_core = ((1.0 - w) * (float(ln_c1[edge]) + float(c2[edge]) * lr)
+                   + w * (float(ln_c1[edge + 1]) + float(c2[edge + 1]) * lr))
+    return ln_core + c3 / (1.0 + 0.14 * math.exp(c4 * lr)) * ln_ratio
+
+
+def bell_delaware_h_float(geom, m, cp, mu, k, mu_wall):
+    """The film coefficient and Reynolds number of :func:`bell_delaware_kernel` for one case, on Python floats:
+    ``(h [W/m²K], Re [-])``. The single-case rating iterates on it; its result is then evaluated once more by the
+    array kernel, so the two must agree (checked by the tests)."""
+    c = _constants(geom)
+    G = m / geom.Sm
+    Re = geom.tube_od * G / mu
+    Pr = cp * mu / k
+    lr = math.log(Re)
+    j = math.exp(_fit_ln_float(Re, lr, c["ln_ratio"], c["fit_j"]))
+    u = 0.5 + (lr - _LN_LAMINAR) / (2.0 * _LN_SWITCH)
+    if u >= 1.0:
+        Jb, Js, Jr = c["Jb_turb"], c["Js_turb"], 1.0
+    else:
+        u = min(max(u, 0.0), 1.0)
+        w = u * u * (3.0 - 2.0 * u)
+        Jb = math.exp(-(1.35 + (1.25 - 1.35) * w) * c["bypass"])
+        lo, hi = c["Js_lam"], c["Js_turb"]
+        Js = lo if w <= 0.0 else hi if w >= 1.0 else lo ** (1.0 - w) * hi ** w
+        jr20 = c["jr20"]
+        Jr = max(jr20 if Re <= 20.0 else jr20 + (Re - 20.0) / 80.0 * (1.0 - jr20) if Re < _LAMINAR_RE else 1.0,
+                 0.4)
+    h = j * cp * G * Pr ** (-2.0 / 3.0) * (mu / mu_wall) ** 0.14 * (c["Jc"] * c["Jl"] * Jb * Js * Jr)
+    return h, Re

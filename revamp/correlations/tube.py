@@ -30,6 +30,7 @@ References
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -489,11 +490,13 @@ def _friction_kernel(Re, rr):
 
 
 def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.0, insert=None, d_nozzle=None,
-                     rho_nozzle=None, laminar="sieder-tate", warn=True) -> TubeSideResult:
+                     rho_nozzle=None, laminar="sieder-tate", warn=True, h_only=False) -> TubeSideResult:
     """:func:`tube_side` without input checks or unit parsing: SI floats or float arrays in, arrays out.
 
     The rating loop's kernel (inputs checked once at the edge). ``warn=False`` skips the validity-range warnings
     (the loop asks for them only on its last evaluation). Fields are not broadcast to a common shape.
+    ``h_only=True`` skips the friction factor and the pressure drops (None): what an iteration on the outlet
+    temperatures needs.
     """
     area = n * np.pi * d ** 2 / 4.0
     v = m_dot / (rho * area)
@@ -502,14 +505,16 @@ def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.
     dl = d / L
     if insert is None:
         Nu = _nu_tube_kernel(Re, Pr, dl, laminar)
-        f = _friction_kernel(Re, rr)
+        f = None if h_only else _friction_kernel(Re, rr)
     else:
         Nu = _arr(insert.nu(Re, Pr, dl))
-        f = _arr(insert.friction(Re))
+        f = None if h_only else _arr(insert.friction(Re))
     if mu_wall is not None:
         phi = (mu / mu_wall) ** 0.14
         Nu = Nu * phi
-        f = f / phi
+        f = None if h_only else f / phi
+    if h_only:
+        return TubeSideResult(Nu * k / d, None, None, None, None, Re, Pr, Nu, None, v, warnings=[])
     warns = tube_side_warnings(Re, Pr, None if mu_wall is None else mu / mu_wall, insert) if warn else []
     h = Nu * k / d
     head = rho * v**2 / 2.0
@@ -523,3 +528,25 @@ def tube_side_kernel(m_dot, n, d, L, passes, rho, cp, mu, k, mu_wall=None, rr=0.
         dp_n = np.zeros_like(head)
     dp = dp_f + dp_r + dp_n
     return TubeSideResult(h, dp, dp_f, dp_r, dp_n, Re, Pr, Nu, f, v, warnings=warns)
+
+
+def tube_h_float(m_dot, n, d, L, rho, cp, mu, k, mu_wall, laminar="sieder-tate"):
+    """The plain-tube film coefficient of :func:`tube_side_kernel` for one case, on Python floats [W/m²K].
+
+    The single-case rating iterates on it; its result is then evaluated once more by the array kernel, so the two
+    must agree (checked by the tests). Plain tubes only (an insert takes the array kernel).
+    """
+    Re = m_dot / (n * math.pi * d ** 2 / 4.0) * d / mu  # rho v d / mu with v = m / (rho A)
+    Pr = cp * mu / k
+    dl = d / L
+    g = min(max((Re - RE_LAMINAR) / (RE_TURBULENT - RE_LAMINAR), 0.0), 1.0)
+    gz = min(Re, RE_LAMINAR) * Pr * dl
+    if laminar == "sieder-tate":
+        lam = max(1.86 * math.cbrt(gz), 3.66)
+    else:
+        lam = 3.66 + 0.0668 * gz / (1.0 + 0.04 * gz ** (2.0 / 3.0))
+    re_t = max(Re, RE_TURBULENT)
+    f8 = (0.790 * math.log(re_t) - 1.64) ** -2 / 8.0
+    turb = (f8 * (re_t - 1000.0) * Pr / (1.0 + 12.7 * math.sqrt(f8) * (Pr ** (2.0 / 3.0) - 1.0))
+            * (1.0 + dl ** (2.0 / 3.0)))
+    return ((1.0 - g) * lam + g * turb) * (mu / mu_wall) ** 0.14 * k / d

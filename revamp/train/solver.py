@@ -35,7 +35,8 @@ import numpy as np
 import pandas as pd
 
 from ..errors import InputError
-from ..rating import rate
+from ..rating import _FLOAT_CASES, _rate_shell_and_tube, _rater, rate, warm_start
+from ..rating_result import LazyResistances
 from ..service import Service, Stream
 from .network import Point, Split
 from .hydraulics import pump_available
@@ -44,6 +45,7 @@ from .result import LimitCheck, TrainResult
 __all__ = ["solve", "enthalpy_change"]
 
 _SIDES = ("shell", "tube")
+_STATE_FIELDS = ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube")  # a rating's iteration state
 # Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
 _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
 _PROBE_K = 0.01  # inlet step of the finite differences for the Newton step [K]
@@ -209,11 +211,14 @@ class _Plan:
         return links, points, finals, dps
 
 
-def _rate_all(plan, x, idx, probe=0.0):
+def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
     """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
 
     With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
-    [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step.
+    [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step. ``starts``: per
+    exchanger, the outlet and wall temperatures ``(4, ncase)`` of its last rating, which the ratings start from
+    (updated here from the new ratings; the converged states of one pass are close to the next pass's).
+    ``outlets_only``: shell-and-tube exchangers return only what the next pass needs (:class:`OutletMap`).
     """
     train = plan.train
     ratings = {}
@@ -233,7 +238,24 @@ def _rate_all(plan, x, idx, probe=0.0):
             continue
         svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
                       tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
-        ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
+        # warm starts only for the probe blocks: a rating the result may keep (the base block) starts from the
+        # inlets, as rate() alone does, so that rating an exchanger at its solved inlets gives back exactly the
+        # result's numbers
+        state = None if starts is None or not probe else starts.get(tag)
+        light = outlets_only and _rater(m.exchanger) is None
+        with warm_start(None if state is None else np.concatenate(
+                [np.full_like(state[:, idx], np.nan), state[:, idx], state[:, idx]], axis=1)):
+            if light:
+                ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
+                                                    with_dp=bool(plan.equal_dp))
+            else:
+                ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
+        if starts is not None:
+            r = ratings[tag]
+            new = np.array([np.asarray(getattr(r, k), float).reshape(-1)[:idx.size] for k in _STATE_FIELDS])
+            if tag not in starts:
+                starts[tag] = np.full((4, plan.ncase), np.nan)
+            starts[tag][:, idx] = new  # NaN (a failed case): its next rating starts from the inlets
     return ratings
 
 
@@ -366,7 +388,11 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     done = np.zeros(plan.ncase, dtype=bool)
     residual = np.full(plan.ncase, np.inf)
     stalled = np.zeros(plan.ncase, dtype=bool)
-    iterations, ratings, rated_all, history = 0, None, False, []
+    iterations, ratings, rated_all, history, light_pass = 0, None, False, [], False
+    starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
+    # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more than
+    # such small ratings); a sweep's passes rate in full
+    light = plan.ncase <= _FLOAT_CASES
     for iterations in range(1, max_iter + 1):
         idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
         xa = x[idx]
@@ -374,7 +400,9 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
         probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
-        ratings = _rate_all(plan, xa, idx, probe=probe)
+        # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones
+        light_pass = light and (bool(probe) or iterations == 1)
+        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
         g, bad = _linear_solve(plan, xa, linear, idx)
@@ -403,10 +431,10 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         if np.all(failed | done | stalled):
             break
     converged = done & ~failed
-    if rated_all:  # the last pass rated every case: its base block is the rating at the solved inlets
+    if rated_all and not light_pass:  # the last pass rated every case in full: its base block is the rating there
         ratings = _strip_probes(ratings, plan.ncase)
     else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger
-        ratings = _rate_all(plan, x, np.arange(plan.ncase))
+        ratings = _rate_all(plan, x, np.arange(plan.ncase), starts=starts)
     return _result(plan, x, ratings, converged, failed, residual, iterations, tol)
 
 
@@ -491,8 +519,14 @@ def _reshape_rating(r, shape, ncase):
         v = np.asarray(getattr(r, name), float).reshape(shape)
         changes[name] = float(v) if shape == () else v
     if shape == ():
-        res = r.resistances
-        changes["resistances"] = pd.Series(res.to_numpy(float)[0], index=list(res.columns), name="resistance [m²K/W]")
+        lazy = r.__dict__.get("_resistance_values") if "resistances" not in r.__dict__ else None
+        if lazy is not None:  # not built yet: the one case's values, still built only when asked for
+            changes["resistances"] = LazyResistances(lazy.layers, tuple(np.asarray(v, float)[:1] for v in lazy.values),
+                                                     None, scalar=True)
+        else:
+            res = r.resistances
+            changes["resistances"] = pd.Series(res.to_numpy(float)[0], index=list(res.columns),
+                                               name="resistance [m²K/W]")
         svc = r.service
         changes["service"] = svc.replace(
             shell=svc.shell.replace(flow=float(svc.shell.flow[0]), t_in=float(svc.shell.t_in[0])),
