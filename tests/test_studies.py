@@ -153,7 +153,9 @@ def test_notes_saying_the_same_with_other_values_share_a_number_and_state_the_ra
              Note("revamp", "h_tube", "warning", "Gnielinski (1976): Pr = 0.3 is outside its validity range")]
     marks, legend = notes_legend(notes)
     assert marks[notes[0]] == marks[notes[1]] != marks[notes[2]]
-    assert legend.loc["[1]", "note"] == text.format("533.88 to 613.15")
+    # shown in the report's °C: 533.88 K = 260.7 °C, 613.15 K = 340 °C, 255.37 K = -17.8 °C, 422.04 K = 148.9 °C
+    assert legend.loc["[1]", "note"] == ("shell side: residue: API MPMS 11.1 density: T = 261 to 340 °C is outside "
+                                         "its valid range -18 to 149 °C")
     assert legend.loc["[1]", "where"] == "today, revamp"
 
 
