@@ -10,7 +10,7 @@ import re
 
 
 from ..studies import ExchangerStudy, fouling_side, study_exchanger  # noqa: F401  (fouling_side: re-exported)
-from .labels import NAMES
+from .labels import NAMES, rescale
 from .pages import esc, figure_html, plot_text, table_html, temperatures_in, write_atomic
 
 
@@ -558,7 +558,8 @@ def study_table(study, system: str = "SI", notes=(), marks=None):
     for col, kind in _STUDY_COLUMNS:
         if col in t:
             mag, unit = from_si(t[col].to_numpy(dtype=float), kind, system)
-            out[f"{col} [{unit}]"] = [round(float(v), 3 if abs(v) < 100 else 1) for v in mag]
+            factor, unit = rescale(unit)  # rounded in the unit shown (MW), so a gain of a few W reads 0, not 8.9e-05
+            out[f"{col} [{unit}]"] = [round(float(v) * factor, 3 if abs(v * factor) < 100 else 1) for v in mag]
     if "controlling" in t:
         out["controlling resistance"] = t["controlling"].tolist()
     if notes:
