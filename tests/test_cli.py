@@ -80,7 +80,7 @@ def test_debug_shows_the_traceback(good):
 
 def test_infeasible_service_is_refused_by_path_before_rating(tmp_path, capsys):
     doc = make_unit()
-    doc["exchangers"][0]["tube_side"]["t_in"] = "160 degC"  # equal inlets: no driving force
+    doc["exchangers"][0]["tube_side"]["t_in"] = "150 degC"  # equal inlets: no driving force
     assert main(["rate", write_unit(tmp_path / "x.yaml", doc), "--tag", "E-1"]) == 1
     err = capsys.readouterr().err.strip().splitlines()
     assert err[0].startswith("exchangers[0].tube_side.t_in: 150 degC: must differ") and "inlet" in err[0]
