@@ -54,7 +54,10 @@ def test_rate_prints_rating_and_breakdown(good, capsys):
 def test_rate_us_units(good, capsys):
     assert main(["rate", good, "--tag", "E-1", "--units", "US", "--revamp"]) == 0
     out = capsys.readouterr().out
-    assert "°F" in out and "psi" in out and "BTU/h" in out and "throughput x1.2" in out
+    assert "°F" in out and "psi" in out and "BTU/h" in out and "throughput × 1.2" in out
+    # the unit file scales both flows by 1.2 and moves no inlet: each side says so
+    assert "shell side (test oil): flow × 1.2" in out and "tube side (test water): flow × 1.2" in out
+    assert out.count("inlet as today") == 2
 
 
 def test_unknown_tag_is_one_line(good, capsys):
