@@ -11,7 +11,7 @@ import re
 
 from ..studies import ExchangerStudy, fouling_side, study_exchanger  # noqa: F401  (fouling_side: re-exported)
 from .labels import NAMES, rescale
-from .pages import esc, figure_html, plot_text, table_html, temperatures_in, write_atomic
+from .pages import esc, figure_html, plot_text, temperatures_in, write_atomic
 
 
 def run_case(case, mc_draws: int = 100, **kwargs) -> ExchangerStudy:
