@@ -72,3 +72,28 @@ def test_rating_notes_give_temperatures_in_the_report_unit(system, expected):
     row = table.iloc[0]
     assert expected in row["note"] and " K" not in row["note"]
     assert row["qualifies"] == "shell outlet temperature"
+
+
+def test_plant_data_findings_in_display_units(monkeypatch):
+    # the findings table: resistances on the charts' 10⁻⁴ m²·K/W, the rate per year (365.25 days), the heat-balance
+    # error in per cent, counts as whole numbers, column identifiers in words
+    from types import SimpleNamespace
+
+    import revamp.plots_monitoring as pm
+    from revamp.report.case import monitoring_items
+
+    for name in ("fouling_trend", "heat_balance", "duty_lost"):
+        monkeypatch.setattr(pm, name, lambda *a, **k: None)
+    summary = {"rows: missing tube_flow": 3, "Rf now [m2K/W]": -6.73e-05, "fouling rate now [m2K/W per day]": 2.1e-09,
+               "heat balance error median [-]": -0.0236, "steady filter: removed, tube_t_in range > 2 K": 99,
+               "warnings": "shell side: oil: T = 401.02 K is outside its range 313.15 to 373.15 K"}
+    result = SimpleNamespace(monitoring=SimpleNamespace(summary=summary, trend=None))
+    items = monitoring_items(result)
+    findings, rows = items[0], items[1]
+    assert findings.loc["Rf now [10⁻⁴ m²·K/W]", "value"] == pytest.approx(-0.673)
+    assert findings.loc["fouling rate now [10⁻⁴ m²·K/W per year]", "value"] == pytest.approx(2.1e-9 * 1e4 * 365.25)
+    assert findings.loc["heat balance error median [%]", "value"] == pytest.approx(-2.36)
+    assert findings.loc["steady filter: removed, tube inlet temperature range > 2 K", "value"] == 99
+    assert list(rows.index) == ["missing tube-side flow"]
+    # 401.02 K = 127.87 °C, 313.15 K = 40 °C, 373.15 K = 100 °C
+    assert items[-1] == "Notes from the analysis: shell side: oil: T = 128 °C is outside its range 40 to 100 °C"

@@ -10,7 +10,7 @@ import re
 
 
 from ..studies import ExchangerStudy, fouling_side, study_exchanger  # noqa: F401  (fouling_side: re-exported)
-from .labels import NAMES, rescale
+from .labels import NAMES, rescale, resistance_axis
 from .pages import esc, figure_html, plot_text, temperatures_in, write_atomic
 
 
@@ -402,6 +402,13 @@ def monitoring_items(result, system: str = "SI") -> list:
             continue
         if k == "model fit" and getattr(mon, "trend", None) is not None:
             v = fit_text(mon.trend, system)
+        elif isinstance(v, float) and (k.endswith("[m2K/W]") or k.endswith("[m2K/W per day]")):
+            # on the resistance charts' axis unit (10⁻⁴ m²·K/W), rates per year: no exponents
+            factor, rf_unit = resistance_axis(system)
+            if k.endswith("per day]"):
+                k, v = k[:k.rindex("[")] + f"[{rf_unit} per year]", v * factor * 365.25
+            else:
+                k, v = k[:k.rindex("[")] + f"[{rf_unit}]", v * factor
         elif k.endswith(" [-]") and "error" in k and isinstance(v, float):  # a fraction: shown in per cent
             k, v = k[:-len(" [-]")] + " [%]", 100.0 * v
         elif isinstance(v, str):
@@ -433,7 +440,7 @@ def _plain_columns(text: str) -> str:
     return _COLUMN_RE.sub(lambda m: _COLUMN_WORDS[m.group(1)], text)
 
 
-#: fouling-model parameters: name -> (words, what it is: "rf" a resistance, "rate" per day, or (factor, unit))
+#: fouling-model parameters: name -> (words, what it is: "rf" a resistance, "rate" per year, or (factor, unit))
 _FIT_PARAMS = {"a": ("Rf at the run start", "rf"), "Rf0": ("Rf at the run start", "rf"),
                "b": ("fouling rate", "rate"), "Rf_inf": ("asymptotic Rf", "rf"),
                "tau": ("time constant", (1.0 / 86400.0, "days")),
@@ -441,9 +448,13 @@ _FIT_PARAMS = {"a": ("Rf at the run start", "rf"), "Rf0": ("Rf at the run start"
                "E": ("activation energy", (1e-3, "kJ/mol")), "gamma": ("removal coefficient", "rate per Pa")}
 
 
+_YEAR = 365.25 * 86400.0  #: a Julian year [s]
+
+
 def fit_text(fit, system: str = "SI") -> str:
     """One line on a fitted fouling trend (:class:`revamp.fouling.FoulingFit`) in display units: resistances on the
-    resistance charts' axis unit, rates per day, the time constant in days, each with its standard error.
+    resistance charts' axis unit, rates per year (365.25 days), the time constant in days, each with its standard
+    error.
 
     >>> from revamp.fouling import FoulingFit
     >>> fit = FoulingFit("asymptotic", {"Rf_inf": 3e-4, "tau": 60 * 86400.0}, {"Rf_inf": 1e-6, "tau": 86400.0},
@@ -462,9 +473,9 @@ def fit_text(fit, system: str = "SI") -> str:
         if what == "rf":
             f, unit = factor, rf_unit
         elif what == "rate":
-            f, unit = factor * 86400.0, f"{rf_unit} per day"
+            f, unit = factor * _YEAR, f"{rf_unit} per year"
         elif what == "rate per Pa":
-            f, unit = factor * 86400.0, f"{rf_unit} per day per Pa of wall shear"
+            f, unit = factor * _YEAR, f"{rf_unit} per year per Pa of wall shear"
         else:
             f, unit = what
         se = fit.stderr.get(name, float("nan"))
