@@ -140,8 +140,10 @@ def test_the_report_shows_each_warning_beside_the_number_it_qualifies(result):
     marks, _ = notes_legend(notes)
     for label in result.study.table.index:
         assert {n.text for n in notes if n.source == str(label)} == set(result.study.ratings[label].warnings)
-    for n in notes:
-        assert marks[n] in _cell_marks(study_tab.loc[n.source, "notes"])[n.quantity]
+    from revamp.report.labels import NAMES
+
+    for n in notes:  # the notes column names each quantity in words (shell outlet temperature [1])
+        assert marks[n] in _cell_marks(study_tab.loc[n.source, "notes"])[NAMES.get(n.quantity, n.quantity)]
 
 
 def test_notes_saying_the_same_with_other_values_share_a_number_and_state_the_range():

@@ -581,7 +581,8 @@ def study_table(study, system: str = "SI", notes=(), marks=None):
             for n in notes:
                 if n.source == label:
                     by_quantity.setdefault(n.quantity, set()).add(marks[n])
-            column.append("; ".join(f"{q} {' '.join(f'[{m}]' for m in sorted(ms))}" for q, ms in by_quantity.items()))
+            column.append("; ".join(f"{NAMES.get(q, q)} {' '.join(f'[{m}]' for m in sorted(ms))}"  # in words
+                                    for q, ms in by_quantity.items()))
         out["notes"] = column
     return out
 
