@@ -1,7 +1,8 @@
 """Latency of the what-if controls in a real JupyterLab (headless Chromium driven by Playwright).
 
 For ~20 key presses on a slider: time from the key press (a ``keydown`` listener in the page) to the changed table
-(first DOM mutation of the table) and to the painted figure (first mutation of the chart, then two animation frames).
+(first DOM mutation of the table) and to the painted figure (first mutation of the chart, then two animation
+frames).
 Prints median and max [ms] for the throughput slider (back and forth) and the tube-fouling slider (one way, so each
 press is a new position). Nothing asserted. Also prints the kernel-side time per move with no browser (``WhatIf``).
 
@@ -23,7 +24,9 @@ _SETUP = """() => {
   const tbl = [...document.querySelectorAll('.widget-html-content')]
       .find(e => e.textContent.includes('pressure drop vs allowed'));
   const box = tbl.closest('.widget-vbox');
-  const fig = box.querySelector('.js-plotly-plot');
+  // the chart: an inline SVG in its own HTML widget (replaced whole on a move), or a plotly figure
+  const svg = box.querySelector('svg.rv-whatif-chart');
+  const fig = svg ? svg.closest('.widget-html-content') : box.querySelector('.js-plotly-plot');
   window.__lat = {};
   document.addEventListener('keydown', () => { window.__lat = {key: performance.now()}; }, true);
   new MutationObserver(() => { const l = window.__lat; if (l.key && !l.table) l.table = performance.now(); })

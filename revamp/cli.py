@@ -124,7 +124,12 @@ def _cmd_rate(args) -> int:
     case = unit.exchanger(args.tag)
     service = case.revamp_service if args.revamp else case.service
     result = rating_mod.rate(case.exchanger, service)
-    when = f"revamp conditions (throughput x{case.throughput:g})" if args.revamp else "today's conditions"
+    when = "today's conditions"
+    if args.revamp:  # which side's flow was scaled and which inlet moved, as the report's header says it
+        from .report.case import revamp_lines
+
+        lines = revamp_lines(case.service, case.revamp_service, case.throughput, args.units)
+        when = f"revamp conditions ({lines[0]})\n" + "\n".join(f"  {line}" for line in lines[1:])
     if args.csv:  # the same numbers as a table: quantity, value, unit (display units of --units)
         from .report.export import rating_frame
 

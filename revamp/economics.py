@@ -14,7 +14,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy import integrate
 
 from .errors import InputError
 from .units import require, to_si, ureg
@@ -286,6 +285,8 @@ def cycle_average(duty_at, fouling, run_length, downtime=0.0, points=41) -> Cycl
     t = np.linspace(0.0, tau, n)
     rf = np.asarray(_fouling_curve(fouling)(t), float)
     q = np.broadcast_to(np.asarray(duty_at(rf), float), t.shape)
+    from scipy import integrate  # imported on use: a heavy module that `revamp check` never needs
+
     mean = float(integrate.simpson(q, x=t) / (tau + down))
     return CycleAverage(mean, float(q[0]), float(q[-1]), float(rf[-1]), tau, down)
 

@@ -29,7 +29,9 @@ __all__ = ["SATURATION_TOLERANCE", "Stream", "Service", "dew_point", "saturation
 
 
 def _check_fluid(fluid, field):
-    if not (hasattr(fluid, "props") and hasattr(fluid, "t_min") and hasattr(fluid, "t_max")):
+    # asked of the class first: a fluid whose range is a lazy property (CoolProp's) is not loaded just to be checked
+    has = lambda name: hasattr(type(fluid), name) or hasattr(fluid, name)  # noqa: E731
+    if not (has("props") and has("t_min") and has("t_max")):
         raise InputError(field, fluid, "a fluid from revamp.fluids (water(), pure(), petroleum(), table(), constant())")
 
 

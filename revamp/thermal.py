@@ -29,7 +29,6 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.special import gammainc
 
 from ._arrays import as_out as _out
 from .errors import InputError
@@ -286,6 +285,8 @@ def _eps_crossflow(ntu, cr):
     eps = 1/(Cr NTU) sum_{n>=0} Q(n + 1, NTU) Q(n + 1, Cr NTU), with Q(n + 1, x) = P(a Poisson(x) variable > n)
     the regularized lower incomplete gamma function. Terms are summed per case until both tails are negligible.
     """
+    from scipy.special import gammainc  # on use (X shells only): `revamp check` never needs scipy.special
+
     ntu, cr = np.broadcast_arrays(np.asarray(ntu, dtype=float), np.asarray(cr, dtype=float))
     shape = ntu.shape
     n_ = ntu.ravel()

@@ -54,7 +54,10 @@ def test_rate_prints_rating_and_breakdown(good, capsys):
 def test_rate_us_units(good, capsys):
     assert main(["rate", good, "--tag", "E-1", "--units", "US", "--revamp"]) == 0
     out = capsys.readouterr().out
-    assert "°F" in out and "psi" in out and "BTU/h" in out and "throughput x1.2" in out
+    assert "°F" in out and "psi" in out and "BTU/h" in out and "throughput × 1.2" in out
+    # the unit file scales both flows by 1.2 and moves no inlet: each side says so
+    assert "shell side (test oil): flow × 1.2" in out and "tube side (test water): flow × 1.2" in out
+    assert out.count("inlet as today") == 2
 
 
 def test_unknown_tag_is_one_line(good, capsys):
@@ -137,3 +140,28 @@ def test_jobs_are_capped_to_the_cores(good, tmp_path, monkeypatch, capsys):
     assert main(["batch", good, "--out", str(tmp_path / "r"), "--jobs", "0", "--quiet"]) == 1
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and err[0].startswith("error: --jobs: 0: must be a whole number >= 1")
+
+
+def test_check_of_the_demo_imports_no_heavy_library():
+    # `revamp check` must start fast: CoolProp, plotly and scipy's optimizer are for rating and reports only
+    from revamp.cli import demo_unit_path
+
+    code = ("import sys\nfrom revamp.cli import main\nrc = main(['check', sys.argv[1]])\n"
+            "heavy = [m for m in ('CoolProp', 'plotly', 'scipy.optimize', 'scipy.integrate', 'scipy.special') "
+            "if m in sys.modules]\nprint(rc, heavy)\n")
+    out = subprocess.run([sys.executable, "-c", code, str(demo_unit_path())], capture_output=True, text=True,
+                         check=True).stdout.strip().splitlines()[-1]
+    assert out == "0 []"
+
+
+def test_check_refuses_boiling_water_without_coolprop(tmp_path):
+    # water at 4 bar boils at 143.6 °C (steam tables, from memory): a 160 °C inlet is refused by the IF97 screen,
+    # as the rating would refuse it, and CoolProp is still not imported
+    doc = make_unit("E-1")
+    doc["exchangers"][0]["tube_side"]["fluid"] = {"kind": "water", "name": "cooling water", "pressure": "4 bar"}
+    doc["exchangers"][0]["tube_side"]["t_in"] = "160 degC"
+    path = write_unit(tmp_path / "hot.yaml", doc)
+    code = ("import sys\nfrom revamp.unitfile import check\n"
+            "print([(p.path, p.message) for p in check(sys.argv[1])], 'CoolProp' in sys.modules)\n")
+    out = subprocess.run([sys.executable, "-c", code, path], capture_output=True, text=True, check=True).stdout
+    assert "exchangers[0].tube_side.t_in" in out and "below saturation 416.7" in out and out.rstrip().endswith("False")

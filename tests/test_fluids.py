@@ -478,3 +478,56 @@ def test_petroleum_hot_properties_behave_physically(api, k, nu40, ratio):
     assert np.all(np.diff(p.density) < 0) and np.all(np.diff(p.conductivity) < 0)
     assert np.all(np.diff(p.viscosity) <= 0) and np.all(np.diff(p.heat_capacity) > 0)
     assert np.all(np.isfinite(p.viscosity)) and np.all(p.density > 0) and np.all(p.conductivity > 0)
+
+
+# ------------------------------------------------------------------------------------------- water built lazily
+@pytest.mark.parametrize("p_mpa", [0.001, 0.01, 0.1, 0.4, 1.0, 5.0, 15.0, 22.0])
+def test_if97_saturation_temperature_against_iapws(p_mpa):
+    # IAPWS-IF97 Eq. 31 as coded independently in the `iapws` package; and IAPWS-95's saturated liquid (CoolProp),
+    # which IF97 matches to a few mK away from the critical point (Wagner et al. 2000, consistency with IAPWS-95)
+    from revamp.fluids.coolprop_liquid import saturation_temperature_if97
+
+    t = saturation_temperature_if97(p_mpa * 1e6)
+    assert t == pytest.approx(iapws.iapws97._TSat_P(p_mpa), abs=1e-9)
+    assert t == pytest.approx(CP.PropsSI("T", "P", p_mpa * 1e6, "Q", 0.0, "Water"), abs=0.02)
+
+
+def test_water_is_built_without_coolprop_until_first_use():
+    # a fresh interpreter: making water (and refusing a bad pressure) must not import CoolProp; props() then does
+    import subprocess
+    import sys
+
+    code = ("import sys\nfrom revamp.fluids import water\nfrom revamp.errors import InputError\n"
+            "w = water('4 bar', name='cooling water')\n"
+            "try:\n    water('100 Pa')\nexcept InputError as e:\n    assert e.field == 'water.pressure', e.field\n"
+            "assert 'CoolProp' not in sys.modules and not w.loaded\n"
+            "lo, hi = w.screen()\n"
+            "w.props(300.0)\nassert 'CoolProp' in sys.modules and w.loaded\n"
+            "print(w.name, lo, hi, w.t_min, w.t_max)\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout.split()
+    name_words, (lo, hi, t_min, t_max) = out[:2], map(float, out[2:])
+    assert name_words == ["cooling", "water"]
+    # the screen (IF97) and the built table (IAPWS-95 via CoolProp) agree on saturation at 4 bar within a few mK;
+    # 143.61 °C at 0.4 MPa is the common steam-table value (from memory)
+    assert lo == t_min == 273.16
+    assert hi == pytest.approx(t_max, abs=0.01)
+    assert t_max == pytest.approx(143.61 + 273.15, abs=0.02)
+
+
+def test_water_bad_pressure_names_the_field():
+    # water's triple point 611.655 Pa and critical point 22.064 MPa (IAPWS-95, Wagner & Pruss 2002)
+    for p in ("500 Pa", "23 MPa", "650 Pa"):
+        with pytest.raises(InputError) as exc:
+            water(p)
+        assert exc.value.field == "water.pressure"
+    with pytest.raises(InputError) as exc:
+        water("4 bar", name="  ")
+    assert exc.value.field == "water.name"
+
+
+def test_pure_keeps_the_users_label_and_checks_its_name_at_once():
+    t = pure("Toluene", "3 bar", label="solvent")
+    assert t.name == "solvent" and t.fluid == "Toluene" and t.loaded
+    with pytest.raises(InputError) as exc:
+        pure("NotAFluid")
+    assert exc.value.field == "pure.name"

@@ -140,8 +140,10 @@ def test_the_report_shows_each_warning_beside_the_number_it_qualifies(result):
     marks, _ = notes_legend(notes)
     for label in result.study.table.index:
         assert {n.text for n in notes if n.source == str(label)} == set(result.study.ratings[label].warnings)
-    for n in notes:
-        assert marks[n] in _cell_marks(study_tab.loc[n.source, "notes"])[n.quantity]
+    from revamp.report.labels import NAMES
+
+    for n in notes:  # the notes column names each quantity in words (shell outlet temperature [1])
+        assert marks[n] in _cell_marks(study_tab.loc[n.source, "notes"])[NAMES.get(n.quantity, n.quantity)]
 
 
 def test_notes_saying_the_same_with_other_values_share_a_number_and_state_the_range():
@@ -153,7 +155,9 @@ def test_notes_saying_the_same_with_other_values_share_a_number_and_state_the_ra
              Note("revamp", "h_tube", "warning", "Gnielinski (1976): Pr = 0.3 is outside its validity range")]
     marks, legend = notes_legend(notes)
     assert marks[notes[0]] == marks[notes[1]] != marks[notes[2]]
-    assert legend.loc["[1]", "note"] == text.format("533.88 to 613.15")
+    # shown in the report's °C: 533.88 K = 260.7 °C, 613.15 K = 340 °C, 255.37 K = -17.8 °C, 422.04 K = 148.9 °C
+    assert legend.loc["[1]", "note"] == ("shell side: residue: API MPMS 11.1 density: T = 261 to 340 °C is outside "
+                                         "its valid range -18 to 149 °C")
     assert legend.loc["[1]", "where"] == "today, revamp"
 
 

@@ -75,3 +75,38 @@ def test_primer_tables_carry_units_for_both_systems():
     # 1 W/m²K = 0.17611 Btu/h·ft²·°F (NIST SP 811 Appendix B.8), three significant figures shown
     want = f"{float(r.U_service) * 0.17611:.3g}"
     assert re.search(rf">{re.escape(want)}<", u_us), want
+
+
+def test_breakdown_chart_stacks_each_resistance_to_scale_in_its_colour():
+    # geometry of the drawing: each block's height is its value over the axis top times the plot height, stacked
+    # from the axis in the order given; the colours are the reports' one colour per resistance
+    import re
+
+    from revamp.report.labels import RESISTANCE_COLOURS, RESISTANCES
+    from revamp.report.widgets import breakdown_svg
+
+    ys = {name: [v, 2 * v] for name, v in zip(RESISTANCES, (7.5, 2.0, 0.4, 6.4, 29.0))}
+    svg = breakdown_svg(["as is", "with tapes"], ys, "10⁻⁴ m²·K/W", width=720, height=420)
+    rects = re.findall(r'<rect x="([\d.]+)" y="([\d.]+)" width="([\d.]+)" height="([\d.]+)" fill="(#\w+)"><title>'
+                       r'([a-z ]+):', svg)
+    assert len(rects) == 10
+    # axis: the taller bar totals 2 × 45.3 = 90.6; steps of 1, 2, 2.5 or 5 × 10^k in about five intervals give 20,
+    # so the axis tops at 100 over a plot height of 420 - 40 - 95 = 285 px
+    assert '>100</text>' in svg and '>80</text>' in svg
+    scale = 285 / 100.0
+    for (x, y, w, h, colour, name) in rects:
+        i = 0 if float(x) < 360 else 1
+        assert float(h) == pytest.approx(ys[name][i] * scale, abs=0.06)
+        assert colour == RESISTANCE_COLOURS[name]
+    first = [r for r in rects if float(r[0]) < 360]
+    assert [r[5] for r in first] == list(RESISTANCES)  # stacked from the axis in the given order
+    assert float(first[0][1]) + float(first[0][3]) == pytest.approx(40 + 285, abs=0.06)  # sits on the axis
+    for lower, upper in zip(first, first[1:]):
+        assert float(upper[1]) + float(upper[3]) == pytest.approx(float(lower[1]), abs=0.11)
+
+
+def test_breakdown_chart_escapes_labels():
+    from revamp.report.widgets import breakdown_svg
+
+    svg = breakdown_svg(["<b>x</b>"], {"shell film": [1.0]}, "u")
+    assert "<b>" not in svg and "&lt;b&gt;" in svg

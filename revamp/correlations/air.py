@@ -34,7 +34,6 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.special import i0e, i1e, k0e, k1e
 
 from .._arrays import as_array as _arr
 from .._arrays import as_out as _out
@@ -175,6 +174,8 @@ def fin_efficiency_kern_kraus(d_root, d_tip, thickness, k_fin, h):
     ----------
     Kern, D. Q., Kraus, A. D. (1972). *Extended Surface Heat Transfer*. McGraw-Hill.
     """
+    from scipy.special import i0e, i1e, k0e, k1e  # on use: `revamp check` builds air coolers, never rates
+
     ro, re = 0.5 * _arr(d_root), 0.5 * _arr(d_tip)
     m = np.sqrt(2.0 * np.maximum(_arr(h), 1e-300) / (_arr(k_fin) * _arr(thickness)))
     a, b = m * re, m * ro

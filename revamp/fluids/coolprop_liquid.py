@@ -23,7 +23,7 @@ from ..errors import InputError
 from ..units import require, to_si
 from .base import Props, as_temperature, joined_temperatures, range_check
 
-__all__ = ["GRID_STEP", "INTERPOLATION_ERROR", "CoolPropLiquid", "pure", "water"]
+__all__ = ["GRID_STEP", "INTERPOLATION_ERROR", "CoolPropLiquid", "pure", "saturation_temperature_if97", "water"]
 
 #: Starting grid spacing of the cached tables [K] (halved where a fluid's properties curve more).
 GRID_STEP = 0.25
@@ -88,14 +88,93 @@ def _build_grid(fluid: str, pressure: float, t_low: float, t_sat: float) -> _Gri
                  value_list=tuple(r.tolist() for r in value), slope_list=tuple(r.tolist() for r in slope))
 
 
+#: triple-point and critical pressures of water [Pa] (IAPWS-95, Wagner & Pruss 2002; the triple point as CoolProp
+#: computes it)
+WATER_TRIPLE_PRESSURE = 611.655
+WATER_CRITICAL_PRESSURE = 22.064e6
+#: lower end of the water table [K]: the triple point, 273.16 K by definition of the kelvin scale (IAPWS R6-95)
+WATER_TRIPLE_TEMPERATURE = 273.16
+
+# IAPWS-IF97 region 4, the backward saturation-temperature equation (Eq. 31), coefficients n1..n10 (Table 34)
+_IF97_N = (0.11670521452767e4, -0.72421316703206e6, -0.17073846940092e2, 0.12020824702470e5,
+           -0.32325550322333e7, 0.14915108613530e2, -0.48232657361591e4, 0.40511340542057e6,
+           -0.23855557567849, 0.65017534844798e3)
+
+
+def saturation_temperature_if97(pressure: float) -> float:
+    """Saturation temperature of water [K] at ``pressure`` [Pa] by IAPWS-IF97's backward equation, without CoolProp.
+
+    Used where a quick answer is enough (``revamp check`` screens an inlet against it); the property table itself is
+    bounded by IAPWS-95's saturated liquid as CoolProp computes it, which this equation matches to within a few
+    millikelvin (IF97's stated consistency with IAPWS-95).
+
+    Parameters
+    ----------
+    pressure : float
+        Absolute pressure, 611.213 Pa to 22.064 MPa [Pa].
+
+    References
+    ----------
+    Wagner, W. et al. (2000), "The IAPWS industrial formulation 1997 for the thermodynamic properties of water and
+    steam", J. Eng. Gas Turbines Power 122(1):150-182, Eq. 31.
+    """
+    n = _IF97_N
+    beta = (float(pressure) / 1e6) ** 0.25
+    e = beta * beta + n[2] * beta + n[5]
+    f = n[0] * beta * beta + n[3] * beta + n[6]
+    g = n[1] * beta * beta + n[4] * beta + n[7]
+    d = 2.0 * g / (-f - (f * f - 4.0 * e * g) ** 0.5)
+    return 0.5 * (n[9] + d - ((n[9] + d) ** 2 - 4.0 * (n[8] + n[9] * d)) ** 0.5)
+
+
+@lru_cache(maxsize=64)
+def _resolve(fluid: str, pressure: float, field_prefix: str, t_low_override) -> tuple:
+    """``(grid, t_min, t_max)`` of a liquid: CoolProp imported and the table built here, on first use."""
+    CP = _coolprop()
+    p = pressure
+    p_crit = CP.PropsSI("pcrit", fluid)
+    p_trip = CP.PropsSI("ptriple", fluid) if fluid != "Water" else 611.655
+    if not p_trip < p < p_crit:
+        raise InputError(f"{field_prefix}.pressure", f"{p:.6g} Pa",
+                         f"between the triple-point {p_trip:.6g} Pa and critical {p_crit:.6g} Pa pressures of "
+                         f"{fluid} (a liquid below its boiling point)")
+    t_sat = float(CP.PropsSI("T", "P", p, "Q", 0.0, fluid))
+    if t_low_override is not None:
+        t_low = t_low_override
+    else:
+        t_low = max(CP.PropsSI("Ttriple", fluid), CP.PropsSI("Tmin", fluid))
+        for _ in range(20):  # some fluids' (T, P) flash fails right at the triple point: start just above it
+            try:
+                if np.isfinite(_evaluate(CP, fluid, np.array([t_low]), p)).all():
+                    break
+            except ValueError:  # below the melting line at this pressure
+                pass
+            t_low += 0.25
+    t_low = float(t_low)
+    if t_sat - t_low < 1.0:
+        raise InputError(f"{field_prefix}.pressure", f"{p:.6g} Pa", f"a pressure where {fluid} is liquid over at "
+                         f"least 1 K above {t_low:.2f} K")
+    try:
+        grid = _build_grid(fluid, p, t_low, t_sat)
+    except ValueError as exc:
+        raise InputError(f"{field_prefix}.name", fluid, f"a CoolProp fluid with density, heat capacity, "
+                         f"viscosity and conductivity models ({str(exc)[:80]})") from None
+    if not np.isfinite(grid.value).all():
+        raise InputError(f"{field_prefix}.name", fluid, "a CoolProp fluid whose liquid properties are all defined")
+    return grid, t_low, t_sat
+
+
 @dataclass(frozen=True)
 class CoolPropLiquid:
     """A pure liquid at a fixed pressure, evaluated through a cached CoolProp table.
 
+    CoolProp (a heavy import) is loaded and the table built at the first use of ``props``, ``t_min``, ``t_max`` or
+    ``check``, not when the fluid is made: a unit file can be checked without it (see :meth:`screen`).
+
     Attributes
     ----------
     name : str
-        A printable name, e.g. ``"water at 1e+06 Pa (IAPWS-95 via CoolProp)"``.
+        The name the user gave the fluid (e.g. ``"cooling water"``), or a plain default such as ``"water"``.
     fluid : str
         The CoolProp fluid name.
     pressure : float
@@ -104,14 +183,62 @@ class CoolPropLiquid:
         Lowest temperature, the triple point or CoolProp's lower limit [K].
     t_max : float
         Saturation temperature at ``pressure`` [K]; the liquid exists below it only.
+    source : str
+        Where the properties come from, in plain words (e.g. ``"IAPWS-95 (through CoolProp)"``).
     """
 
     name: str
     fluid: str
     pressure: float
-    t_min: float
-    t_max: float
-    _grid: _Grid = field(repr=False, compare=False)
+    source: str = "CoolProp"
+    t_low: float | None = None  # lower end of the table [K]; None: the fluid's triple point or CoolProp's Tmin
+    field_prefix: str = field(default="pure", repr=False, compare=False)
+
+    def _load(self) -> _Grid:
+        grid, t_min, t_max = _resolve(self.fluid, self.pressure, self.field_prefix, self.t_low)
+        object.__setattr__(self, "_g", grid)  # a cache, not state: frozen for everything the user sees
+        object.__setattr__(self, "_range", (t_min, t_max))
+        return grid
+
+    @property
+    def _grid(self) -> _Grid:
+        try:
+            return self._g
+        except AttributeError:
+            return self._load()
+
+    @property
+    def loaded(self) -> bool:
+        """Whether the table is built (CoolProp imported)."""
+        return "_g" in self.__dict__
+
+    @property
+    def t_min(self) -> float:
+        try:
+            return self._range[0]
+        except AttributeError:
+            self._load()
+            return self._range[0]
+
+    @property
+    def t_max(self) -> float:
+        try:
+            return self._range[1]
+        except AttributeError:
+            self._load()
+            return self._range[1]
+
+    def screen(self):
+        """``(t_min, t_max)`` [K] known without CoolProp, or None when only CoolProp can tell.
+
+        Water: the triple point and IAPWS-IF97's saturation temperature (:func:`saturation_temperature_if97`), which
+        ``revamp check`` uses so that checking a unit file never imports CoolProp for water.
+        """
+        if self.loaded:
+            return self._range
+        if self.fluid == "Water":
+            return WATER_TRIPLE_TEMPERATURE, saturation_temperature_if97(self.pressure)
+        return None
 
     def props(self, T) -> Props:
         """Density [kg/m³], heat capacity [J/kg/K], viscosity [Pa s], conductivity [W/m/K] at ``T`` [K].
@@ -121,7 +248,10 @@ class CoolPropLiquid:
         InputError
             When any temperature is at or above saturation (not a liquid) or below ``t_min``.
         """
-        g = self._grid
+        try:
+            g = self._g
+        except AttributeError:
+            g = self._load()
         if isinstance(T, float) or type(T) is int:  # scalar fast path (rating iterations): plain Python floats
             x = (T - g.t0) * g.inv_dt
             if not 0.0 <= x < g.x_max:
@@ -164,51 +294,29 @@ class CoolPropLiquid:
                            "liquid range")
 
 
-def _liquid(fluid: str, pressure, field_prefix: str, label: str, t_low_override=None) -> CoolPropLiquid:
-    CP = _coolprop()
+def _pressure(pressure, field_prefix: str) -> float:
     p = to_si(pressure, "pressure", f"{field_prefix}.pressure")
     require(p, f"{field_prefix}.pressure", gt=0.0, what="a pressure [Pa]")
-    p = float(p)
-    p_crit = CP.PropsSI("pcrit", fluid)
-    p_trip = CP.PropsSI("ptriple", fluid) if fluid != "Water" else 611.655
-    if not p_trip < p < p_crit:
-        raise InputError(f"{field_prefix}.pressure", f"{p:.6g} Pa",
-                         f"between the triple-point {p_trip:.6g} Pa and critical {p_crit:.6g} Pa pressures of "
-                         f"{fluid} (a liquid below its boiling point)")
-    t_sat = float(CP.PropsSI("T", "P", p, "Q", 0.0, fluid))
-    if t_low_override is not None:
-        t_low = t_low_override
-    else:
-        t_low = max(CP.PropsSI("Ttriple", fluid), CP.PropsSI("Tmin", fluid))
-        for _ in range(20):  # some fluids' (T, P) flash fails right at the triple point: start just above it
-            try:
-                if np.isfinite(_evaluate(CP, fluid, np.array([t_low]), p)).all():
-                    break
-            except ValueError:  # below the melting line at this pressure
-                pass
-            t_low += 0.25
-    t_low = float(t_low)
-    if t_sat - t_low < 1.0:
-        raise InputError(f"{field_prefix}.pressure", f"{p:.6g} Pa", f"a pressure where {fluid} is liquid over at "
-                         f"least 1 K above {t_low:.2f} K")
-    try:
-        grid = _build_grid(fluid, p, t_low, t_sat)
-    except ValueError as exc:
-        raise InputError(f"{field_prefix}.name", fluid, f"a CoolProp fluid with density, heat capacity, "
-                         f"viscosity and conductivity models ({str(exc)[:80]})") from None
-    if not np.isfinite(grid.value).all():
-        raise InputError(f"{field_prefix}.name", fluid, "a CoolProp fluid whose liquid properties are all defined")
-    return CoolPropLiquid(name=f"{label} at {p:.6g} Pa", fluid=fluid, pressure=p, t_min=t_low, t_max=t_sat,
-                          _grid=grid)
+    return float(p)
 
 
-def water(pressure="10 bar") -> CoolPropLiquid:
+def _name(name, field: str, default: str) -> str:
+    if name is None:
+        return default
+    if not isinstance(name, str) or not name.strip():
+        raise InputError(field, name, "a non-empty name for the fluid (e.g. 'cooling water')")
+    return name.strip()
+
+
+def water(pressure="10 bar", name: str | None = None) -> CoolPropLiquid:
     """Liquid water by IAPWS-95 (through CoolProp), from 273.16 K up to saturation at ``pressure``.
 
     Parameters
     ----------
     pressure : float or str
         Absolute pressure [Pa], or a string with a unit such as ``"10 bar"``.
+    name : str, optional
+        The user's own name for it (e.g. ``"cooling water"``); ``"water"`` when not given.
 
     Returns
     -------
@@ -237,7 +345,17 @@ def water(pressure="10 bar") -> CoolPropLiquid:
     >>> round(w.props("25 degC").density, 1)
     997.5
     """
-    return _liquid("Water", pressure, "water", "water (IAPWS-95 via CoolProp)", t_low_override=273.16)
+    p = _pressure(pressure, "water")
+    # checked without CoolProp (imported at the first props() call): IAPWS triple-point and critical pressures, and
+    # at least 1 K of liquid above the triple point (IF97 saturation temperature)
+    if not WATER_TRIPLE_PRESSURE < p < WATER_CRITICAL_PRESSURE or \
+            saturation_temperature_if97(p) - WATER_TRIPLE_TEMPERATURE < 1.0:
+        raise InputError("water.pressure", f"{p:.6g} Pa",
+                         f"between the triple-point {WATER_TRIPLE_PRESSURE:.6g} Pa and critical "
+                         f"{WATER_CRITICAL_PRESSURE:.6g} Pa pressures of water, with at least 1 K of liquid above "
+                         f"{WATER_TRIPLE_TEMPERATURE} K (at least about 660 Pa)")
+    return CoolPropLiquid(name=_name(name, "water.name", "water"), fluid="Water", pressure=p,
+                          source="IAPWS-95 (through CoolProp)", t_low=WATER_TRIPLE_TEMPERATURE, field_prefix="water")
 
 
 @lru_cache(maxsize=1)
@@ -264,7 +382,7 @@ def _canonical_name(CP, name: str) -> str:
         return found
 
 
-def pure(name: str, pressure="10 bar") -> CoolPropLiquid:
+def pure(name: str, pressure="10 bar", label: str | None = None) -> CoolPropLiquid:
     """A pure fluid from CoolProp as a liquid at ``pressure``, from its triple point up to saturation.
 
     Parameters
@@ -275,6 +393,8 @@ def pure(name: str, pressure="10 bar") -> CoolPropLiquid:
         ``CoolProp.CoolProp.FluidsList()``.
     pressure : float or str
         Absolute pressure [Pa], or a string with a unit; between the triple-point and critical pressures.
+    label : str, optional
+        The user's own name for it (shown in reports); the CoolProp name when not given.
 
     Returns
     -------
@@ -301,4 +421,7 @@ def pure(name: str, pressure="10 bar") -> CoolPropLiquid:
         some = ", ".join(sorted(CP.FluidsList())[:12])
         raise InputError("pure.name", name, f"a CoolProp fluid name; list them with "
                          f"CoolProp.CoolProp.FluidsList() (e.g. {some}, ...)") from None
-    return _liquid(canonical, pressure, "pure", f"{canonical} (CoolProp)")
+    liquid = CoolPropLiquid(name=_name(label, "pure.label", canonical), fluid=canonical,
+                            pressure=_pressure(pressure, "pure"), source=f"CoolProp ({canonical})", field_prefix="pure")
+    liquid.t_max  # the pressure range and the table need CoolProp's data for this fluid: checked here, at once
+    return liquid

@@ -37,7 +37,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy import optimize
 
 from ..errors import InputError
 
@@ -238,6 +237,7 @@ def fit_asymptotic(t, rf, offset: bool = True) -> FoulingFit:
         lo = ([-np.inf] if offset else []) + [-np.inf, 1e-3 * span]
         hi = ([np.inf] if offset else []) + [np.inf, 1e4 * span]
         try:
+            from scipy import optimize  # imported on use: `revamp check` never fits
             popt, pcov = optimize.curve_fit(f, x, y, p0=p0, bounds=(lo, hi), maxfev=5000)
         except RuntimeError:
             continue
@@ -377,10 +377,13 @@ def fit_threshold(t, rf, Re, Pr, T_film, shear, beta: float = -0.66, E: float | 
     def solve(e):
         # deposition and removal coefficients are physically >= 0: bounded linear least squares
         M = design(e)
+        from scipy import optimize  # imported on use: `revamp check` never fits
         coef = optimize.lsq_linear(M, y, bounds=([-np.inf, 0.0, 0.0], [np.inf, np.inf, np.inf]), method="bvls").x
         return coef, float(np.sum((y - M @ coef) ** 2))
 
     if E is None:
+        from scipy import optimize  # imported on use: `revamp check` never fits
+
         grid = np.arange(10.0, 301.0, 10.0)  # coarse grid first: the RSS in E can have more than one dip
         e0 = grid[int(np.argmin([solve(e * 1e3)[1] for e in grid]))]
         res = optimize.minimize_scalar(lambda e: solve(e * 1e3)[1], bounds=(max(e0 - 10, 10.0), min(e0 + 10, 300.0)),

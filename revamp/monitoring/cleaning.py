@@ -23,7 +23,6 @@ from dataclasses import dataclass
 
 import numpy as np
 import pandas as pd
-from scipy import optimize
 
 from ..errors import InputError
 from ..units import require
@@ -140,6 +139,8 @@ def optimal_cleaning_interval(loss_rate, cleaning_cost, downtime=0.0, downtime_c
             s = np.linspace(lo, tc, 201)
             c_s = np.asarray(loss_rate(s), dtype=float) * np.ones_like(s)
             return base + float(np.sum(0.5 * (c_s[1:] + c_s[:-1]) * np.diff(s)))
+
+        from scipy import optimize  # imported here: a heavy module that `revamp check` never needs
 
         tc = float(optimize.minimize_scalar(lambda tc: (lost_to(tc) + fixed) / (tc + downtime),
                                             bounds=(max(lo, 1e-9 * t_max), hi), method="bounded",

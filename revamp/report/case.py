@@ -10,7 +10,8 @@ import re
 
 
 from ..studies import ExchangerStudy, fouling_side, study_exchanger  # noqa: F401  (fouling_side: re-exported)
-from .pages import esc, figure_html, plot_text, table_html, write_atomic
+from .labels import NAMES, rescale, resistance_axis
+from .pages import esc, figure_html, plot_text, temperatures_in, write_atomic
 
 
 def run_case(case, mc_draws: int = 100, **kwargs) -> ExchangerStudy:
@@ -36,8 +37,8 @@ def cycle_text(cycle) -> str:
     else:
         down = "no cleaning downtime counted (the unit file gives none)"
     side = cycle.side.value
-    return (f"duty_cycle_avg: the duty averaged over the next run until a cleaning, with the {side}-side fouling "
-            f"growing as the plant-data trend says; value, payback and NPV use it instead of the end-of-run duty. "
+    return (f"Duty averaged over the run: the duty averaged over the next run until a cleaning, with the {side}-side "
+            f"fouling growing as the plant-data trend says; value, payback and NPV use it instead of the end-of-run duty. "
             f"{run}, {down}; the other side, with no growth model, goes linearly from where the option leaves it "
             f"to its design fouling at the end of the run. Fouling model: {cycle.model_text}. Side: "
             f"{cycle.side.source}. Doing nothing, the base case goes on fouling from where the plant data leave it "
@@ -56,7 +57,7 @@ def _note_pattern(text: str) -> tuple:
     return text[:m.start(2)] + "{}" + text[m.end(2):], (float(m.group(2)), m.group(2))
 
 
-def notes_legend(notes) -> tuple:
+def notes_legend(notes, system: str = "SI") -> tuple:
     """Number the notes: ``(marks, table)``.
 
     ``marks`` maps each :class:`revamp.studies.Note` to its number. Notes that say the same thing of the same
@@ -81,8 +82,9 @@ def notes_legend(notes) -> tuple:
         if "{}" in pattern:
             (lo, lo_text), (hi, hi_text) = min(g["values"]), max(g["values"])
             text = pattern.replace("{}", lo_text if lo == hi else f"{lo_text} to {hi_text}", 1)
-        rows.append({"where": ", ".join(dict.fromkeys(g["where"])), "qualifies": quantity, "severity": severity,
-                     "note": text})
+        rows.append({"where": ", ".join(dict.fromkeys(g["where"])), "severity": severity,
+                     "qualifies": NAMES.get(quantity, quantity) if isinstance(quantity, str) else quantity,
+                     "note": temperatures_in(text, system)})  # the report's temperature unit, not kelvin
     table = pd.DataFrame(rows, index=[f"[{g['number']}]" for g in groups.values()],
                          columns=["where", "qualifies", "severity", "note"])
     return marks, table
@@ -133,7 +135,7 @@ def rating_items(result, system: str = "SI") -> list:
     then the notes themselves (or a line saying there are none)."""
     labels = ("today", "today (clean)", "revamp", "revamp (clean)")
     notes = [n for n in result.notes if n.source in labels]
-    marks, legend = notes_legend(notes)
+    marks, legend = notes_legend(notes, system)
     items = [ratings_table(result.ratings, system, notes, marks)]
     if notes:
         items += ["Notes on these ratings (numbers in the notes column point here): a warning means the number "
@@ -217,22 +219,121 @@ def show(obj, interactive: bool = False):
         display(HTML(f"<p>{esc(obj)}</p>"))
 
 
-def case_header_html(case, unit) -> str:
-    """Who the exchanger is and what it serves, as escaped HTML."""
-    from ..units import format_quantity as fq
+def _short(value) -> str:
+    """A number in a sentence: three significant figures without trailing zeros (18, 21.6, 0.4)."""
+    from .labels import format_value
 
-    ex, s = case.exchanger, case.service
+    text = format_value(float(value))
+    return text.rstrip("0").rstrip(".") if "." in text and "e" not in text else text
+
+
+def fluid_source(fluid, system: str = "SI") -> str:
+    """Where a fluid's properties come from, in plain words: the secondary line under the user's own name.
+
+    >>> from revamp.fluids import water
+    >>> fluid_source(water("4 bar", name="cooling water"))
+    'properties: IAPWS-95 (through CoolProp), liquid at 4 bar'
+    """
+    from ..units import from_si
+    from .labels import unit_of
+
+    def pressure(p):
+        if system == "US":
+            mag, unit = from_si(float(p), "pressure", "US")
+            return f"{_short(float(mag))} {unit_of(unit)}"
+        return f"{_short(float(p) / 1e5)} bar"
+
+    kind = type(fluid).__name__
+    if kind == "CoolPropLiquid":
+        return f"properties: {fluid.source}, liquid at {pressure(fluid.pressure)}"
+    if kind == "PetroleumFluid":
+        return (f"properties: petroleum-fraction correlations from API gravity {_short(fluid.api)} and Watson K "
+                f"{_short(fluid.watson_k)}, with the two viscosities given")
+    if kind == "TableFluid":
+        lo, hi = (from_si(float(t), "temperature", system) for t in (fluid.t_min, fluid.t_max))
+        return (f"properties: the user's table, {_short(float(lo[0]))} to {_short(float(hi[0]))} "
+                f"{unit_of(lo[1])}")
+    if kind == "ConstantFluid":
+        return "properties: constant values given by the user"
+    return f"properties: {kind}"
+
+
+def revamp_lines(today, revamp, throughput: float = 1.0, system: str = "SI") -> list:
+    """What changes from today's service to the revamp service, side by side, in words: which side's flow was scaled
+    (and by how much), which inlet moved; the sides left as today say so.
+
+    >>> from revamp import Service, Stream
+    >>> from revamp.fluids import constant
+    >>> oil = constant(850, 2200, 2e-3, 0.12, name="diesel")
+    >>> cw = constant(995, 4180, 8e-4, 0.6, name="cooling water")
+    >>> a = Service(shell=Stream(oil, 18.0, 393.15), tube=Stream(cw, 45.0, 303.15))
+    >>> b = Service(shell=Stream(oil, 21.6, 393.15), tube=Stream(cw, 45.0, 305.15))
+    >>> for line in revamp_lines(a, b, 1.2): print(line)
+    throughput × 1.2
+    shell side (diesel): flow × 1.2, 18 → 21.6 kg/s; inlet as today
+    tube side (cooling water): flow as today; inlet 30 → 32 °C
+    """
+    import math
+
+    from ..units import from_si
+    from .labels import unit_of
+
+    def q(v, kind):
+        mag, unit = from_si(float(v), kind, system)
+        return _short(float(mag)), unit_of(unit)
+
+    lines = [f"throughput × {throughput:g}"]
+    for side in ("shell", "tube"):
+        a, b = getattr(today, side), getattr(revamp, side)
+        name = getattr(a.fluid, "name", side)
+        fa, fb, ta, tb = float(a.flow), float(b.flow), float(a.t_in), float(b.t_in)
+        if math.isclose(fa, fb, rel_tol=1e-9):
+            flow = "flow as today"
+        else:
+            (x, unit), (y, _) = q(fa, "mass_flow"), q(fb, "mass_flow")
+            flow = f"flow × {fb / fa:.3g}, {x} → {y} {unit}"
+        if math.isclose(ta, tb, rel_tol=0.0, abs_tol=1e-9):
+            inlet = "inlet as today"
+        else:
+            (x, unit), (y, _) = q(ta, "temperature"), q(tb, "temperature")
+            inlet = f"inlet {x} → {y} {unit}"
+        lines.append(f"{side} side ({name}): {flow}; {inlet}")
+    return lines
+
+
+def case_header_html(case, unit, result=None, system: str = "SI") -> str:
+    """Who the exchanger is and what it serves, as escaped HTML: each side's fluid by the user's own name with the
+    property source on a plain second line, and what the revamp changes on each side (flows scaled, inlets moved).
+
+    ``result`` (the :class:`revamp.studies.ExchangerStudy`) gives the services the study used, e.g. the inlets a
+    train solve gave; without it, the unit file's own services are shown."""
+    from ..units import format_quantity
+
+    def fq(v, kind):
+        return format_quantity(v, kind, system)
+
+    ex = case.exchanger
+    s = getattr(result, "service_today", None) or case.service
+    rev = getattr(result, "service_revamp", None) or case.revamp_service
+    side = lambda st: (f"{getattr(st.fluid, 'name', '')}: {fq(st.flow, 'mass_flow')}, in at "  # noqa: E731
+                       f"{fq(st.t_in, 'temperature')}", fluid_source(st.fluid, system))
+    changes = revamp_lines(s, rev, case.throughput, system)
     rows = [["unit", unit.name], ["exchanger", case.tag], ["description", case.description],
             ["shells (series × parallel)", f"{ex.shells} × {ex.shells_parallel}"],
             ["tubes", f"{ex.tube_count} × {fq(ex.tube_od, 'length')} od, {fq(ex.tube_length, 'length')}, "
                       f"{ex.tube_passes} pass(es)"],
             ["area (outside, all shells)", fq(ex.area_outside, "area")],
-            ["shell side", f"{getattr(s.shell.fluid, 'name', '')}: {fq(s.shell.flow, 'mass_flow')}, "
-                           f"in at {fq(s.shell.t_in, 'temperature')}"],
-            ["tube side", f"{getattr(s.tube.fluid, 'name', '')}: {fq(s.tube.flow, 'mass_flow')}, "
-                          f"in at {fq(s.tube.t_in, 'temperature')}"],
-            ["revamp", f"throughput × {case.throughput:g}"]]
-    return table_html(rows, ["", ""])
+            ["shell side today", side(s.shell)], ["tube side today", side(s.tube)],
+            ["revamp conditions", (changes[0], *changes[1:])]]
+    out = ['<table class="rv-table"><tbody>']
+    for label, cell in rows:
+        if isinstance(cell, tuple):  # a main line and plain secondary lines
+            text = esc(cell[0]) + "".join(f'<br><span class="rv-secondary">{esc(c)}</span>' for c in cell[1:])
+        else:
+            text = esc(cell)
+        out.append(f"<tr><th>{esc(label)}</th><td>{text}</td></tr>")
+    out.append("</tbody></table>")
+    return "".join(out)
 
 
 def unit_table(unit, system: str = "SI"):
@@ -293,10 +394,27 @@ def monitoring_items(result, system: str = "SI") -> list:
         why = result.monitoring_error or "the unit file gives no plant data for this exchanger"
         return [f"No plant-data analysis: {why}."]
     summ = mon.summary
-    rows = {str(k)[len("rows: "):]: v for k, v in summ.items() if str(k).startswith("rows: ")}
-    findings = {str(k): v for k, v in summ.items() if not str(k).startswith("rows: ") and str(k) != "warnings"}
-    fmt = lambda v: f"{v:.4g}" if isinstance(v, float) else str(v)
-    items = [pd.DataFrame({"value": [fmt(v) for v in findings.values()]}, index=list(findings)),
+    rows = {_plain_columns(str(k)[len("rows: "):]): v for k, v in summ.items() if str(k).startswith("rows: ")}
+    findings = {}
+    for k, v in summ.items():
+        k = str(k)
+        if k.startswith("rows: ") or k == "warnings":
+            continue
+        if k == "model fit" and getattr(mon, "trend", None) is not None:
+            v = fit_text(mon.trend, system)
+        elif isinstance(v, float) and (k.endswith("[m2K/W]") or k.endswith("[m2K/W per day]")):
+            # on the resistance charts' axis unit (10⁻⁴ m²·K/W), rates per year: no exponents
+            factor, rf_unit = resistance_axis(system)
+            if k.endswith("per day]"):
+                k, v = k[:k.rindex("[")] + f"[{rf_unit} per year]", v * factor * 365.25
+            else:
+                k, v = k[:k.rindex("[")] + f"[{rf_unit}]", v * factor
+        elif k.endswith(" [-]") and "error" in k and isinstance(v, float):  # a fraction: shown in per cent
+            k, v = k[:-len(" [-]")] + " [%]", 100.0 * v
+        elif isinstance(v, str):
+            v = temperatures_in(v, system)
+        findings[_plain_columns(k)] = v if isinstance(v, (int, float)) and not isinstance(v, bool) else str(v)
+    items = [pd.DataFrame({"value": list(findings.values())}, index=list(findings), dtype=object),
              pd.DataFrame({"rows": [int(v) for v in rows.values()]}, index=list(rows))]
     try:
         from .. import plots_monitoring as pm
@@ -306,8 +424,65 @@ def monitoring_items(result, system: str = "SI") -> list:
         items += [pm.fouling_trend(mon, system), pm.heat_balance(mon), pm.duty_lost(mon, system)]
     warnings = summ.get("warnings") if "warnings" in summ else None
     if warnings:
-        items.append(f"Notes from the analysis: {warnings}")
+        items.append(f"Notes from the analysis: {temperatures_in(str(warnings), system)}")
     return items
+
+
+#: plant-data column identifiers -> the words a reader knows them by (row labels of the plant-data tables)
+_COLUMN_WORDS = {"shell_flow": "shell-side flow", "tube_flow": "tube-side flow",
+                 "shell_t_in": "shell inlet temperature", "shell_t_out": "shell outlet temperature",
+                 "tube_t_in": "tube inlet temperature", "tube_t_out": "tube outlet temperature"}
+_COLUMN_RE = re.compile(r"\b(" + "|".join(_COLUMN_WORDS) + r")\b")
+
+
+def _plain_columns(text: str) -> str:
+    """``"missing tube_flow"`` -> ``"missing tube-side flow"``."""
+    return _COLUMN_RE.sub(lambda m: _COLUMN_WORDS[m.group(1)], text)
+
+
+#: fouling-model parameters: name -> (words, what it is: "rf" a resistance, "rate" per year, or (factor, unit))
+_FIT_PARAMS = {"a": ("Rf at the run start", "rf"), "Rf0": ("Rf at the run start", "rf"),
+               "b": ("fouling rate", "rate"), "Rf_inf": ("asymptotic Rf", "rf"),
+               "tau": ("time constant", (1.0 / 86400.0, "days")),
+               "alpha_ref": ("deposition coefficient at the reference film temperature", "rate"),
+               "E": ("activation energy", (1e-3, "kJ/mol")), "gamma": ("removal coefficient", "rate per Pa")}
+
+
+_YEAR = 365.25 * 86400.0  #: a Julian year [s]
+
+
+def fit_text(fit, system: str = "SI") -> str:
+    """One line on a fitted fouling trend (:class:`revamp.fouling.FoulingFit`) in display units: resistances on the
+    resistance charts' axis unit, rates per year (365.25 days), the time constant in days, each with its standard
+    error.
+
+    >>> from revamp.fouling import FoulingFit
+    >>> fit = FoulingFit("asymptotic", {"Rf_inf": 3e-4, "tau": 60 * 86400.0}, {"Rf_inf": 1e-6, "tau": 86400.0},
+    ...                  r2=0.9, rmse=2e-5, aic=-100.0, n=500, t_end=0.0)
+    >>> print(fit_text(fit))
+    asymptotic: asymptotic Rf = 3.00 ± 0.010 [10⁻⁴ m²·K/W], time constant = 60.0 ± 1.0 [days]; R² = 0.900, RMSE = 0.20 [10⁻⁴ m²·K/W], AIC = -100.0, 500 points
+    """
+    from .labels import format_value, resistance_axis
+
+    factor, rf_unit = resistance_axis(system)
+    parts = []
+    for name, value in fit.params.items():
+        if name not in _FIT_PARAMS:  # a derived parameter (alpha from alpha_ref): not repeated
+            continue
+        words, what = _FIT_PARAMS[name]
+        if what == "rf":
+            f, unit = factor, rf_unit
+        elif what == "rate":
+            f, unit = factor * _YEAR, f"{rf_unit} per year"
+        elif what == "rate per Pa":
+            f, unit = factor * _YEAR, f"{rf_unit} per year per Pa of wall shear"
+        else:
+            f, unit = what
+        se = fit.stderr.get(name, float("nan"))
+        se_text = format_value(float(se) * f, 2)
+        parts.append(f"{words} = {format_value(float(value) * f)} ± {se_text} [{unit}]")
+    return (f"{fit.model}: " + ", ".join(parts) + f"; R² = {fit.r2:.3f}, RMSE = {format_value(fit.rmse * factor, 2)} "
+            f"[{rf_unit}], AIC = {fit.aic:,.1f}, {fit.n:,} points")
 
 
 def rf_figure(mon):
@@ -351,9 +526,10 @@ def study_items(result, system: str = "SI") -> list:
 
     rows = {str(i) for i in study.table.index}
     notes = [n for n in result.notes if n.source in rows]
-    marks, legend = notes_legend(notes)
+    marks, legend = notes_legend(notes, system)
     refused = [n.text for n in result.notes if n.source == "options" and n.severity == "error"]
-    items = [study.basis_text] if study.basis_text else []
+    basis = str(study.basis_text or "").replace(" (duty_cycle_avg)", "")  # the column's words are in the table
+    items = [basis] if basis else []
     items += refused  # an option the unit file check refused: named here, the others are rated
     items += [study_table(study, system, notes, marks)]
     if notes:
@@ -365,7 +541,8 @@ def study_items(result, system: str = "SI") -> list:
     items.append(study_money_table(study))
     if "duty_cycle_avg" in study.table:
         items.append(cycle_text(result.cycle) if result.cycle is not None else
-                     "duty_cycle_avg: the duty averaged over a run between cleanings; value, payback and NPV use it.")
+                     "Duty averaged over the run: the duty averaged over a run between cleanings; value, payback and "
+                     "NPV use it.")
     elif result.cycle_error:
         items.append(f"No cycle-averaged duty (end-of-run duties used for the money): {result.cycle_error}.")
     elif result.monitoring is not None:
@@ -392,7 +569,8 @@ def study_table(study, system: str = "SI", notes=(), marks=None):
     for col, kind in _STUDY_COLUMNS:
         if col in t:
             mag, unit = from_si(t[col].to_numpy(dtype=float), kind, system)
-            out[f"{col} [{unit}]"] = [round(float(v), 3 if abs(v) < 100 else 1) for v in mag]
+            factor, unit = rescale(unit)  # rounded in the unit shown (MW), so a gain of a few W reads 0, not 8.9e-05
+            out[f"{col} [{unit}]"] = [round(float(v) * factor, 3 if abs(v * factor) < 100 else 1) for v in mag]
     if "controlling" in t:
         out["controlling resistance"] = t["controlling"].tolist()
     if notes:
@@ -403,7 +581,8 @@ def study_table(study, system: str = "SI", notes=(), marks=None):
             for n in notes:
                 if n.source == label:
                     by_quantity.setdefault(n.quantity, set()).add(marks[n])
-            column.append("; ".join(f"{q} {' '.join(f'[{m}]' for m in sorted(ms))}" for q, ms in by_quantity.items()))
+            column.append("; ".join(f"{NAMES.get(q, q)} {' '.join(f'[{m}]' for m in sorted(ms))}"  # in words
+                                    for q, ms in by_quantity.items()))
         out["notes"] = column
     return out
 

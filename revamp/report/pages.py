@@ -224,7 +224,7 @@ table.dataframe td{text-align:right}table.dataframe th{text-align:left}
 table.rv-table thead th{white-space:normal;font-weight:600;vertical-align:bottom}
 table.rv-wide{width:100%;font-size:.8rem}table.rv-wide th,table.rv-wide td{padding:.2rem .3rem}
 table.rv-wide th,table.rv-wide td:not(.num){overflow-wrap:anywhere}table.rv-wide td.num{white-space:nowrap}
-.rv-scroll{max-width:100%;overflow-x:auto}.rv-note{color:#555;font-size:.85rem}
+.rv-scroll{max-width:100%;overflow-x:auto}.rv-note{color:#555;font-size:.85rem}.rv-secondary{color:#555;font-size:.85rem}
 @media print{.plotly-graph-div{page-break-inside:avoid}}
 """
 

@@ -9,7 +9,7 @@ import math
 import numpy as np
 
 from ..train import Point, Split
-from .pages import esc, page, table_html
+from .pages import esc, page, table_html, temperatures_in
 
 __all__ = ["train_svg", "train_body", "train_page"]
 
@@ -297,7 +297,7 @@ def train_body(today, study, throughput=None, revamp_factor=1.0, currency="") ->
         out.append(_exchanger_rows(res) + _stream_rows(res) + "<h3>Limits</h3>" + _limit_rows(res))
         if res.warnings:
             out.append("<details><summary>Warnings</summary><ul>" + "".join(
-                f"<li>{esc(w)}</li>" for w in res.warnings) + "</ul></details>")
+                f"<li>{esc(temperatures_in(w))}</li>" for w in res.warnings) + "</ul></details>")  # in °C
         out.append("</section>")
     out.append('<section id="train-options"><h2>Options rated across the train (revamp conditions)</h2>')
     out.append("<p>Each option is judged at the end of its run: its change to the exchanger applied, every side at "

@@ -221,6 +221,86 @@ def _breakdown_traces(points: dict, system: str):
     return labels, {n: [float(p.resistances[n]) * factor for p in points.values()] for n in RESISTANCES}, unit
 
 
+def _nice_step(top: float, ticks: int = 5) -> float:
+    """A tick step of 1, 2, 2.5 or 5 × 10^k giving about ``ticks`` intervals up to ``top`` (common practice)."""
+    import math
+
+    raw = max(top, 1e-300) / ticks
+    mag = 10.0 ** math.floor(math.log10(raw))
+    return next(m * mag for m in (1.0, 2.0, 2.5, 5.0, 10.0) if m * mag >= raw)
+
+
+def _tick(value: float) -> str:
+    """An axis tick: three significant figures, no trailing zeros (10, 2.5, 0.25)."""
+    from .labels import format_value
+
+    text = format_value(value)
+    return text.rstrip("0").rstrip(".") if "." in text and "e" not in text else text
+
+
+def breakdown_svg(labels, ys: dict, unit: str, title: str = "Where the resistance to heat transfer lies (what if)",
+                  width: int = 720, height: int = 420) -> str:
+    """The what-if resistance chart as one inline SVG: a stacked bar per case, the five resistances in their colours
+    (:data:`revamp.report.labels.RESISTANCE_COLOURS`), a labelled value axis and a legend.
+
+    Drawn as text so that a slider move repaints it in the same step as the table (a plotly figure re-lays itself
+    out on every update: 100-300 ms in the browser); the size is fixed, so the page never jumps.
+
+    Parameters
+    ----------
+    labels : list of str
+        One case per bar.
+    ys : dict
+        Resistance name -> one value per case [``unit``], stacked in the dict's order from the bottom.
+    unit : str
+        The axis unit (e.g. ``"10⁻⁴ m²·K/W"``).
+    """
+    from .labels import RESISTANCE_COLOURS, format_value
+
+    left, right, top, bottom = 70, 20, 40, 95
+    pw, ph = width - left - right, height - top - bottom
+    totals = [sum(float(ys[n][i]) for n in ys) for i in range(len(labels))]
+    peak = max([t for t in totals if t == t] + [0.0])
+    step = _nice_step(peak if peak > 0 else 1.0)
+    y_max = step * max(1, -(-peak // step)) if peak > 0 else step * 5
+    sy = ph / y_max
+    out = [f'<svg class="rv-whatif-chart" xmlns="http://www.w3.org/2000/svg" width="{width}" height="{height}" '
+           f'viewBox="0 0 {width} {height}" role="img" style="font:12px sans-serif">',
+           f'<text x="{width / 2:.0f}" y="20" text-anchor="middle" style="font-size:14px">{esc(title)}</text>']
+    k = 0
+    while k * step <= y_max * (1 + 1e-9):
+        y = top + ph - k * step * sy
+        out.append(f'<line x1="{left}" x2="{left + pw}" y1="{y:.1f}" y2="{y:.1f}" stroke="#e5e5e5"/>'
+                   f'<text x="{left - 6}" y="{y + 4:.1f}" text-anchor="end">{esc(_tick(k * step))}</text>')
+        k += 1
+    out.append(f'<text transform="translate(16 {top + ph / 2:.0f}) rotate(-90)" text-anchor="middle">'
+               f'resistance [{esc(unit)}, outside area]</text>')
+    slot = pw / max(len(labels), 1)
+    bar = min(120.0, 0.6 * slot)
+    for i, label in enumerate(labels):
+        x, base = left + slot * (i + 0.5) - bar / 2, top + ph
+        for name, values in ys.items():
+            v = float(values[i])
+            if not v > 0:
+                continue
+            h = v * sy
+            base -= h
+            out.append(f'<rect x="{x:.1f}" y="{base:.1f}" width="{bar:.1f}" height="{h:.1f}" '
+                       f'fill="{RESISTANCE_COLOURS.get(name, "#888888")}"><title>{esc(name)}: {esc(format_value(v))} '
+                       f'{esc(unit)}</title></rect>')
+        out.append(f'<text x="{x + bar / 2:.1f}" y="{base - 4:.1f}" text-anchor="middle">'
+                   f'{esc(format_value(totals[i]))}</text>'
+                   f'<text x="{x + bar / 2:.1f}" y="{top + ph + 16}" text-anchor="middle">{esc(label)}</text>')
+    out.append(f'<line x1="{left}" x2="{left + pw}" y1="{top + ph}" y2="{top + ph}" stroke="#444"/>')
+    lx, ly = left, height - 40
+    for name in ys:
+        out.append(f'<rect x="{lx}" y="{ly}" width="12" height="12" fill="{RESISTANCE_COLOURS.get(name, "#888888")}"/>'
+                   f'<text x="{lx + 16}" y="{ly + 10}">{esc(name)}</text>')
+        lx += 22 + 7 * len(name)
+    out.append("</svg>")
+    return "".join(out)
+
+
 def _live_hint():
     """A plain hint shown where the controls are not live (a saved notebook reopened: 'model not found'); the
     controls, once drawn by a running kernel, carry a style that hides it."""
@@ -257,11 +337,10 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03, idle: float
 
     import ipywidgets as w
     import numpy as np
-    import plotly.graph_objects as go
     from IPython.display import display
 
     from ..units import from_si
-    from .labels import RESISTANCE_COLOURS, unit_of
+    from .labels import unit_of
 
     ex = case.exchanger
     f_s, f_t = float(case.service.fouling_shell), float(case.service.fouling_tube)
@@ -301,16 +380,10 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03, idle: float
         return engine.cases(c["throughput"], c["fouling_shell"], c["fouling_tube"], c["twist_ratio"], c["shells"],
                             along=along)
 
-    points = current()
-    labels, ys, r_unit = _breakdown_traces(points, system)
-    fig = go.Figure([go.Bar(name=n, x=labels, y=y, marker_color=RESISTANCE_COLOURS[n]) for n, y in ys.items()])
-    fig.update_layout(barmode="stack", title="Where the resistance to heat transfer lies (what if)", height=420,
-                      yaxis_title=f"resistance [{r_unit}, outside area]", margin={"t": 50},
-                      legend={"orientation": "h", "y": -0.2}, template="simple_white")
-    live = _figure_widget(fig)
-    plot = live if live is not None else w.Output(layout=w.Layout(min_height="440px"))
+    current()  # the first position rated before the controls show
+    plot = w.HTML(layout=w.Layout(height="440px", overflow="hidden"))  # fixed height: the page never jumps
     ratio = float(ex.tube_od) / float(ex.tube_id)
-    state = {"handle": None, "along": "throughput"}
+    state = {"handle": None, "along": "throughput", "last": 0.0}
 
     def redraw():
         start = time.perf_counter()
@@ -321,20 +394,8 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03, idle: float
             status.value = f"<p class='rv-status-failed'>{esc(exc)}</p>"
             return
         table.value = what_if_table_html(case, pts, system, conv)
-        labels, ys, _ = _breakdown_traces(pts, system)
-        if live is not None:  # one update message; x only when the cases changed (less for plotly.js to redo)
-            same_x = list(live.data[0].x) == labels
-            with live.batch_update():
-                for tr in live.data:
-                    if not same_x:
-                        tr.x = labels
-                    tr.y = ys[tr.name]
-        else:  # no anywidget: redraw the figure in an output of fixed height (the page does not jump)
-            for tr in fig.data:
-                tr.x, tr.y = labels, ys[tr.name]
-            with plot:
-                plot.clear_output(wait=True)
-                fig.show()
+        labels, ys, r_unit = _breakdown_traces(pts, system)
+        plot.value = breakdown_svg(labels, ys, r_unit)  # the chart in the same step as the table: one paint
         ft = controls["fouling_tube"].value
         basis.value = (f"<small>Tube fouling {shown(ft):.3g} {esc(f_label)} on the inside area is "
                        f"{shown(ft * ratio):.3g} on the outside area of the chart (× do/di = {ratio:.3f}).</small>")
@@ -370,12 +431,22 @@ def what_if_widget(case, system: str = "SI", debounce: float = 0.03, idle: float
         except RuntimeError:  # no event loop (called directly): at once
             redraw()
             return
-        if state["handle"] is not None:
-            state["handle"].cancel()
         if state.get("prefetch") is not None:  # the user is moving: no background rating now
             state["prefetch"].cancel()
             state["prefetch"] = None
-        state["handle"] = loop.call_later(debounce, redraw)
+        now = loop.time()
+        if state["handle"] is None and now - state["last"] >= debounce:  # a move after a pause: at once
+            state["last"] = now
+            redraw()
+            return
+        if state["handle"] is not None:  # quick moves: once, at the last position, ``debounce`` after the previous
+            state["handle"].cancel()
+
+        def trailing():
+            state["last"] = loop.time()
+            redraw()
+
+        state["handle"] = loop.call_later(max(debounce - (now - state["last"]), 0.0), trailing)
 
     for c in controls.values():
         c.observe(changed, names="value")

@@ -240,7 +240,8 @@ def _build_fluid(spec: dict):
     from .. import fluids
 
     params = {k: v for k, v in spec.items() if k != "kind"}
-    if spec["kind"] == "pure":
+    if spec["kind"] == "pure":  # the user's own name is the label; the substance is CoolProp's name
+        params["label"] = params.pop("name", None)
         params["name"] = params.pop("fluid")
     elif spec["kind"] == "petroleum":
         params["viscosity"] = [tuple(p) for p in params["viscosity"]]
@@ -291,6 +292,10 @@ def _fluid_at_inlet(problems: list, where: str, fluid, t_in):
     """Evaluate the fluid at its inlet; a provider that fails other than by InputError (e.g. a petroleum
     correlation overflowing at 1 K), or an inlet far outside the provider's range (:data:`FLUID_RANGE_MARGIN`), is
     reported as a temperature outside the fluid's range. Nearer the range the rating runs and warns."""
+    screen = getattr(fluid, "screen", None)
+    known = screen() if screen is not None else None
+    if known is not None and not getattr(fluid, "loaded", True):  # water: judged without importing CoolProp
+        return _screened_inlet(problems, where, fluid, t_in, *known)
     lo, hi = getattr(fluid, "t_min", None), getattr(fluid, "t_max", None)
     if lo is not None and hi is not None and not (lo - FLUID_RANGE_MARGIN <= t_in <= hi + FLUID_RANGE_MARGIN):
         problems.append(Problem(where, f"{t_in - 273.15:.6g} degC",
@@ -307,6 +312,21 @@ def _fluid_at_inlet(problems: list, where: str, fluid, t_in):
         span = f" ({lo - 273.15:.0f} to {hi - 273.15:.0f} degC)" if lo is not None and hi is not None else ""
         problems.append(Problem(where, f"{t_in:.6g} K", f"must be a temperature the fluid's property model covers"
                                                         f"{span}; it fails there ({exc.__class__.__name__})"))
+    return None
+
+
+def _screened_inlet(problems: list, where: str, fluid, t_in, lo: float, hi: float):
+    """The inlet of a liquid whose range is known without its property library (water: triple point and IF97
+    saturation): refused as its ``props`` would refuse it (at or above saturation, below the triple point); True
+    when it is inside."""
+    if lo <= t_in < hi:
+        return True
+    if t_in >= hi:
+        allowed = (f"below saturation {hi:.2f} K at {fluid.pressure:.6g} Pa (the {fluid.fluid} provider is liquid "
+                   "only)")
+    else:
+        allowed = f"at least {lo:.2f} K (lower limit of the {fluid.fluid} liquid table)"
+    problems.append(Problem(where, f"{t_in:.6g} K", f"must be {allowed}"))
     return None
 
 
