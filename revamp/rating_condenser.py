@@ -18,7 +18,9 @@ increments of heat released. For each increment it takes
 The areas are summed along the path until the exchanger's area is used up: that point gives the duty, the outlet
 temperature and quality of the condensing stream and the coolant outlet. The two-phase frictional pressure drop is
 integrated along the path (:mod:`revamp.correlations.two_phase`, the default method stated there), and the
-saturation-temperature drop it causes is fed back into the curve (it matters at vacuum).
+saturation-temperature drop it causes is fed back into the curve (it matters at vacuum). On the shell side the
+two-phase crossflow drop is Chisholm's form of the Lockhart-Martinelli multiplier with C = 8 for tube banks
+(Ishihara, Palen & Taborek 1980) on the shell method's drop of each phase flowing alone (:func:`shell_two_phase_dp`).
 
 Flow arrangement (stated, screening level): in a shell-and-tube exchanger the coolant meets the increments in
 counterflow (the coolant leaves where the vapour enters), the usual assumption of a zone analysis (Bell & Ghaly
@@ -31,8 +33,8 @@ References
 ----------
 Bell, K. J., Ghaly, M. A. (1973). An approximate generalized design method for multicomponent/partial condensers.
 *AIChE Symp. Ser.* 69(131):72-79.
-Kern, D. Q. (1950). *Process Heat Transfer*, McGraw-Hill, ch. 12 (condensation of single vapours; the shell-side
-pressure drop of a condensing vapour).
+Ishihara, K., Palen, J. W., Taborek, J. (1980). Critical review of correlations for predicting two-phase flow
+pressure drop across tube banks. *Heat Transfer Eng.* 1(3):23-32 (C = 8 in Chisholm's form; from memory).
 Serth, R. W., Lestina, T. G. (2014). *Process Heat Transfer: Principles and Applications*, 2nd ed., Academic Press,
 ch. 11 (condensers: zone and incremental analysis).
 Butterworth, D. (1983). Film condensation of pure vapor. *Heat Exchanger Design Handbook* §2.6.2, Hemisphere.
@@ -55,7 +57,7 @@ from .rating_result import ResultFrames
 from .service import Service, Stream
 
 __all__ = ["CondenserRating", "ZONES", "condensing_pressure_for", "CondensingPressure", "is_condensing",
-           "rate_condenser"]
+           "rate_condenser", "shell_two_phase_dp"]
 
 #: The zones along a condensing stream's path, in order.
 ZONES = ("desuperheating", "condensing", "subcooling")
@@ -292,8 +294,10 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     Coolant properties at each increment's local temperature; the condensing film and the wall iterate locally
     (Nusselt's film coefficient depends on the film temperature difference). The coolant's heat balance uses its
     heat capacity at the mean of its inlet and outlet, so the balance between the streams is exact at that value.
-    The shell-side condensing pressure drop is Kern's (1950) rule, half the pressure drop of the inlet vapour at
-    the whole flow (screening); inside tubes the two-phase frictional gradient of
+    The shell-side condensing pressure drop is integrated increment by increment: each increment's share of the
+    bundle (its area over the path's) at the two-phase drop of :func:`shell_two_phase_dp` (Chisholm's form with
+    C = 8 for tube banks, Ishihara, Palen & Taborek 1980, on the shell method's drops of each phase alone; the
+    vapour alone in the desuperheating zone, the condensate alone in the subcooling zone); inside tubes the two-phase frictional gradient of
     :mod:`revamp.correlations.two_phase` (its default method) is integrated along the path. The pressure drop
     lowers the saturation temperature along the path (pure fluid: exact at the outlet pressure; a curve shifted as
     :meth:`CondensingFluid.at_pressure` states), distributed along the path in proportion to the accumulated
@@ -302,7 +306,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
 
     References
     ----------
-    Bell & Ghaly (1973); Kern (1950); Serth & Lestina (2014), ch. 11 (see the module).
+    Bell & Ghaly (1973); Ishihara, Palen & Taborek (1980); Serth & Lestina (2014), ch. 11 (see the module).
     """
     from .exchanger import model_of
 
@@ -512,7 +516,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                    R=[r.reshape(shp) for r in R], warnings=warns)
         for key, v in (("dA", dA), ("dQ", dQ), ("U", U), ("x", xm), ("h_c", h_c), ("h_k", h_k), ("G", G),
                        ("rho_l", rho_l), ("rho_v", rho_v), ("mu_l", mu_l), ("mu_v", mu_v), ("k_l", k_l),
-                       ("cp_l", cp_l), ("h_film", h_f),
+                       ("cp_l", cp_l), ("h_film", h_f), ("cp_v", pv.heat_capacity), ("k_v", pv.conductivity),
                        ("Z", Z), ("dtf", dtf), ("u_v", u_v)):
             out[key] = np.asarray(v).reshape(shp)
         return out
@@ -591,14 +595,17 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
     """The condensing side's pressure drop (stored per increment in ``d``), the saturation-temperature drop over
     the condensing zone and its profile along the path (a function of s, for the next pass)."""
     dp_inc, length = _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h)
-    if tube_cond:
-        dp_total = dp_inc.reshape(n, -1).sum(axis=1)
-    else:  # Kern's rule for the shell side (see rate_condenser's Notes), spread in proportion to the area
-        pv_in = curve.vapour.props(np.full(n, t_h_in))
-        dp_total = 0.5 * np.asarray(model.film(c_side, m_h, pv_in).dp, dtype=float) * np.ones(n)
+    if not tube_cond:  # shell side: each increment's share of the bundle at its local two-phase drop
         dA = np.where(np.isfinite(d["dA"]), d["dA"], 0.0)
         tot = dA.reshape(n, -1).sum(axis=1)
-        dp_inc = dp_total[:, None, None] * dA / np.where(tot > 0, tot, 1.0)[:, None, None]
+        zone = np.broadcast_to(np.arange(3)[None, :, None], dA.shape)
+        x = np.where(zone == 0, 1.0, np.where(zone == 2, 0.0, d["x"]))
+        m = np.broadcast_to(m_h[:, None, None], dA.shape)
+        liquid = Props(d["rho_l"], d["cp_l"], d["mu_l"], d["k_l"])
+        vapour = Props(d["rho_v"], d["cp_v"], d["mu_v"], d["k_v"])
+        whole = shell_two_phase_dp(model, c_side, m, x, liquid, vapour)
+        dp_inc = whole * dA / np.where(tot > 0, tot, 1.0)[:, None, None]
+    dp_total = dp_inc.reshape(n, -1).sum(axis=1)
     d["dp"], d["length"] = dp_inc, length
     cum = np.cumsum(dp_inc.reshape(n, -1), axis=1)
     zone = np.broadcast_to(np.arange(3)[None, :, None], dp_inc.shape).reshape(n, -1)
@@ -616,6 +623,45 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
         return np.where((s > s1), out, 0.0) if s.ndim else out
 
     return dp_total, dt_drop, dtsat
+
+
+def shell_two_phase_dp(model, side, m, x, liquid, vapour):
+    """Shell-side pressure drop [Pa] of the whole bundle path for a two-phase flow at vapour fraction ``x``.
+
+    The shell method's single-phase drops (the model's ``film(side, ...).dp``: Bell-Delaware or Kern, with the
+    shell type's adaptation, nozzles where modelled, all shells in series) of the liquid part ``(1 − x) m`` and of
+    the vapour part ``x m``, each flowing alone, combined by
+    :func:`revamp.correlations.two_phase.dp_crossflow_bundle` (Chisholm's form with C = 8 for tube banks, Ishihara,
+    Palen & Taborek 1980). x = 0 gives the liquid drop of the whole flow, x = 1 the vapour drop.
+
+    Parameters
+    ----------
+    model : ExchangerModel
+        A shell-and-tube model (:func:`revamp.exchanger.model_of`).
+    side : str
+        The shell side's name.
+    m : float or array_like
+        Mass flow of one parallel unit [kg/s].
+    x : float or array_like
+        Vapour mass fraction [-], 0 to 1.
+    liquid, vapour : Props
+        Properties of the liquid and of the vapour (arrays broadcasting with ``m`` and ``x``).
+
+    Returns
+    -------
+    numpy.ndarray
+        Pressure drop [Pa] (frictional and form; gravity and momentum not included).
+    """
+    m, x = np.broadcast_arrays(np.asarray(m, dtype=float), np.clip(np.asarray(x, dtype=float), 0.0, 1.0))
+    floor = 1e-12 * np.maximum(m, 1e-300)
+
+    def alone(flow, props):
+        f = np.maximum(flow, floor)
+        dp = np.asarray(_model_film(model, side, f, props, False).dp, dtype=float)
+        return np.where(flow > floor, dp, 0.0)
+
+    return np.asarray(two_phase.dp_crossflow_bundle(alone((1.0 - x) * m, liquid), alone(x * m, vapour)),
+                      dtype=float)
 
 
 def _film_warnings(tube_cond, used, G, x, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf, u_v):
@@ -688,7 +734,7 @@ def _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h):
     Inside tubes: the two-phase gradient of :mod:`revamp.correlations.two_phase` (default method) at the
     increment's vapour fraction and mass flux over the increment's length (the area it needs over the area per metre
     of path); single-phase vapour (x = 1) and condensate (x = 0) in the first and last zones, where the two-phase
-    forms reduce to the single-phase gradients. On the shell side the lengths only (the caller applies Kern's rule).
+    forms reduce to the single-phase gradients. On the shell side the lengths only (the caller applies :func:`shell_two_phase_dp`).
     """
     dA = d["dA"]
     length = np.where(np.isfinite(dA), dA, 0.0) / area_per_length

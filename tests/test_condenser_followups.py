@@ -66,3 +66,112 @@ def test_nusselt_film_warning_reads_below():
     # a thick film: film Re far above 1800 (wavy-laminar), outside Nusselt's laminar range
     res = cond.shell_condensation(600.0, 5.0, 0.1, 1.5e-4, 3.0e5, 0.025, 60.0, n_rows=40.0)
     assert res.warnings and "below 1800" in res.warnings[0] and "inf" not in res.warnings[0]
+
+
+# ------------------------------------------------------------------------- shell-side two-phase pressure drop
+from revamp.correlations import two_phase  # noqa: E402
+from revamp.exchanger import model_of  # noqa: E402
+from revamp.fluids.base import Props  # noqa: E402
+from revamp.rating_condenser import shell_two_phase_dp  # noqa: E402
+
+HEXANE = rv.fluids.pure("n-Hexane", 1.5e5)
+
+
+def shell_service(flow=4.0, water=60.0, t_water="30 degC"):
+    return rv.Service(shell=rv.Stream(HEXANE, flow, quality=1.0), tube=rv.Stream(WATER, water, t_water))
+
+
+@pytest.fixture(scope="module")
+def shell_rating():
+    return rv.rate(exchanger(), shell_service())
+
+
+def _lm_pipe_phase(m, rho, mu, D):
+    """Single-phase pipe drop per metre with the friction factors of Lockhart & Martinelli's original (turbulent:
+    0.184 Re^-0.2, as fluids.two_phase.Lockhart_Martinelli uses them)."""
+    A = np.pi * D * D / 4.0
+    v = m / (rho * A)
+    re = rho * v * D / mu
+    return 0.184 * re ** -0.2 / D * 0.5 * rho * v * v
+
+
+def test_bundle_form_is_chisholms_lockhart_martinelli_at_the_engine_states(shell_rating):
+    """The combination Δp_l + C (Δp_l Δp_v)^½ + Δp_v is Lockhart & Martinelli's φl² = 1 + C/X + 1/X² (Chisholm
+    1967): with the pipe's C = 20 (both phases turbulent) it must equal fluids.two_phase.Lockhart_Martinelli at the
+    engine's own phase properties and vapour fractions (a 50 mm pipe at 2 kg/s, so both phases are turbulent)."""
+    inc = shell_rating.increments
+    inc = inc[(inc["zone"] == "condensing") & (inc["x"] > 0.05) & (inc["x"] < 0.95)]
+    assert len(inc) > 5
+    D, m = 0.05, 2.0
+    for row in inc.itertuples():
+        ref = two_phase_ref.Lockhart_Martinelli(m=m, x=row.x, rhol=row.rho_l, rhog=row.rho_v, mul=row.mu_l,
+                                                mug=row.mu_v, D=D, L=1.0)   # fluids (Chisholm's form, C = 20)
+        dp_l = _lm_pipe_phase((1 - row.x) * m, row.rho_l, row.mu_l, D)
+        dp_v = _lm_pipe_phase(row.x * m, row.rho_v, row.mu_v, D)
+        assert two_phase.dp_crossflow_bundle(dp_l, dp_v, 20.0) == pytest.approx(ref, rel=1e-9)
+
+
+def test_bundle_c_is_ishiharas():
+    # Ishihara, Palen & Taborek (1980): C = 8 for two-phase crossflow over tube banks (from memory)
+    assert two_phase.C_CROSSFLOW_BUNDLE == 8.0
+
+
+@settings(max_examples=30, deadline=None)
+@given(dp_l=st.floats(1.0, 1e5), dp_v=st.floats(0.0, 1e5), more=st.floats(1.01, 10.0))
+def test_bundle_form_rises_with_the_vapour_drop(dp_l, dp_v, more):
+    # physical law: at the same liquid flow, more vapour never lowers the drop; never below the phases' sum
+    a = two_phase.dp_crossflow_bundle(dp_l, dp_v)
+    b = two_phase.dp_crossflow_bundle(dp_l, dp_v * more + 1.0)
+    assert b > a >= dp_l + dp_v - 1e-9
+
+
+def _sat_props(curve):
+    s = curve.saturation(0.0)
+    return s.liquid, s.vapour
+
+
+def test_shell_two_phase_ends_are_the_single_phase_drops():
+    """x = 0: the liquid drop of the whole flow; x = 1: the vapour drop (the form's ends, Chisholm 1967); both by
+    the exchanger's own shell method."""
+    model = model_of(exchanger())
+    liquid, vapour = _sat_props(rv.fluids.condensing(HEXANE))
+    dp = shell_two_phase_dp(model, "shell", 4.0, np.array([0.0, 1.0]), liquid, vapour)
+    assert dp[0] == pytest.approx(float(model.film("shell", 4.0, liquid).dp), rel=1e-9)
+    assert dp[1] == pytest.approx(float(model.film("shell", 4.0, vapour).dp), rel=1e-9)
+
+
+@settings(max_examples=10, deadline=None)
+@given(m_l=st.floats(0.2, 5.0), m_v=st.floats(0.05, 3.0), more=st.floats(1.05, 3.0))
+def test_shell_two_phase_rises_with_vapour_flow(m_l, m_v, more):
+    # physical law: adding vapour at the same liquid flow raises the shell-side drop
+    model = model_of(exchanger())
+    liquid, vapour = _sat_props(rv.fluids.condensing(HEXANE))
+
+    def dp(mv):
+        m = m_l + mv
+        return float(shell_two_phase_dp(model, "shell", m, mv / m, liquid, vapour))
+
+    assert dp(m_v * more) > dp(m_v)
+
+
+def test_shell_dp_is_the_sum_over_the_increments(shell_rating):
+    """The rating's shell-side drop is the sum of the increments' drops, each its share of the bundle (area over the
+    path's area) at the local two-phase drop (the integration the engine states)."""
+    r = shell_rating
+    inc = r.increments
+    assert float(r.dp_shell) == pytest.approx(float(inc["dp"].sum()), rel=1e-9)
+    model = model_of(r.exchanger)
+    liquid = Props(inc["rho_l"].to_numpy(), inc["cp_l"].to_numpy(), inc["mu_l"].to_numpy(), inc["k_l"].to_numpy())
+    curve = rv.fluids.condensing(HEXANE)
+    sat_v = curve.saturation(0.0).vapour  # a pure fluid: one saturated vapour
+    x = np.where(inc["zone"] == "subcooling", 0.0, inc["x"].to_numpy())
+    whole = shell_two_phase_dp(model, "shell", 4.0, x, liquid, sat_v)
+    share = inc["area"].to_numpy() / inc["area"].sum()
+    assert float(r.dp_shell) == pytest.approx(float((whole * share).sum()), rel=1e-6)
+
+
+def test_shell_dp_rises_with_the_vapour_load():
+    # physical law: more vapour through the same shell, a larger drop (and a larger saturation drop)
+    r = rv.rate(exchanger(), shell_service(flow=np.array([2.0, 4.0, 6.0])))
+    assert np.all(np.diff(r.dp_shell) > 0)
+    assert np.all(np.diff(r.dt_sat_drop) > 0)
