@@ -24,13 +24,17 @@ two-phase crossflow drop is Chisholm's form of the Lockhart-Martinelli multiplie
 
 Flow arrangement (stated, screening level): in a shell-and-tube exchanger the coolant meets the increments in
 counterflow (the coolant leaves where the vapour enters), the usual assumption of a zone analysis (Bell & Ghaly
-1973; Serth & Lestina 2014, ch. 11). Where the condensing temperature is constant (a pure fluid) this is exact for
-any arrangement; where it changes (desuperheating, subcooling, a mixture's glide) multi-pass coolant makes it
-optimistic, and the rating says so. In an air cooler every increment meets air at the ambient temperature (air in
-crossflow, unmixed across the bundle), which is exact for isothermal condensation with a uniform coefficient.
+1973; Serth & Lestina 2014, ch. 11), and each zone's area is then divided by the LMTD correction F of the zone's
+terminal temperatures for 1-2N shells (:func:`zone_F`, Bowman, Mueller & Nagle 1940): F = 1 for a pure fluid's
+isothermal condensing zone, below 1 for the desuperheating and subcooling zones and a mixture's glide. J and X
+shells have no closed-form F here and stay in counterflow, which the rating says is optimistic where the condensing
+temperature changes. In an air cooler every increment meets air at the ambient temperature (air in crossflow,
+unmixed across the bundle), which is exact for isothermal condensation with a uniform coefficient.
 
 References
 ----------
+Bowman, R. A., Mueller, A. C., Nagle, W. M. (1940). Mean temperature difference in design. *Trans. ASME*
+62:283-294.
 Bell, K. J., Ghaly, M. A. (1973). An approximate generalized design method for multicomponent/partial condensers.
 *AIChE Symp. Ser.* 69(131):72-79.
 Ishihara, K., Palen, J. W., Taborek, J. (1980). Critical review of correlations for predicting two-phase flow
@@ -57,7 +61,7 @@ from .rating_result import ResultFrames
 from .service import Service, Stream
 
 __all__ = ["CondenserRating", "ZONES", "condensing_pressure_for", "CondensingPressure", "is_condensing",
-           "rate_condenser", "shell_two_phase_dp"]
+           "rate_condenser", "shell_two_phase_dp", "zone_F"]
 
 #: The zones along a condensing stream's path, in order.
 ZONES = ("desuperheating", "condensing", "subcooling")
@@ -120,7 +124,8 @@ class CondenserRating(ResultFrames):
     area : the exchanger's area (the basis of U) [m²]
     zones : DataFrame, one row per zone (and case): ``case``, ``zone``, ``duty`` [W], ``area`` [m²] (whole exchanger),
         ``area_share`` [-], ``U`` [W/m²K] (area-weighted within the zone), ``t_in``/``t_out`` of the condensing
-        stream and ``t_coolant_in``/``t_coolant_out`` [K], ``x_in``/``x_out`` [-], ``dp`` [Pa]
+        stream and ``t_coolant_in``/``t_coolant_out`` [K], ``x_in``/``x_out`` [-], ``dp`` [Pa], ``F`` [-] (the
+        zone's tube-pass correction, :func:`zone_F`; 1 where none applies)
     increments : DataFrame, one row per increment: the local state (``x``, ``T``, ``T_coolant``, ``h_condensing``,
         ``h_coolant``, ``U``, ``dT``, ``duty`` and ``area`` (whole exchanger), ``length`` (along one tube path),
         ``dp``, ``G``, the phase properties) for checks and plots
@@ -405,6 +410,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
 
     k = increments
     frac = np.arange(k + 1) / k
+    arr_name, arr_units = (None, 1) if air else tuple(getattr(model, "arrangement", ("counterflow", 1)))
+    pass_corrected = arr_name == "E"  # 1-2N shells (TEMA E with even tube passes; F shells with 4+ passes)
     q_in = _q_in(curve, x_in)
 
     def evaluate(s_out, dtsat, cp_c, detail=False):
@@ -501,6 +508,12 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
             with np.errstate(divide="ignore", invalid="ignore"):
                 dA = np.where(lm > 0, dQ / (U * lm), np.inf)
         dA = np.where(dQ > 0, dA, 0.0)
+        F = np.ones(Th.shape[:2])
+        if pass_corrected:  # each zone's area by the F factor of its terminal temperatures (1-2N, shells in series)
+            F = zone_F(Th, Tc, arr_units)
+            with np.errstate(divide="ignore"):
+                dA = (dA.reshape(shp) / np.where(np.isfinite(F), F, 0.0)[:, :, None]).reshape(N)
+            dA = np.where(dQ > 0, dA, 0.0)
         A = dA.reshape(shp).sum(axis=(1, 2))
         if not detail:
             return A
@@ -519,6 +532,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                        ("cp_l", cp_l), ("h_film", h_f), ("cp_v", pv.heat_capacity), ("k_v", pv.conductivity),
                        ("Z", Z), ("dtf", dtf), ("u_v", u_v)):
             out[key] = np.asarray(v).reshape(shp)
+        out["F"] = F
         return out
 
     def solve(dtsat, cp_c, guess=None):
@@ -623,6 +637,51 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
         return np.where((s > s1), out, 0.0) if s.ndim else out
 
     return dp_total, dt_drop, dtsat
+
+
+def zone_F(Th, Tc, shells=1):
+    """LMTD correction F of each zone of the path for 1-2N shells in series [-].
+
+    Each zone (desuperheating, condensing, subcooling) is taken as one exchanger between its terminal temperatures:
+    the condensing stream from ``Th[..., 0]`` to ``Th[..., -1]``, the coolant from ``Tc[..., -1]`` (in) to
+    ``Tc[..., 0]`` (out); R = (Th_in - Th_out)/(Tc_out - Tc_in), P = (Tc_out - Tc_in)/(Th_in - Tc_in) and
+    F = :func:`revamp.thermal.F_series` (Bowman, Mueller & Nagle 1940; N shells in overall counterflow). An
+    isothermal zone (a pure fluid condensing) has R = 0 and F = 1 exactly; a zone without duty F = 1; NaN where no
+    1-2N train reaches the zone's temperatures (a temperature cross: the zone cannot be done in that arrangement).
+
+    Parameters
+    ----------
+    Th, Tc : numpy.ndarray
+        Node temperatures of the condensing stream and the coolant [K], shape ``(cases, zones, nodes)``.
+    shells : int
+        1-2N shells in series.
+
+    Returns
+    -------
+    numpy.ndarray
+        F of shape ``(cases, zones)``.
+
+    References
+    ----------
+    Bowman, R. A., Mueller, A. C., Nagle, W. M. (1940). Mean temperature difference in design. Trans. ASME 62,
+    283-294; Serth & Lestina (2014), ch. 11 (the zone method).
+    """
+    th_in, th_out, tc_in, tc_out = Th[..., 0], Th[..., -1], Tc[..., -1], Tc[..., 0]
+    rise = tc_out - tc_in
+    finite = np.isfinite(th_in) & np.isfinite(th_out) & np.isfinite(tc_in) & np.isfinite(tc_out)
+    duty = finite & (rise > 0) & (th_in > tc_in)  # (no finite temperatures: no correction; the area is NaN anyway)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        R = np.where(duty, np.maximum(th_in - th_out, 0.0) / np.where(duty, rise, 1.0), 0.0)
+        P = np.where(duty, rise / np.where(duty, th_in - tc_in, 1.0), 0.0)
+    # a coolant that barely warms (P -> 0, R -> infinity) is isothermal in the limit: F -> 1
+    duty = duty & np.isfinite(R) & (P > 1e-9)
+    # the condensing stream cooled down to the coolant inlet (P R >= 1, or P >= 1): no finite exchanger does it
+    cross = duty & ((P * R >= 1.0) | (P >= 1.0))
+    ok = duty & ~cross
+    F = np.asarray(thermal.F_series(np.where(ok, R, 0.0), np.where(ok, P, 0.0), int(shells)),
+                   dtype=float) * np.ones(R.shape)
+    F = np.where(cross, np.nan, np.where(ok, F, 1.0))
+    return np.where(duty & (R == 0.0) & np.isfinite(F), 1.0, F)
 
 
 def shell_two_phase_dp(model, side, m, x, liquid, vapour):
@@ -781,7 +840,7 @@ def _zone_frames(d, n, shape, c_side, k_side):
     with np.errstate(invalid="ignore", divide="ignore"):
         rows = _zone_rows(dA, dQ, U, Th, Tc, d, n, area_tot)
     zones = pd.DataFrame(rows, columns=["case", "zone", "duty", "area", "area_share", "U", "t_in", "t_out",
-                                        "t_coolant_in", "t_coolant_out", "x_in", "x_out", "dp"])
+                                        "t_coolant_in", "t_coolant_out", "x_in", "x_out", "dp", "F"])
     return zones, inc
 
 
@@ -798,7 +857,8 @@ def _zone_rows(dA, dQ, U, Th, Tc, d, n, area_tot):
                              U=float((U[i, z] * dA[i, z]).sum() / a) if a > 0 else np.nan,
                              t_in=float(Th[i, z, 0]), t_out=float(Th[i, z, -1]), t_coolant_in=float(Tc[i, z, -1]),
                              t_coolant_out=float(Tc[i, z, 0]), x_in=float(x_nodes[i, z, 0]),
-                             x_out=float(x_nodes[i, z, -1]), dp=float(d["dp"][i, z].sum())))
+                             x_out=float(x_nodes[i, z, -1]), dp=float(d["dp"][i, z].sum()),
+                             F=float(d["F"][i, z])))
     return rows
 
 
@@ -840,11 +900,12 @@ def _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, c
         frame["duty"] *= n_par
         frame["area"] *= n_par
     warnings = list(warnings) + list(d["warnings"])
-    if not air and float(getattr(exchanger, "tube_passes", 1)) > 1 and (
+    arr_name = None if air else tuple(getattr(model, "arrangement", ("counterflow", 1)))[0]
+    if not air and arr_name not in ("counterflow", "E") and (
             s1 > 0 or np.any(s_out > s2) or float(curve.t_dew) - float(curve.t_bubble) > 0.5):
-        warnings.append("zones: the coolant is taken in counterflow with the condensing stream; with several tube "
-                        "passes this is optimistic where the condensing temperature changes (desuperheating, "
-                        "subcooling, a mixture's glide)")
+        warnings.append(f"zones: the coolant is taken in counterflow with the condensing stream (no zone correction "
+                        f"for the {arr_name} arrangement); this is optimistic where the condensing temperature "
+                        "changes (desuperheating, subcooling, a mixture's glide)")
     if not air and c_side == "shell" and np.any(s_out > s2):
         warnings.append("subcooling zone: the condensate is taken to flow over the bundle as a single-phase "
                         "liquid at the shell-side flow areas (no flooded zone modelled); screening only")

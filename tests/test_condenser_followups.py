@@ -175,3 +175,64 @@ def test_shell_dp_rises_with_the_vapour_load():
     r = rv.rate(exchanger(), shell_service(flow=np.array([2.0, 4.0, 6.0])))
     assert np.all(np.diff(r.dp_shell) > 0)
     assert np.all(np.diff(r.dt_sat_drop) > 0)
+
+
+# ------------------------------------------------------------------------- tube passes: the zones' F factor
+from revamp.rating_condenser import zone_F  # noqa: E402
+
+
+@pytest.fixture(scope="module")
+def desuperheated_rating():
+    svc = rv.Service(shell=rv.Stream(HEXANE, 4.0, t_in="110 degC", phase="vapour"),
+                     tube=rv.Stream(WATER, 60.0, "30 degC"))
+    return rv.rate(exchanger(), svc)
+
+
+def test_sensible_zones_follow_the_1_2N_relation(desuperheated_rating):
+    """Desuperheating and subcooling zones of a two-pass exchanger: their effectiveness, from the zone's duty and
+    terminal temperatures, is the 1-2 shell's at the zone's NTU = U A / C_min (ht.effectiveness_from_NTU, TEMA E
+    with one shell pass and an even number of tube passes)."""
+    z = desuperheated_rating.zones.set_index("zone")
+    for name in ("desuperheating", "subcooling"):
+        row = z.loc[name]
+        c_hot = row.duty / (row.t_in - row.t_out)
+        c_cold = row.duty / (row.t_coolant_out - row.t_coolant_in)
+        c_min, c_max = min(c_hot, c_cold), max(c_hot, c_cold)
+        ntu = row.U * row.area / c_min
+        eps = row.duty / (c_min * (row.t_in - row.t_coolant_in))
+        ref = ht.effectiveness_from_NTU(ntu, c_min / c_max, "S&T", n_shell_tube=1)   # ht, 1-2N shell
+        assert row.F < 1.0
+        # the heat capacities vary a little along a zone (the relation assumes them constant): 0.5 %
+        assert eps == pytest.approx(ref, rel=5e-3), name
+
+
+def test_isothermal_zone_has_F_one():
+    # Bowman, Mueller & Nagle (1940): one stream isothermal (R = 0), F = 1 for any P
+    Th = np.full((1, 3, 5), 350.0)
+    Tc = np.linspace(340.0, 300.0, 5)[None, None, :] * np.ones((1, 3, 1))
+    assert np.all(zone_F(Th, Tc, 1) == 1.0)
+    assert np.all(zone_F(Th, Tc, 3) == 1.0)
+
+
+def _counterflow_only(monkeypatch):
+    import revamp.rating as rating_mod
+
+    monkeypatch.setattr(rating_mod, "arrangement", lambda hx: ("counterflow", 1))
+
+
+def test_pure_condensing_zone_unchanged_and_sensible_zones_not_optimistic(monkeypatch):
+    """A pure fluid condensing without subcooling (a partial condenser, small saturation drop): the two-pass rating
+    equals the counterflow one (F = 1 for an isothermal zone, Bowman et al. 1940); with desuperheating and
+    subcooling the two-pass rating gives less duty than the counterflow one (F < 1 there)."""
+    hx = exchanger(tube_length="1 m", tube_count=100)
+    partial = rv.Service(shell=rv.Stream(HEXANE, 1.0, quality=1.0), tube=rv.Stream(WATER, 60.0, "30 degC"))
+    sensible = rv.Service(shell=rv.Stream(HEXANE, 4.0, t_in="110 degC", phase="vapour"),
+                          tube=rv.Stream(WATER, 60.0, "30 degC"))
+    r2p, s2p = rv.rate(hx, partial), rv.rate(exchanger(), sensible)
+    assert 0.0 < float(r2p.quality_out) < 1.0 and float(r2p.dt_sat_drop) < 0.05
+    _counterflow_only(monkeypatch)
+    rcf, scf = rv.rate(hx, partial), rv.rate(exchanger(), sensible)
+    # F of the condensing zone is 1 up to the small glide of the saturation drop (< 0.05 K)
+    assert float(r2p.duty) == pytest.approx(float(rcf.duty), rel=1e-4)
+    assert float(s2p.duty) < float(scf.duty)
+    assert (scf.zones["F"] == 1.0).all()
