@@ -60,7 +60,7 @@ from .fluids.base import Props
 from .rating_result import ResultFrames
 from .service import Service, Stream
 
-__all__ = ["CondenserRating", "ZONES", "condensing_pressure_for", "CondensingPressure", "is_condensing",
+__all__ = ["CondenserRating", "TUBE_CONDENSATION", "ZONES", "condensing_pressure_for", "CondensingPressure", "is_condensing",
            "rate_condenser", "shell_two_phase_dp", "zone_F"]
 
 #: The zones along a condensing stream's path, in order.
@@ -270,7 +270,13 @@ def _layer_index(model, side):
     return 0 if side == model.sides[0] else len(model.layers) - 1
 
 
-def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) -> CondenserRating:
+#: In-tube condensing film methods of the engine: the default, the larger of Shah (1979) and the stratified form,
+#: or Shah (2009) with its own gravity-controlled part.
+TUBE_CONDENSATION = ("max", "shah2009")
+
+
+def rate_condenser(exchanger, service, increments: int = INCREMENTS, tube_condensation: str = "max",
+                   **methods) -> CondenserRating:
     """Rate a condenser zone by zone: duty, outlets, zones, pressure drops.
 
     Parameters
@@ -281,6 +287,10 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         broadcast); the condensing stream has one inlet temperature and quality.
     increments : int
         Increments per zone (default :data:`INCREMENTS`).
+    tube_condensation : str
+        In-tube condensing film, a key of :data:`TUBE_CONDENSATION`: ``"max"`` (default), the larger of Shah
+        (1979) and the stratified Jaster & Kosky (1976) form; ``"shah2009"``, Shah (2009) with its regime map
+        (:func:`revamp.correlations.condensation.shah_2009`).
     **methods
         Passed to :func:`revamp.exchanger.model_of` (e.g. ``shell_method``).
 
@@ -318,6 +328,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     increments = int(increments)
     if increments < 2:
         raise InputError("increments", increments, "an integer >= 2")
+    if tube_condensation not in TUBE_CONDENSATION:
+        raise InputError("tube_condensation", tube_condensation, f"one of {TUBE_CONDENSATION}")
     model = model_of(exchanger, **methods)
     c_side, stream, k_side, coolant, fouling = _sides(model, service)
     curve = _curve_of(stream.fluid)
@@ -478,7 +490,9 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         dT_loc = np.maximum(thm - tcm, 1e-9)
         dtf = 0.5 * dT_loc  # film temperature difference of the condensing film, iterated
         for _ in range(8):
-            if tube_cond:
+            if tube_cond and tube_condensation == "shah2009":
+                h_f = cond.shah_2009(G, np.clip(xm, 0.0, 1.0), d_i, rho_l, rho_v, mu_l, mu_v, k_l, cp_l, p_red)
+            elif tube_cond:
                 h_f = cond_tube(G, xm, d_i, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf)
             else:
                 h_f = cond_shell(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v)
@@ -520,7 +534,7 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         warns = (tuple(f"coolant ({k_side} side) film: {w}" for w in fc.warnings)
                  + tuple(f"condensing film ({c_side} side): {w}" for w in _film_warnings(
                      tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent,
-                     p_red, dtf, u_v))
+                     p_red, dtf, u_v, tube_condensation, mu_v))
                  + tuple(f"vapour film ({c_side} side): {w}" for w in _used_warnings(
                      model, c_side, m_v, pv, (dQ > 0) & ((z == 0) | ((z == 1) & (Z > 0)))))
                  + tuple(f"condensate film ({c_side} side, subcooling): {w}" for w in _used_warnings(
@@ -723,14 +737,16 @@ def shell_two_phase_dp(model, side, m, x, liquid, vapour):
                       dtype=float)
 
 
-def _film_warnings(tube_cond, used, G, x, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf, u_v):
+def _film_warnings(tube_cond, used, G, x, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf, u_v,
+                   tube_method="max", mu_v=None):
     """The condensing correlations' validity warnings over the condensing increments (the validating wrappers)."""
     if not np.any(used):
         return ()
     u = used
     if tube_cond:
         res = cond.tube_condensation(G[u], np.clip(x[u], 0.0, 1.0), d_i, rho_l[u], rho_v[u], mu_l[u], k_l[u],
-                                     cp_l[u], latent, p_red, np.maximum(dtf[u], 1e-9))
+                                     cp_l[u], latent, p_red, np.maximum(dtf[u], 1e-9), method=tube_method,
+                                     mu_v=None if mu_v is None else np.broadcast_to(mu_v, np.shape(G))[u])
     else:
         res = cond.shell_condensation(rho_l[u], rho_v[u], k_l[u], mu_l[u], latent, d_o, np.maximum(dtf[u], 1e-9),
                                       max(rows, 1.0), u_v[u])
