@@ -60,8 +60,8 @@ from .fluids.base import Props
 from .rating_result import ResultFrames
 from .service import Service, Stream
 
-__all__ = ["CondenserRating", "TUBE_CONDENSATION", "ZONES", "condensing_pressure_for", "CondensingPressure", "is_condensing",
-           "rate_condenser", "shell_two_phase_dp", "zone_F"]
+__all__ = ["CondenserRating", "TUBE_CONDENSATION", "ZONES", "condensing_pressure_for", "CondensingPressure",
+           "is_condensing", "rate_condenser", "shell_two_phase_dp", "zone_F"]
 
 #: The zones along a condensing stream's path, in order.
 ZONES = ("desuperheating", "condensing", "subcooling")
@@ -312,7 +312,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, tube_conden
     The shell-side condensing pressure drop is integrated increment by increment: each increment's share of the
     bundle (its area over the path's) at the two-phase drop of :func:`shell_two_phase_dp` (Chisholm's form with
     C = 8 for tube banks, Ishihara, Palen & Taborek 1980, on the shell method's drops of each phase alone; the
-    vapour alone in the desuperheating zone, the condensate alone in the subcooling zone); inside tubes the two-phase frictional gradient of
+    vapour alone in the desuperheating zone, the condensate alone in the subcooling zone); inside tubes the
+    two-phase frictional gradient of
     :mod:`revamp.correlations.two_phase` (its default method) is integrated along the path. The pressure drop
     lowers the saturation temperature along the path (pure fluid: exact at the outlet pressure; a curve shifted as
     :meth:`CondensingFluid.at_pressure` states), distributed along the path in proportion to the accumulated
@@ -809,7 +810,8 @@ def _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h):
     Inside tubes: the two-phase gradient of :mod:`revamp.correlations.two_phase` (default method) at the
     increment's vapour fraction and mass flux over the increment's length (the area it needs over the area per metre
     of path); single-phase vapour (x = 1) and condensate (x = 0) in the first and last zones, where the two-phase
-    forms reduce to the single-phase gradients. On the shell side the lengths only (the caller applies :func:`shell_two_phase_dp`).
+    forms reduce to the single-phase gradients. On the shell side the lengths only (the caller applies
+    :func:`shell_two_phase_dp`).
     """
     dA = d["dA"]
     length = np.where(np.isfinite(dA), dA, 0.0) / area_per_length
