@@ -18,21 +18,27 @@ increments of heat released. For each increment it takes
 The areas are summed along the path until the exchanger's area is used up: that point gives the duty, the outlet
 temperature and quality of the condensing stream and the coolant outlet. The two-phase frictional pressure drop is
 integrated along the path (:mod:`revamp.correlations.two_phase`, the default method stated there), and the
-saturation-temperature drop it causes is fed back into the curve (it matters at vacuum).
+saturation-temperature drop it causes is fed back into the curve (it matters at vacuum). On the shell side the
+two-phase crossflow drop is Chisholm's form of the Lockhart-Martinelli multiplier with C = 8 for tube banks
+(Ishihara, Palen & Taborek 1980) on the shell method's drop of each phase flowing alone (:func:`shell_two_phase_dp`).
 
 Flow arrangement (stated, screening level): in a shell-and-tube exchanger the coolant meets the increments in
 counterflow (the coolant leaves where the vapour enters), the usual assumption of a zone analysis (Bell & Ghaly
-1973; Serth & Lestina 2014, ch. 11). Where the condensing temperature is constant (a pure fluid) this is exact for
-any arrangement; where it changes (desuperheating, subcooling, a mixture's glide) multi-pass coolant makes it
-optimistic, and the rating says so. In an air cooler every increment meets air at the ambient temperature (air in
-crossflow, unmixed across the bundle), which is exact for isothermal condensation with a uniform coefficient.
+1973; Serth & Lestina 2014, ch. 11), and each zone's area is then divided by the LMTD correction F of the zone's
+terminal temperatures for 1-2N shells (:func:`zone_F`, Bowman, Mueller & Nagle 1940): F = 1 for a pure fluid's
+isothermal condensing zone, below 1 for the desuperheating and subcooling zones and a mixture's glide. J and X
+shells have no closed-form F here and stay in counterflow, which the rating says is optimistic where the condensing
+temperature changes. In an air cooler every increment meets air at the ambient temperature (air in crossflow,
+unmixed across the bundle), which is exact for isothermal condensation with a uniform coefficient.
 
 References
 ----------
+Bowman, R. A., Mueller, A. C., Nagle, W. M. (1940). Mean temperature difference in design. *Trans. ASME*
+62:283-294.
 Bell, K. J., Ghaly, M. A. (1973). An approximate generalized design method for multicomponent/partial condensers.
 *AIChE Symp. Ser.* 69(131):72-79.
-Kern, D. Q. (1950). *Process Heat Transfer*, McGraw-Hill, ch. 12 (condensation of single vapours; the shell-side
-pressure drop of a condensing vapour).
+Ishihara, K., Palen, J. W., Taborek, J. (1980). Critical review of correlations for predicting two-phase flow
+pressure drop across tube banks. *Heat Transfer Eng.* 1(3):23-32 (C = 8 in Chisholm's form; from memory).
 Serth, R. W., Lestina, T. G. (2014). *Process Heat Transfer: Principles and Applications*, 2nd ed., Academic Press,
 ch. 11 (condensers: zone and incremental analysis).
 Butterworth, D. (1983). Film condensation of pure vapor. *Heat Exchanger Design Handbook* §2.6.2, Hemisphere.
@@ -54,8 +60,8 @@ from .fluids.base import Props
 from .rating_result import ResultFrames
 from .service import Service, Stream
 
-__all__ = ["CondenserRating", "ZONES", "condensing_pressure_for", "CondensingPressure", "is_condensing",
-           "rate_condenser"]
+__all__ = ["CondenserRating", "TUBE_CONDENSATION", "ZONES", "condensing_pressure_for", "CondensingPressure",
+           "is_condensing", "rate_condenser", "shell_two_phase_dp", "zone_F"]
 
 #: The zones along a condensing stream's path, in order.
 ZONES = ("desuperheating", "condensing", "subcooling")
@@ -118,7 +124,8 @@ class CondenserRating(ResultFrames):
     area : the exchanger's area (the basis of U) [m²]
     zones : DataFrame, one row per zone (and case): ``case``, ``zone``, ``duty`` [W], ``area`` [m²] (whole exchanger),
         ``area_share`` [-], ``U`` [W/m²K] (area-weighted within the zone), ``t_in``/``t_out`` of the condensing
-        stream and ``t_coolant_in``/``t_coolant_out`` [K], ``x_in``/``x_out`` [-], ``dp`` [Pa]
+        stream and ``t_coolant_in``/``t_coolant_out`` [K], ``x_in``/``x_out`` [-], ``dp`` [Pa], ``F`` [-] (the
+        zone's tube-pass correction, :func:`zone_F`; 1 where none applies)
     increments : DataFrame, one row per increment: the local state (``x``, ``T``, ``T_coolant``, ``h_condensing``,
         ``h_coolant``, ``U``, ``dT``, ``duty`` and ``area`` (whole exchanger), ``length`` (along one tube path),
         ``dp``, ``G``, the phase properties) for checks and plots
@@ -263,7 +270,13 @@ def _layer_index(model, side):
     return 0 if side == model.sides[0] else len(model.layers) - 1
 
 
-def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) -> CondenserRating:
+#: In-tube condensing film methods of the engine: the default, the larger of Shah (1979) and the stratified form,
+#: or Shah (2009) with its own gravity-controlled part.
+TUBE_CONDENSATION = ("max", "shah2009")
+
+
+def rate_condenser(exchanger, service, increments: int = INCREMENTS, tube_condensation: str = "max",
+                   **methods) -> CondenserRating:
     """Rate a condenser zone by zone: duty, outlets, zones, pressure drops.
 
     Parameters
@@ -274,6 +287,10 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         broadcast); the condensing stream has one inlet temperature and quality.
     increments : int
         Increments per zone (default :data:`INCREMENTS`).
+    tube_condensation : str
+        In-tube condensing film, a key of :data:`TUBE_CONDENSATION`: ``"max"`` (default), the larger of Shah
+        (1979) and the stratified Jaster & Kosky (1976) form; ``"shah2009"``, Shah (2009) with its regime map
+        (:func:`revamp.correlations.condensation.shah_2009`).
     **methods
         Passed to :func:`revamp.exchanger.model_of` (e.g. ``shell_method``).
 
@@ -292,8 +309,11 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     Coolant properties at each increment's local temperature; the condensing film and the wall iterate locally
     (Nusselt's film coefficient depends on the film temperature difference). The coolant's heat balance uses its
     heat capacity at the mean of its inlet and outlet, so the balance between the streams is exact at that value.
-    The shell-side condensing pressure drop is Kern's (1950) rule, half the pressure drop of the inlet vapour at
-    the whole flow (screening); inside tubes the two-phase frictional gradient of
+    The shell-side condensing pressure drop is integrated increment by increment: each increment's share of the
+    bundle (its area over the path's) at the two-phase drop of :func:`shell_two_phase_dp` (Chisholm's form with
+    C = 8 for tube banks, Ishihara, Palen & Taborek 1980, on the shell method's drops of each phase alone; the
+    vapour alone in the desuperheating zone, the condensate alone in the subcooling zone); inside tubes the
+    two-phase frictional gradient of
     :mod:`revamp.correlations.two_phase` (its default method) is integrated along the path. The pressure drop
     lowers the saturation temperature along the path (pure fluid: exact at the outlet pressure; a curve shifted as
     :meth:`CondensingFluid.at_pressure` states), distributed along the path in proportion to the accumulated
@@ -302,13 +322,15 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
 
     References
     ----------
-    Bell & Ghaly (1973); Kern (1950); Serth & Lestina (2014), ch. 11 (see the module).
+    Bell & Ghaly (1973); Ishihara, Palen & Taborek (1980); Serth & Lestina (2014), ch. 11 (see the module).
     """
     from .exchanger import model_of
 
     increments = int(increments)
     if increments < 2:
         raise InputError("increments", increments, "an integer >= 2")
+    if tube_condensation not in TUBE_CONDENSATION:
+        raise InputError("tube_condensation", tube_condensation, f"one of {TUBE_CONDENSATION}")
     model = model_of(exchanger, **methods)
     c_side, stream, k_side, coolant, fouling = _sides(model, service)
     curve = _curve_of(stream.fluid)
@@ -401,6 +423,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
 
     k = increments
     frac = np.arange(k + 1) / k
+    arr_name, arr_units = (None, 1) if air else tuple(getattr(model, "arrangement", ("counterflow", 1)))
+    pass_corrected = arr_name == "E"  # 1-2N shells (TEMA E with even tube passes; F shells with 4+ passes)
     q_in = _q_in(curve, x_in)
 
     def evaluate(s_out, dtsat, cp_c, detail=False):
@@ -467,7 +491,9 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         dT_loc = np.maximum(thm - tcm, 1e-9)
         dtf = 0.5 * dT_loc  # film temperature difference of the condensing film, iterated
         for _ in range(8):
-            if tube_cond:
+            if tube_cond and tube_condensation == "shah2009":
+                h_f = cond.shah_2009(G, np.clip(xm, 0.0, 1.0), d_i, rho_l, rho_v, mu_l, mu_v, k_l, cp_l, p_red)
+            elif tube_cond:
                 h_f = cond_tube(G, xm, d_i, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf)
             else:
                 h_f = cond_shell(d_o, rows, rho_l, rho_v, mu_l, k_l, latent, dtf, u_v)
@@ -497,13 +523,19 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
             with np.errstate(divide="ignore", invalid="ignore"):
                 dA = np.where(lm > 0, dQ / (U * lm), np.inf)
         dA = np.where(dQ > 0, dA, 0.0)
+        F = np.ones(Th.shape[:2])
+        if pass_corrected:  # each zone's area by the F factor of its terminal temperatures (1-2N, shells in series)
+            F = zone_F(Th, Tc, arr_units)
+            with np.errstate(divide="ignore"):
+                dA = (dA.reshape(shp) / np.where(np.isfinite(F), F, 0.0)[:, :, None]).reshape(N)
+            dA = np.where(dQ > 0, dA, 0.0)
         A = dA.reshape(shp).sum(axis=(1, 2))
         if not detail:
             return A
         warns = (tuple(f"coolant ({k_side} side) film: {w}" for w in fc.warnings)
                  + tuple(f"condensing film ({c_side} side): {w}" for w in _film_warnings(
                      tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent,
-                     p_red, dtf, u_v))
+                     p_red, dtf, u_v, tube_condensation, mu_v))
                  + tuple(f"vapour film ({c_side} side): {w}" for w in _used_warnings(
                      model, c_side, m_v, pv, (dQ > 0) & ((z == 0) | ((z == 1) & (Z > 0)))))
                  + tuple(f"condensate film ({c_side} side, subcooling): {w}" for w in _used_warnings(
@@ -512,9 +544,10 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
                    R=[r.reshape(shp) for r in R], warnings=warns)
         for key, v in (("dA", dA), ("dQ", dQ), ("U", U), ("x", xm), ("h_c", h_c), ("h_k", h_k), ("G", G),
                        ("rho_l", rho_l), ("rho_v", rho_v), ("mu_l", mu_l), ("mu_v", mu_v), ("k_l", k_l),
-                       ("cp_l", cp_l), ("h_film", h_f),
+                       ("cp_l", cp_l), ("h_film", h_f), ("cp_v", pv.heat_capacity), ("k_v", pv.conductivity),
                        ("Z", Z), ("dtf", dtf), ("u_v", u_v)):
             out[key] = np.asarray(v).reshape(shp)
+        out["F"] = F
         return out
 
     def solve(dtsat, cp_c, guess=None):
@@ -591,14 +624,17 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
     """The condensing side's pressure drop (stored per increment in ``d``), the saturation-temperature drop over
     the condensing zone and its profile along the path (a function of s, for the next pass)."""
     dp_inc, length = _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h)
-    if tube_cond:
-        dp_total = dp_inc.reshape(n, -1).sum(axis=1)
-    else:  # Kern's rule for the shell side (see rate_condenser's Notes), spread in proportion to the area
-        pv_in = curve.vapour.props(np.full(n, t_h_in))
-        dp_total = 0.5 * np.asarray(model.film(c_side, m_h, pv_in).dp, dtype=float) * np.ones(n)
+    if not tube_cond:  # shell side: each increment's share of the bundle at its local two-phase drop
         dA = np.where(np.isfinite(d["dA"]), d["dA"], 0.0)
         tot = dA.reshape(n, -1).sum(axis=1)
-        dp_inc = dp_total[:, None, None] * dA / np.where(tot > 0, tot, 1.0)[:, None, None]
+        zone = np.broadcast_to(np.arange(3)[None, :, None], dA.shape)
+        x = np.where(zone == 0, 1.0, np.where(zone == 2, 0.0, d["x"]))
+        m = np.broadcast_to(m_h[:, None, None], dA.shape)
+        liquid = Props(d["rho_l"], d["cp_l"], d["mu_l"], d["k_l"])
+        vapour = Props(d["rho_v"], d["cp_v"], d["mu_v"], d["k_v"])
+        whole = shell_two_phase_dp(model, c_side, m, x, liquid, vapour)
+        dp_inc = whole * dA / np.where(tot > 0, tot, 1.0)[:, None, None]
+    dp_total = dp_inc.reshape(n, -1).sum(axis=1)
     d["dp"], d["length"] = dp_inc, length
     cum = np.cumsum(dp_inc.reshape(n, -1), axis=1)
     zone = np.broadcast_to(np.arange(3)[None, :, None], dp_inc.shape).reshape(n, -1)
@@ -618,14 +654,100 @@ def _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve
     return dp_total, dt_drop, dtsat
 
 
-def _film_warnings(tube_cond, used, G, x, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf, u_v):
+def zone_F(Th, Tc, shells=1):
+    """LMTD correction F of each zone of the path for 1-2N shells in series [-].
+
+    Each zone (desuperheating, condensing, subcooling) is taken as one exchanger between its terminal temperatures:
+    the condensing stream from ``Th[..., 0]`` to ``Th[..., -1]``, the coolant from ``Tc[..., -1]`` (in) to
+    ``Tc[..., 0]`` (out); R = (Th_in - Th_out)/(Tc_out - Tc_in), P = (Tc_out - Tc_in)/(Th_in - Tc_in) and
+    F = :func:`revamp.thermal.F_series` (Bowman, Mueller & Nagle 1940; N shells in overall counterflow). An
+    isothermal zone (a pure fluid condensing) has R = 0 and F = 1 exactly; a zone without duty F = 1; NaN where no
+    1-2N train reaches the zone's temperatures (a temperature cross: the zone cannot be done in that arrangement).
+
+    Parameters
+    ----------
+    Th, Tc : numpy.ndarray
+        Node temperatures of the condensing stream and the coolant [K], shape ``(cases, zones, nodes)``.
+    shells : int
+        1-2N shells in series.
+
+    Returns
+    -------
+    numpy.ndarray
+        F of shape ``(cases, zones)``.
+
+    References
+    ----------
+    Bowman, R. A., Mueller, A. C., Nagle, W. M. (1940). Mean temperature difference in design. Trans. ASME 62,
+    283-294; Serth & Lestina (2014), ch. 11 (the zone method).
+    """
+    th_in, th_out, tc_in, tc_out = Th[..., 0], Th[..., -1], Tc[..., -1], Tc[..., 0]
+    rise = tc_out - tc_in
+    finite = np.isfinite(th_in) & np.isfinite(th_out) & np.isfinite(tc_in) & np.isfinite(tc_out)
+    duty = finite & (rise > 0) & (th_in > tc_in)  # (no finite temperatures: no correction; the area is NaN anyway)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        R = np.where(duty, np.maximum(th_in - th_out, 0.0) / np.where(duty, rise, 1.0), 0.0)
+        P = np.where(duty, rise / np.where(duty, th_in - tc_in, 1.0), 0.0)
+    # a coolant that barely warms (P -> 0, R -> infinity) is isothermal in the limit: F -> 1
+    duty = duty & np.isfinite(R) & (P > 1e-9)
+    # the condensing stream cooled down to the coolant inlet (P R >= 1, or P >= 1): no finite exchanger does it
+    cross = duty & ((P * R >= 1.0) | (P >= 1.0))
+    ok = duty & ~cross
+    F = np.asarray(thermal.F_series(np.where(ok, R, 0.0), np.where(ok, P, 0.0), int(shells)),
+                   dtype=float) * np.ones(R.shape)
+    F = np.where(cross, np.nan, np.where(ok, F, 1.0))
+    return np.where(duty & (R == 0.0) & np.isfinite(F), 1.0, F)
+
+
+def shell_two_phase_dp(model, side, m, x, liquid, vapour):
+    """Shell-side pressure drop [Pa] of the whole bundle path for a two-phase flow at vapour fraction ``x``.
+
+    The shell method's single-phase drops (the model's ``film(side, ...).dp``: Bell-Delaware or Kern, with the
+    shell type's adaptation, nozzles where modelled, all shells in series) of the liquid part ``(1 − x) m`` and of
+    the vapour part ``x m``, each flowing alone, combined by
+    :func:`revamp.correlations.two_phase.dp_crossflow_bundle` (Chisholm's form with C = 8 for tube banks, Ishihara,
+    Palen & Taborek 1980). x = 0 gives the liquid drop of the whole flow, x = 1 the vapour drop.
+
+    Parameters
+    ----------
+    model : ExchangerModel
+        A shell-and-tube model (:func:`revamp.exchanger.model_of`).
+    side : str
+        The shell side's name.
+    m : float or array_like
+        Mass flow of one parallel unit [kg/s].
+    x : float or array_like
+        Vapour mass fraction [-], 0 to 1.
+    liquid, vapour : Props
+        Properties of the liquid and of the vapour (arrays broadcasting with ``m`` and ``x``).
+
+    Returns
+    -------
+    numpy.ndarray
+        Pressure drop [Pa] (frictional and form; gravity and momentum not included).
+    """
+    m, x = np.broadcast_arrays(np.asarray(m, dtype=float), np.clip(np.asarray(x, dtype=float), 0.0, 1.0))
+    floor = 1e-12 * np.maximum(m, 1e-300)
+
+    def alone(flow, props):
+        f = np.maximum(flow, floor)
+        dp = np.asarray(_model_film(model, side, f, props, False).dp, dtype=float)
+        return np.where(flow > floor, dp, 0.0)
+
+    return np.asarray(two_phase.dp_crossflow_bundle(alone((1.0 - x) * m, liquid), alone(x * m, vapour)),
+                      dtype=float)
+
+
+def _film_warnings(tube_cond, used, G, x, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent, p_red, dtf, u_v,
+                   tube_method="max", mu_v=None):
     """The condensing correlations' validity warnings over the condensing increments (the validating wrappers)."""
     if not np.any(used):
         return ()
     u = used
     if tube_cond:
         res = cond.tube_condensation(G[u], np.clip(x[u], 0.0, 1.0), d_i, rho_l[u], rho_v[u], mu_l[u], k_l[u],
-                                     cp_l[u], latent, p_red, np.maximum(dtf[u], 1e-9))
+                                     cp_l[u], latent, p_red, np.maximum(dtf[u], 1e-9), method=tube_method,
+                                     mu_v=None if mu_v is None else np.broadcast_to(mu_v, np.shape(G))[u])
     else:
         res = cond.shell_condensation(rho_l[u], rho_v[u], k_l[u], mu_l[u], latent, d_o, np.maximum(dtf[u], 1e-9),
                                       max(rows, 1.0), u_v[u])
@@ -688,7 +810,8 @@ def _condensing_dp(d, tube_cond, area_per_length, bundle, c_side, m_h):
     Inside tubes: the two-phase gradient of :mod:`revamp.correlations.two_phase` (default method) at the
     increment's vapour fraction and mass flux over the increment's length (the area it needs over the area per metre
     of path); single-phase vapour (x = 1) and condensate (x = 0) in the first and last zones, where the two-phase
-    forms reduce to the single-phase gradients. On the shell side the lengths only (the caller applies Kern's rule).
+    forms reduce to the single-phase gradients. On the shell side the lengths only (the caller applies
+    :func:`shell_two_phase_dp`).
     """
     dA = d["dA"]
     length = np.where(np.isfinite(dA), dA, 0.0) / area_per_length
@@ -735,7 +858,7 @@ def _zone_frames(d, n, shape, c_side, k_side):
     with np.errstate(invalid="ignore", divide="ignore"):
         rows = _zone_rows(dA, dQ, U, Th, Tc, d, n, area_tot)
     zones = pd.DataFrame(rows, columns=["case", "zone", "duty", "area", "area_share", "U", "t_in", "t_out",
-                                        "t_coolant_in", "t_coolant_out", "x_in", "x_out", "dp"])
+                                        "t_coolant_in", "t_coolant_out", "x_in", "x_out", "dp", "F"])
     return zones, inc
 
 
@@ -752,7 +875,8 @@ def _zone_rows(dA, dQ, U, Th, Tc, d, n, area_tot):
                              U=float((U[i, z] * dA[i, z]).sum() / a) if a > 0 else np.nan,
                              t_in=float(Th[i, z, 0]), t_out=float(Th[i, z, -1]), t_coolant_in=float(Tc[i, z, -1]),
                              t_coolant_out=float(Tc[i, z, 0]), x_in=float(x_nodes[i, z, 0]),
-                             x_out=float(x_nodes[i, z, -1]), dp=float(d["dp"][i, z].sum())))
+                             x_out=float(x_nodes[i, z, -1]), dp=float(d["dp"][i, z].sum()),
+                             F=float(d["F"][i, z])))
     return rows
 
 
@@ -794,11 +918,12 @@ def _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, c
         frame["duty"] *= n_par
         frame["area"] *= n_par
     warnings = list(warnings) + list(d["warnings"])
-    if not air and float(getattr(exchanger, "tube_passes", 1)) > 1 and (
+    arr_name = None if air else tuple(getattr(model, "arrangement", ("counterflow", 1)))[0]
+    if not air and arr_name not in ("counterflow", "E") and (
             s1 > 0 or np.any(s_out > s2) or float(curve.t_dew) - float(curve.t_bubble) > 0.5):
-        warnings.append("zones: the coolant is taken in counterflow with the condensing stream; with several tube "
-                        "passes this is optimistic where the condensing temperature changes (desuperheating, "
-                        "subcooling, a mixture's glide)")
+        warnings.append(f"zones: the coolant is taken in counterflow with the condensing stream (no zone correction "
+                        f"for the {arr_name} arrangement); this is optimistic where the condensing temperature "
+                        "changes (desuperheating, subcooling, a mixture's glide)")
     if not air and c_side == "shell" and np.any(s_out > s2):
         warnings.append("subcooling zone: the condensate is taken to flow over the bundle as a single-phase "
                         "liquid at the shell-side flow areas (no flooded zone modelled); screening only")

@@ -51,8 +51,14 @@ def range_warning(name: str, quantity: str, values, low=None, high=None, source:
         shown = float(worst.min())
     else:
         shown = float(worst.max())
-    lo = "-inf" if low is None else f"{low:g}"
-    hi = "inf" if high is None else f"{high:g}"
+    if low is None and high is None:  # (cannot happen: nothing is then outside)
+        span = "unbounded"
+    elif low is None:
+        span = f"below {high:g}"
+    elif high is None:
+        span = f"above {low:g}"
+    else:
+        span = f"{low:g} to {high:g}"
     where = f"; range from {source}" if source else ""
     count = f" ({n} of {arr.size} cases)" if arr.size > 1 else ""
-    return [f"{name}: {quantity} = {shown:.4g} is outside its validity range {lo} to {hi}{count}{where}"]
+    return [f"{name}: {quantity} = {shown:.4g} is outside its validity range {span}{count}{where}"]

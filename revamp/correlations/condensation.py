@@ -65,6 +65,7 @@ __all__ = [
     "NUSSELT_HORIZONTAL",
     "ROW_CORRECTIONS",
     "SHAH_1979_RANGE",
+    "SHAH_2009_RANGE",
     "bell_ghaly",
     "butterworth_combination",
     "modified_latent_heat",
@@ -72,6 +73,8 @@ __all__ = [
     "nusselt_horizontal_tube_loading",
     "row_factor",
     "shah_1979",
+    "shah_2009",
+    "shah_2009_parts",
     "shear_horizontal_tube",
     "shell_condensation",
     "stratified_jaster_kosky",
@@ -86,6 +89,12 @@ NUSSELT_HORIZONTAL = 0.725
 #: Published range of Shah (1979): reduced pressure and liquid-only Reynolds number (p_r from the paper's data
 #: set; Re_LO > 350 the lower limit Shah later gave for the correlation); Pr_l 1 to 13 from memory.
 SHAH_1979_RANGE = {"p_r": (0.002, 0.44), "Re_LO": (350.0, None), "Pr_l": (1.0, 13.0)}
+
+
+#: Range of Shah (2009) for horizontal tubes: inside diameter [m], reduced pressure, mass flux [kg/m²/s], liquid
+#: Prandtl number (Shah 2009, table of the data set; from memory, and agreeing with a public transcription of the
+#: paper's equations and range; the paper itself was not at hand).
+SHAH_2009_RANGE = {"d_i": (0.002, 0.049), "p_r": (0.0008, 0.905), "G": (4.0, 820.0), "Pr_l": (1.0, 18.0)}
 
 
 # ------------------------------------------------------------------------------------------ shell side kernels
@@ -282,6 +291,52 @@ def shah_1979(G_total, x, d_i, rho_l, mu_l, k_l, cp_l, p_r):
     return _out(h_lo * (one ** 0.8 + 3.8 * x ** 0.76 * one ** 0.04 / _arr(p_r) ** 0.38))
 
 
+def shah_2009_parts(G_total, x, d_i, rho_l, rho_v, mu_l, mu_v, k_l, cp_l, p_r):
+    """The parts of Shah's (2009) in-tube condensation correlation for a horizontal tube.
+
+    h_I = h_LT (μl / (14 μv))^n [(1 − x)^0.8 + 3.8 x^0.76 (1 − x)^0.04 / p_r^0.38], n = 0.0058 + 0.557 p_r,
+    h_LT = 0.023 Re_LT^0.8 Pr_l^0.4 kl / d_i with Re_LT = G d_i / μl (the whole flow as liquid);
+    h_Nu = 1.32 Re_LS^(-1/3) [ρl (ρl − ρv) g kl³ / μl²]^(1/3) with Re_LS = G (1 − x) d_i / μl;
+    J_g = x G / [g d_i ρv (ρl − ρv)]^(1/2), Z = (1/x − 1)^0.8 p_r^0.4. Horizontal tubes: regime I (h = h_I) where
+    J_g >= 0.98 (Z + 0.263)^(-0.62), else regime II (h = h_I + h_Nu).
+
+    Returns
+    -------
+    tuple of numpy.ndarray
+        ``(h, h_I, h_Nu, regime_I)``: the coefficient [W/m²/K], its two parts [W/m²/K] and where regime I holds.
+
+    References
+    ----------
+    Shah, M. M. (2009). An improved and extended general correlation for heat transfer during condensation in plain
+    tubes. HVAC&R Research 15(5), 889-913 (equations from memory, checked against a public transcription of the
+    paper; the paper itself was not at hand).
+    """
+    x = _arr(x)
+    G_total, d_i = _arr(G_total), _arr(d_i)
+    rho_l, rho_v, mu_l, mu_v, k_l, p_r = (_arr(v) for v in (rho_l, rho_v, mu_l, mu_v, k_l, p_r))
+    pr_l = _arr(cp_l) * mu_l / k_l
+    h_lt = 0.023 * (G_total * d_i / mu_l) ** 0.8 * pr_l ** 0.4 * k_l / d_i
+    n = 0.0058 + 0.557 * p_r
+    one = 1.0 - x
+    h_i = h_lt * (mu_l / (14.0 * mu_v)) ** n * (one ** 0.8 + 3.8 * x ** 0.76 * one ** 0.04 / p_r ** 0.38)
+    re_ls = np.maximum(G_total * one * d_i / mu_l, 1e-12)
+    h_nu = 1.32 * re_ls ** (-1.0 / 3.0) * np.cbrt(rho_l * (rho_l - rho_v) * G * k_l ** 3 / mu_l ** 2)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        z = np.where(x > 0.0, (1.0 / np.maximum(x, 1e-300) - 1.0) ** 0.8, np.inf) * p_r ** 0.4
+        j_g = x * G_total / np.sqrt(G * d_i * rho_v * (rho_l - rho_v))
+        regime_i = j_g >= 0.98 * (z + 0.263) ** -0.62
+    h = np.where(regime_i, h_i, h_i + h_nu)
+    return h, h_i, h_nu, regime_i
+
+
+def shah_2009(G_total, x, d_i, rho_l, rho_v, mu_l, mu_v, k_l, cp_l, p_r):
+    """In-tube condensation in a horizontal tube, Shah (2009) [W/m²/K] (see :func:`shah_2009_parts`).
+
+    Range: :data:`SHAH_2009_RANGE`.
+    """
+    return _out(shah_2009_parts(G_total, x, d_i, rho_l, rho_v, mu_l, mu_v, k_l, cp_l, p_r)[0])
+
+
 def zivi_void_fraction(x, rho_l, rho_v):
     """Void fraction by Zivi (1964): α = [1 + ((1 − x)/x)(ρv/ρl)^(2/3)]^(-1) (0 at x = 0)."""
     x = _arr(x)
@@ -464,7 +519,7 @@ def shell_condensation(rho_l, rho_v, k_l, mu_l, h_fg, d_o, dT, n_rows=1.0, u_v=0
 
 
 def tube_condensation(G_total, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, h_fg, p_r, dT, z=None, h_vapour=None,
-                      method="max") -> CondensationFilm:
+                      method="max", mu_v=None) -> CondensationFilm:
     """In-tube condensation in a horizontal tube (validated): Shah (1979) and the stratified form.
 
     Parameters
@@ -486,16 +541,23 @@ def tube_condensation(G_total, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, h_fg, p_r,
         Bell & Ghaly's Z and the vapour coefficient [W/m²/K] (:func:`vapour_h_tube`) for a mixture.
     method : str
         ``"max"`` (default): the larger of Shah (1979) and the stratified Jaster & Kosky (1976) at each point;
-        ``"shah"``: Shah alone; ``"stratified"``: the stratified form alone.
+        ``"shah"``: Shah alone; ``"stratified"``: the stratified form alone; ``"shah2009"``: Shah (2009)
+        (:func:`shah_2009`, its own gravity part; needs ``mu_v``).
+    mu_v : float or array_like, optional
+        Vapour viscosity [Pa s], required by ``"shah2009"``.
 
     Returns
     -------
     CondensationFilm
         With warnings for Shah's reduced pressure, Re_LO and Pr_l outside :data:`SHAH_1979_RANGE`.
     """
-    methods = ("max", "shah", "stratified")
+    methods = ("max", "shah", "stratified", "shah2009")
     if method not in methods:
         raise InputError("method", method, f"one of {methods}")
+    if method == "shah2009":
+        if mu_v is None:
+            raise InputError("mu_v", None, "the vapour viscosity [Pa s] (Shah 2009 needs it)")
+        mu_v = _checked(mu_v, "viscosity", "mu_v", gt=0.0)
     G_total = _checked(G_total, "dimensionless", "G_total", gt=0.0)
     x = _checked(x, "dimensionless", "x", ge=0.0, le=1.0)
     d_i = _checked(d_i, "length", "d_i", gt=0.0)
@@ -514,10 +576,19 @@ def tube_condensation(G_total, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, h_fg, p_r,
     dT = _checked(dT, "temperature_difference", "dT", gt=0.0)
     h_shah = _arr(shah_1979(G_total, x, d_i, rho_l, mu_l, k_l, cp_l, p_r))
     h_strat = _arr(stratified_jaster_kosky(x, rho_l, rho_v, k_l, mu_l, h_fg, d_i, dT))
-    h_film = {"max": np.maximum(h_shah, h_strat), "shah": h_shah, "stratified": h_strat}[method]
+    if method == "shah2009":
+        h_film, h_shah, h_strat, _ = (_arr(v) for v in shah_2009_parts(G_total, x, d_i, rho_l, rho_v, mu_l, mu_v,
+                                                                          k_l, cp_l, p_r))
+    else:
+        h_film = {"max": np.maximum(h_shah, h_strat), "shah": h_shah, "stratified": h_strat}[method]
     h = _mixture(h_film, z, h_vapour)
     warnings = []
-    if method != "stratified":
+    if method == "shah2009":
+        src = "Shah (2009), HVAC&R Research 15:889 (from memory)"
+        for q, vals in (("d_i", d_i), ("p_r", p_r), ("G", G_total), ("Pr_l", cp_l * mu_l / k_l)):
+            lo, hi = SHAH_2009_RANGE[q]
+            warnings += range_warning("Shah (2009) in-tube condensation", q, vals, lo, hi, src)
+    elif method != "stratified":
         re_lo = G_total * d_i / mu_l
         pr_l = cp_l * mu_l / k_l
         src = "Shah (1979), Int. J. Heat Mass Transfer 22:547"
@@ -525,7 +596,8 @@ def tube_condensation(G_total, x, d_i, rho_l, rho_v, mu_l, k_l, cp_l, h_fg, p_r,
             lo, hi = SHAH_1979_RANGE[q]
             warnings += range_warning("Shah (1979) in-tube condensation", q, vals, lo, hi, src)
     regime = {"max": "the larger of Shah (1979) and stratified Jaster & Kosky (1976)",
-              "shah": "Shah (1979)", "stratified": "stratified Jaster & Kosky (1976)"}[method]
+              "shah": "Shah (1979)", "stratified": "stratified Jaster & Kosky (1976)",
+              "shah2009": "Shah (2009): h_shear its regime-I part, h_gravity its Nusselt part"}[method]
     if z is not None:
         regime += "; Bell & Ghaly (1973) mixture correction"
     return _film(h, h_strat, h_shah, h_film, regime, tuple(warnings))
