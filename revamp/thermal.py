@@ -243,8 +243,9 @@ def F_series(R, P, shells):
     R, P = np.broadcast_arrays(R, P)
     with np.errstate(invalid="ignore"):
         bad = (P < 0) | (P >= 1) | (P * R >= 1)
-        P1 = _p_per_shell(R, np.where(bad, 0.5, P), shells)
-    F = np.asarray(F_1_2N(R, P1), dtype=float)  # NaN where one shell cannot reach its share
+        R_ok = np.where(bad, 1.0, R)  # a feasible stand-in for the infeasible elements (their F is NaN below)
+        P1 = _p_per_shell(R_ok, np.where(bad, 0.5, P), shells)
+    F = np.asarray(F_1_2N(R_ok, P1), dtype=float)  # NaN where one shell cannot reach its share
     return _out(np.where(bad, np.nan, F))
 
 

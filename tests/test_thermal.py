@@ -237,3 +237,13 @@ def test_one_two_N_formula_for_four_passes_within_stated_gap():
             if F_exact >= 0.8 and np.isfinite(F_12):
                 worst = max(worst, abs(F_12 / F_exact - 1))
     assert 1e-3 < worst < 6e-3
+
+
+def test_F_series_is_nan_where_infeasible_and_keeps_the_feasible_elements():
+    """P R >= 1 (the hot outlet below the cold inlet) has no F: NaN for that element, never an exception for the
+    array; the feasible element equals ht's Fakheri form (ht.F_LMTD_Fakheri, 2 shells)."""
+    F = th.F_series(np.array([3.0, 0.5]), np.array([0.5, 0.5]), 2)
+    assert np.isnan(F[0])
+    # R = 0.5, P = 0.5: cold 0 -> 50, hot 100 -> 75 (ht, independent)
+    assert F[1] == pytest.approx(F_LMTD_Fakheri(Thi=100.0, Tho=75.0, Tci=0.0, Tco=50.0, shells=2), rel=1e-9)
+    assert np.isnan(th.F_series(3.0, 0.5, 1))

@@ -54,9 +54,9 @@ def range_warning(name: str, quantity: str, values, low=None, high=None, source:
     if low is None and high is None:  # (cannot happen: nothing is then outside)
         span = "unbounded"
     elif low is None:
-        span = f"below {high:g}"
+        span = f"(values below {high:g})"
     elif high is None:
-        span = f"above {low:g}"
+        span = f"(values above {low:g})"
     else:
         span = f"{low:g} to {high:g}"
     where = f"; range from {source}" if source else ""
