@@ -427,6 +427,18 @@ class CondenserPlantMonitoring:
         return out
 
 
+def _dew_points(service, side, p):
+    """The dew point [K] at each measured condensing pressure (NaN where the pressure is not a number > 0)."""
+    from .rating_condenser import _curve_of
+
+    p = np.asarray(p, dtype=float)
+    ok = np.isfinite(p) & (p > 0)
+    out = np.full(p.shape, np.nan)
+    if ok.any():
+        out[ok] = _curve_of(getattr(service, side).fluid).temperature_at_pressure(p[ok])
+    return out
+
+
 def monitor_condenser_data(exchanger, service, data, columns=None, *, condensing_from="pressure", uncertainty=None,
                            steady=None, dialect=None, flat_rows: int = 6, **rating_kw) -> CondenserPlantMonitoring:
     """The fouling of a condenser from its plant data (read, checked, steady rows kept, balanced row by row).
@@ -478,8 +490,8 @@ def monitor_condenser_data(exchanger, service, data, columns=None, *, condensing
             raise InputError("steady", steady, "true, false or a mapping of window, flow_rsd, t_range, min_rows")
         view = pd.DataFrame({"timestamp": frame["timestamp"], "shell_flow": frame["coolant_flow"],
                              "tube_flow": frame["coolant_flow"], "tube_t_in": frame["coolant_t_in"],
-                             "shell_t_in": frame[key] if key == "condensing_t" else
-                             frame[key] / np.nanmedian(frame[key]) * 300.0})  # a 1 % pressure step ~ a 3 K step
+                             "shell_t_in": frame[key] if key == "condensing_t" else _dew_points(service, c_side,
+                                                                                               frame[key])})
         is_steady = np.asarray(steady_filter(view, valid=valid, **settings).steady, dtype=bool) & valid
     frame["steady"] = is_steady
     frame["used"] = is_steady
