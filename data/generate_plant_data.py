@@ -220,7 +220,8 @@ def generate_condenser(case, start="2031-01-01", days=365, step_hours=3, fouling
     the vapour load and the coolant flow swing with the process, the coolant inlet with the day; the deposit forms on
     the coolant side (``fouling_law(t, {}) -> Rf`` [m²K/W, outside area]). Each row is rated zone by zone
     (:func:`revamp.rating_condenser.rate_condenser`) for the coolant outlet. Columns: ``timestamp``,
-    ``coolant_flow`` [kg/s], ``coolant_t_in``, ``coolant_t_out`` [K], ``condensing_pressure`` [Pa], ``rf_true``.
+    ``coolant_flow`` [kg/s], ``coolant_t_in``, ``coolant_t_out`` [K], ``condensing_pressure`` [Pa],
+    ``condensate_t`` [K], ``rf_true`` (the fouling on the coolant side alone; the vapour side keeps its design value).
     """
     from revamp.rating_condenser import rate_condenser
 
@@ -244,6 +245,7 @@ def generate_condenser(case, start="2031-01-01", days=365, step_hours=3, fouling
         "coolant_t_in": (tc_in + rng.normal(0, temperature_noise, n)).round(3),
         "coolant_t_out": (np.asarray(r.t_out_coolant) + rng.normal(0, temperature_noise, n)).round(3),
         "condensing_pressure": (float(vapour.fluid.pressure) * (1 + rng.normal(0, pressure_noise, n))).round(1),
+        "condensate_t": (np.asarray(r.t_out_condensing) + rng.normal(0, temperature_noise, n)).round(3),
         "rf_true": rf,
     })
     df = df.astype({c: object for c in ("coolant_flow", "coolant_t_out")})

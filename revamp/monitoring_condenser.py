@@ -39,13 +39,19 @@ __all__ = ["CONDENSER_COLUMNS", "CondenserMonitoring", "CondenserPlantMonitoring
 #: standard column -> quantity kind (None: the timestamp)
 CONDENSER_COLUMNS = {"timestamp": None, "coolant_flow": "mass_flow", "coolant_t_in": "temperature",
                      "coolant_t_out": "temperature", "condensing_pressure": "pressure",
-                     "condensing_t": "temperature"}
+                     "condensing_t": "temperature", "condensate_t": "temperature"}
 _REQUIRED = ("timestamp", "coolant_flow", "coolant_t_in", "coolant_t_out")
 _FROM = {"pressure": "condensing_pressure", "temperature": "condensing_t"}
-#: the most clean ratings one analysis makes: with more used rows, every k-th is rated and the clean U interpolated
-#: linearly between them in row order (it moves only with the coolant flow and temperatures and the load, which
-#: change slowly between steady rows)
-MAX_CLEAN_ROWS = 240
+#: the most rows whose fouling one analysis solves with the rating: with more used rows, every k-th is solved and
+#: the others carried through their own heat balance (the clean resistance, which moves only with the coolant flow
+#: and temperatures and the load, interpolated linearly between solved rows in row order)
+MAX_RATED_ROWS = 120
+#: rows are rated at the median pressure of their bin: bins of this width in ln(p) (2 %)
+PRESSURE_BIN = 0.02
+#: the largest total fouling searched [m²K/W, outside area]
+RF_MAX = 0.005
+#: the duty match of the fouling search, relative
+DUTY_TOL = 1e-4
 #: points along the duty for the mean temperature difference of a curve with a glide
 _POINTS = 41
 #: default standard uncertainties: coolant flow 2 % (a clamp-on or orifice meter), temperatures 0.5 K (a calibrated
@@ -135,8 +141,56 @@ def _dt_mean(curve, p, t_dew, t_in, t_out):
     return 1.0 / np.trapezoid(inv, f, axis=-1)
 
 
+def _solve_fouling(exchanger, service, c_side, k_side, curve, m_v, m_c, t_in, q, rating_kw):
+    """The total fouling [m²K/W, outside area] at which the zone-by-zone rating gives duty ``q`` (Illinois regula
+    falsi on each row, the rows as one array): all of it placed on the coolant side. Returns (rf, U_service,
+    U_clean, area); NaN where the clean exchanger cannot give ``q`` or the fouling would exceed :data:`RF_MAX`."""
+    from .rating_condenser import rate_condenser
+    from .service import Stream
+
+    to_surface = exchanger.tube_id / exchanger.tube_od if k_side == "tube" else 1.0
+    coolant = getattr(service, k_side)
+
+    def rated(rows, rf):
+        svc = service.replace(**{c_side: Stream(curve, m_v[rows], quality=1.0),
+                                 k_side: coolant.replace(flow=m_c[rows], t_in=t_in[rows])},
+                              **{f"fouling_{c_side}": 0.0, f"fouling_{k_side}": rf * to_surface})
+        return rate_condenser(exchanger, svc, **rating_kw)
+
+    n = q.size
+    every = np.arange(n)
+    lo, hi = np.zeros(n), np.full(n, RF_MAX)
+    r0 = rated(every, lo)
+    f_lo = np.asarray(r0.duty, dtype=float) - q
+    f_hi = np.asarray(rated(every, hi).duty, dtype=float) - q
+    area = float(r0.area)
+    ok = (f_lo >= 0) & (f_hi <= 0)
+    x = np.where(f_lo == 0, 0.0, np.nan)
+    U, Uc = np.asarray(r0.U_service, dtype=float).copy(), np.asarray(r0.U_clean, dtype=float).copy()
+    side = np.zeros(n)
+    active = ok & (f_lo != 0)
+    for _ in range(30):
+        if not active.any():
+            break
+        rows = np.flatnonzero(active)
+        xr = hi[rows] - f_hi[rows] * (hi[rows] - lo[rows]) / (f_hi[rows] - f_lo[rows])
+        r = rated(rows, xr)
+        fx = np.asarray(r.duty, dtype=float) - q[rows]
+        x[rows], U[rows], Uc[rows] = xr, np.asarray(r.U_service, dtype=float), np.asarray(r.U_clean, dtype=float)
+        done = np.abs(fx) <= DUTY_TOL * q[rows]
+        below = fx < 0  # too much fouling: the root lies between lo and x
+        hi[rows] = np.where(below, xr, hi[rows])
+        lo[rows] = np.where(below, lo[rows], xr)
+        f_lo[rows] = np.where(below, np.where(side[rows] == -1, 0.5 * f_lo[rows], f_lo[rows]), fx)
+        f_hi[rows] = np.where(below, fx, np.where(side[rows] == 1, 0.5 * f_hi[rows], f_hi[rows]))
+        side[rows] = np.where(below, -1, 1)
+        active[rows[done]] = False
+    x[~ok | active] = np.nan
+    return x, U, Uc, area
+
+
 def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=None, condensing_temperature=None,
-                      uncertainty=None, **rating_kw) -> CondenserMonitoring:
+                      t_condensate=None, uncertainty=None, **rating_kw) -> CondenserMonitoring:
     """The fouling of a condenser from measured coolant-side data and its condensing pressure or temperature.
 
     Parameters
@@ -148,12 +202,14 @@ def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=
     t_out_coolant : float, array_like or str
         Measured coolant outlet [K].
     condensing_pressure, condensing_temperature : float, array_like or str
-        One of the two: the measured condensing pressure [Pa] or condensing (dew-point) temperature [K].
+        One of the two: the measured condensing (inlet) pressure [Pa] or condensing (dew-point) temperature [K].
+    t_condensate : float, array_like or str, optional
+        Measured condensate outlet [K], when the condensate leaves subcooled; default: at its bubble point.
     uncertainty : dict, optional
         Standard uncertainties ``{"flow": relative [-], "temperature": [K], "pressure": relative [-]}``; defaults
         :data:`DEFAULT_UNCERTAINTY`.
     **rating_kw
-        For the clean rating (:func:`revamp.rating_condenser.rate_condenser`: ``increments``, methods).
+        For the ratings (:func:`revamp.rating_condenser.rate_condenser`: ``increments``, methods).
 
     Returns
     -------
@@ -165,8 +221,7 @@ def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=
         Neither or both of the condensing measurements; a single case whose coolant is not heated or whose outlet is
         not below the condensing temperature.
     """
-    from .rating_condenser import _curve_of, rate_condenser
-    from .service import Stream
+    from .rating_condenser import _curve_of
 
     c_side, k_side = _sides(service)
     if (condensing_pressure is None) == (condensing_temperature is None):
@@ -190,10 +245,14 @@ def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=
     else:
         t_dew = np.asarray(to_si(condensing_temperature, "temperature", "condensing_temperature"), dtype=float)
         p = np.asarray(_pressure_at(curve, t_dew), dtype=float)
-    shape = np.broadcast_shapes(t_out.shape, t_in.shape, m_c.shape, p.shape)
+    glide = float(curve.t_dew) - float(curve.t_bubble)
+    t_sub = None if t_condensate is None else np.asarray(to_si(t_condensate, "temperature", "t_condensate"),
+                                                         dtype=float)
+    shape = np.broadcast_shapes(t_out.shape, t_in.shape, m_c.shape, p.shape, np.shape(t_sub))
     t_out, t_in, m_c, p, t_dew = (np.broadcast_to(a, shape).astype(float) for a in (t_out, t_in, m_c, p, t_dew))
-    t_bubble = t_dew - (float(curve.t_dew) - float(curve.t_bubble))
-    bad = ~((t_out > t_in) & (t_out < t_dew) & (t_in < t_bubble) & (m_c > 0))
+    t_bubble = t_dew - glide
+    t_sub = t_bubble if t_sub is None else np.minimum(np.broadcast_to(t_sub, shape).astype(float), t_bubble)
+    bad = ~((t_out > t_in) & (t_out < t_dew) & (t_in < t_bubble) & (m_c > 0) & (t_sub > t_in))
     notes = []
     if np.any(bad):
         if shape == ():
@@ -204,51 +263,63 @@ def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=
 
     def balance(m, ti, to, pp, td):
         cp = np.asarray(coolant.fluid.props(0.5 * (ti + to)).heat_capacity, dtype=float)
-        q = m * cp * (to - ti)
-        dt = _dt_mean(curve, pp, td, ti, to)
-        return q, dt
+        return m * cp * (to - ti), _dt_mean(curve, pp, td, ti, to)
 
-    area = None
     q, dt = balance(m_c, t_in, t_out, p, t_dew)
-    # the clean exchanger at the measured state: one rating per distinct condensing pressure (rows binned on log p
-    # to 0.5 %), every k-th row when there are many
-    U_clean = np.full(shape, np.nan)
-    ok = ~bad & np.isfinite(q) & (q > 0)
-    idx = np.flatnonzero(np.ravel(ok))
-    flat = {k: np.ravel(v) for k, v in (("p", p), ("q", q), ("m", m_c), ("ti", t_in))}
-    U_flat = np.ravel(U_clean).copy()
+    # heat released per kg of vapour: the latent heat, and the condensate's subcooling when it is measured
+    cp_l = np.asarray(curve.props(np.clip(0.5 * (t_bubble + t_sub), curve.t_min, curve.t_max)).heat_capacity,
+                      dtype=float)
+    per_kg = float(curve.latent) + cp_l * (t_bubble - t_sub)
+    m_v = q / per_kg
+    # the fouling at which the rating gives the measured duty, solved on up to MAX_RATED_ROWS rows (bins of 2 % in
+    # the condensing pressure, rated at each bin's median pressure and moved to each row's own pressure through the
+    # balance), interpolated between the solved rows in row order for the others
+    ok = np.ravel(~bad & np.isfinite(q) & (q > 0))
+    idx = np.flatnonzero(ok)
+    flat = {k: np.ravel(v) for k, v in (("p", p), ("q", q), ("m", m_c), ("ti", t_in), ("to", t_out),
+                                        ("dt", dt), ("mv", m_v))}
+    K = np.full(ok.size, np.nan)
+    U_rated, Uc_rated = np.full(ok.size, np.nan), np.full(ok.size, np.nan)
+    area = None
     if idx.size:
-        step = max(1, int(np.ceil(idx.size / MAX_CLEAN_ROWS)))
+        step = max(1, int(np.ceil(idx.size / MAX_RATED_ROWS)))
         rated = idx[::step] if idx[-1] in idx[::step] else np.append(idx[::step], idx[-1])
-        bins = np.round(np.log(flat["p"][rated]) / 0.005)
+        bins = np.round(np.log(flat["p"][rated]) / PRESSURE_BIN)
         for b in np.unique(bins):
             rows = rated[bins == b]
-            c = curve.at_pressure(float(np.median(flat["p"][rows])))
-            latent = float(c.latent)
-            stream = Stream(c, flat["q"][rows] / latent, quality=1.0)  # a total condenser: saturated vapour in
-            svc = service.replace(**{c_side: stream, k_side: coolant.replace(flow=flat["m"][rows],
-                                                                             t_in=flat["ti"][rows])},
-                                  fouling_shell=0.0, fouling_tube=0.0)
-            r = rate_condenser(exchanger, svc, **rating_kw)
-            U_flat[rows] = np.asarray(r.U_clean, dtype=float)
-            area = float(r.area)
+            p_bin = float(np.median(flat["p"][rows]))
+            c = curve.at_pressure(p_bin)
+            rf, U, Uc, area = _solve_fouling(exchanger, service, c_side, k_side, c, flat["mv"][rows], flat["m"][rows],
+                                             flat["ti"][rows], flat["q"][rows], rating_kw)
+            t_bin = np.full(rows.size, float(c.t_dew))
+            dt_bin = _dt_mean(curve, np.full(rows.size, p_bin), t_bin, flat["ti"][rows], flat["to"][rows])
+            K[rows] = rf - area * dt_bin / flat["q"][rows]  # = -1/U_clean on the balance's basis at the bin
+            U_rated[rows], Uc_rated[rows] = U, Uc
+        good = rated[np.isfinite(K[rated])]
+        if good.size < rated.size:
+            notes.append(f"{rated.size - good.size} rated row(s) where no fouling between 0 and {RF_MAX:g} m²K/W "
+                         "gives the measured duty (the clean exchanger cannot, or the data disagree): NaN, and left "
+                         "out of the interpolation")
+        K[idx] = np.interp(idx, good, K[good]) if good.size else np.nan
+        if good.size:
+            K[rated[~np.isfinite(U_rated[rated]) | ~np.isfinite(K[rated])]] = np.nan
         if rated.size < idx.size:
-            U_flat[idx] = np.interp(idx, rated, U_flat[rated])
-            notes.append(f"clean U rated at every {step}th used row ({rated.size} ratings), interpolated between "
-                         "them")
-    U_clean = np.reshape(U_flat, shape)
+            notes.append(f"fouling solved on every {step}th used row ({rated.size} rows), carried to the others "
+                         "through their own heat balance")
     if area is None:
         from .exchanger import model_of
 
         area = float(model_of(exchanger).area)
+    K = np.reshape(K, shape)
     with np.errstate(divide="ignore", invalid="ignore"):
         U = q / (area * dt)
-        rf = 1.0 / U - 1.0 / U_clean
+        rf = area * dt / q + K
+        U_clean = -1.0 / K
 
     def rf_at(m=m_c, ti=t_in, to=t_out, pp=p, td=t_dew):
         qq, dd = balance(m, ti, to, pp, td)
         with np.errstate(divide="ignore", invalid="ignore"):
-            return area * dd / qq - 1.0 / U_clean
+            return area * dd / qq + K
 
     deltas = []
     if unc["flow"] > 0:
@@ -262,13 +333,15 @@ def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=
         p2 = p * (1 + unc["pressure"])
         deltas.append(np.abs(rf_at(pp=p2, td=np.asarray(curve.temperature_at_pressure(p2), dtype=float)) - rf))
     band = np.sqrt(sum(d * d for d in deltas)) if deltas else np.zeros(shape)
-    notes.append(f"coolant-side balance, total condenser at the measured condensing {'pressure' if condensing_pressure is not None else 'temperature'}; "
+    what = "pressure" if condensing_pressure is not None else "temperature"
+    notes.append(f"coolant-side balance at the measured condensing {what}, the condensate "
+                 + ("at its measured outlet" if t_condensate is not None else "taken at its bubble point")
+                 + f"; the fouling (on the coolant side) at which the zone-by-zone rating gives the measured duty; "
                  f"band: ±{unc['flow']:.1%} coolant flow, ±{unc['temperature']:g} K per temperature"
                  + (f", ±{unc['pressure']:.1%} pressure" if condensing_pressure is not None else "")
-                 + " (one standard uncertainty each, JCGM 100)")
-    latent = float(curve.latent)
+                 + " (one standard uncertainty each, propagated through the balance, JCGM 100)")
     out = {k: np.where(bad, np.nan, v).astype(float) for k, v in (
-        ("duty", q), ("t", t_dew), ("m_v", q / latent), ("dt", dt), ("U", U), ("Uc", U_clean), ("rf", rf),
+        ("duty", q), ("t", t_dew), ("m_v", m_v), ("dt", dt), ("U", U), ("Uc", U_clean), ("rf", rf),
         ("lo", rf - band), ("hi", rf + band))}
     return CondenserMonitoring(out["duty"], out["t"], out["m_v"], out["dt"], out["U"], out["Uc"], out["rf"],
                                out["lo"], out["hi"], tuple(notes))
@@ -279,7 +352,8 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
     """Read and check a condenser's plant data (a CSV file or a DataFrame).
 
     Standard columns (SI unless ``columns`` gives a unit): ``timestamp``, ``coolant_flow`` [kg/s], ``coolant_t_in``,
-    ``coolant_t_out`` [K], and ``condensing_pressure`` [Pa] or ``condensing_t`` [K] (``condensing_from``). Every row
+    ``coolant_t_out`` [K], and ``condensing_pressure`` [Pa] or ``condensing_t`` [K] (``condensing_from``); and
+    ``condensate_t`` [K], the condensate outlet, read when the data has it (subcooling). Every row
     keeps its place; a row with a problem gets its reasons in ``flag`` (missing or non-numeric cells, bad,
     duplicated or unsorted timestamps, a flat-lined sensor, a flow <= 0, a coolant outlet not above its inlet).
 
@@ -293,6 +367,8 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
         raise InputError("condensing_from", condensing_from, f"one of {', '.join(_FROM)}")
     need = _REQUIRED + (_FROM[condensing_from],)
     d = md.CsvDialect.make(dialect)
+    optional = (columns or {}).get("condensate_t", "condensate_t")
+    optional = optional if isinstance(optional, str) else str(optional[0])
     if isinstance(data, pd.DataFrame):
         raw, lines = data.astype(str), [d.delimiter.join(str(c) for c in data.columns)]
     else:
@@ -301,6 +377,8 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
         except (OSError, ValueError) as exc:
             raise InputError("data", str(data), f"a readable CSV file or a DataFrame ({exc})") from None
         lines = md._first_lines(data)
+    if optional in raw.columns:  # the condensate outlet, when the plant measures it
+        need = need + ("condensate_t",)
     spec = {c: (c, None) for c in need}
     for key, val in (columns or {}).items():
         if key not in CONDENSER_COLUMNS:
@@ -352,6 +430,9 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
         add(md._flat_runs(out[key].to_numpy(), flat_rows, 0.0), f"flat-lined {key}")
     add(out["coolant_flow"].to_numpy() <= 0, "coolant_flow <= 0")
     add(~(out["coolant_t_out"].to_numpy() > out["coolant_t_in"].to_numpy()), "coolant outlet not above its inlet")
+    if "condensate_t" in out:
+        add(~(out["condensate_t"].to_numpy() > out["coolant_t_in"].to_numpy()), "condensate not above the coolant "
+                                                                                  "inlet")
     out["flag"] = ["; ".join(r) for r in reasons]
     out["valid"] = out["flag"] == ""
     counts: dict = {}
@@ -505,6 +586,8 @@ def monitor_condenser_data(exchanger, service, data, columns=None, *, condensing
                                                      t_in=u["coolant_t_in"].to_numpy(float))})
     meas = {"condensing_pressure" if key == "condensing_pressure" else "condensing_temperature":
             u[key].to_numpy(float)}
+    if "condensate_t" in u:
+        meas["t_condensate"] = u["condensate_t"].to_numpy(float)
     m = monitor_condenser(exchanger, svc, u["coolant_t_out"].to_numpy(float), uncertainty=uncertainty, **meas,
                           **rating_kw)
     for col, values in (("duty", m.duty), ("t_condensing", m.t_condensing), ("vapour_flow", m.vapour_flow),

@@ -52,7 +52,7 @@ _DIALECT = ("delimiter", "decimal", "timestamp_format", "dayfirst", "timezone")
 #: plant-data column -> quantity kind (None: the timestamp)
 CONDENSER_PLANT_COLUMNS = {"timestamp": None, "coolant_flow": "mass_flow", "coolant_t_in": "temperature",
                            "coolant_t_out": "temperature", "condensing_pressure": "pressure",
-                           "condensing_t": "temperature"}
+                           "condensing_t": "temperature", "condensate_t": "temperature"}
 #: where the condensing temperature of each row comes from -> the column it needs
 CONDENSING_FROM = {"pressure": "condensing_pressure", "temperature": "condensing_t"}
 #: the columns of a condensing-curve table file and their quantity kinds (heat_released or enthalpy)
@@ -471,6 +471,8 @@ def _plant_data(pd_spec: dict, where: str, base, problems: list):
         given = {}
     _unknown(given, set(CONDENSER_PLANT_COLUMNS), f"{where}.columns", problems)
     need = ["timestamp", "coolant_flow", "coolant_t_in", "coolant_t_out", CONDENSING_FROM[source]]
+    if "condensate_t" in given:  # optional: the condensate outlet (read from the file by its standard name too)
+        need.append("condensate_t")
     columns = {}
     for std in need:
         spec = given.get(std, std)
