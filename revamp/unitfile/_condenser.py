@@ -57,7 +57,9 @@ CONDENSER_PLANT_COLUMNS = {"timestamp": None, "coolant_flow": "mass_flow", "cool
 CONDENSING_FROM = {"pressure": "condensing_pressure", "temperature": "condensing_t"}
 #: the columns of a condensing-curve table file and their quantity kinds (heat_released or enthalpy)
 CURVE_COLUMNS = {"temperature": "temperature", "heat_released": "specific_energy", "enthalpy": "specific_energy",
-                 "vapour_fraction": "dimensionless"}
+                 "vapour_fraction": "dimensionless", "surface_tension": None,
+                 **{f"{phase}_{prop}": prop for phase in ("liquid", "vapour")
+                    for prop in ("density", "heat_capacity", "viscosity", "conductivity")}}
 #: units a curve's heat released (or enthalpy) column may be given in -> J/kg (definitions; Btu/lb: IT Btu)
 SPECIFIC_ENERGY = {"J/kg": 1.0, "kJ/kg": 1e3, "MJ/kg": 1e6, "Btu/lb": 2326.0}
 #: the largest revamp throughput factor accepted (as for the other kinds)
@@ -91,7 +93,8 @@ CONDENSER_SCHEMA = {
                                   "mixture": {"type": "string", "minLength": 1},
                                   "curve": {"type": "string", "minLength": 1},
                                   "curve_units": {"type": "object", "additionalProperties": False,
-                                                  "properties": {k: {"type": "string"} for k in CURVE_COLUMNS}},
+                                                  "properties": {k: {"type": "string"} for k in CURVE_COLUMNS
+                                                                 if CURVE_COLUMNS[k] is not None}},
                                   **{k: _Q for k in _VAPOUR - {"fluid", "mixture", "curve", "curve_units"}}}},
         "coolant": {"type": "object", "additionalProperties": False, "required": ["fluid", "flow", "t_in"],
                     "properties": {"fluid": {"$ref": "#/$defs/fluid"}, **{k: _Q for k in _COOLANT - {"fluid"}}}},
@@ -234,6 +237,10 @@ def _read_curve(file: str, units: dict, where: str, base, problems: list):
         if not np.all(np.isfinite(values)):
             problems.append(Problem(f"{where}.curve", file, f"must hold numbers only (column {col!r} has others)"))
             return None
+        if kind is None and unit is not None:
+            problems.append(Problem(f"{where}.curve_units.{col}", unit, "must not be given: the column is read in "
+                                                                        "SI (or is not a curve column)"))
+            return None
         if unit is None or kind is None:
             table[col] = values
             continue
@@ -275,7 +282,7 @@ def _vapour_fluid(v: dict, q: dict, where: str, base, problems: list):
                                                             "'mixture', e.g. HEOS::n-Pentane[0.6]&n-Hexane[0.4])"))
             return None
         make = (lambda: fluids.water(p)) if name.strip().lower() == "water" else (lambda: fluids.pure(name, p))
-        return _guard(problems, where, make, rename=lambda f: "fluid" if f in ("name", "fluid") else f)
+        return _guard(problems, where, make, rename=lambda f: "fluid" if f.split(".")[-1] in ("name", "fluid") else f)
     if "mixture" in v:
         return _guard(problems, where, lambda: fluids.condensing_curve(mixture=v["mixture"], pressure=p),
                       rename=lambda f: "mixture" if f in ("mixture", "table") else f)
@@ -293,7 +300,7 @@ def _vapour_fluid(v: dict, q: dict, where: str, base, problems: list):
     kw = {"critical_pressure": q["critical_pressure"]} if "critical_pressure" in q else {}
     return _guard(problems, where, lambda: fluids.condensing_curve(table=table, pressure=p, name=str(v["curve"]),
                                                                    **kw),
-                  rename=lambda f: "curve" if f.startswith("table") else f)
+                  rename=lambda f: "curve" if f.startswith(("table", "condensing_curve")) else f)
 
 
 def _vapour_stream(v: dict, q: dict, fluid, where: str, problems: list):
