@@ -267,9 +267,10 @@ def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=
 
     q, dt = balance(m_c, t_in, t_out, p, t_dew)
     # heat released per kg of vapour: the latent heat, and the condensate's subcooling when it is measured
-    cp_l = np.asarray(curve.props(np.clip(0.5 * (t_bubble + t_sub), curve.t_min, curve.t_max)).heat_capacity,
-                      dtype=float)
-    per_kg = float(curve.latent) + cp_l * (t_bubble - t_sub)
+    per_kg = np.full(shape, float(curve.latent))
+    if t_condensate is not None:
+        t_mid = np.clip(0.5 * (t_bubble + t_sub), curve.t_min, curve.t_max - 0.05)
+        per_kg = per_kg + np.asarray(curve.props(t_mid).heat_capacity, dtype=float) * (t_bubble - t_sub)
     m_v = q / per_kg
     # the fouling at which the rating gives the measured duty, solved on up to MAX_RATED_ROWS rows (bins of 2 % in
     # the condensing pressure, rated at each bin's median pressure and moved to each row's own pressure through the
