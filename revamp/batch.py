@@ -415,10 +415,10 @@ def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, unit
             continue
         case = unit.exchanger(tag)
         extra = [case.plant_data.file] if getattr(case, "plant_data", None) else []
-        own = KIND_NOTEBOOKS.get(getattr(case, "kind", None))
-        if own is not None:  # an air cooler, a condenser: a study notebook of its own
-            nb_for = nb_path.with_name(own)
-            nb_for = nb_for if nb_for.is_file() else notebook_path(own)
+        kind_nb = KIND_NOTEBOOKS.get(getattr(case, "kind", None))
+        if kind_nb is not None:  # an air cooler, a condenser: a study notebook of its own
+            nb_for = nb_path.with_name(kind_nb)
+            nb_for = nb_for if nb_for.is_file() else notebook_path(kind_nb)
         else:
             nb_for = nb_path
         jobs_list.append({"tag": tag, "notebook": str(nb_for), "unit_file": str(unit_file),

@@ -214,3 +214,16 @@ def test_run_condenser_case_refuses_another_kind():
     with pytest.raises(InputError) as exc:
         run_condenser_case(object())
     assert exc.value.field == "case"
+
+
+def test_the_batch_runs_a_condenser_with_its_own_notebook(tmp_path):
+    """The batch picks the study notebook by the exchanger's kind."""
+    from pathlib import Path
+
+    from revamp.batch import _plan, notebook_path
+
+    path = Path(write_unit(tmp_path / "unit.yaml", _unit()))
+    unit, problems, entries = unitfile.load_partial(path)
+    rows, jobs = _plan(unit, problems, entries, notebook_path(), path, 60, "SI")
+    by_tag = {j["tag"]: Path(j["notebook"]).name for j in jobs}
+    assert by_tag == {"E-1": "exchanger_study.ipynb", "C-1": "condenser_study.ipynb"}
