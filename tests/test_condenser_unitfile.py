@@ -227,3 +227,32 @@ def test_the_batch_runs_a_condenser_with_its_own_notebook(tmp_path):
     rows, jobs = _plan(unit, problems, entries, notebook_path(), path, 60, "SI")
     by_tag = {j["tag"]: Path(j["notebook"]).name for j in jobs}
     assert by_tag == {"E-1": "exchanger_study.ipynb", "C-1": "condenser_study.ipynb"}
+
+
+AIR_GEOMETRY = {"bays": 1, "bundles_per_bay": 1, "tube_rows": 4, "tubes_per_row": 46, "tube_passes": 2,
+                "tube_length": "9.14 m", "tube_od": "25.4 mm", "tube_wall": "2.11 mm", "transverse_pitch": "63.5 mm",
+                "row_pitch": "55 mm", "tube_material": "carbon steel",
+                "fin": {"height": "15.9 mm", "thickness": "0.4 mm", "per_length": "394 /m", "material": "aluminium",
+                        "bond": "embedded"},
+                "fans_per_bay": 2, "fan_diameter": "3.66 m", "fan_efficiency": 0.65, "draft": "forced"}
+
+
+def test_an_air_cooled_condenser(tmp_path):
+    entry = {k: copy.deepcopy(v) for k, v in ENTRY.items() if k not in ("coolant", "condensing_side", "options")}
+    entry.update(exchanger="air cooler", geometry=AIR_GEOMETRY, air_side={"t_in": "25 degC", "flow": "150 kg/s"},
+                 options=[{"type": "fan_upgrade", "speed_ratio": 1.1}])
+    entry["vapour"]["flow"] = "2 kg/s"
+    path = write_unit(tmp_path / "unit.yaml", _unit(entry))
+    assert unitfile.check(path) == []
+    c = unitfile.load(path).exchanger("C-1")
+    assert (c.condensing_side, c.coolant_side) == ("tube", "air")
+    # 25 °C = 298.15 K (definition); the vapour in the tubes, saturated
+    assert c.service.air_in == pytest.approx(298.15) and c.service.tube.quality == 1.0
+    for where, value, path_ in (("coolant", {"fluid": {"kind": "water"}, "flow": 1, "t_in": 300}, "exchangers[1].coolant"),
+                                ("condensing_side", "shell", "exchangers[1].condensing_side"),
+                                ("plant_data", {"file": "x.csv"}, "exchangers[1].plant_data"),
+                                ("options", [{"type": "add_shells", "n": 1}], "exchangers[1].options[0].type")):
+        bad = copy.deepcopy(entry)
+        bad[where] = value
+        problems = unitfile.check(write_unit(tmp_path / "bad.yaml", _unit(bad)))
+        assert path_ in [p.path for p in problems], (where, problems)

@@ -183,7 +183,7 @@ def condenser_header_html(case, unit, system: str = "SI") -> str:
     return (f"<h2>{esc(case.tag)}: {esc(case.description)}</h2>"
             f"<p>Unit: {esc(unit.name)}. Condenser ({esc(what)}), area {fq(float(study_area(case)), 'area', system)}."
             f"</p><p>Vapour: {esc(fluid.name)}"
-            + (f" (condensing at {fq(p, 'pressure', system)})" if p is not None else "")
+            + (f" (condensing at {fq(p, 'pressure', system)})" if p is not None and " Pa" not in fluid.name else "")
             + f", {fq(v.flow, 'mass_flow', system)}, {esc(inlet)}. Coolant: {cool}.{esc(revamp)}{esc(allowed)}</p>")
 
 

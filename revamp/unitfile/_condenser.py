@@ -664,7 +664,10 @@ def build_condenser(i: int, x: dict, problems: list, base=None) -> CondenserCase
     opts = _options(x.get("options"), exchanger, revamp_service or svc, is_air, coolant_side, pre, problems)
     plant = None
     pd_spec = _mapping(x, "plant_data", pre, problems, required=False)
-    if pd_spec is not None:
+    if pd_spec is not None and is_air:
+        problems.append(Problem(f"{pre}.plant_data", "(given)", "must not be given for an air-cooled condenser: its "
+                                "fouling is monitored from a measured coolant flow, which air has not"))
+    elif pd_spec is not None:
         plant = _plant_data(pd_spec, f"{pre}.plant_data", base, problems)
     if len(problems) > start or exchanger is None or svc is None:
         return None
