@@ -6,7 +6,6 @@ import copy
 
 import numpy as np
 import pytest
-import yaml
 
 from revamp import unitfile
 from revamp.errors import InputError
@@ -248,7 +247,8 @@ def test_an_air_cooled_condenser(tmp_path):
     assert (c.condensing_side, c.coolant_side) == ("tube", "air")
     # 25 °C = 298.15 K (definition); the vapour in the tubes, saturated
     assert c.service.air_in == pytest.approx(298.15) and c.service.tube.quality == 1.0
-    for where, value, path_ in (("coolant", {"fluid": {"kind": "water"}, "flow": 1, "t_in": 300}, "exchangers[1].coolant"),
+    water = {"fluid": {"kind": "water"}, "flow": 1, "t_in": 300}
+    for where, value, path_ in (("coolant", water, "exchangers[1].coolant"),
                                 ("condensing_side", "shell", "exchangers[1].condensing_side"),
                                 ("plant_data", {"file": "x.csv"}, "exchangers[1].plant_data"),
                                 ("options", [{"type": "add_shells", "n": 1}], "exchangers[1].options[0].type")):

@@ -168,7 +168,8 @@ def condenser_header_html(case, unit, system: str = "SI") -> str:
     fluid = v.fluid
     p = getattr(fluid, "pressure", None)
     what = "air cooler" if case.coolant_side == "air" else f"shell and tube, vapour on the {case.condensing_side} side"
-    inlet = f"vapour fraction {v.quality:g}" if v.quality is not None else f"superheated, {fq(v.t_in, 'temperature', system)}"
+    inlet = (f"vapour fraction {v.quality:g}" if v.quality is not None
+             else f"superheated, {fq(v.t_in, 'temperature', system)}")
     if case.coolant_side == "air":
         cool = f"air at {fq(s.air_in, 'temperature', system)}"
     else:

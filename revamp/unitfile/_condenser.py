@@ -9,7 +9,7 @@ An entry as written in the unit file (YAML already read; values as the user wrot
       condensing_side: shell             # shell-and-tube only: where the vapour condenses (default shell)
       geometry: {shell_id: 0.84 m, ...}  # the geometry of a shell-and-tube (or air-cooler) entry
       vapour:
-        fluid: n-Pentane                 # a pure fluid (CoolProp name); or mixture: "HEOS::n-Pentane[0.6]&n-Hexane[0.4]"
+        fluid: n-Pentane                 # a pure fluid (CoolProp name); or mixture: "HEOS::Pentane[0.6]&Hexane[0.4]"
         pressure: 2.6 bar                # or curve: overhead_curve.csv (a condensing-curve table, see the docs)
         quality: 1.0                     # or superheat: 5 K
         flow: 12 kg/s
