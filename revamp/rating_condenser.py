@@ -67,7 +67,8 @@ INCREMENTS = 16
 #: A condensing-side pressure drop above this share of the inlet pressure is beyond the rating (near choking): NaN.
 CHOKE_SHARE = 0.5
 _MAX_SEARCH = 80
-_OUTER = 4  # passes of the pressure-drop / saturation-temperature feedback
+_OUTER = 8  # passes (at most) of the pressure-drop / saturation-temperature feedback
+_SETTLED_K = 0.05  # a saturation drop that still moves by more than this between the last passes is reported [K]
 
 
 def is_condensing(service) -> bool:
@@ -115,14 +116,16 @@ class CondenserRating(ResultFrames):
         drop [K]
     condensed : vapour condensed [kg/s]
     area : the exchanger's area (the basis of U) [m²]
-    zones : DataFrame, one row per zone (and case): ``case``, ``zone``, ``duty`` [W], ``area`` [m²],
+    zones : DataFrame, one row per zone (and case): ``case``, ``zone``, ``duty`` [W], ``area`` [m²] (whole exchanger),
         ``area_share`` [-], ``U`` [W/m²K] (area-weighted within the zone), ``t_in``/``t_out`` of the condensing
         stream and ``t_coolant_in``/``t_coolant_out`` [K], ``x_in``/``x_out`` [-], ``dp`` [Pa]
     increments : DataFrame, one row per increment: the local state (``x``, ``T``, ``T_coolant``, ``h_condensing``,
-        ``h_coolant``, ``U``, ``dT``, ``duty``, ``area``, ``length``, ``dp``, ``G``) for checks and plots
+        ``h_coolant``, ``U``, ``dT``, ``duty`` and ``area`` (whole exchanger), ``length`` (along one tube path),
+        ``dp``, ``G``, the phase properties) for checks and plots
     resistances : Series (one case) or DataFrame of the model's layers [m²K/W], area-weighted means
     layers : the layer names (from the exchanger's model)
-    warnings : tuple of str
+    warnings : tuple of str, each film's prefixed with the film and side (in those, "cases" count the increments
+        along the path where the film is used)
     exchanger, service : the inputs
     """
 
@@ -168,12 +171,6 @@ def _curve_of(fluid):
     return condensing(fluid)
 
 
-def _cum_trapz(y, x):
-    out = np.zeros_like(np.asarray(x, dtype=float))
-    out[1:] = np.cumsum(0.5 * (y[1:] + y[:-1]) * np.diff(x))
-    return out
-
-
 @dataclass(frozen=True)
 class _Path:
     """The condensing stream's path, the same for every case: heat released per kg ``s`` [J/kg] from the inlet
@@ -203,10 +200,14 @@ def _path(curve, t_in, x_in, t_floor) -> _Path:
     q, Tc, xc = (np.asarray(a, dtype=float) for a in (curve.q, curve.T, curve.x))
     parts_s, parts_T, parts_x = [], [], []
     s0 = 0.0
-    if x_in is None and t_in > curve.t_dew + 1e-9:  # desuperheating: cp of the vapour integrated
+    if x_in is None and t_in > curve.t_dew + 1e-9:  # desuperheating: the curve's vapour enthalpies
         Tg = np.linspace(t_in, curve.t_dew, 41)
-        cp = np.asarray(curve.vapour.props(Tg).heat_capacity, dtype=float) * np.ones_like(Tg)
-        sg = _cum_trapz(cp, -Tg)
+        try:
+            hs = np.asarray(curve.superheat(Tg), dtype=float)
+        except InputError as exc:
+            raise InputError("t_in", f"{t_in:.2f} K", f"a vapour inlet within the condensing fluid's "
+                             f"superheat range ({exc.allowed})") from None
+        sg = hs[0] - hs
         parts_s.append(sg), parts_T.append(Tg), parts_x.append(np.ones_like(Tg))
         s0 = float(sg[-1])
     s1 = s0
@@ -219,10 +220,12 @@ def _path(curve, t_in, x_in, t_floor) -> _Path:
     parts_x.append(np.asarray(xq, dtype=float) * np.ones_like(qg))
     s2 = s1 + float(q[-1]) - q_in
     t_b = float(curve.t_bubble)
+    enthalpy = getattr(curve, "liquid_enthalpy", None)
+    if enthalpy is not None:  # the subcooling the curve tabulates
+        t_floor = max(t_floor, float(enthalpy.T[0]))
     t_floor = min(t_floor, t_b - 1e-3)
     Tl = np.linspace(t_b, t_floor, 61)
-    cpl = np.asarray(curve.liquid.props(np.clip(Tl, curve.liquid.t_min, t_b - 1e-6)).heat_capacity, dtype=float)
-    sl = s2 + _cum_trapz(cpl * np.ones_like(Tl), -Tl)
+    sl = s2 + np.asarray(curve.subcooling(Tl), dtype=float)  # the curve's condensate enthalpies
     parts_s.append(sl), parts_T.append(Tl), parts_x.append(np.zeros_like(Tl))
     s = np.concatenate(parts_s)
     keep = np.concatenate(([True], np.diff(s) > 0))
@@ -294,7 +297,8 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     :mod:`revamp.correlations.two_phase` (its default method) is integrated along the path. The pressure drop
     lowers the saturation temperature along the path (pure fluid: exact at the outlet pressure; a curve shifted as
     :meth:`CondensingFluid.at_pressure` states), distributed along the path in proportion to the accumulated
-    pressure drop, and the rating is repeated with it.
+    pressure drop, and the rating is repeated with it until the drop settles (at most eight passes; one still
+    moving by more than 0.05 K between the last passes is reported in the warnings).
 
     References
     ----------
@@ -357,7 +361,10 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         raise InputError(f"service.{k_side}.t_in", float(tc_in[0]), f"below the condensing stream's inlet "
                          f"{t_h_in:.2f} K (a coolant)")
     tc_low = float(np.min(tc_in))
-    path = _path(curve, t_h_in, x_in, max(tc_low, float(curve.liquid.t_min)))
+    try:
+        path = _path(curve, t_h_in, x_in, max(tc_low, float(curve.liquid.t_min)))
+    except InputError as exc:
+        raise exc.with_prefix(f"service.{c_side}") from None
     s1, s2 = path.bounds
 
     # geometry of the condensing path
@@ -493,15 +500,19 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         A = dA.reshape(shp).sum(axis=(1, 2))
         if not detail:
             return A
-        warns = (tuple(fc.warnings)
-                 + _film_warnings(tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l,
-                                  cp_l, latent, p_red, dtf, u_v)
-                 + _used_warnings(model, c_side, m_v, pv, (dQ > 0) & ((z == 0) | ((z == 1) & (Z > 0))))
-                 + _used_warnings(model, c_side, mh, pl, (dQ > 0) & (z == 2)))
+        warns = (tuple(f"coolant ({k_side} side) film: {w}" for w in fc.warnings)
+                 + tuple(f"condensing film ({c_side} side): {w}" for w in _film_warnings(
+                     tube_cond, (dQ > 0) & (z == 1), G, xm, d_i, d_o, rows, rho_l, rho_v, mu_l, k_l, cp_l, latent,
+                     p_red, dtf, u_v))
+                 + tuple(f"vapour film ({c_side} side): {w}" for w in _used_warnings(
+                     model, c_side, m_v, pv, (dQ > 0) & ((z == 0) | ((z == 1) & (Z > 0)))))
+                 + tuple(f"condensate film ({c_side} side, subcooling): {w}" for w in _used_warnings(
+                     model, c_side, mh, pl, (dQ > 0) & (z == 2))))
         out = dict(A=A, E_out=E_out, Th=Th, Tc=Tc, x_nodes=path.x_at(nodes), nodes=nodes, thm=Th_m, tcm=Tc_m,
                    R=[r.reshape(shp) for r in R], warnings=warns)
         for key, v in (("dA", dA), ("dQ", dQ), ("U", U), ("x", xm), ("h_c", h_c), ("h_k", h_k), ("G", G),
-                       ("rho_l", rho_l), ("rho_v", rho_v), ("mu_l", mu_l), ("mu_v", mu_v), ("h_film", h_f),
+                       ("rho_l", rho_l), ("rho_v", rho_v), ("mu_l", mu_l), ("mu_v", mu_v), ("k_l", k_l),
+                       ("cp_l", cp_l), ("h_film", h_f),
                        ("Z", Z), ("dtf", dtf), ("u_v", u_v)):
             out[key] = np.asarray(v).reshape(shp)
         return out
@@ -545,8 +556,9 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
     def no_drop(s):
         return np.zeros(np.shape(s))
 
-    dtsat, s_out = no_drop, None
-    for _ in range(_OUTER):  # the coolant's heat capacity at the mean of its inlet and outlet; the saturation drop
+    dtsat, s_out, dt_drop = no_drop, None, np.zeros(n)
+    for it in range(_OUTER):  # the coolant's heat capacity at the mean of its inlet and outlet; the saturation drop
+        dt_before = dt_drop
         s_out = solve(dtsat, cp_c, s_out)
         if not air:
             t_c_out = tc_in + m_h * s_out / (m_c * cp_c)  # (the small pressure-drop term left out here)
@@ -554,10 +566,18 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, **methods) 
         d = evaluate(s_out, dtsat, cp_c, detail=True)
         dp_total, dt_drop, dtsat = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve,
                                                  m_h, s_out, s1, s2, t_h_in)
+        if it >= 1 and np.all(~(np.abs(dt_drop - dt_before) > 0.2 * _SETTLED_K) | ~hot):
+            break
+    dt_used = dt_drop
     s_out = solve(dtsat, cp_c, s_out)
     d = evaluate(s_out, dtsat, cp_c, detail=True)
     dp_total, dt_drop, _ = _drop_profile(d, n, tube_cond, area_per_length, bundle, model, c_side, curve, m_h,
                                          s_out, s1, s2, t_h_in)
+    unsettled = np.abs(dt_drop - dt_used) > _SETTLED_K
+    if np.any(unsettled & hot):
+        warnings.append(f"saturation-temperature feedback: in {int(np.sum(unsettled & hot))} case(s) the drop "
+                        f"settled only to within {float(np.max(np.abs(dt_drop - dt_used)[hot])):.2g} K after "
+                        f"{_OUTER} passes (a large pressure drop at low pressure)")
     choked = ~(dp_total < CHOKE_SHARE * float(curve.pressure))
     if np.any(choked & hot):
         warnings.append(f"condensing side: in {int(np.sum(choked & hot))} case(s) the pressure drop is more than "
@@ -709,7 +729,7 @@ def _zone_frames(d, n, shape, c_side, k_side):
         "u_vapour": d["u_v"].ravel(), "U": U.ravel(), "dT": (d["thm"] - d["tcm"]).ravel(), "duty": dQ.ravel(),
         "area": dA.ravel(), "length": d["length"].ravel(), "dp": d["dp"].ravel(), "G": d["G"].ravel(),
         "rho_l": d["rho_l"].ravel(), "rho_v": d["rho_v"].ravel(), "mu_l": d["mu_l"].ravel(),
-        "mu_v": d["mu_v"].ravel()})
+        "mu_v": d["mu_v"].ravel(), "k_l": d["k_l"].ravel(), "cp_l": d["cp_l"].ravel()})
     inc = inc[inc["duty"] > 0].reset_index(drop=True)
     area_tot = dA.sum(axis=(1, 2))
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -770,6 +790,9 @@ def _result(exchanger, service, model, curve, path, d, s_out, m_h, m_c, tc_in, c
     else:
         resistances = pd.DataFrame({name: r for name, r in zip(layers, R_mean)})
     zones, inc = _zone_frames(d, n, shape, c_side, k_side)
+    for frame in (zones, inc):  # the whole exchanger: every parallel unit alike
+        frame["duty"] *= n_par
+        frame["area"] *= n_par
     warnings = list(warnings) + list(d["warnings"])
     if not air and float(getattr(exchanger, "tube_passes", 1)) > 1 and (
             s1 > 0 or np.any(s_out > s2) or float(curve.t_dew) - float(curve.t_bubble) > 0.5):
@@ -895,8 +918,7 @@ def condensing_pressure_for(exchanger, service, duty_or_vapour_load, *, incremen
             return value
         per_kg = float(c.latent) - _q_in(c, s.quality)
         if superheat:
-            T = np.linspace(float(s.t_in), float(c.t_dew), 21)
-            per_kg += float(np.trapezoid(np.asarray(c.vapour.props(T).heat_capacity) * np.ones_like(T), -T))
+            per_kg += float(c.superheat(float(s.t_in)))
         return value / per_kg
 
     def rated(p):

@@ -202,6 +202,9 @@ def test_sweep_matches_single_cases():
         assert sweep.t_out_tube[i] == pytest.approx(one.t_out_tube, abs=1e-4)
     assert sweep.duty[1] > sweep.duty[0]  # more coolant, more duty (law)
     assert set(sweep.zones["case"]) == {0, 1}
+    frame = sweep.to_frame()
+    assert frame.shape[0] == 2 and "R tube film" in frame
+    assert np.allclose(frame[[f"R {name}" for name in sweep.layers]].sum(axis=1), 1.0 / sweep.U_service)
 
 
 # ------------------------------------------------------------------------------------------------------ films, dp
@@ -340,3 +343,107 @@ def test_mixture_condenses_with_its_glide():
     h_in = state.hmass()
     state.update(CP.PT_INPUTS, 1.5e5, float(r.t_out_shell))
     assert r.duty == pytest.approx(3.0 * (h_in - state.hmass()), rel=5e-3)
+
+
+def test_air_cooled_condenser_sweep_more_air_more_duty():
+    ac = rv.AirCooler(bays=1, bundles_per_bay=2, tube_rows=4, tubes_per_row=30, tube_passes=2, tube_length="6 m",
+                      tube_od="25.4 mm", tube_wall="2.11 mm", transverse_pitch="63.5 mm", row_pitch="55 mm",
+                      fin=rv.Fin(height="15.9 mm", thickness="0.4 mm", per_length="394 /m"))
+    velocity = np.array([2.0, 3.0, 4.0])
+    svc = rv.AirService(tube=rv.Stream(VAPOUR, "3 kg/s", quality=1.0), air_in="30 degC", face_velocity=velocity)
+    r = rv.rate(ac, svc)
+    assert r.duty.shape == (3,)
+    assert np.all(np.diff(r.duty) > 0)  # more air, more duty (law)
+    assert np.all(r.t_out_air > 303.15) and np.all(r.t_out_air < r.service.tube.t_in)
+    one = rv.rate(ac, svc.replace(face_velocity=3.0))
+    assert one.duty == pytest.approx(r.duty[1], rel=1e-6)  # the sweep is the cases one by one
+    z = r.zones[r.zones.case == 1]
+    assert z["duty"].sum() == pytest.approx(r.duty[1], rel=1e-9)  # two bundles: the zones are the whole cooler
+    assert z["area"].sum() == pytest.approx(r.area, rel=1e-6)
+
+
+# ------------------------------------------------------------------------------------------------------ films
+def test_in_tube_condensing_film_against_ht():
+    hx = exchanger()
+    r = rv.rate(hx, tube_condenser(flow=4.0, water=60.0))
+    cond = r.increments[r.increments.zone == "condensing"]
+    m_tube = 4.0 / float(hx.tubes_per_pass)
+    p_crit = PropsSI("pcrit", HEXANE)  # CoolProp
+    for _, row in cond.iterrows():
+        # ht.condensation.Shah (Bell): Shah (1979) at the engine's state (reduced pressure at the inlet pressure)
+        shah = ht.condensation.Shah(m=m_tube, x=row.x, D=float(hx.tube_id), rhol=row.rho_l, mul=row.mu_l,
+                                    kl=row.k_l, Cpl=row.cp_l, P=P_HEX, Pc=p_crit)
+        assert row.h_film >= shah * (1 - 1e-9)  # the larger of Shah and the stratified form
+    upper = cond[cond.x > 0.3]
+    shah_upper = [ht.condensation.Shah(m=m_tube, x=row.x, D=float(hx.tube_id), rhol=row.rho_l, mul=row.mu_l,
+                                       kl=row.k_l, Cpl=row.cp_l, P=P_HEX, Pc=p_crit) for _, row in upper.iterrows()]
+    # at these mass fluxes and qualities Shah governs (annular flow): the engine's film is Shah's value
+    assert np.allclose(upper.h_film, shah_upper, rtol=1e-9)
+
+
+def test_shell_condensing_film_from_the_published_equations(full_shell):
+    hx = exchanger()
+    inc = full_shell.increments
+    cond = inc[inc.zone == "condensing"]
+    rows_vertical = math.pi / 4.0 * hx.bell().Dctl / hx.bell().pitch_parallel  # the model's stated estimate
+    g = 9.80665
+    h_fg = h_mass(Q=1.0) - h_mass(Q=0.0)  # CoolProp latent heat at the inlet pressure
+    for _, row in cond.iloc[[0, len(cond) // 2, -1]].iterrows():
+        d = float(hx.tube_od)
+        # Nusselt (1916) horizontal tube, 0.725 [rho_l (rho_l - rho_v) g h_fg k_l^3 / (mu_l dT d)]^(1/4), with Kern's
+        # N^(-1/6) (Kern 1958)
+        h_grav = 0.725 * (row.rho_l * (row.rho_l - row.rho_v) * g * h_fg * row.k_l ** 3
+                          / (row.mu_l * row.dT_film * d)) ** 0.25 * rows_vertical ** (-1 / 6)
+        # Shekriladze & Gomelauri (1966): Nu = 0.59 Re^(1/2), Re = rho_l u_v d / mu_l
+        h_shear = 0.59 * math.sqrt(row.rho_l * row.u_vapour * d / row.mu_l) * row.k_l / d
+        # Butterworth (1977): h^2 = h_sh^2 / 2 + sqrt(h_sh^4 / 4 + h_gr^4)
+        expected = math.sqrt(0.5 * h_shear ** 2 + math.sqrt(0.25 * h_shear ** 4 + h_grav ** 4))
+        assert row.h_film == pytest.approx(expected, rel=1e-3)
+
+
+def test_stream_replace_moves_to_the_new_saturation():
+    s = rv.Stream(VAPOUR, 4.0, quality=0.8)
+    other = s.replace(fluid=rv.fluids.pure(HEXANE, pressure=3e5))
+    # CoolProp: saturation temperature of n-hexane at 3 bar
+    assert other.t_in == pytest.approx(PropsSI("T", "P", 3e5, "Q", 1.0, HEXANE), abs=1e-6)
+    assert other.quality == 0.8 and s.replace(flow=5.0).t_in == s.t_in
+
+
+def test_vapour_beyond_the_tabulated_superheat_is_refused():
+    t_in = PropsSI("T", "P", P_HEX, "Q", 1.0, HEXANE) + 400.0
+    with pytest.raises(InputError) as exc:
+        rv.rate(exchanger(), shell_condenser(phase="vapour", t_in=t_in))
+    assert exc.value.field == "service.shell.t_in"
+
+
+def test_default_increments_resolve_the_path():
+    # the default cut against a three times finer one (numerical convergence; no outside number needed)
+    t_in = PropsSI("T", "P", P_HEX, "Q", 1.0, HEXANE) + 30.0
+    svc = tube_condenser(flow=4.0, water=30.0, phase="vapour", t_in=t_in)
+    coarse = rv.rate(exchanger(), svc)
+    fine = rv.rate(exchanger(), svc, increments=48)
+    assert coarse.duty == pytest.approx(fine.duty, rel=1e-3)
+    assert coarse.t_out_tube == pytest.approx(fine.t_out_tube, abs=0.2)
+
+
+@settings(max_examples=3, deadline=None)
+@given(flow=st.floats(2.0, 10.0), fouling=st.floats(1e-4, 1e-3))
+def test_fouling_never_more_duty_and_zones_add_up(flow, fouling):
+    clean = rv.rate(exchanger(), tube_condenser(flow=flow, water=40.0))
+    fouled = rv.rate(exchanger(), tube_condenser(flow=flow, water=40.0).replace(fouling_tube=fouling))
+    assert fouled.duty <= clean.duty * (1 + 1e-9)  # a deposit only adds resistance (law)
+    for r in (clean, fouled):
+        # energy along the curve: the zones' duties and areas add up to the whole (conservation, definition)
+        assert r.zones["duty"].sum() == pytest.approx(r.duty, rel=1e-9)
+        assert r.zones["area"].sum() == pytest.approx(r.area, rel=1e-6)
+        assert r.increments["duty"].sum() == pytest.approx(r.duty, rel=1e-9)
+
+
+def test_parallel_units_share_the_load():
+    one = rv.rate(exchanger(), tube_condenser(flow=4.0, water=40.0))
+    two = rv.rate(exchanger(shells_parallel=2), tube_condenser(flow=8.0, water=80.0))
+    # two identical trains in parallel, each with the single train's flows: twice the duty, same outlets (definition)
+    assert two.duty == pytest.approx(2.0 * one.duty, rel=1e-6)
+    assert two.t_out_tube == pytest.approx(one.t_out_tube, abs=1e-4)
+    assert two.zones["duty"].sum() == pytest.approx(two.duty, rel=1e-9)
+    assert two.zones["area"].sum() == pytest.approx(two.area, rel=1e-6)
