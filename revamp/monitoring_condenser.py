@@ -45,7 +45,7 @@ _FROM = {"pressure": "condensing_pressure", "temperature": "condensing_t"}
 #: the most rows whose fouling one analysis solves with the rating: with more used rows, every k-th is solved and
 #: the others carried through their own heat balance (the clean resistance, which moves only with the coolant flow
 #: and temperatures and the load, interpolated linearly between solved rows in row order)
-MAX_RATED_ROWS = 120
+MAX_RATED_ROWS = 480
 #: rows are rated at the median pressure of their bin: bins of this width in ln(p) (2 %)
 PRESSURE_BIN = 0.02
 #: the largest total fouling searched [m²K/W, outside area]
