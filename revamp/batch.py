@@ -415,6 +415,7 @@ def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, unit
             continue
         case = unit.exchanger(tag)
         extra = [case.plant_data.file] if getattr(case, "plant_data", None) else []
+        extra += [case.curve_file] if getattr(case, "curve_file", None) is not None else []
         kind_nb = KIND_NOTEBOOKS.get(getattr(case, "kind", None))
         if kind_nb is not None:  # an air cooler, a condenser: a study notebook of its own
             nb_for = nb_path.with_name(kind_nb)

@@ -156,7 +156,12 @@ def test_a_condensing_curve_table_file(tmp_path):
     entry["coolant"]["t_in"] = "30 degC"
     problems = unitfile.check(write_unit(tmp_path / "unit.yaml", _unit(entry)))
     assert problems == []
-    c = unitfile.load(tmp_path / "unit.yaml").exchanger("C-1")
+    unit = unitfile.load(tmp_path / "unit.yaml")
+    c = unit.exchanger("C-1")
+    assert c.curve_file == (tmp_path / "curve.csv").resolve()
+    from revamp.batch_remote import unit_files
+
+    assert "curve.csv" in unit_files(unit, (tmp_path / "unit.yaml").resolve())  # sent to a cluster's workers too
     # 85 °C dew point and 300 kJ/kg latent heat, as the table says (unit definitions)
     assert c.vapour.fluid.t_dew == pytest.approx(358.15) and c.vapour.fluid.latent == pytest.approx(3e5)
     entry["vapour"]["curve_units"]["heat_released"] = "kWh"

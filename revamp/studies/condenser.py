@@ -7,6 +7,8 @@ References
 ----------
 Bell, K. J., and Ghaly, M. A. (1973). An approximate generalized design method for multicomponent/partial
 condensers. AIChE Symp. Ser. 69(131), 72-79 (the zone-by-zone rating along the condensing curve).
+Brent, R. P. (1973). *Algorithms for Minimization without Derivatives*. Prentice-Hall, ch. 4 (the root search on
+the pressure).
 Kister, H. Z. (1990). *Distillation Operation*. McGraw-Hill, ch. 15 (a column's top pressure set by what its
 overhead condenser can condense: the column-pressure question).
 """

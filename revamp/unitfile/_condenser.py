@@ -169,6 +169,7 @@ class CondenserCase:
     dp_allowed: dict = None               #: {"condensing": Pa, "coolant": Pa} as given
     plant_data: CondenserPlantData | None = None
     index: int = -1
+    curve_file: object = None             #: Path of the condensing-curve table file (None: a fluid or mixture)
     kind: str = CONDENSER_KIND
 
     @property
@@ -552,6 +553,7 @@ def build_condenser(i: int, x: dict, problems: list, base=None) -> CondenserCase
     ``base`` is the unit file's folder (for ``vapour.curve`` and ``plant_data.file``)."""
     from ..service import Service
     from ..service_air import AirService
+    from ._building import _safe_file
 
     pre, start = f"exchangers[{i}]", len(problems)
     if not isinstance(x, dict):
@@ -675,7 +677,8 @@ def build_condenser(i: int, x: dict, problems: list, base=None) -> CondenserCase
                          condensing_side=side, coolant_side=coolant_side, options=tuple(opts),
                          revamp_service=revamp_service, vapour_load=load, throughput=throughput,
                          allowed_pressure=a.get("pressure"), allowed_temperature=a.get("temperature"),
-                         dp_allowed=dp, plant_data=plant, index=i)
+                         dp_allowed=dp, plant_data=plant, index=i,
+                         curve_file=_safe_file(vap["curve"], base)[0] if "curve" in vap and base is not None else None)
 
 
 def condenser_problems(i: int, x: dict, base=None) -> list[Problem]:
