@@ -137,3 +137,21 @@ def test_bad_input_names_its_field():
     with pytest.raises(InputError) as exc:
         monitor_condenser_data(HX, svc, pd.DataFrame({"timestamp": ["2031-01-01"]}), condensing_from="smell")
     assert exc.value.field == "condensing_from"
+
+
+def test_mean_temperature_difference_along_a_glide_is_the_lmtd_of_a_straight_curve():
+    """A curve straight in temperature against heat released, against a coolant in counterflow: the temperature
+    difference is linear in the duty, and the reciprocal of the mean of 1/dT is then the LMTD of its end
+    differences (calculus: the integral of 1/(a + b f) over f from 0 to 1)."""
+    from revamp.monitoring_condenser import _dt_mean
+
+    props = {"liquid_density": [600.0] * 3, "liquid_heat_capacity": [2400.0] * 3, "liquid_viscosity": [2e-4] * 3,
+             "liquid_conductivity": [0.11] * 3, "vapour_density": [5.0] * 3, "vapour_heat_capacity": [1900.0] * 3,
+             "vapour_viscosity": [8e-6] * 3, "vapour_conductivity": [0.018] * 3}  # invented, SI
+    curve = rv.fluids.condensing_curve(table={"temperature": [358.15, 353.15, 348.15],
+                                              "heat_released": [0.0, 1.5e5, 3.0e5], "vapour_fraction": [1.0, 0.5, 0.0],
+                                              **props}, pressure=2e5, critical_pressure=3e6)
+    t_in, t_out = np.array([303.15]), np.array([318.15])
+    got = _dt_mean(curve, np.array([2e5]), np.array([358.15]), t_in, t_out)
+    d1, d2 = 358.15 - 318.15, 348.15 - 303.15  # vapour inlet meets the coolant outlet (counterflow)
+    assert got[0] == pytest.approx((d2 - d1) / np.log(d2 / d1), rel=1e-3)  # trapezoidal rule, 41 points

@@ -261,3 +261,19 @@ def test_an_air_cooled_condenser(tmp_path):
         bad[where] = value
         problems = unitfile.check(write_unit(tmp_path / "bad.yaml", _unit(bad)))
         assert path_ in [p.path for p in problems], (where, problems)
+
+
+def test_a_coolprop_mixture(tmp_path):
+    entry = copy.deepcopy(ENTRY)
+    entry["vapour"].pop("fluid")
+    entry["vapour"]["mixture"] = "HEOS::n-Pentane[0.5]&n-Hexane[0.5]"
+    assert unitfile.check(write_unit(tmp_path / "unit.yaml", _unit(entry))) == []
+    c = unitfile.load(tmp_path / "unit.yaml").exchanger("C-1")
+    # a mixture condenses over a range: its dew point above its bubble point (phase rule; CoolProp gives both)
+    assert c.vapour.fluid.t_dew > c.vapour.fluid.t_bubble + 1.0
+    entry["vapour"]["mixture"] = "HEOS::Nothing[0.5]&n-Hexane[0.5]"
+    problems = unitfile.check(write_unit(tmp_path / "unit.yaml", _unit(entry)))
+    assert [p.path for p in problems] == ["exchangers[1].vapour.mixture"], problems
+    entry["vapour"]["fluid"] = "n-Hexane"  # two ways at once
+    problems = unitfile.check(write_unit(tmp_path / "unit.yaml", _unit(entry)))
+    assert [p.path for p in problems] == ["exchangers[1].vapour"], problems

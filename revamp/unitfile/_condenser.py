@@ -286,7 +286,7 @@ def _vapour_fluid(v: dict, q: dict, where: str, base, problems: list):
         return _guard(problems, where, make, rename=lambda f: "fluid" if f.split(".")[-1] in ("name", "fluid") else f)
     if "mixture" in v:
         return _guard(problems, where, lambda: fluids.condensing_curve(mixture=v["mixture"], pressure=p),
-                      rename=lambda f: "mixture" if f in ("mixture", "table") else f)
+                      rename=lambda f: "mixture" if f.startswith(("condensing_curve", "mixture", "table")) else f)
     if not isinstance(v["curve"], str):
         problems.append(Problem(f"{where}.curve", _show(v["curve"]), "must be the path of a CSV file"))
         return None
