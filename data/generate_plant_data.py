@@ -283,7 +283,50 @@ DEMO_LAWS = {
     "C-201": Asymptotic(rf0=2e-5, rf_inf=2.5e-4, tau_days=60.0),
     # air cooler: total on the bare outside-tube area (fins collect dust and pollen; invented)
     "AC-301": Asymptotic(rf0=5e-5, rf_inf=3.5e-4, tau_days=150.0),
+    "C-401": Asymptotic(rf0=5e-5, rf_inf=3.5e-4, tau_days=100.0),
 }
+
+
+def generate_condenser(case, start="2031-01-01", days=365, step_hours=3, fouling_law=None, seed=0,
+                       flow_noise=0.01, temperature_noise=0.2, pressure_noise=0.003) -> pd.DataFrame:
+    """An invented series for one shell-and-tube condenser (a ``kind: condenser`` case of the unit file).
+
+    The column runs at its condensing pressure (the pressure transmitter reads it with ``pressure_noise``, relative);
+    the vapour load and the coolant flow swing with the process, the coolant inlet with the day; the deposit forms on
+    the coolant side (``fouling_law(t, {}) -> Rf`` [m²K/W, outside area]). Each row is rated zone by zone
+    (:func:`revamp.rating_condenser.rate_condenser`) for the coolant outlet. Columns: ``timestamp``,
+    ``coolant_flow`` [kg/s], ``coolant_t_in``, ``coolant_t_out`` [K], ``condensing_pressure`` [Pa],
+    ``condensate_t`` [K], ``rf_true`` (the fouling on the coolant side alone; the vapour side keeps its design value).
+    """
+    from revamp.rating_condenser import rate_condenser
+
+    rng = np.random.default_rng(seed)
+    n = int(days * 24 // step_hours)
+    t = np.arange(n) * step_hours * 3600.0
+    svc, c_side, k_side = case.service, case.condensing_side, case.coolant_side
+    vapour, coolant = getattr(svc, c_side), getattr(svc, k_side)
+    m_v = vapour.flow * _process(rng, n, step_hours)
+    m_c = coolant.flow * _process(rng, n, step_hours)
+    tc_in = coolant.t_in + 2.0 * np.sin(2 * np.pi * t / DAY - 2.0) + rng.normal(0, 0.1, n)
+    rf = np.zeros(n) if fouling_law is None else np.asarray(fouling_law(t, {}), dtype=float) * np.ones(n)
+    ex = case.exchanger
+    fouled = svc.replace(**{c_side: vapour.replace(flow=m_v), k_side: coolant.replace(flow=m_c, t_in=tc_in)},
+                         **{f"fouling_{k_side}": getattr(svc, f"fouling_{k_side}") * 0 + (
+                             rf * ex.tube_id / ex.tube_od if k_side == "tube" else rf)})
+    r = rate_condenser(ex, fouled)
+    df = pd.DataFrame({
+        "timestamp": pd.date_range(start, periods=n, freq=f"{step_hours}h").strftime("%Y-%m-%d %H:%M:%S"),
+        "coolant_flow": (m_c * (1 + rng.normal(0, flow_noise, n))).round(4),
+        "coolant_t_in": (tc_in + rng.normal(0, temperature_noise, n)).round(3),
+        "coolant_t_out": (np.asarray(r.t_out_coolant) + rng.normal(0, temperature_noise, n)).round(3),
+        "condensing_pressure": (float(vapour.fluid.pressure) * (1 + rng.normal(0, pressure_noise, n))).round(1),
+        "condensate_t": (np.asarray(r.t_out_condensing) + rng.normal(0, temperature_noise, n)).round(3),
+        "rf_true": rf,
+    })
+    df = df.astype({c: object for c in ("coolant_flow", "coolant_t_out")})
+    for i in rng.choice(np.arange(50, n - 50), size=4, replace=False):
+        df.loc[int(i), str(rng.choice(["coolant_flow", "coolant_t_out"]))] = ""  # missing values
+    return df
 
 
 def _load_unit(path: Path):
@@ -312,6 +355,11 @@ def main(argv=None) -> int:
         if only and case.tag not in only:
             continue
         law = DEMO_LAWS.get(case.tag, Asymptotic(rf0=5e-5, rf_inf=3e-4, tau_days=90.0))
+        if getattr(case, "kind", None) == "condenser":
+            df = generate_condenser(case, fouling_law=law, seed=100 + k)
+            df.to_csv(out / f"{case.tag}.csv", index=False)
+            print(f"{case.tag}: {len(df)} rows (condenser) -> {(out / f'{case.tag}.csv').relative_to(here.parent)}")
+            continue
         if getattr(case, "kind", None) == "air cooler":
             df = generate_air(case.exchanger, case.service, start="2031-01-01", hours=8760, fouling_law=law,
                               seed=100 + k, number=case.tag.split("-")[-1])

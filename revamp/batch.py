@@ -200,6 +200,9 @@ def _execute(jobs_list: list, workers: int, on_result, tmp_dir: str) -> None:
     pool.shutdown(wait=True)
 
 
+#: exchanger kind -> its study notebook (the others use the batch's notebook, ``exchanger_study.ipynb``)
+KIND_NOTEBOOKS = {"air cooler": "air_cooler_study.ipynb", "condenser": "condenser_study.ipynb"}
+
 #: columns of the index table: (summary key, header, formatter)
 SUMMARY_FIELDS = [
     ("duty_today", "duty today [kW]", lambda v: f"{v / 1e3:,.0f}"),
@@ -208,6 +211,7 @@ SUMMARY_FIELDS = [
     ("meets_target", "meets target as is", lambda v: "yes" if v else "no"),
     ("screening_as_is", "limits as is", str),
     ("recommendation", "recommendation", str),
+    ("condensing_pressure", "condensing pressure held [bar]", lambda v: f"{v / 1e5:.3g}"),
 ]
 
 
@@ -411,9 +415,11 @@ def _plan(unit, problems, entries, nb_path: Path, unit_file: Path, timeout, unit
             continue
         case = unit.exchanger(tag)
         extra = [case.plant_data.file] if getattr(case, "plant_data", None) else []
-        if getattr(case, "kind", None) == "air cooler":  # an air cooler has a study notebook of its own
-            nb_for = nb_path.with_name("air_cooler_study.ipynb")
-            nb_for = nb_for if nb_for.is_file() else notebook_path("air_cooler_study.ipynb")
+        extra += [case.curve_file] if getattr(case, "curve_file", None) is not None else []
+        kind_nb = KIND_NOTEBOOKS.get(getattr(case, "kind", None))
+        if kind_nb is not None:  # an air cooler, a condenser: a study notebook of its own
+            nb_for = nb_path.with_name(kind_nb)
+            nb_for = nb_for if nb_for.is_file() else notebook_path(kind_nb)
         else:
             nb_for = nb_path
         jobs_list.append({"tag": tag, "notebook": str(nb_for), "unit_file": str(unit_file),

@@ -27,6 +27,8 @@ def unit_files(unit, unit_file: Path) -> dict:
     base = unit_file.parent
     files = {unit_file.name: unit_file}
     for case in unit.exchangers:
+        if getattr(case, "curve_file", None) is not None:  # a condenser's condensing-curve table
+            files[Path(case.curve_file).resolve().relative_to(base).as_posix()] = Path(case.curve_file).resolve()
         pd = getattr(case, "plant_data", None)
         if pd is None:
             continue

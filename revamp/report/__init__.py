@@ -23,6 +23,7 @@ from .case import (
                    unit_table,
                    write_summary,
 )
+from . import condenser  # noqa: F401  (the condenser study's report: ``report.condenser``)
 from .export import rating_frame, report_tables, write_csv, write_workbook
 from .pages import (
                    CAUTIONS,

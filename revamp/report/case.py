@@ -345,8 +345,10 @@ def unit_table(unit, system: str = "SI"):
 
     rows = []
     for case in unit.exchangers:
-        if getattr(case, "kind", None) == "air cooler":  # its own row: an air cooler has other sides
-            from .air import unit_row
+        if getattr(case, "kind", None) in ("air cooler", "condenser"):  # its own row: other sides
+            from importlib import import_module
+
+            unit_row = import_module(".air" if case.kind == "air cooler" else ".condenser", __package__).unit_row
 
             try:
                 rows.append(unit_row(case, system))

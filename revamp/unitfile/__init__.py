@@ -23,6 +23,7 @@ import re
 from pathlib import Path
 
 from ._aircooler import AIR_COOLER_KIND, AirCoolerCase, build_air_cooler
+from ._condenser import CONDENSER_KIND, CondenserCase, build_condenser
 from ._building import OPTION_PATH, _build_exchanger, _exchanger_rules
 from ._cleaning import cleaning_quantities, cleaning_rules
 from ._network import build_network, network_quantities, network_rules
@@ -51,6 +52,8 @@ from ._reading import (
 __all__ = [
     "AIR_COOLER_KIND",
     "AirCoolerCase",
+    "CONDENSER_KIND",
+    "CondenserCase",
     "SCHEMA_PATH",
     "STANDARD_COLUMNS",
     "ExchangerCase",
@@ -115,6 +118,11 @@ def _validate(path, build: bool, only=None):
             air[i] = build_air_cooler(i, x, own, base=base, network=doc.get("network"))
             own += _air_tag_rule(x, i, tags)
             problems += [p for p in own if p.path not in seen]
+        elif isinstance(x, dict) and x.get("kind") == CONDENSER_KIND:  # checked and built by its own module too
+            own = []
+            air[i] = build_condenser(i, x, own, base)
+            own += _air_tag_rule(x, i, tags)
+            problems += [p for p in own if p.path not in seen]
         elif isinstance(x, dict):  # a place already refused (e.g. a NUL in a file name) is not reported twice
             problems += [p for p in _exchanger_rules(x, ["exchangers", i], base, tags) if p.path not in seen]
     problems += network_rules(doc, si)  # also fills the sides that name a network stream
@@ -144,7 +152,8 @@ def _validate(path, build: bool, only=None):
         case = _build_exchanger(i, x, si["exchangers"][i], base, problems, econ, refused=refused)
         if case is not None:  # built without its wrong options, which keep their problems
             built.append(dataclasses.replace(case, refused_options=tuple(p for p in problems if _owned([p], i))))
-    network = build_network(si, doc, tuple(built), problems) if only is None else None
+    in_train = tuple(c for c in built if getattr(c, "kind", None) != CONDENSER_KIND)  # condensers are not in a train
+    network = build_network(si, doc, in_train, problems) if only is None else None
     problems = [_as_written(p, doc) for p in problems]
     unit = Unit(name=doc["unit"]["name"], description=doc["unit"].get("description", ""), path=path.resolve(),
                 sha256=hashlib.sha256(data).hexdigest(), economics=econ, exchangers=tuple(built), raw=doc,
