@@ -445,11 +445,13 @@ class OutletMap:
     dp_tube: np.ndarray
 
 
-def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True):
+def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True, blocks=1):
     """The body of :func:`rate` for a shell-and-tube exchanger (method and service already checked). With
     ``outlets_only`` it returns an :class:`OutletMap` of the flattened cases instead of a :class:`Rating` (no
     warnings, no result objects: for a network solve's intermediate passes); without ``with_dp`` its pressure drops
-    may be NaN (not computed)."""
+    may be NaN (not computed). ``blocks`` > 1: the flattened cases are that many equal blocks of the same cases at
+    slightly moved inlets (a network solve's finite-difference probes); on the few-case float path every case of a
+    later block starts from the state its case of the first block stopped at (a state closer than any other)."""
     kind = getattr(hx, "shell_type", "E")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
@@ -597,10 +599,12 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             # the array loop; the converged states are then evaluated once by the array kernels, which give every
             # reported number
             rows, lasts = [], []
+            first = n // blocks if blocks > 1 and n % blocks == 0 else n  # the cases of the first block
             for i in range(n):
                 hold = []
+                s_i = rows[i % first] if i >= first else None if start is None else start[:, i]
                 rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                         None if start is None else start[:, i], last=hold))
+                                         s_i, last=hold))
                 lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
             S = np.array(rows, dtype=float).T.reshape(4, n)
             if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs

@@ -48,7 +48,7 @@ _SIDES = ("shell", "tube")
 _STATE_FIELDS = ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube")  # a rating's iteration state
 # Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
 _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
-_PROBE_K = 0.01  # inlet step of the finite differences for the Newton step [K]
+_PROBE_K = 0.05  # inlet step of the finite differences for the Newton step [K] (far above the ratings' 1e-6 K stop)
 _SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at convergence [-]
 _DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
@@ -238,16 +238,19 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
             continue
         svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
                       tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
-        # warm starts only for the probe blocks: a rating the result may keep (the base block) starts from the
-        # inlets, as rate() alone does, so that rating an exchanger at its solved inlets gives back exactly the
-        # result's numbers
+        # warm starts only for the probe blocks: the base block starts from the inlets, as rate() alone does, so
+        # that rating an exchanger at its solved inlets gives back exactly the result's numbers, and so that the
+        # base outlets carry no iteration error of a start (the Newton step takes differences of them). On the
+        # few-case float path the probes start from their base case's stopping state instead (blocks=3), closer.
+        # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
+        # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
+        light = outlets_only and _rater(m.exchanger) is rate
         state = None if starts is None or not probe else starts.get(tag)
-        light = outlets_only and _rater(m.exchanger) is None
         with warm_start(None if state is None else np.concatenate(
                 [np.full_like(state[:, idx], np.nan), state[:, idx], state[:, idx]], axis=1)):
             if light:
                 ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
-                                                    with_dp=bool(plan.equal_dp))
+                                                    with_dp=bool(plan.equal_dp), blocks=3 if probe else 1)
             else:
                 ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
         if starts is not None:
@@ -399,7 +402,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
-        probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
+        probe = _PROBE_K if _PROBE_K and iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
         # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones
         light_pass = light and (bool(probe) or iterations == 1)
         ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass)
