@@ -500,6 +500,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     s_lo, s_hi = s_fluid.t_min, _below(s_fluid.t_max)
     t_lo_f, t_hi_f = t_fluid.t_min, _below(t_fluid.t_max)
     s_const, t_const = _constant_props(s_fluid), _constant_props(t_fluid)
+    # a fluid's viscosity-only call (exactly its props().viscosity) for the wall temperatures, where it has one
+    s_visc, t_visc = getattr(s_fluid, "viscosity_at", None), getattr(t_fluid, "viscosity_at", None)
 
     shell_kw_loop = {**shell_kw, "h_only": True} if bell_kernel else shell_kw
 
@@ -512,18 +514,25 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             ms, mt, tsi, tti, rfs, rft, sg, dT = (a[sel] for a in (m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in))
         na = xs.size
         tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
-        if s_const is None:
+        if s_const is not None:  # constant properties: the same floats at every temperature
+            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
+        elif s_visc is not None:  # the wall needs the viscosity only
+            ps = s_fluid.props(np.minimum(np.maximum(tm_s, s_lo), s_hi))
+            rho_s, cp_s, mu_s, k_s = (np.asarray(v, dtype=float) for v in (ps.density, ps.heat_capacity,
+                                                                           ps.viscosity, ps.conductivity))
+            mu_ws = np.asarray(s_visc(np.minimum(np.maximum(tws, s_lo), s_hi)), dtype=float)
+        else:
             ps = s_fluid.props(np.minimum(np.maximum(np.concatenate((tm_s, tws)), s_lo), s_hi))
             rho_s, cp_s, mu_s, k_s = (_head(v, na) for v in (ps.density, ps.heat_capacity, ps.viscosity,
                                                             ps.conductivity))
             mu_ws = _tail(ps.viscosity, na)
-        else:  # constant properties: the same floats at every temperature
-            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
-        if t_const is None:
-            pt = t_fluid.props(np.minimum(np.maximum(np.concatenate((tm_t, twt)), t_lo_f), t_hi_f))
-            rho_t, cp_t, mu_t, k_t = (_head(v, na) for v in (pt.density, pt.heat_capacity, pt.viscosity,
-                                                            pt.conductivity))
-            mu_wt = _tail(pt.viscosity, na)
+        if t_const is not None:
+            rho_t, cp_t, mu_t, k_t, mu_wt = t_const
+        elif t_visc is not None:
+            pt = t_fluid.props(np.minimum(np.maximum(tm_t, t_lo_f), t_hi_f))
+            rho_t, cp_t, mu_t, k_t = (np.asarray(v, dtype=float) for v in (pt.density, pt.heat_capacity,
+                                                                           pt.viscosity, pt.conductivity))
+            mu_wt = np.asarray(t_visc(np.minimum(np.maximum(twt, t_lo_f), t_hi_f)), dtype=float)
         else:
             rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
@@ -560,13 +569,15 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         if s_const is None:
             ps = s_fluid.props(min(max(tm_s, s_lo), s_hi))
             rho_s, cp_s, mu_s, k_s = (float(v) for v in (ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity))
-            mu_ws = float(s_fluid.props(min(max(tws, s_lo), s_hi)).viscosity)
+            tw = min(max(tws, s_lo), s_hi)
+            mu_ws = float(s_visc(tw) if s_visc is not None else s_fluid.props(tw).viscosity)
         else:
             rho_s, cp_s, mu_s, k_s, mu_ws = s_const
         if t_const is None:
             pt = t_fluid.props(min(max(tm_t, t_lo_f), t_hi_f))
             rho_t, cp_t, mu_t, k_t = (float(v) for v in (pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
-            mu_wt = float(t_fluid.props(min(max(twt, t_lo_f), t_hi_f)).viscosity)
+            tw = min(max(twt, t_lo_f), t_hi_f)
+            mu_wt = float(t_visc(tw) if t_visc is not None else t_fluid.props(tw).viscosity)
         else:
             rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         h_t = tube_corr.tube_h_float(mt, n_tpp, di, length, rho_t, cp_t, mu_t, k_t, mu_wt)

@@ -136,3 +136,43 @@ def test_few_case_solve_equals_full_rating_passes(monkeypatch):
         for col in ("t_out_shell", "t_out_tube"):  # both solved to 1e-6 K [K]
             assert fast.exchangers.loc[tag, col] == pytest.approx(full.exchangers.loc[tag, col], abs=1e-5)
         assert fast.exchangers.loc[tag, "duty"] == pytest.approx(full.exchangers.loc[tag, "duty"], rel=1e-6)
+
+
+# ------------------------------------------------------------------------------ the viscosity-only call of fluids
+def _fluids():
+    water = rv.fluids.water("10 bar")
+    return [
+        ("constant", KERO_C, np.array([250.0, 300.0, 450.0])),
+        ("table", rv.fluids.table(T=["50 degC", "100 degC", "150 degC"], density=[850, 820, 780],
+                                  heat_capacity=[2000, 2200, 2400], viscosity=["4 cP", "2 cP", "1 cP"],
+                                  conductivity=[0.13, 0.125, 0.12]),
+         np.array([300.0, 323.15, 350.0, 400.0, 423.15, 440.0])),  # inside and (extrapolated) outside the points
+        ("petroleum", RESID_P, np.array([280.0, 373.15, 420.0, 600.0, 640.0])),
+        ("coolprop water", water, np.array([280.0, 300.0, 350.0, 400.0, 450.0])),
+        ("coolprop pure", rv.fluids.pure("Toluene", "5 bar"), np.array([250.0, 300.0, 350.0, 400.0])),
+        ("condensing (condensate)", rv.fluids.condensing(water), np.array([290.0, 330.0, 420.0])),
+    ]
+
+
+@pytest.mark.parametrize("kind,fluid,temps", _fluids(), ids=[k for k, _, _ in _fluids()])
+def test_viscosity_only_call_equals_props_viscosity_exactly(kind, fluid, temps):
+    temps = temps[temps < fluid.t_max]
+    np.testing.assert_array_equal(fluid.viscosity_at(temps), fluid.props(temps).viscosity)  # arrays
+    grid = temps.reshape(-1, 1) + np.zeros((1, 2))
+    np.testing.assert_array_equal(fluid.viscosity_at(grid), fluid.props(grid).viscosity)  # any shape
+    for t in temps.tolist():  # Python floats: the scalar paths
+        v = fluid.viscosity_at(t)
+        assert type(v) is float and v == fluid.props(t).viscosity
+    assert fluid.viscosity_at(f"{temps[0] - 273.15} degC") == fluid.props(f"{temps[0] - 273.15} degC").viscosity
+
+
+@pytest.mark.parametrize("fluid", [RESID_P, rv.fluids.water("10 bar")], ids=["petroleum", "coolprop"])
+def test_viscosity_only_call_refuses_what_props_refuses(fluid):
+    too_hot = fluid.tc + 5.0 if hasattr(fluid, "tc") else fluid.t_max + 5.0  # not a liquid there
+    for T in (too_hot, np.array([400.0, too_hot])):
+        with pytest.raises(rv.errors.InputError):
+            fluid.props(T)
+        with pytest.raises(rv.errors.InputError):
+            fluid.viscosity_at(T)
+    with pytest.raises(rv.errors.InputError):
+        fluid.viscosity_at(np.array([400.0, np.nan]))
