@@ -176,3 +176,26 @@ def test_viscosity_only_call_refuses_what_props_refuses(fluid):
             fluid.viscosity_at(T)
     with pytest.raises(rv.errors.InputError):
         fluid.viscosity_at(np.array([400.0, np.nan]))
+
+
+@pytest.mark.parametrize("flows", [60.0, np.linspace(40.0, 90.0, 12)], ids=["one case", "sweep"])
+def test_chord_steps_reach_the_newton_solution_with_fewer_ratings(monkeypatch, flows):
+    rated = []
+    engine = rating_mod._rate_shell_and_tube
+
+    def counting(hx_, svc, *a, **kw):
+        rated.append(np.size(np.broadcast_arrays(svc.shell.flow, svc.tube.flow)[0]))
+        return engine(hx_, svc, *a, **kw)
+
+    monkeypatch.setattr(sv, "_rate_shell_and_tube", counting)
+    monkeypatch.setattr(rating_mod, "_rate_shell_and_tube", counting)
+    chord = interlinked(flows).solve()
+    with_chord = sum(rated)
+    rated.clear()
+    monkeypatch.setattr(sv, "_CHORD_FALL", 0.0)  # probes on every Newton pass
+    newton = interlinked(flows).solve()
+    assert np.all(chord.converged) and np.all(newton.converged)
+    assert with_chord < sum(rated)
+    for col in ("t_out_shell", "t_out_tube"):  # both solved to 1e-6 K [K]
+        np.testing.assert_allclose(chord.exchangers[col].to_numpy(float), newton.exchangers[col].to_numpy(float),
+                                   rtol=0, atol=1e-5)

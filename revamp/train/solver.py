@@ -51,6 +51,7 @@ _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
 _PROBE_K = 0.05  # inlet step of the finite differences for the Newton step [K] (far above the ratings' 1e-6 K stop)
 _SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at convergence [-]
 _DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
+_CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the last one's keeps its derivatives
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
@@ -308,6 +309,32 @@ def _coefficients(ratings, x, plan, n, probe):
     return linear, (newton or None)
 
 
+def _fell_fast(last_two, idx):
+    """Whether the largest inlet change of the cases ``idx`` fell by more than :data:`_CHORD_FALL` over the last
+    pass (both passes rated them all)."""
+    (i0, r0), (i1, r1) = last_two
+    if not (np.array_equal(i0, idx) and np.array_equal(i1, idx)):
+        return False
+    with np.errstate(invalid="ignore"):
+        return bool(np.nanmax(r1) < _CHORD_FALL * np.nanmax(r0))
+
+
+def _chord(ratings, x, plan, idx, jac):
+    """The Newton form of the outlets from kept derivatives and this pass's rated outlets (a chord step)."""
+    n = idx.size
+    out = {}
+    for tag, r in ratings.items():
+        J = jac.get(tag)
+        if J is None:
+            return None
+        J = J[:, :, idx]
+        o_s, o_t = np.asarray(_side_value(r, "t_out_shell"), float)[:n], np.asarray(r.t_out_tube, float)[:n]
+        xs, xt = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
+        j = ((J[0, 0], J[0, 1]), (J[1, 0], J[1, 1]))
+        out[tag] = (j, (o_s - J[0, 0] * xs - J[0, 1] * xt, o_t - J[1, 0] * xs - J[1, 1] * xt))
+    return out
+
+
 def _linear_solve(plan, x, coefs, idx):
     """One linear solve of the network: exchanger outlets ``J @ inlets + c``, routes and remixes at ``x``.
 
@@ -440,6 +467,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     stalled = np.zeros(plan.ncase, dtype=bool)
     iterations, ratings, rated_all, history, light_pass = 0, None, False, [], False
     starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
+    jac = {}  # per exchanger, the outlets' derivatives by the inlets (2, 2, ncase) from the last probes
     # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more than
     # such small ratings); a sweep's passes rate in full
     light = plan.ncase <= _FLOAT_CASES
@@ -449,12 +477,21 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
-        probe = _PROBE_K if _PROBE_K and iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
+        newton_pass = iterations > 1 and np.max(residual[idx]) > np.sqrt(tol)
+        # once the change has fallen fast (the step is near quadratic: the derivatives barely move any more), the
+        # last probes' derivatives are kept for the next steps (a chord step: no probes, a third of the ratings)
+        chord = newton_pass and bool(jac) and len(history) >= 2 and _fell_fast(history[-2:], idx)
+        probe = _PROBE_K if newton_pass and not chord else 0.0
         # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones
         light_pass = light and (bool(probe) or iterations == 1)
         ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
+        if newton is not None:  # keep the derivatives for chord steps
+            for tag, (j, _) in newton.items():
+                jac.setdefault(tag, np.full((2, 2, plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
+        elif chord:
+            newton = _chord(ratings, xa, plan, idx, jac)
         g, bad = _linear_solve(plan, xa, linear, idx)
         res = np.where(bad, np.nan, np.max(np.abs(g[:, inlets] - xa[:, inlets]), axis=1))
         step = g
