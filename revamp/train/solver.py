@@ -30,6 +30,7 @@ optimal management of cleaning. *Energy & Fuels* 15, 1038-1056.
 from __future__ import annotations
 
 import dataclasses
+from typing import NamedTuple
 
 import numpy as np
 import pandas as pd
@@ -212,6 +213,23 @@ class _Plan:
         return links, points, finals, dps
 
 
+class _RawStream(NamedTuple):
+    """The fields of a :class:`~revamp.Stream` the engine body reads, from a checked train (no checks again)."""
+
+    fluid: object
+    flow: np.ndarray
+    t_in: np.ndarray
+
+
+class _RawService(NamedTuple):
+    """The fields of a :class:`~revamp.Service` the engine body reads (outlet-map passes only)."""
+
+    shell: _RawStream
+    tube: _RawStream
+    fouling_shell: np.ndarray
+    fouling_tube: np.ndarray
+
+
 def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
     """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
 
@@ -237,15 +255,19 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
         if m.is_air_cooler:
             ratings[tag] = _rate_air(plan, tag, m, t_s, t_t, f_t, r_s, r_t, idx, 3 if probe else 1)
             continue
-        svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
-                      tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
+        light = outlets_only and _rater(m.exchanger) is rate
+        if light:  # the engine body reads only these fields, and an outlet map keeps no service: no checks again
+            svc = _RawService(_RawStream(train.streams[m.shell].fluid, f_s, t_s),
+                              _RawStream(train.streams[m.tube].fluid, f_t, t_t), r_s, r_t)
+        else:
+            svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
+                          tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
         # warm starts only for the probe blocks: the base block starts from the inlets, as rate() alone does, so
         # that rating an exchanger at its solved inlets gives back exactly the result's numbers, and so that the
         # base outlets carry no iteration error of a start (the Newton step takes differences of them). On the
         # few-case float path the probes start from their base case's stopping state instead (blocks=3), closer.
         # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
         # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
-        light = outlets_only and _rater(m.exchanger) is rate
         state = None if starts is None or not probe else starts.get(tag)
         with warm_start(None if state is None else np.concatenate(
                 [np.full_like(state[:, idx], np.nan), state[:, idx], state[:, idx]], axis=1)):
@@ -309,14 +331,15 @@ def _coefficients(ratings, x, plan, n, probe):
     return linear, (newton or None)
 
 
-def _fell_fast(last_two, idx):
-    """Whether the largest inlet change of the cases ``idx`` fell by more than :data:`_CHORD_FALL` over the last
-    pass (both passes rated them all)."""
+def _fall(last_two, idx):
+    """The share by which the largest inlet change of the cases ``idx`` fell over the last pass (both passes rated
+    them all; else 1) and that change [K]."""
     (i0, r0), (i1, r1) = last_two
     if not (np.array_equal(i0, idx) and np.array_equal(i1, idx)):
-        return False
-    with np.errstate(invalid="ignore"):
-        return bool(np.nanmax(r1) < _CHORD_FALL * np.nanmax(r0))
+        return 1.0, np.inf
+    with np.errstate(invalid="ignore", divide="ignore"):
+        last = float(np.nanmax(r1))
+        return last / float(np.nanmax(r0)), last
 
 
 def _chord(ratings, x, plan, idx, jac):
@@ -480,10 +503,12 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         newton_pass = iterations > 1 and np.max(residual[idx]) > np.sqrt(tol)
         # once the change has fallen fast (the step is near quadratic: the derivatives barely move any more), the
         # last probes' derivatives are kept for the next steps (a chord step: no probes, a third of the ratings)
-        chord = newton_pass and bool(jac) and len(history) >= 2 and _fell_fast(history[-2:], idx)
+        fall, last = _fall(history[-2:], idx) if len(history) >= 2 else (1.0, np.inf)
+        chord = newton_pass and bool(jac) and fall < _CHORD_FALL
         probe = _PROBE_K if newton_pass and not chord else 0.0
-        # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones
-        light_pass = light and (bool(probe) or iterations == 1)
+        # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones; so
+        # does a chord pass whose change, falling as the last did, may already be within tol
+        light_pass = light and (bool(probe) or (chord and fall * last > 10.0 * tol) or iterations == 1)
         ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
