@@ -367,25 +367,30 @@ def _linear_solve(plan, x, coefs, idx):
     system of all ports, :func:`_linear_solve_dense`, which gives the same solution), then ``out = J in + c``.
     """
     n, nc = plan.n, len(idx)
-    m = n // 2  # inlets (and outlets): port p = 4i + 2s (+1 for the outlet) is unknown 2i + s
-    Jm = np.zeros((nc, m, m))
+    m, nx = n // 2, n // 4  # inlets (and outlets): port p = 4i + 2s (+1 for the outlet) is unknown 2i + s
+    Jb = np.zeros((nc, nx, 2, 2))  # J is block diagonal: exchanger i's 2x2 block maps its inlets to its outlets
     cv = np.zeros((nc, m))
     for tag, (J, c) in coefs.items():
-        i0 = 2 * plan.index[tag]
+        i = plan.index[tag]
         for k in range(2):
-            Jm[:, i0 + k, i0] = J[k][0]
-            Jm[:, i0 + k, i0 + 1] = J[k][1]
-            cv[:, i0 + k] = c[k]
-    L = np.zeros((nc, m, m))
-    d = np.zeros((nc, m))
+            Jb[:, i, k, 0] = J[k][0]
+            Jb[:, i, k, 1] = J[k][1]
+            cv[:, 2 * i + k] = c[k]
+    # the rows of A = I - L J and b = d + L c from the route expressions: L is sparse (an inlet is fed by one
+    # outlet, or by the remix of a split's branch ends), each term adds the feeding exchanger's row of J
+    A = np.zeros((nc, m, m))
+    A[:, np.arange(m), np.arange(m)] = 1.0
+    b = np.zeros((nc, m))
     links, _, _, _ = plan.walk(x, idx=idx)
     for port, expr in links:
         row = port // 2  # an inlet port (even) -> its unknown
+        b[:, row] += expr.const
         for i, c in expr.coefs.items():  # outlet ports (odd) only: a route runs from outlets to inlets
-            L[:, row, i // 2] += c
-        d[:, row] += expr.const
-    A = np.eye(m) - L @ Jm
-    b = d + (L @ cv[..., None])[..., 0]
+            u = i // 2  # the outlet's unknown 2e + k: row k of exchanger e's block
+            e, k = divmod(u, 2)
+            A[:, row, 2 * e] -= c * Jb[:, e, k, 0]
+            A[:, row, 2 * e + 1] -= c * Jb[:, e, k, 1]
+            b[:, row] += c * cv[:, u]
     bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
     A[bad] = np.eye(m)
     b[bad] = np.nan
@@ -399,7 +404,7 @@ def _linear_solve(plan, x, coefs, idx):
                     t_in[i] = np.linalg.solve(A[i], b[i])
                 except np.linalg.LinAlgError:
                     pass
-        t_out = (Jm @ t_in[..., None])[..., 0] + cv
+        t_out = np.einsum("cikj,cij->cik", Jb, t_in.reshape(nc, nx, 2)).reshape(nc, m) + cv
     sol = np.empty((nc, n))
     sol[:, 0::2], sol[:, 1::2] = t_in, t_out
     return sol, bad | ~np.all(np.isfinite(sol), axis=1)
