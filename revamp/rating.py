@@ -445,11 +445,13 @@ class OutletMap:
     dp_tube: np.ndarray
 
 
-def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True):
+def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True, blocks=1):
     """The body of :func:`rate` for a shell-and-tube exchanger (method and service already checked). With
     ``outlets_only`` it returns an :class:`OutletMap` of the flattened cases instead of a :class:`Rating` (no
     warnings, no result objects: for a network solve's intermediate passes); without ``with_dp`` its pressure drops
-    may be NaN (not computed)."""
+    may be NaN (not computed). ``blocks`` > 1: the flattened cases are that many equal blocks of the same cases at
+    slightly moved inlets (a network solve's finite-difference probes); on the few-case float path every case of a
+    later block starts from the state its case of the first block stopped at (a state closer than any other)."""
     kind = getattr(hx, "shell_type", "E")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
@@ -498,6 +500,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     s_lo, s_hi = s_fluid.t_min, _below(s_fluid.t_max)
     t_lo_f, t_hi_f = t_fluid.t_min, _below(t_fluid.t_max)
     s_const, t_const = _constant_props(s_fluid), _constant_props(t_fluid)
+    # a fluid's viscosity-only call (exactly its props().viscosity) for the wall temperatures, where it has one
+    s_visc, t_visc = getattr(s_fluid, "viscosity_at", None), getattr(t_fluid, "viscosity_at", None)
 
     shell_kw_loop = {**shell_kw, "h_only": True} if bell_kernel else shell_kw
 
@@ -510,18 +514,25 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             ms, mt, tsi, tti, rfs, rft, sg, dT = (a[sel] for a in (m_s, m_t, ts_in, tt_in, rf_s, rf_t, sign, dt_in))
         na = xs.size
         tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
-        if s_const is None:
+        if s_const is not None:  # constant properties: the same floats at every temperature
+            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
+        elif s_visc is not None:  # the wall needs the viscosity only
+            ps = s_fluid.props(np.minimum(np.maximum(tm_s, s_lo), s_hi))
+            rho_s, cp_s, mu_s, k_s = (np.asarray(v, dtype=float) for v in (ps.density, ps.heat_capacity,
+                                                                           ps.viscosity, ps.conductivity))
+            mu_ws = np.asarray(s_visc(np.minimum(np.maximum(tws, s_lo), s_hi)), dtype=float)
+        else:
             ps = s_fluid.props(np.minimum(np.maximum(np.concatenate((tm_s, tws)), s_lo), s_hi))
             rho_s, cp_s, mu_s, k_s = (_head(v, na) for v in (ps.density, ps.heat_capacity, ps.viscosity,
                                                             ps.conductivity))
             mu_ws = _tail(ps.viscosity, na)
-        else:  # constant properties: the same floats at every temperature
-            rho_s, cp_s, mu_s, k_s, mu_ws = s_const
-        if t_const is None:
-            pt = t_fluid.props(np.minimum(np.maximum(np.concatenate((tm_t, twt)), t_lo_f), t_hi_f))
-            rho_t, cp_t, mu_t, k_t = (_head(v, na) for v in (pt.density, pt.heat_capacity, pt.viscosity,
-                                                            pt.conductivity))
-            mu_wt = _tail(pt.viscosity, na)
+        if t_const is not None:
+            rho_t, cp_t, mu_t, k_t, mu_wt = t_const
+        elif t_visc is not None:
+            pt = t_fluid.props(np.minimum(np.maximum(tm_t, t_lo_f), t_hi_f))
+            rho_t, cp_t, mu_t, k_t = (np.asarray(v, dtype=float) for v in (pt.density, pt.heat_capacity,
+                                                                           pt.viscosity, pt.conductivity))
+            mu_wt = np.asarray(t_visc(np.minimum(np.maximum(twt, t_lo_f), t_hi_f)), dtype=float)
         else:
             rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         tube = tube_corr.tube_side_kernel(mt, n_tpp, di, length, passes, rho_t, cp_t, mu_t, k_t, mu_wt, rel_rough,
@@ -558,13 +569,15 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         if s_const is None:
             ps = s_fluid.props(min(max(tm_s, s_lo), s_hi))
             rho_s, cp_s, mu_s, k_s = (float(v) for v in (ps.density, ps.heat_capacity, ps.viscosity, ps.conductivity))
-            mu_ws = float(s_fluid.props(min(max(tws, s_lo), s_hi)).viscosity)
+            tw = min(max(tws, s_lo), s_hi)
+            mu_ws = float(s_visc(tw) if s_visc is not None else s_fluid.props(tw).viscosity)
         else:
             rho_s, cp_s, mu_s, k_s, mu_ws = s_const
         if t_const is None:
             pt = t_fluid.props(min(max(tm_t, t_lo_f), t_hi_f))
             rho_t, cp_t, mu_t, k_t = (float(v) for v in (pt.density, pt.heat_capacity, pt.viscosity, pt.conductivity))
-            mu_wt = float(t_fluid.props(min(max(twt, t_lo_f), t_hi_f)).viscosity)
+            tw = min(max(twt, t_lo_f), t_hi_f)
+            mu_wt = float(t_visc(tw) if t_visc is not None else t_fluid.props(tw).viscosity)
         else:
             rho_t, cp_t, mu_t, k_t, mu_wt = t_const
         h_t = tube_corr.tube_h_float(mt, n_tpp, di, length, rho_t, cp_t, mu_t, k_t, mu_wt)
@@ -597,10 +610,12 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             # the array loop; the converged states are then evaluated once by the array kernels, which give every
             # reported number
             rows, lasts = [], []
+            first = n // blocks if blocks > 1 and n % blocks == 0 else n  # the cases of the first block
             for i in range(n):
                 hold = []
+                s_i = rows[i % first] if i >= first else None if start is None else start[:, i]
                 rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                         None if start is None else start[:, i], last=hold))
+                                         s_i, last=hold))
                 lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
             S = np.array(rows, dtype=float).T.reshape(4, n)
             if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs

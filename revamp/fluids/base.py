@@ -1,7 +1,8 @@
 """The fluid protocol: a frozen `Props` record and the helpers every provider shares.
 
 Every fluid is a frozen object with ``name``, ``t_min``, ``t_max`` [K], ``props(T) -> Props`` and
-``check(T) -> list[str]`` (see docs/architecture.md, "Layer 1").
+``check(T) -> list[str]`` (see docs/architecture.md, "Layer 1"). A provider may add ``viscosity_at(T)``, exactly
+``props(T).viscosity`` without the other properties: the rating engine uses it for the wall viscosity when present.
 """
 from __future__ import annotations
 

@@ -186,6 +186,11 @@ class CondensingFluid:
         """Condensate (liquid) properties at ``T`` [K], for the subcooling zone: the liquid provider's."""
         return self.liquid.props(T)
 
+    def viscosity_at(self, T):
+        """Condensate viscosity alone [Pa s] at ``T`` [K]: exactly ``props(T).viscosity``."""
+        visc = getattr(self.liquid, "viscosity_at", None)
+        return visc(T) if visc is not None else self.liquid.props(T).viscosity
+
     def check(self, *T) -> list[str]:
         """The liquid provider's range warnings for the condensate temperatures ``T``."""
         return self.liquid.check(*T)

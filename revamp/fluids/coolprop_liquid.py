@@ -279,6 +279,34 @@ class CoolPropLiquid:
             out.append(o.reshape(arr.shape))
         return Props(*out)
 
+    def viscosity_at(self, T):
+        """Dynamic viscosity alone [Pa s] at ``T`` [K]: exactly ``props(T).viscosity`` (the same interpolation in the
+        same table), without the other three rows. Raises InputError where :meth:`props` does."""
+        try:
+            g = self._g
+        except AttributeError:
+            g = self._load()
+        if isinstance(T, float) or type(T) is int:  # scalar: the scalar path's steps
+            x = (T - g.t0) * g.inv_dt
+            if not 0.0 <= x < g.x_max:
+                self._raise_out_of_range(T)
+            i = int(x)
+            return g.value_list[2][i] + g.slope_list[2][i] * (x - i)
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim:
+            arr = T
+        else:
+            arr, scalar = as_temperature(T)
+            if scalar:
+                return self.viscosity_at(float(arr))
+        x = (arr.reshape(-1) - g.t0) * g.inv_dt
+        if x.size and not (x.min() >= 0.0 and x.max() < g.x_max):  # also false for NaN
+            self._raise_out_of_range(arr)
+        i = x.astype(np.intp)
+        o = g.slope_rows[2].take(i)
+        o *= x - i
+        o += g.value_rows[2].take(i)
+        return o.reshape(arr.shape)
+
     def _raise_out_of_range(self, T):
         arr, _ = as_temperature(T)  # raises for NaN, infinity, non-positive
         hi, lo = float(arr.max()), float(arr.min())

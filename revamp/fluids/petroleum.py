@@ -228,6 +228,28 @@ class PetroleumFluid:
             return Props(float(rho), float(cp), float(mu), float(k))
         return Props(rho, cp, mu, k)
 
+    def viscosity_at(self, T):
+        """Dynamic viscosity alone [Pa s] at ``T`` [K]: exactly ``props(T).viscosity`` (the same operations), without
+        the heat capacity and conductivity (a rating needs only the viscosity at the wall temperatures).
+
+        Raises InputError where :meth:`props` does (at or above the pseudo-critical temperature).
+        """
+        if (isinstance(T, float) or type(T) is int) and 0.0 < T < self.tc:  # scalar: the scalar path's formulas
+            T = float(T)
+            rho = self.rho60 * self.z_ra ** ((1.0 - T_60F / self.tc) ** (2.0 / 7.0) - (1.0 - T / self.tc) ** (2.0 / 7.0))
+            y = min(self.walther_a - self.walther_b * math.log10(T), _LOGLOG_MAX)
+            x = 10.0 ** (10.0 ** y) - 0.7
+            return (x - math.exp(-0.7487 - 3.295 * x + 0.6119 * x * x - 0.3193 * x * x * x)) * 1e-6 * rho
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim and np.isfinite(T).all() and T.min() > 0:
+            arr, scalar = T, False
+        else:
+            arr, scalar = as_temperature(T)
+        if np.any(arr >= self.tc):
+            raise InputError("T", T, f"a temperature below the pseudo-critical temperature of {self.name} "
+                             f"({self.tc:.1f} K, Riazi & Daubert 1980): above it the fraction is not a liquid")
+        mu = self.kinematic_viscosity(arr) * self.density(arr)
+        return float(mu) if scalar else mu
+
     def _props_scalar(self, T: float) -> Props:
         # the same formulas as the array methods, on Python floats (a scalar rating calls this many times)
         tc = self.tc

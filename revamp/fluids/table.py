@@ -82,6 +82,33 @@ class TableFluid:
             return Props(float(out[0][0]), float(out[1][0]), float(out[2][0]), float(out[3][0]))
         return Props(*(o.reshape(arr.shape) for o in out))
 
+    def viscosity_at(self, T):
+        """Dynamic viscosity alone [Pa s] at ``T`` [K]: exactly ``props(T).viscosity`` wherever :meth:`props`
+        answers (the same interpolation in ln(viscosity)), without the other three columns. The viscosity is
+        positive at any temperature; the other columns' extrapolation limits, for which :meth:`props` raises, do not
+        apply to it."""
+        if (isinstance(T, float) or type(T) is int) and self.lists and T > 0.0:  # scalar: the scalar path's steps
+            t_list, cols, slopes = self.lists
+            j = min(max(bisect_right(t_list, T) - 1, 0), len(t_list) - 2)
+            m = cols[2][j] + slopes[2][j] * (T - t_list[j])
+            if math.isfinite(m):
+                return math.exp(m)
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim:
+            arr, scalar = T, False
+        else:
+            arr, scalar = as_temperature(T)
+        flat = arr.reshape(-1)
+        if not np.isfinite(flat).all():
+            as_temperature(flat)  # raises the non-finite error
+        i = np.searchsorted(self.T, flat, side="right") - 1
+        np.clip(i, 0, self.T.size - 2, out=i)
+        dt = flat - self.T.take(i)
+        o = self.slopes[2].take(i)
+        o *= dt
+        o += self.columns[2].take(i)
+        np.exp(o, out=o)
+        return float(o[0]) if scalar else o.reshape(arr.shape)
+
     def check(self, *T) -> list[str]:
         """A warning ("extrapolated") when any temperature lies outside the tabulated range; one for all of ``T``."""
         return range_check(f"{self.name}: extrapolated", joined_temperatures(*T), self.t_min, self.t_max,
@@ -170,6 +197,16 @@ class ConstantFluid:
             return Props(self.density, self.heat_capacity, self.viscosity, self.conductivity)
         return Props(np.full(arr.shape, self.density), np.full(arr.shape, self.heat_capacity),
                      np.full(arr.shape, self.viscosity), np.full(arr.shape, self.conductivity))
+
+    def viscosity_at(self, T):
+        """The viscosity alone [Pa s]: exactly ``props(T).viscosity`` (a float for scalar ``T``, else an array of
+        ``T``'s shape)."""
+        if (isinstance(T, float) or type(T) is int) and T > 0.0 and math.isfinite(T):
+            return self.viscosity
+        if isinstance(T, np.ndarray) and T.dtype == np.float64 and T.ndim:
+            return np.full(T.shape, self.viscosity)
+        arr, scalar = as_temperature(T)
+        return self.viscosity if scalar else np.full(arr.shape, self.viscosity)
 
     def check(self, *T) -> list[str]:
         """Always ``[]``: a constant fluid has no range."""

@@ -30,6 +30,7 @@ optimal management of cleaning. *Energy & Fuels* 15, 1038-1056.
 from __future__ import annotations
 
 import dataclasses
+from typing import NamedTuple
 
 import numpy as np
 import pandas as pd
@@ -48,9 +49,10 @@ _SIDES = ("shell", "tube")
 _STATE_FIELDS = ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube")  # a rating's iteration state
 # Gauss-Legendre nodes and weights on [-1, 1], 4 points (exact for cp polynomial up to degree 7)
 _GL_X, _GL_W = np.polynomial.legendre.leggauss(4)
-_PROBE_K = 0.01  # inlet step of the finite differences for the Newton step [K]
+_PROBE_K = 0.05  # inlet step of the finite differences for the Newton step [K] (far above the ratings' 1e-6 K stop)
 _SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at convergence [-]
 _DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
+_CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the last one's keeps its derivatives
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
@@ -211,6 +213,23 @@ class _Plan:
         return links, points, finals, dps
 
 
+class _RawStream(NamedTuple):
+    """The fields of a :class:`~revamp.Stream` the engine body reads, from a checked train (no checks again)."""
+
+    fluid: object
+    flow: np.ndarray
+    t_in: np.ndarray
+
+
+class _RawService(NamedTuple):
+    """The fields of a :class:`~revamp.Service` the engine body reads (outlet-map passes only)."""
+
+    shell: _RawStream
+    tube: _RawStream
+    fouling_shell: np.ndarray
+    fouling_tube: np.ndarray
+
+
 def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
     """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
 
@@ -236,18 +255,25 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
         if m.is_air_cooler:
             ratings[tag] = _rate_air(plan, tag, m, t_s, t_t, f_t, r_s, r_t, idx, 3 if probe else 1)
             continue
-        svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
-                      tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
-        # warm starts only for the probe blocks: a rating the result may keep (the base block) starts from the
-        # inlets, as rate() alone does, so that rating an exchanger at its solved inlets gives back exactly the
-        # result's numbers
+        light = outlets_only and _rater(m.exchanger) is rate
+        if light:  # the engine body reads only these fields, and an outlet map keeps no service: no checks again
+            svc = _RawService(_RawStream(train.streams[m.shell].fluid, f_s, t_s),
+                              _RawStream(train.streams[m.tube].fluid, f_t, t_t), r_s, r_t)
+        else:
+            svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
+                          tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
+        # warm starts only for the probe blocks: the base block starts from the inlets, as rate() alone does, so
+        # that rating an exchanger at its solved inlets gives back exactly the result's numbers, and so that the
+        # base outlets carry no iteration error of a start (the Newton step takes differences of them). On the
+        # few-case float path the probes start from their base case's stopping state instead (blocks=3), closer.
+        # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
+        # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
         state = None if starts is None or not probe else starts.get(tag)
-        light = outlets_only and _rater(m.exchanger) is None
         with warm_start(None if state is None else np.concatenate(
                 [np.full_like(state[:, idx], np.nan), state[:, idx], state[:, idx]], axis=1)):
             if light:
                 ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
-                                                    with_dp=bool(plan.equal_dp))
+                                                    with_dp=bool(plan.equal_dp), blocks=3 if probe else 1)
             else:
                 ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
         if starts is not None:
@@ -305,8 +331,87 @@ def _coefficients(ratings, x, plan, n, probe):
     return linear, (newton or None)
 
 
+def _fall(last_two, idx):
+    """The share by which the largest inlet change of the cases ``idx`` fell over the last pass (both passes rated
+    them all; else 1) and that change [K]."""
+    (i0, r0), (i1, r1) = last_two
+    if not (np.array_equal(i0, idx) and np.array_equal(i1, idx)):
+        return 1.0, np.inf
+    with np.errstate(invalid="ignore", divide="ignore"):
+        last = float(np.nanmax(r1))
+        return last / float(np.nanmax(r0)), last
+
+
+def _chord(ratings, x, plan, idx, jac):
+    """The Newton form of the outlets from kept derivatives and this pass's rated outlets (a chord step)."""
+    n = idx.size
+    out = {}
+    for tag, r in ratings.items():
+        J = jac.get(tag)
+        if J is None:
+            return None
+        J = J[:, :, idx]
+        o_s, o_t = np.asarray(_side_value(r, "t_out_shell"), float)[:n], np.asarray(r.t_out_tube, float)[:n]
+        xs, xt = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
+        j = ((J[0, 0], J[0, 1]), (J[1, 0], J[1, 1]))
+        out[tag] = (j, (o_s - J[0, 0] * xs - J[0, 1] * xt, o_t - J[1, 0] * xs - J[1, 1] * xt))
+    return out
+
+
 def _linear_solve(plan, x, coefs, idx):
-    """One linear solve of the network: exchanger outlets ``J @ inlets + c``, routes and remixes at ``x``."""
+    """One linear solve of the network: exchanger outlets ``J @ inlets + c``, routes and remixes at ``x``.
+
+    Every inlet is a route expression of outlets (or a fixed supply), ``in = L @ out + d``, and every outlet the
+    exchanger's map of its own two inlets, so the outlets are eliminated: ``(I - L J) in = d + L c``, a system of the
+    2·(exchangers) inlets per case (a quarter of the entries and an eighth of the factorization work of the dense
+    system of all ports, :func:`_linear_solve_dense`, which gives the same solution), then ``out = J in + c``.
+    """
+    n, nc = plan.n, len(idx)
+    m, nx = n // 2, n // 4  # inlets (and outlets): port p = 4i + 2s (+1 for the outlet) is unknown 2i + s
+    Jb = np.zeros((nc, nx, 2, 2))  # J is block diagonal: exchanger i's 2x2 block maps its inlets to its outlets
+    cv = np.zeros((nc, m))
+    for tag, (J, c) in coefs.items():
+        i = plan.index[tag]
+        for k in range(2):
+            Jb[:, i, k, 0] = J[k][0]
+            Jb[:, i, k, 1] = J[k][1]
+            cv[:, 2 * i + k] = c[k]
+    # the rows of A = I - L J and b = d + L c from the route expressions: L is sparse (an inlet is fed by one
+    # outlet, or by the remix of a split's branch ends), each term adds the feeding exchanger's row of J
+    A = np.zeros((nc, m, m))
+    A[:, np.arange(m), np.arange(m)] = 1.0
+    b = np.zeros((nc, m))
+    links, _, _, _ = plan.walk(x, idx=idx)
+    for port, expr in links:
+        row = port // 2  # an inlet port (even) -> its unknown
+        b[:, row] += expr.const
+        for i, c in expr.coefs.items():  # outlet ports (odd) only: a route runs from outlets to inlets
+            u = i // 2  # the outlet's unknown 2e + k: row k of exchanger e's block
+            e, k = divmod(u, 2)
+            A[:, row, 2 * e] -= c * Jb[:, e, k, 0]
+            A[:, row, 2 * e + 1] -= c * Jb[:, e, k, 1]
+            b[:, row] += c * cv[:, u]
+    bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
+    A[bad] = np.eye(m)
+    b[bad] = np.nan
+    with np.errstate(all="ignore"):
+        try:
+            t_in = np.linalg.solve(A, b[..., None])[..., 0]
+        except np.linalg.LinAlgError:  # a singular case: solve one by one, NaN where singular
+            t_in = np.full((nc, m), np.nan)
+            for i in range(nc):
+                try:
+                    t_in[i] = np.linalg.solve(A[i], b[i])
+                except np.linalg.LinAlgError:
+                    pass
+        t_out = np.einsum("cikj,cij->cik", Jb, t_in.reshape(nc, nx, 2)).reshape(nc, m) + cv
+    sol = np.empty((nc, n))
+    sol[:, 0::2], sol[:, 1::2] = t_in, t_out
+    return sol, bad | ~np.all(np.isfinite(sol), axis=1)
+
+
+def _linear_solve_dense(plan, x, coefs, idx):
+    """:func:`_linear_solve` on the dense system of all ports (outlet rows kept): the reference form."""
     n, nc = plan.n, len(idx)
     A = np.zeros((nc, n, n))
     b = np.zeros((nc, n))
@@ -390,6 +495,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     stalled = np.zeros(plan.ncase, dtype=bool)
     iterations, ratings, rated_all, history, light_pass = 0, None, False, [], False
     starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
+    jac = {}  # per exchanger, the outlets' derivatives by the inlets (2, 2, ncase) from the last probes
     # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more than
     # such small ratings); a sweep's passes rate in full
     light = plan.ncase <= _FLOAT_CASES
@@ -399,12 +505,23 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
-        probe = _PROBE_K if iterations > 1 and np.max(residual[idx]) > np.sqrt(tol) else 0.0
-        # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones
-        light_pass = light and (bool(probe) or iterations == 1)
+        newton_pass = iterations > 1 and np.max(residual[idx]) > np.sqrt(tol)
+        # once the change has fallen fast (the step is near quadratic: the derivatives barely move any more), the
+        # last probes' derivatives are kept for the next steps (a chord step: no probes, a third of the ratings)
+        fall, last = _fall(history[-2:], idx) if len(history) >= 2 else (1.0, np.inf)
+        chord = newton_pass and bool(jac) and fall < _CHORD_FALL
+        probe = _PROBE_K if newton_pass and not chord else 0.0
+        # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones; so
+        # does a chord pass whose change, falling as the last did, may already be within tol
+        light_pass = light and (bool(probe) or (chord and fall * last > 10.0 * tol) or iterations == 1)
         ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
+        if newton is not None:  # keep the derivatives for chord steps
+            for tag, (j, _) in newton.items():
+                jac.setdefault(tag, np.full((2, 2, plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
+        elif chord:
+            newton = _chord(ratings, xa, plan, idx, jac)
         g, bad = _linear_solve(plan, xa, linear, idx)
         res = np.where(bad, np.nan, np.max(np.abs(g[:, inlets] - xa[:, inlets]), axis=1))
         step = g

@@ -1,0 +1,201 @@
+"""Invariants of the train solve's fast paths: each shortcut gives what the plain form gives.
+
+These compare two forms of the same computation (no external reference is needed for an identity): the reduced
+linear system against the dense one of all ports, a probe rating started from its base case against one started
+from the inlets, the few-case passes against full ratings, and a fluid's viscosity-only call against its full
+property call.
+"""
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+import revamp as rv
+from revamp import rating as rating_mod
+from revamp.train import Match, Split, Train
+from revamp.train import solver as sv
+
+CRUDE_P = rv.fluids.petroleum(api=31, watson_k=11.8, viscosity=[("40 degC", "9 cSt"), ("100 degC", "3 cSt")])
+RESID_P = rv.fluids.petroleum(api=18, watson_k=11.6, viscosity=[("100 degC", "30 cSt"), ("150 degC", "9 cSt")])
+KERO_P = rv.fluids.petroleum(api=45, watson_k=11.7, viscosity=[("40 degC", "1.5 cSt"), ("100 degC", "0.75 cSt")])
+KERO_C = rv.fluids.constant(density=760.0, heat_capacity=2500.0, viscosity=0.6e-3, conductivity=0.13, name="kero")
+
+
+def hx(tube_count=500):
+    """An invented AES-like exchanger."""
+    return rv.ShellAndTube(shell_id="787 mm", tube_od="19.05 mm", tube_wall="2.11 mm", tube_length="6.1 m",
+                           tube_count=tube_count, tube_passes=2, tube_pitch="25.4 mm", layout=90,
+                           baffle_spacing="450 mm", baffle_cut=0.25, tube_material="carbon steel")
+
+
+def interlinked(crude_flow=60.0):
+    """Crude through E-101, E-102, E-104 while the residue goes E-104 then E-102 (a loop across two streams)."""
+    return Train(
+        streams={"crude": rv.Stream(CRUDE_P, crude_flow, "35 degC"), "resid": rv.Stream(RESID_P, 30, "340 degC"),
+                 "kero": rv.Stream(KERO_P, 38, "190 degC")},
+        exchangers={"E-101": Match(hx(), shell="kero", tube="crude", fouling_shell=2e-4, fouling_tube=5e-4),
+                    "E-102": Match(hx(420), shell="resid", tube="crude", fouling_shell=5e-4, fouling_tube=7e-4),
+                    "E-104": Match(hx(460), shell="resid", tube="crude", fouling_shell=5e-4, fouling_tube=7e-4)},
+        routes={"crude": ["E-101", "E-102", "E-104"], "resid": ["E-104", "E-102"], "kero": ["E-101"]})
+
+
+def split_bypass(crude_flow=60.0):
+    """A split with a bypassed branch and a split whose branches hold two exchangers and one (remixes)."""
+    return Train(
+        streams={"crude": rv.Stream(CRUDE_P, crude_flow, "35 degC"), "resid": rv.Stream(RESID_P, 30, "340 degC"),
+                 "kero": rv.Stream(KERO_C, 38, "190 degC")},
+        exchangers={"A": Match(hx(300), shell="kero", tube="crude"), "B": Match(hx(300), shell="resid", tube="crude"),
+                    "C": Match(hx(380), shell="resid", tube="crude"), "D": Match(hx(420), shell="kero", tube="crude")},
+        routes={"crude": [Split([["A"], []], [0.8, 0.2]), Split([["B", "D"], ["C"]], [0.45, 0.55])],
+                "resid": ["C", "B"], "kero": ["D", "A"]})
+
+
+@pytest.mark.parametrize("make", [interlinked, split_bypass])
+@pytest.mark.parametrize("probe", [0.0, sv._PROBE_K])
+def test_reduced_linear_solve_equals_the_dense_one(make, probe):
+    tr = make(np.linspace(40.0, 90.0, 5))
+    plan = sv._Plan(tr)
+    idx = np.arange(plan.ncase)
+    # inlets and outlets away from the supply temperatures (a mid-solve state), different per case
+    x = sv._initial(plan) + np.random.default_rng(7).uniform(0.0, 15.0, (plan.ncase, plan.n))
+    ratings = sv._rate_all(plan, x, idx, probe=probe)
+    linear, newton = sv._coefficients(ratings, x, plan, idx.size, probe)
+    for coefs in filter(None, (linear, newton)):
+        reduced, bad_r = sv._linear_solve(plan, x, coefs, idx)
+        dense, bad_d = sv._linear_solve_dense(plan, x, coefs, idx)
+        assert not bad_r.any() and not bad_d.any()
+        np.testing.assert_allclose(reduced, dense, rtol=0, atol=1e-9)  # the same system: rounding only [K]
+
+
+def test_reduced_linear_solve_flags_the_same_bad_cases():
+    tr = interlinked(np.linspace(40.0, 90.0, 4))
+    plan = sv._Plan(tr)
+    idx = np.arange(plan.ncase)
+    x = sv._initial(plan)
+    linear, _ = sv._coefficients(sv._rate_all(plan, x + 5.0, idx), x, plan, idx.size, 0.0)
+    J, c = linear["E-102"]
+    J[0][1][2] = np.nan  # one case's map is not finite
+    reduced, bad_r = sv._linear_solve(plan, x, linear, idx)
+    dense, bad_d = sv._linear_solve_dense(plan, x, linear, idx)
+    np.testing.assert_array_equal(bad_r, bad_d)
+    assert bad_r.tolist() == [False, False, True, False]
+    np.testing.assert_allclose(reduced[~bad_r], dense[~bad_d], rtol=0, atol=1e-9)
+
+
+def _service(ts, tt, n=1):
+    return rv.Service(shell=rv.Stream(RESID_P, np.full(n, 30.0), ts), tube=rv.Stream(CRUDE_P, np.full(n, 60.0), tt),
+                      fouling_shell=np.full(n, 5e-4), fouling_tube=np.full(n, 7e-4))
+
+
+def test_probe_blocks_started_from_their_base_case_reach_the_same_outlets():
+    ts = np.array([600.0, 560.0])
+    tt = np.array([420.0, 380.0])
+    p = sv._PROBE_K
+    ts3, tt3 = np.concatenate([ts, ts + p, ts]), np.concatenate([tt, tt, tt + p])
+    svc = _service(ts3, tt3, 6)
+    chained = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False,
+                                              blocks=3)
+    cold = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False)
+    # the base block starts from the inlets in both: the same numbers
+    np.testing.assert_array_equal(chained.t_out_shell[:2], cold.t_out_shell[:2])
+    # the probe blocks stop within the rating's iteration tolerance (1e-6 K steps) of the same fixed point
+    np.testing.assert_allclose(chained.t_out_shell, cold.t_out_shell, rtol=0, atol=1e-5)
+    np.testing.assert_allclose(chained.t_out_tube, cold.t_out_tube, rtol=0, atol=1e-5)
+    # and they match the full rating of each case alone
+    for i in range(6):
+        alone = rv.rate(hx(420), rv.Service(shell=rv.Stream(RESID_P, 30.0, float(ts3[i])),
+                                            tube=rv.Stream(CRUDE_P, 60.0, float(tt3[i])),
+                                            fouling_shell=5e-4, fouling_tube=7e-4))
+        assert chained.t_out_tube[i] == pytest.approx(alone.t_out_tube, abs=1e-5)
+
+
+def test_few_case_passes_use_outlet_maps_and_rate_in_full_once(monkeypatch):
+    light, full = [], []
+    engine = rating_mod._rate_shell_and_tube
+
+    def counting(into):
+        def call(*a, **kw):
+            into.append(kw.get("outlets_only", False))
+            return engine(*a, **kw)
+        return call
+
+    monkeypatch.setattr(sv, "_rate_shell_and_tube", counting(light))  # the solver's outlet-map calls
+    monkeypatch.setattr(rating_mod, "_rate_shell_and_tube", counting(full))  # through rate()
+    res = interlinked().solve()
+    assert res.converged and res.iterations > 2
+    # the first and the probing passes ask for outlet maps (a closing pass without probes rates in full)
+    assert all(light) and len(light) in (3 * (res.iterations - 1), 3 * res.iterations)
+    assert full == [False] * 3  # each exchanger rated in full once, at its solved inlets
+
+
+def test_few_case_solve_equals_full_rating_passes(monkeypatch):
+    fast = interlinked().solve()
+    monkeypatch.setattr(sv, "_FLOAT_CASES", 0)  # every pass rates in full, as a sweep does
+    full = interlinked().solve()
+    for tag in ("E-101", "E-102", "E-104"):
+        for col in ("t_out_shell", "t_out_tube"):  # both solved to 1e-6 K [K]
+            assert fast.exchangers.loc[tag, col] == pytest.approx(full.exchangers.loc[tag, col], abs=1e-5)
+        assert fast.exchangers.loc[tag, "duty"] == pytest.approx(full.exchangers.loc[tag, "duty"], rel=1e-6)
+
+
+# ------------------------------------------------------------------------------ the viscosity-only call of fluids
+def _fluids():
+    water = rv.fluids.water("10 bar")
+    return [
+        ("constant", KERO_C, np.array([250.0, 300.0, 450.0])),
+        ("table", rv.fluids.table(T=["50 degC", "100 degC", "150 degC"], density=[850, 820, 780],
+                                  heat_capacity=[2000, 2200, 2400], viscosity=["4 cP", "2 cP", "1 cP"],
+                                  conductivity=[0.13, 0.125, 0.12]),
+         np.array([300.0, 323.15, 350.0, 400.0, 423.15, 440.0])),  # inside and (extrapolated) outside the points
+        ("petroleum", RESID_P, np.array([280.0, 373.15, 420.0, 600.0, 640.0])),
+        ("coolprop water", water, np.array([280.0, 300.0, 350.0, 400.0, 450.0])),
+        ("coolprop pure", rv.fluids.pure("Toluene", "5 bar"), np.array([250.0, 300.0, 350.0, 400.0])),
+        ("condensing (condensate)", rv.fluids.condensing(water), np.array([290.0, 330.0, 420.0])),
+    ]
+
+
+@pytest.mark.parametrize("kind,fluid,temps", _fluids(), ids=[k for k, _, _ in _fluids()])
+def test_viscosity_only_call_equals_props_viscosity_exactly(kind, fluid, temps):
+    temps = temps[temps < fluid.t_max]
+    np.testing.assert_array_equal(fluid.viscosity_at(temps), fluid.props(temps).viscosity)  # arrays
+    grid = temps.reshape(-1, 1) + np.zeros((1, 2))
+    np.testing.assert_array_equal(fluid.viscosity_at(grid), fluid.props(grid).viscosity)  # any shape
+    for t in temps.tolist():  # Python floats: the scalar paths
+        v = fluid.viscosity_at(t)
+        assert type(v) is float and v == fluid.props(t).viscosity
+    assert fluid.viscosity_at(f"{temps[0] - 273.15} degC") == fluid.props(f"{temps[0] - 273.15} degC").viscosity
+
+
+@pytest.mark.parametrize("fluid", [RESID_P, rv.fluids.water("10 bar")], ids=["petroleum", "coolprop"])
+def test_viscosity_only_call_refuses_what_props_refuses(fluid):
+    too_hot = fluid.tc + 5.0 if hasattr(fluid, "tc") else fluid.t_max + 5.0  # not a liquid there
+    for T in (too_hot, np.array([400.0, too_hot])):
+        with pytest.raises(rv.errors.InputError):
+            fluid.props(T)
+        with pytest.raises(rv.errors.InputError):
+            fluid.viscosity_at(T)
+    with pytest.raises(rv.errors.InputError):
+        fluid.viscosity_at(np.array([400.0, np.nan]))
+
+
+@pytest.mark.parametrize("flows", [60.0, np.linspace(40.0, 90.0, 12)], ids=["one case", "sweep"])
+def test_chord_steps_reach_the_newton_solution_with_fewer_ratings(monkeypatch, flows):
+    rated = []
+    engine = rating_mod._rate_shell_and_tube
+
+    def counting(hx_, svc, *a, **kw):
+        rated.append(np.size(np.broadcast_arrays(svc.shell.flow, svc.tube.flow)[0]))
+        return engine(hx_, svc, *a, **kw)
+
+    monkeypatch.setattr(sv, "_rate_shell_and_tube", counting)
+    monkeypatch.setattr(rating_mod, "_rate_shell_and_tube", counting)
+    chord = interlinked(flows).solve()
+    with_chord = sum(rated)
+    rated.clear()
+    monkeypatch.setattr(sv, "_CHORD_FALL", 0.0)  # probes on every Newton pass
+    newton = interlinked(flows).solve()
+    assert np.all(chord.converged) and np.all(newton.converged)
+    assert with_chord < sum(rated)
+    for col in ("t_out_shell", "t_out_tube"):  # both solved to 1e-6 K [K]
+        np.testing.assert_allclose(chord.exchangers[col].to_numpy(float), newton.exchangers[col].to_numpy(float),
+                                   rtol=0, atol=1e-5)
