@@ -348,7 +348,7 @@ def _p1_J2N(N, R, passes):
 
 def _eps_J(ntu, cr, shell_min, passes):
     """Effectiveness of a J shell from the shell-fluid P1: eps = P1 C_shell / Cmin."""
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # a vanishing cr: handled below
         crs = np.where(cr > 0, cr, 1.0)
         R1 = np.where(shell_min, cr, 1.0 / crs)  # C_shell / C_tube
         N1 = np.where(shell_min, ntu, ntu * cr)  # UA / C_shell
