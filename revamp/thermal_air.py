@@ -76,7 +76,7 @@ def effectiveness_one_pass(ntu, cr, tube_is_cmin, rows):
         total = total + term
     left = total.sum(axis=1).mean(axis=0) * np.exp(-b)  # mixed tube outlet difference over the inlet difference
     p_tube = 1.0 - left
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):  # clipped to [0, 1] below
         eps = np.where(tmin, p_tube, p_tube / np.where(cr > 0, cr, 1.0))
     eps = np.clip(eps, 0.0, 1.0)
     w = np.where(tmin, left, 1.0 - eps)
