@@ -240,7 +240,7 @@ def test_pure_condensing_zone_unchanged_and_sensible_zones_not_optimistic(monkey
 
 # ------------------------------------------------------------------------------------------- Shah (2009)
 # Shah (2009), HVAC&R Research 15:889, horizontal tubes (equations from memory, agreeing with a public
-# transcription of the paper): h_I = h_LT (mu_l/14 mu_v)^n [Shah 1979 bracket], n = 0.0058 + 0.557 p_r;
+# open-source implementation of the paper): h_I = h_LT (mu_l/14 mu_v)^n [Shah 1979 bracket], n = 0.0058 + 0.557 p_r;
 # h_Nu = 1.32 Re_LS^(-1/3) [rho_l (rho_l - rho_v) g k_l^3 / mu_l^2]^(1/3); regime I where
 # J_g >= 0.98 (Z + 0.263)^-0.62, else h_I + h_Nu. The Shah (1979) part is checked against ht.condensation.Shah.
 GRAV = 9.80665
