@@ -11,6 +11,7 @@ exchanger.
 Run from the repository root (needs CoolProp)::
 
     python data/generate_condensing_curve.py      # writes data/demo/curves/C-401.csv, prints the critical pressure
+                                                  # and the condensate table for the unit file
 
 The columns and their units (the unit file's ``curve_units`` must say the same):
 
@@ -29,6 +30,10 @@ The columns and their units (the unit file's ``curve_units`` must say the same):
 The critical pressure the in-tube correlations need (reduced pressure) is the pseudo-critical pressure by Kay's
 rule, the mole-fraction average of the components' critical pressures (Kay 1936); the script prints it for the unit
 file's ``critical_pressure``.
+
+The curve's rows end at the bubble point. Below it the condensate is a liquid of the feed composition, which the
+rating needs for the subcooling zone: the script prints its properties at the condensing pressure from 20 degC to
+the bubble point (CoolProp, the same mixture model) as the ``vapour.condensate`` table fluid of the unit file.
 
 References
 ----------
@@ -97,6 +102,34 @@ def curve_table(mixture: str = MIXTURE, pressure=PRESSURE, step: int = STEP):
     return table, float(c.critical_pressure)
 
 
+def condensate_table(mixture: str = MIXTURE, pressure=PRESSURE, t_low=293.15, points: int = 6) -> dict:
+    """The condensate (the liquid of the feed composition) at ``pressure`` from ``t_low`` [K] up to the bubble point:
+    a ``kind: table`` fluid of the unit file (temperatures in degC, the rest in SI)."""
+    from CoolProp import CoolProp as CP
+
+    from revamp.fluids import condensing_curve
+    from revamp.units import to_si
+
+    p = float(to_si(pressure, "pressure", "pressure"))
+    t_b = float(condensing_curve(mixture=mixture, pressure=p).t_bubble)
+    spec = mixture.split("::")[-1]
+    names = [part.split("[")[0] for part in spec.split("&")]
+    z = [float(part.split("[")[1].rstrip("]")) for part in spec.split("&")]
+    state = CP.AbstractState("HEOS", "&".join(names))
+    state.set_mole_fractions(z)
+    rows = []
+    for t in np.r_[np.linspace(t_low, t_b, points)[:-1], t_b - 1e-3]:  # the last just below the bubble point
+        state.specify_phase(CP.iphase_liquid)
+        state.update(CP.PT_INPUTS, p, float(t))
+        state.unspecify_phase()
+        rows.append((float(t), state.rhomass(), state.cpmass(), state.viscosity(), state.conductivity()))
+    T, rho, cp, mu, k = (list(c) for c in zip(*rows))
+    return {"kind": "table", "name": "condensate (n-pentane with n-hexane)",
+            "T": [f"{t - 273.15:.2f} degC" for t in T], "density": [round(v, 2) for v in rho],
+            "heat_capacity": [round(v, 1) for v in cp], "viscosity": [float(f"{v:.4g}") for v in mu],
+            "conductivity": [round(v, 5) for v in k]}
+
+
 def main(argv=None) -> int:
     here = Path(__file__).resolve().parent
     out = here / "demo" / "curves" / "C-401.csv"
@@ -107,6 +140,8 @@ def main(argv=None) -> int:
           f"bubble point {table['temperature'].iloc[-1]:.2f} degC, heat released "
           f"{table['heat_released'].iloc[-1]:.1f} kJ/kg -> {out.relative_to(here.parent)}")
     print(f"critical_pressure (Kay's rule): {pc / 1e5:.2f} bar; curve_units: {CURVE_UNITS}")
+    c = condensate_table()
+    print("condensate:", "{" + ", ".join(f"{key}: {value}".replace("'", '"') for key, value in c.items()) + "}")
     return 0
 
 
