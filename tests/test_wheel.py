@@ -47,7 +47,7 @@ def installed(tmp_path_factory):
     # the files batch and demo read at run time are real files inside the wheel
     for name in ("revamp/notebooks/exchanger_study.ipynb", "revamp/notebooks/unit_summary.ipynb",
                  "revamp/notebooks/resistance_primer.ipynb", "revamp/demo/unit.yaml",
-                 "revamp/demo/plant/E-101.csv", "revamp/unit_schema.json"):
+                 "revamp/demo/plant/E-101.csv", "revamp/demo/curves/C-401.csv", "revamp/unit_schema.json"):
         assert name in inside, name
     env_dir = root / "venv"
     venv.EnvBuilder(with_pip=False, symlinks=True).create(env_dir)
@@ -89,9 +89,10 @@ def test_wheel_runs_demo_and_batch_outside_the_checkout(installed):
     index = outside / "demo-reports" / "index.html"
     assert index.is_file() and Path(demo.stdout.strip().splitlines()[-1]) == index.resolve()
     reports = sorted(p.name for p in (outside / "demo-reports").glob("*.html"))
-    # the demo unit file lists seven exchangers (revamp/demo/unit.yaml: six shell-and-tube, one air cooler): seven
-    # reports and the index, and its train and cleaning sections add the train page and the cleaning page
-    assert len(reports) == 10 and {"index.html", "train.html", "cleaning.html"} <= set(reports), reports
+    # the demo unit file lists eight exchangers (revamp/demo/unit.yaml: six shell-and-tube, one air cooler, one
+    # condenser on its condensing-curve file): eight reports and the index, and its train and cleaning sections add
+    # the train page and the cleaning page
+    assert len(reports) == 11 and {"index.html", "train.html", "cleaning.html", "C-401.html"} <= set(reports), reports
     # batch on a unit file outside the package: the demo's file copied next to its plant data
     src = Path(subprocess.check_output([str(env_dir / "bin" / "python"), "-c",
                                         "from revamp.cli import demo_unit_path; print(demo_unit_path())"],
