@@ -21,6 +21,7 @@ The ambient follows an invented season and day.
 """
 from __future__ import annotations
 
+import shutil
 import sys
 import tempfile
 from dataclasses import dataclass
@@ -342,6 +343,8 @@ def _load_unit(path: Path):
     with tempfile.TemporaryDirectory() as tmp:
         copy = Path(tmp) / path.name
         copy.write_text(yaml.safe_dump(doc, sort_keys=False), encoding="utf-8")
+        if (path.parent / "curves").is_dir():  # a condenser's condensing-curve files, read relative to the unit file
+            shutil.copytree(path.parent / "curves", Path(tmp) / "curves")
         return unitfile.load(copy)
 
 

@@ -47,7 +47,7 @@ def installed(tmp_path_factory):
     # the files batch and demo read at run time are real files inside the wheel
     for name in ("revamp/notebooks/exchanger_study.ipynb", "revamp/notebooks/unit_summary.ipynb",
                  "revamp/notebooks/resistance_primer.ipynb", "revamp/demo/unit.yaml",
-                 "revamp/demo/plant/E-101.csv", "revamp/unit_schema.json"):
+                 "revamp/demo/plant/E-101.csv", "revamp/demo/curves/C-401.csv", "revamp/unit_schema.json"):
         assert name in inside, name
     env_dir = root / "venv"
     venv.EnvBuilder(with_pip=False, symlinks=True).create(env_dir)

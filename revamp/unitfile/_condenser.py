@@ -42,8 +42,8 @@ CONDENSER_KIND = "condenser"
 EXCHANGER_TYPES = ("shell and tube", "air cooler")
 _ENTRY = {"tag", "kind", "description", "exchanger", "geometry", "condensing_side", "vapour", "coolant", "air_side",
           "revamp", "allowed", "options", "plant_data"}
-_VAPOUR = {"fluid", "mixture", "curve", "curve_units", "critical_pressure", "pressure", "quality", "superheat",
-           "flow", "fouling", "dp_allowed"}
+_VAPOUR = {"fluid", "mixture", "curve", "curve_units", "condensate", "critical_pressure", "pressure", "quality",
+           "superheat", "flow", "fouling", "dp_allowed"}
 _COOLANT = {"fluid", "flow", "t_in", "fouling", "dp_allowed"}
 _AIR = {"t_in", "flow", "face_velocity", "altitude", "fouling"}
 _PLANT = {"file", "columns", "condensing_from", "uncertainty", "steady", "delimiter", "decimal", "timestamp_format",
@@ -95,7 +95,9 @@ CONDENSER_SCHEMA = {
                                   "curve_units": {"type": "object", "additionalProperties": False,
                                                   "properties": {k: {"type": "string"} for k in CURVE_COLUMNS
                                                                  if CURVE_COLUMNS[k] is not None}},
-                                  **{k: _Q for k in _VAPOUR - {"fluid", "mixture", "curve", "curve_units"}}}},
+                                  "condensate": {"$ref": "#/$defs/fluid"},
+                                  **{k: _Q for k in _VAPOUR - {"fluid", "mixture", "curve", "curve_units",
+                                                               "condensate"}}}},
         "coolant": {"type": "object", "additionalProperties": False, "required": ["fluid", "flow", "t_in"],
                     "properties": {"fluid": {"$ref": "#/$defs/fluid"}, **{k: _Q for k in _COOLANT - {"fluid"}}}},
         "air_side": {"type": "object", "additionalProperties": False, "required": ["t_in"],
@@ -273,6 +275,10 @@ def _vapour_fluid(v: dict, q: dict, where: str, base, problems: list):
     if "pressure" not in q:
         return None
     p = q["pressure"]
+    if "condensate" in v and "curve" not in v:
+        problems.append(Problem(f"{where}.condensate", _show(v["condensate"]), "must be given only with a curve (a "
+                                "pure fluid's or a mixture's condensate comes from CoolProp)"))
+        return None
     if "fluid" in v:
         name = v["fluid"]
         if not isinstance(name, str) or not name.strip():
@@ -299,6 +305,18 @@ def _vapour_fluid(v: dict, q: dict, where: str, base, problems: list):
     if table is None:
         return None
     kw = {"critical_pressure": q["critical_pressure"]} if "critical_pressure" in q else {}
+    if "condensate" in v:  # the subcooled condensate below the curve's bubble point (the curve's rows end there)
+        from ._building import _build_fluid
+
+        spec = v["condensate"]
+        if not isinstance(spec, dict) or "kind" not in spec:
+            problems.append(Problem(f"{where}.condensate", _show(spec), "must be a fluid mapping with a 'kind'"))
+            return None
+        kind = str(spec["kind"])
+        kw["liquid"] = _guard(problems, f"{where}.condensate", lambda: _build_fluid(dict(spec)),
+                              rename=lambda f: f[len(kind) + 1:] if f.startswith(kind + ".") else f)
+        if kw["liquid"] is None:
+            return None
     return _guard(problems, where, lambda: fluids.condensing_curve(table=table, pressure=p, name=str(v["curve"]),
                                                                    **kw),
                   rename=lambda f: "curve" if f.startswith(("table", "condensing_curve")) else f)
