@@ -1,5 +1,6 @@
-"""Reports: HTML pages (:mod:`.pages`), one exchanger's study as displayed (:mod:`.case`) and the notebooks'
-interactive controls (:mod:`.widgets`). No physics here.
+"""Reports: HTML pages (:mod:`.pages`), one exchanger's study as displayed (:mod:`.case`, its plant-data section in
+:mod:`.plant`), the other kinds' reports (:mod:`.air`, :mod:`.condenser`), the unit's pages (:mod:`.train`,
+:mod:`.cleaning`), exports (:mod:`.export`) and the notebooks' interactive controls (:mod:`.widgets`). No physics here.
 """
 from .case import (
                    RATING_COLUMNS,
