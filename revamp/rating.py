@@ -20,6 +20,10 @@ may be an array (flows, inlet temperatures, fouling): the whole sweep runs in on
 cases, and no single case can make it fail (a close approach is rated; a stream that would boil or freeze is NaN
 with a warning). Numbers outside a correlation's published range come back with a warning in ``Rating.warnings``.
 
+The loop's state and steps (tolerances, :func:`warm_start`, the one-case float iteration, :class:`OutletMap`) live in
+:mod:`revamp.rating_loop`; what each TEMA shell type means (:func:`arrangement`, the shell-side adaptation) in
+:mod:`revamp.rating_shells`. Both are re-exported here.
+
 References
 ----------
 Kays, W. M., London, A. L. (1984). *Compact Heat Exchangers*, 3rd ed., McGraw-Hill (effectiveness-NTU).
@@ -32,15 +36,8 @@ Anderson, D. G. (1965). Iterative procedures for nonlinear integral equations. *
 """
 from __future__ import annotations
 
-import bisect
-import contextlib
-import contextvars
 import dataclasses
 import functools
-import inspect
-import math
-import types
-from dataclasses import dataclass
 
 import numpy as np
 
@@ -50,9 +47,15 @@ from .correlations import shell as shell_corr
 from .correlations import shell_bell
 from .correlations import tube as tube_corr
 from .errors import InputError
-from .fluids.table import ConstantFluid
 from .resistance import TUBE_LAYERS, tube_resistances
 from .rating_result import _SCALAR_FIELDS, LazyResistances, Rating, ResultFrames  # noqa: F401  (re-exported)
+# the loop's state and steps live in rating_loop, the TEMA shell types in rating_shells; re-exported here for the
+# train solver, the exchanger models and the tests that import them from this module
+from .rating_loop import (_ANDERSON_FROM, _MAX_ITER, _NO_DP, _SEAM_FROM, _SEAM_RE, _SEAM_STEP_K,  # noqa: F401
+                          _TOL_K, _WARM_START, OutletMap, _below, _constant_props, _Eval, _head, _interp_float,
+                          _iterate_one, _near_seam, _near_seam_one, _reshape_fields, _tail, warm_start)
+from .rating_shells import (_accepts, _bell_loop, _scaled_dp, _shell_flow_geometry,  # noqa: F401
+                            _shell_side_by_type, arrangement)
 from .service import Service, Stream
 
 __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"]
@@ -86,271 +89,11 @@ def _rater(exchanger):
     return fn
 
 
-_MAX_ITER = 60
-#: A first guess of the iteration's state for the next shell-and-tube ratings in this context (see warm_start)
-_WARM_START: contextvars.ContextVar = contextvars.ContextVar("revamp_rating_warm_start", default=None)
 _FLOAT_CASES = 8  # up to this many cases iterate one by one on floats (cheaper than array calls on so few)
-_TOL_K = 1e-6  # a case has converged when its outlet and wall temperatures move by less than this [K]
-_SEAM_STEP_K = 1e-3  # a case at a seam stops when its halved step moves it by less than this [K]
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
-_ANDERSON_FROM = 2  # iteration from which the Anderson step is tried (plain substitution before)
-_SEAM_FROM = 4  # iteration from which a residual that changes sign without shrinking marks a seam
-
-
-@contextlib.contextmanager
-def warm_start(state):
-    """Start the shell-and-tube ratings made inside the ``with`` block from ``state`` instead of the inlets.
-
-    ``state`` is a ``(4, n)`` array of the outlet temperatures (shell, tube) and the wall temperatures (shell side,
-    tube side) [K] of the ``n`` flattened cases, e.g. those of a previous rating at nearby inlets (a network solve
-    re-rating its exchangers). Only the number of iterations changes: each case still stops where its outlets move by
-    less than 1e-6 K (a state that does not fit the cases is ignored; a case whose state is not finite starts from
-    its inlets). Internal to the package.
-    """
-    token = _WARM_START.set(state)
-    try:
-        yield
-    finally:
-        _WARM_START.reset(token)
-
-
-def arrangement(exchanger) -> tuple[str, int]:
-    """The effectiveness-NTU arrangement of an exchanger: ``(name, units in series)``.
-
-    E shell: one tube pass runs in counterflow (N counterflow shells in series are one counterflow exchanger);
-    two or more passes use the 1-2N relation, identical shells in series by the series formula. F shell: two tube
-    passes are pure counterflow; four or more are two 1-2N shells in series per F shell (no leakage or heat
-    conduction across the longitudinal baffle). J shell: the J 1-1, 1-2 or 1-4 relation (six or more passes use
-    1-4); with two or more tube passes that relation passes a maximum in NTU (a temperature cross in the second
-    pass), so a longer J shell can give less duty. X shell: single-pass crossflow with both fluids unmixed, per shell. Names are keys of
-    :data:`revamp.thermal.EFFECTIVENESS_ARRANGEMENTS`.
-    """
-    kind = getattr(exchanger, "shell_type", "E")
-    passes, shells = exchanger.tube_passes, int(exchanger.shells)
-    if kind == "F":
-        return ("counterflow", 1) if passes == 2 else ("E", 2 * shells)
-    if kind == "J":
-        return ("J1" if passes == 1 else "J2" if passes == 2 else "J4"), shells
-    if kind == "X":
-        return "crossflow", shells
-    if passes == 1:
-        return "counterflow", 1
-    return "E", shells
 
 
 # --------------------------------------------------------------------------------------------------- the engine
-def _below(t_max):
-    """A temperature just below an upper limit (the limit itself when it is infinite)."""
-    return t_max - 1e-6 * t_max if np.isfinite(t_max) else t_max
-
-
-def _head(v, na):
-    """The first ``na`` values of a property array (a constant is returned as it is)."""
-    v = np.asarray(v, dtype=float)
-    return v[:na] if v.ndim else v
-
-
-def _tail(v, na):
-    """The values after the first ``na`` of a property array (a constant is returned as it is)."""
-    v = np.asarray(v, dtype=float)
-    return v[na:] if v.ndim else v
-
-
-#: Reynolds numbers where Taborek's ideal-bank fits change coefficients (Taborek 1983): the map may jump there
-_SEAM_RE = np.array([10.0, 100.0, 1e3, 1e4])
-
-
-def _near_seam(Re):
-    """Cases whose shell-side Re lies within 5 % of a band edge of Taborek's fits (the nearest edge in ln Re is
-    10^k with k = round(log10 Re), kept within the edges)."""
-    lr = np.log(np.asarray(Re, dtype=float))
-    k = np.fmin(np.fmax(np.rint(lr * (1.0 / math.log(10.0))), 1.0), 4.0)
-    return np.abs(lr - k * math.log(10.0)) < 0.05
-
-
-def _bell_loop(geom, m, rho, cp, mu, k, mu_wall=None, d_nozzle=None, h_only=False):
-    """Bell-Delaware in the rating loop: the unchecked kernel, without its warnings (the rating collects them once,
-    at the converged state); ``h_only`` inside the iteration."""
-    return shell_bell.bell_delaware_kernel(geom, m, rho, cp, mu, k, mu_wall, d_nozzle, warn=False, h_only=h_only)
-
-
-def _constant_props(fluid):
-    """``(rho, cp, mu, k, mu_wall)`` of a constant-property fluid (the same at every temperature), else None."""
-    if type(fluid) is not ConstantFluid:
-        return None
-    return (fluid.density, fluid.heat_capacity, fluid.viscosity, fluid.conductivity, fluid.viscosity)
-
-
-def _accepts(fn, name: str) -> bool:
-    try:
-        return name in inspect.signature(fn).parameters
-    except (TypeError, ValueError):  # pragma: no cover - builtins
-        return False
-
-
-def _scaled_dp(res, factor):
-    """A shell-side result with its pressure drops multiplied by ``factor`` (two shell passes in series)."""
-    if res.dp is None:  # a heat-transfer-only result (inside the iteration)
-        return res
-    return dataclasses.replace(res, dp=res.dp * factor, dp_crossflow=res.dp_crossflow * factor,
-                               dp_window=res.dp_window * factor, dp_ends=res.dp_ends * factor)
-
-
-def _shell_side_by_type(kind, shell_fn, geom):
-    """The shell-side calculation of one shell adapted to its TEMA type, and what the adaptation assumes.
-
-    - E: the method as published.
-    - F (two shell passes, longitudinal baffle): each pass carries the whole stream through half the shell's flow
-      areas, which is the method at twice the flow on the full geometry (every area halves together); the pressure
-      drop is that of two passes. The longitudinal baffle is taken as sealed (no bypass or heat conduction across
-      it): a leaking baffle lowers both the effectiveness and the pressure drop.
-    - J (divided flow): each half of the stream flows through half the shell length, with half the baffles; the
-      pressure drop is that of one half.
-    - X (crossflow): :func:`revamp.correlations.shell.crossflow_bundle`.
-
-    Returns ``(fn(m, rho, cp, mu, k, mu_wall, **kw), nozzle_scale, note)``; ``nozzle_scale`` turns the nozzle
-    diameter into the one that gives the right nozzle loss at the flow the method sees (a loss in velocity heads
-    scales as m²/d⁴).
-    """
-    if kind == "X":
-        return (lambda m, *p, **kw: shell_corr.crossflow_bundle(geom, m, *p)), None, ()
-    if kind == "F":
-        def f_shell(m, *p, **kw):
-            return _scaled_dp(shell_fn(geom, 2.0 * m, *p, **kw), 2.0)
-        return f_shell, 8.0 ** 0.25, ("F shell: two shell passes, each with half the flow area; the longitudinal "
-                                      "baffle is assumed sealed (no leakage or heat conduction across it)",)
-    if kind == "J":
-        half = _shell_flow_geometry("J", geom)[0]
-        return ((lambda m, *p, **kw: shell_fn(half, 0.5 * m, *p, **kw)), 0.5 ** 0.5,
-                ("J shell: divided flow, each half of the stream through half the length and half the baffles",))
-    return (lambda m, *p, **kw: shell_fn(geom, m, *p, **kw)), 1.0, ()
-
-
-def _shell_flow_geometry(kind, geom):
-    """The geometry and the flow multiplier the shell-side method sees for one shell of a TEMA type (E, F, J; see
-    :func:`_shell_side_by_type`): F, the whole geometry at twice the flow; J, half the length and baffles at half
-    the flow."""
-    if kind == "F":
-        return geom, 2.0
-    if kind == "J":
-        return dataclasses.replace(geom, Nb=max(1, geom.Nb // 2), length=geom.length / 2.0), 0.5
-    return geom, 1.0
-
-
-_LN_SEAM_RE = tuple(math.log(e) for e in _SEAM_RE)
-
-
-def _interp_float(x, table):
-    """``np.interp(x, *table)`` for one float: linear between the points, held constant outside them."""
-    xs, fs = table
-    if x <= xs[0]:
-        return fs[0]
-    if x >= xs[-1]:
-        return fs[-1]
-    j = bisect.bisect_right(xs, x) - 1
-    return (fs[j + 1] - fs[j]) / (xs[j + 1] - xs[j]) * (x - xs[j]) + fs[j]
-
-
-def _near_seam_one(Re):
-    """:func:`_near_seam` for one case (a float)."""
-    lr = math.log(Re)
-    return min(abs(lr - e) for e in _LN_SEAM_RE) < 0.05
-
-
-def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None, last=None):
-    """The property iteration of :func:`rate` for one case on Python floats: the same steps as the array loop
-    (substitution, then Anderson depth one; plain and halved steps at a seam) and the same stops. Returns the state
-    ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at. ``start``: a first state other
-    than the inlets (see :func:`warm_start`). ``resume``: the array loop's state of this case after its iteration
-    ``it`` (``(it + 1, X, f_prev, g_prev, r_prev, s_prev, omega, damped)``), to carry on from there. ``last``: a list
-    that receives ``(G, extra)`` of the evaluation at the returned state when the case stopped there."""
-    lo, hi = min(ts_in, tt_in), max(ts_in, tt_in)
-    if start is None or not all(math.isfinite(v) for v in start):
-        X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
-    else:
-        X = tuple(min(max(float(v), lo), hi) for v in start)
-    f_prev = g_prev = (0.0, 0.0, 0.0, 0.0)
-    r_prev, s_prev, om, damped = math.inf, 0.0, 1.0, False
-    it0 = 0
-    if resume is not None:
-        it0, X, f_prev, g_prev, r_prev, s_prev, om, damped = resume
-    for it in range(it0, _MAX_ITER):
-        G, Re, extra = evaluate_one(*X)
-        f = tuple(g - x for g, x in zip(G, X))
-        r = max(abs(f[0]), abs(f[1]))
-        conv = r < _TOL_K
-        edge = seams and _near_seam_one(Re)
-        s_now = 1.0 if f[1] > 0.0 else -1.0 if f[1] < 0.0 else 0.0 if f[1] == 0.0 else math.nan  # np.sign
-        flip = it >= _SEAM_FROM and edge and s_now * s_prev < 0 and r > 0.7 * r_prev
-        dm = damped or flip
-        if flip:
-            om = 0.5 * om
-        if it >= _ANDERSON_FROM:
-            df = tuple(a - b for a, b in zip(f, f_prev))
-            den = sum(d * d for d in df)
-            gam = 0.0
-            if den > 0.0 and r <= r_prev and not edge:
-                try:
-                    gam = sum(a * d for a, d in zip(f, df)) / den
-                except (OverflowError, ZeroDivisionError):  # pragma: no cover - not finite: a plain step
-                    gam = 0.0
-                if not math.isfinite(gam):
-                    gam = 0.0
-            Xn = tuple(g - gam * (g - gp) for g, gp in zip(G, g_prev))
-        else:
-            Xn = G
-        if dm:
-            Xn = tuple(x + om * a for x, a in zip(X, f))
-        Xn = tuple(min(max(v, lo), hi) for v in Xn)
-        if conv or (dm and om * r < _SEAM_STEP_K):
-            if last is not None:
-                last.append((G, extra))
-            return X
-        X, f_prev, g_prev, r_prev, s_prev, damped = Xn, f, G, r, s_now, dm
-    return X
-
-
-def _reshape_fields(res, shape):
-    """A correlation result with every array field reshaped to the sweep's shape (floats for a single case)."""
-    n = math.prod(shape)
-    changes = {}
-    for f in dataclasses.fields(res):
-        v = getattr(res, f.name)
-        if isinstance(v, np.ndarray) and v.ndim == 1:
-            if shape == ():
-                changes[f.name] = float(v[0])
-            else:
-                changes[f.name] = np.full(shape, float(v[0])) if v.size == 1 and n != 1 else v.reshape(shape)
-        elif isinstance(v, (float, np.floating)):
-            changes[f.name] = float(v) if shape == () else np.full(shape, float(v))
-    return dataclasses.replace(res, **changes)
-
-
-@dataclass(slots=True)
-class _Eval:
-    """One evaluation of the outlet map at a state (internal, never leaves :func:`rate`)."""
-
-    to_s: np.ndarray
-    to_t: np.ndarray
-    tw_s: np.ndarray
-    tw_t: np.ndarray
-    q: np.ndarray
-    eps: np.ndarray
-    w: np.ndarray
-    NTU: np.ndarray
-    U: np.ndarray
-    C_s: np.ndarray
-    C_t: np.ndarray
-    shell_min: np.ndarray
-    R: tuple
-    tube: object
-    shell: object
-    rho_s: np.ndarray
-    rho_t: np.ndarray
-    Pr_s: np.ndarray
-    mu_ratio_t: np.ndarray
-
-
 def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> Rating:
     """Rate an existing exchanger at a service (shell-and-tube here; every other kind through :data:`RATERS`).
 
@@ -422,27 +165,6 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
         raise InputError("shell_method", shell_method, "'bell-delaware' for an X shell (Kern's method assumes "
                          "baffled crossflow; the X shell is rated as one crossflow pass over the bundle)")
     return _rate_shell_and_tube(hx, service, shell_method)
-
-
-_NO_DP = types.SimpleNamespace(dp=np.nan)  # the correlation details of an evaluation that computed no pressure drop
-
-
-@dataclass(frozen=True)
-class OutletMap:
-    """What an iteration over ratings needs of one (a network solve): per flattened case, the outlets, the wall
-    temperatures, the effectiveness, the heat-capacity rates of the whole streams and the pressure drops over all
-    shells (SI; NaN where a stream would leave its fluid's range). Built by :func:`_rate_shell_and_tube` with
-    ``outlets_only``; the same numbers as the :class:`Rating` of the same call."""
-
-    t_out_shell: np.ndarray
-    t_out_tube: np.ndarray
-    t_wall_shell: np.ndarray
-    t_wall_tube: np.ndarray
-    effectiveness: np.ndarray
-    C_shell: np.ndarray
-    C_tube: np.ndarray
-    dp_shell: np.ndarray
-    dp_tube: np.ndarray
 
 
 def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True, blocks=1):
