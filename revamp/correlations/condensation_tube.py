@@ -35,8 +35,8 @@ G = 9.80665  #: standard gravity [m/s²]
 SHAH_1979_RANGE = {"p_r": (0.002, 0.44), "Re_LO": (350.0, None), "Pr_l": (1.0, 13.0)}
 
 #: Range of Shah (2009) for horizontal tubes: inside diameter [m], reduced pressure, mass flux [kg/m²/s], liquid
-#: Prandtl number (Shah 2009, table of the data set; from memory, and agreeing with a public open-source implementation of the
-#: paper's equations and range; the paper itself was not at hand).
+#: Prandtl number (Shah 2009, table of the data set; from memory, and agreeing with a public open-source
+#: implementation of the paper's equations and range; the paper itself was not at hand).
 SHAH_2009_RANGE = {"d_i": (0.002, 0.049), "p_r": (0.0008, 0.905), "G": (4.0, 820.0), "Pr_l": (1.0, 18.0)}
 
 
@@ -96,8 +96,8 @@ def shah_2009_parts(G_total, x, d_i, rho_l, rho_v, mu_l, mu_v, k_l, cp_l, p_r):
     References
     ----------
     Shah, M. M. (2009). An improved and extended general correlation for heat transfer during condensation in plain
-    tubes. HVAC&R Research 15(5), 889-913 (equations from memory, checked against a public open-source implementation of the
-    paper; the paper itself was not at hand).
+    tubes. HVAC&R Research 15(5), 889-913 (equations from memory, checked against a public open-source
+    implementation of the paper; the paper itself was not at hand).
     """
     x = _arr(x)
     G_total, d_i = _arr(G_total), _arr(d_i)
