@@ -113,15 +113,8 @@ def _sides(service):
 
 
 def _pressure_at(curve, T):
-    """Condensing pressure [Pa] whose dew point is ``T`` [K]: CoolProp for a pure fluid, else Clausius-Clapeyron
-    from the curve (as :meth:`revamp.fluids.CondensingFluid.temperature_at_pressure`, inverted)."""
-    T = np.asarray(T, dtype=float)
-    if curve.pure_name is not None:
-        import CoolProp.CoolProp as CP
-
-        flat = np.ravel(T)
-        return np.reshape(CP.PropsSI("P", "T", flat, "Q", np.ones(flat.size), curve.pure_name), T.shape)
-    return curve.pressure * np.exp(curve._clapeyron_b() * (1.0 / float(curve.t_dew) - 1.0 / T))
+    """Condensing pressure [Pa] whose dew point is ``T`` [K] (:meth:`revamp.fluids.CondensingFluid.pressure_at_dew_point`)."""
+    return curve.pressure_at_dew_point(np.asarray(T, dtype=float))
 
 
 def _dt_mean(curve, p, t_dew, t_in, t_out):
