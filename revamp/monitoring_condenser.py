@@ -33,8 +33,9 @@ import pandas as pd
 from .errors import InputError
 from .units import require, to_si
 
-__all__ = ["CONDENSER_COLUMNS", "CondenserMonitoring", "CondenserPlantMonitoring", "monitor_condenser",
-           "monitor_condenser_data", "read_condenser_plant_data"]
+__all__ = ["AIR_CONDENSER_COLUMNS", "CONDENSER_COLUMNS", "CondenserMonitoring", "CondenserPlantMonitoring",
+           "monitor_air_condenser", "monitor_air_condenser_data", "monitor_condenser", "monitor_condenser_data",
+           "read_air_condenser_plant_data", "read_condenser_plant_data"]
 
 #: standard column -> quantity kind (None: the timestamp)
 CONDENSER_COLUMNS = {"timestamp": None, "coolant_flow": "mass_flow", "coolant_t_in": "temperature",
@@ -361,11 +362,26 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
     -------
     revamp.monitoring.data.PlantData
     """
-    from .monitoring import data as md
-
     if condensing_from not in _FROM:
         raise InputError("condensing_from", condensing_from, f"one of {', '.join(_FROM)}")
     need = _REQUIRED + (_FROM[condensing_from],)
+
+    def checks(out, add):
+        add(out["coolant_flow"].to_numpy() <= 0, "coolant_flow <= 0")
+        add(~(out["coolant_t_out"].to_numpy() > out["coolant_t_in"].to_numpy()),
+            "coolant outlet not above its inlet")
+        if "condensate_t" in out:
+            add(~(out["condensate_t"].to_numpy() > out["coolant_t_in"].to_numpy()),
+                "condensate not above the coolant inlet")
+
+    return _read_plant(data, columns, need, CONDENSER_COLUMNS, checks, dialect, flat_rows)
+
+
+def _read_plant(data, columns, need, known, checks, dialect, flat_rows):
+    """Read the columns ``need`` (and ``condensate_t`` when the data has it) of a plant-data CSV or DataFrame into
+    SI, each row flagged with its reasons; ``checks(out, add)`` adds the kind's own physical checks."""
+    from .monitoring import data as md
+
     d = md.CsvDialect.make(dialect)
     optional = (columns or {}).get("condensate_t", "condensate_t")
     optional = optional if isinstance(optional, str) else str(optional[0])
@@ -377,12 +393,12 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
         except (OSError, ValueError) as exc:
             raise InputError("data", str(data), f"a readable CSV file or a DataFrame ({exc})") from None
         lines = md._first_lines(data)
-    if optional in raw.columns:  # the condensate outlet, when the plant measures it
-        need = need + ("condensate_t",)
+    if optional in raw.columns and "condensate_t" not in need:  # the condensate outlet, when the plant measures it
+        need = tuple(need) + ("condensate_t",)
     spec = {c: (c, None) for c in need}
     for key, val in (columns or {}).items():
-        if key not in CONDENSER_COLUMNS:
-            raise InputError(f"columns.{key}", key, f"one of {list(CONDENSER_COLUMNS)}")
+        if key not in known:
+            raise InputError(f"columns.{key}", key, f"one of {list(known)}")
         if key in need:
             spec[key] = (val, None) if isinstance(val, str) else (str(val[0]), val[1])
     missing = [f"{src} (for {key})" for key, (src, _) in spec.items() if src not in raw.columns]
@@ -411,7 +427,7 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
         text = raw[src].astype(str).str.strip()
         blank = text.isin(["", "nan", "NaN", "NA", "N/A", "null", "None"]).to_numpy()
         num = md._numbers(text, blank, d.decimal)
-        kind = CONDENSER_COLUMNS[key]
+        kind = known[key]
         if unit is None and kind == "temperature" and np.isfinite(num).any() and np.nanmedian(num) < md._KELVIN_FLOOR:
             raise InputError(f"columns.{key}", src, f"given with its unit, e.g. ({src!r}, 'degC'): a bare column is "
                              f"read as kelvin, and its values (median {np.nanmedian(num):.4g}) would be below "
@@ -428,11 +444,7 @@ def read_condenser_plant_data(data, columns=None, *, condensing_from="pressure",
     add(earlier & have_t, "unsorted timestamp")
     for key in need[1:]:
         add(md._flat_runs(out[key].to_numpy(), flat_rows, 0.0), f"flat-lined {key}")
-    add(out["coolant_flow"].to_numpy() <= 0, "coolant_flow <= 0")
-    add(~(out["coolant_t_out"].to_numpy() > out["coolant_t_in"].to_numpy()), "coolant outlet not above its inlet")
-    if "condensate_t" in out:
-        add(~(out["condensate_t"].to_numpy() > out["coolant_t_in"].to_numpy()), "condensate not above the coolant "
-                                                                                  "inlet")
+    checks(out, add)
     out["flag"] = ["; ".join(r) for r in reasons]
     out["valid"] = out["flag"] == ""
     counts: dict = {}
@@ -458,6 +470,9 @@ class CondenserPlantMonitoring:
     condensing_from : str
     uncertainty : dict
     notes : tuple of str
+    basis : str
+        What the fouling is computed from, for reports (``"coolant-side heat balance"``, or the condensing-side
+        balance of an air-cooled condenser).
     """
 
     table: pd.DataFrame = field(repr=False)
@@ -465,6 +480,7 @@ class CondenserPlantMonitoring:
     condensing_from: str
     uncertainty: dict
     notes: tuple = ()
+    basis: str = "coolant-side heat balance"
 
     @property
     def used(self) -> pd.DataFrame:
@@ -521,7 +537,8 @@ def _dew_points(service, side, p):
 
 
 def monitor_condenser_data(exchanger, service, data, columns=None, *, condensing_from="pressure", uncertainty=None,
-                           steady=None, dialect=None, flat_rows: int = 6, **rating_kw) -> CondenserPlantMonitoring:
+                           steady=None, dialect=None, flat_rows: int = 6, duty_from=None, air_flow_from=None,
+                           **rating_kw) -> CondenserPlantMonitoring:
     """The fouling of a condenser from its plant data (read, checked, steady rows kept, balanced row by row).
 
     Parameters
@@ -542,6 +559,9 @@ def monitor_condenser_data(exchanger, service, data, columns=None, *, condensing
         measurement); None or True: its defaults; False: every valid row is used.
     dialect : CsvDialect, dict or None
     flat_rows : int
+    duty_from, air_flow_from : str, optional
+        An air-cooled condenser only (:func:`monitor_air_condenser_data`, which an ``AirService`` is handed to):
+        where the duty and the air flow of each row come from.
     **rating_kw
         For the clean rating.
 
@@ -555,7 +575,16 @@ def monitor_condenser_data(exchanger, service, data, columns=None, *, condensing
         Bad settings, an unreadable file (with the field named), or no row left to use.
     """
     from .monitoring.steady import steady_filter
+    from .service_air import AirService
 
+    if isinstance(service, AirService):
+        return monitor_air_condenser_data(exchanger, service, data, columns, condensing_from=condensing_from,
+                                          duty_from=duty_from or "condensate", air_flow_from=air_flow_from or "stated",
+                                          uncertainty=uncertainty, steady=steady, dialect=dialect,
+                                          flat_rows=flat_rows, **rating_kw)
+    for name, value in (("duty_from", duty_from), ("air_flow_from", air_flow_from)):
+        if value is not None:
+            raise InputError(name, value, "None for a shell-and-tube condenser (its duty is the coolant's)")
     c_side, k_side = _sides(service)
     pdata = read_condenser_plant_data(data, columns, condensing_from=condensing_from, dialect=dialect,
                                       flat_rows=flat_rows)
@@ -573,7 +602,7 @@ def monitor_condenser_data(exchanger, service, data, columns=None, *, condensing
                              "tube_flow": frame["coolant_flow"], "tube_t_in": frame["coolant_t_in"],
                              "shell_t_in": frame[key] if key == "condensing_t" else _dew_points(service, c_side,
                                                                                                frame[key])})
-        is_steady = np.asarray(steady_filter(view, valid=valid, **settings).steady, dtype=bool) & valid
+        is_steady = np.asarray(steady_filter(view, valid=valid, **settings).mask, dtype=bool) & valid
     frame["steady"] = is_steady
     frame["used"] = is_steady
     counts["steady"] = int(is_steady.sum())
@@ -840,3 +869,168 @@ def monitor_air_condenser(exchanger, service, *, condensing_pressure=None, conde
         ("lo", rf - band), ("hi", rf + band))}
     return CondenserMonitoring(out["duty"], out["t"], out["m_v"], out["dt"], out["U"], out["Uc"], out["rf"],
                                out["lo"], out["hi"], tuple(notes))
+
+
+def read_air_condenser_plant_data(data, columns=None, *, condensing_from="pressure", duty_from="condensate",
+                                  air_flow_from="stated", dialect=None, flat_rows: int = 6):
+    """Read and check an air-cooled condenser's plant data (a CSV file or a DataFrame).
+
+    Standard columns (SI unless ``columns`` gives a unit): ``timestamp``, ``air_t_in`` [K] (the ambient at the
+    condenser), ``condensing_pressure`` [Pa] or ``condensing_t`` [K] (``condensing_from``), ``condensate_flow``
+    [kg/s] (``duty_from="condensate"``; none for ``"stated"``), ``air_flow`` [kg/s] or ``fan_power`` [W]
+    (``air_flow_from`` ``"measured"`` or ``"fan_power"``; none for ``"stated"``), and ``condensate_t`` [K] when the
+    data has it. Rows are flagged as for :func:`read_condenser_plant_data`, and where a flow or the fan power is not
+    positive.
+
+    Returns
+    -------
+    revamp.monitoring.data.PlantData
+    """
+    if condensing_from not in _FROM:
+        raise InputError("condensing_from", condensing_from, f"one of {', '.join(_FROM)}")
+    if duty_from not in DUTY_FROM:
+        raise InputError("duty_from", duty_from, f"one of {', '.join(DUTY_FROM)}")
+    if air_flow_from not in AIR_FLOW_FROM:
+        raise InputError("air_flow_from", air_flow_from, f"one of {', '.join(AIR_FLOW_FROM)}")
+    need = ("timestamp", "air_t_in", _FROM[condensing_from]) + tuple(
+        c for c in (DUTY_FROM[duty_from], AIR_FLOW_FROM[air_flow_from]) if c)
+
+    def checks(out, add):
+        for key in ("condensate_flow", "air_flow", "fan_power", "condensing_pressure"):
+            if key in out:
+                add(out[key].to_numpy() <= 0, f"{key} <= 0")
+        if "condensate_t" in out:
+            add(~(out["condensate_t"].to_numpy() > out["air_t_in"].to_numpy()), "condensate not above the ambient")
+
+    return _read_plant(data, columns, need, AIR_CONDENSER_COLUMNS, checks, dialect, flat_rows)
+
+
+def monitor_air_condenser_data(exchanger, service, data, columns=None, *, condensing_from="pressure",
+                               duty_from="condensate", air_flow_from="stated", uncertainty=None, steady=None,
+                               dialect=None, flat_rows: int = 6, **rating_kw) -> CondenserPlantMonitoring:
+    """The fouling of an air-cooled condenser from its plant data (read, checked, steady rows kept, balanced on the
+    condensing side row by row: :func:`monitor_air_condenser`).
+
+    Parameters
+    ----------
+    exchanger : revamp.AirCooler
+    service : revamp.AirService
+        The condenser's service: its condensing fluid or curve, its vapour flow (the duty's source with
+        ``duty_from="stated"``), the stated air flow or face velocity (the design point with
+        ``air_flow_from="fan_power"``) and the altitude.
+    data : str, path or pandas.DataFrame
+    columns : dict, optional
+        Standard name (:data:`AIR_CONDENSER_COLUMNS`) -> source column or (column, unit).
+    condensing_from : {"pressure", "temperature"}
+    duty_from : {"condensate", "stated"}
+        The measured condensate flow, or the vapour flow stated in the service (same every row, a wider band).
+    air_flow_from : {"stated", "measured", "fan_power"}
+        The service's air flow, an ``air_flow`` column, or a ``fan_power`` column through the fan laws from the
+        design point of the stated service (:func:`revamp.correlations.air.air_flow_from_fan_power`).
+    uncertainty : dict, optional
+        As :func:`monitor_air_condenser`.
+    steady : None, bool or dict
+        Steady-state filter settings (on the air flow, the condensing flow, the ambient and the condensing
+        temperature); None or True: defaults; False: every valid row.
+    dialect : CsvDialect, dict or None
+    flat_rows : int
+    **rating_kw
+        For the ratings.
+
+    Returns
+    -------
+    CondenserPlantMonitoring
+
+    Raises
+    ------
+    InputError
+        Bad settings, an unreadable file (with the field named), or no row left to use.
+
+    References
+    ----------
+    Kröger, D. G. (2004). *Air-Cooled Heat Exchangers and Cooling Towers*, Vol. 1, PennWell, ch. 8 (fan laws).
+    """
+    from .aircooler import AirCooler
+    from .correlations.air import R_AIR, air_flow_from_fan_power, fan_power, pressure_at_altitude
+    from .monitoring.steady import steady_filter
+    from .rating_condenser import rate_condenser
+    from .service_air import AirService
+
+    if not isinstance(exchanger, AirCooler):
+        raise InputError("exchanger", type(exchanger).__name__, "a revamp.AirCooler (an air-cooled condenser)")
+    if not isinstance(service, AirService) or not service.tube.condensing:
+        raise InputError("service", type(service).__name__, "a revamp.AirService with a vapour stream in the tubes")
+    if np.ndim(service.air_flow) or np.ndim(service.face_velocity) or np.ndim(service.air_in) or np.ndim(
+            service.tube.flow):
+        raise InputError("service", "an array service", "one stated service (its air flow is the design point)")
+    pdata = read_air_condenser_plant_data(data, columns, condensing_from=condensing_from, duty_from=duty_from,
+                                          air_flow_from=air_flow_from, dialect=dialect, flat_rows=flat_rows)
+    frame = pdata.frame.copy()
+    counts = dict(pdata.counts)
+    key = _FROM[condensing_from]
+    notes = []
+    ta = frame["air_t_in"].to_numpy(float)
+    if air_flow_from == "measured":
+        m_air = frame["air_flow"].to_numpy(float)
+    elif air_flow_from == "fan_power":
+        # the design point: the stated air flow and the shaft power the fans need for it (the bundle's air-side
+        # pressure drop at the stated service plus one velocity pressure, Kröger 2004, ch. 8), air at the ambient
+        design = rate_condenser(exchanger, service, **rating_kw)
+        m_design = float(_air_flow_of(exchanger, service, service.air_in))
+        rho = pressure_at_altitude(service.altitude) / (R_AIR * float(service.air_in))
+        p_design = float(fan_power(m_design / rho, float(design.dp_air), exchanger.fan_efficiency,
+                                   exchanger.fan_area, rho))
+        m_air = np.asarray(air_flow_from_fan_power(frame["fan_power"].to_numpy(float), p_design,
+                                                   m_design, float(service.air_in) / ta), dtype=float)
+        notes.append(f"air flow from the fan power by the fan laws, from the design point of the stated service "
+                     f"({m_design:.1f} kg/s at {p_design / 1e3:.1f} kW, ambient "
+                     f"{float(service.air_in) - 273.15:.1f} °C)")
+    else:
+        m_air = np.asarray(_air_flow_of(exchanger, service, ta), dtype=float) * np.ones(len(frame))
+        notes.append("air flow as stated in the service (not measured): the same in every row")
+    frame["air_flow"] = m_air
+    m_v = frame["condensate_flow"].to_numpy(float) if duty_from == "condensate" else np.full(
+        len(frame), float(service.tube.flow))
+    valid = frame["valid"].to_numpy() & np.isfinite(m_air) & (m_air > 0)
+    if steady is False:
+        is_steady = valid.copy()
+    else:
+        if not isinstance(steady, (dict, bool, type(None))):
+            raise InputError("steady", steady, "true, false or a mapping of window, flow_rsd, t_range, min_rows")
+        settings = {} if steady in (None, True) else dict(steady)
+        view = pd.DataFrame({"timestamp": frame["timestamp"], "shell_flow": m_air, "tube_flow": m_v,
+                             "tube_t_in": frame[key] if key == "condensing_t" else _dew_points(service, "tube",
+                                                                                               frame[key]),
+                             "shell_t_in": ta})
+        is_steady = np.asarray(steady_filter(view, valid=valid, **settings).mask, dtype=bool) & valid
+    frame["steady"] = is_steady
+    frame["used"] = is_steady
+    counts["steady"] = counts["used"] = int(is_steady.sum())
+    if not is_steady.any():
+        raise InputError("data", f"{counts['rows']} rows, {counts['valid']} valid", "at least one valid, steady row")
+    u = frame[is_steady]
+    svc = service.replace(air_in=u["air_t_in"].to_numpy(float), air_flow=u["air_flow"].to_numpy(float),
+                          face_velocity=None)
+    meas = {"condensing_pressure" if key == "condensing_pressure" else "condensing_temperature":
+            u[key].to_numpy(float)}
+    if duty_from == "condensate":
+        meas["condensate_flow"] = u["condensate_flow"].to_numpy(float)
+    if "condensate_t" in u:
+        meas["t_condensate"] = u["condensate_t"].to_numpy(float)
+    m = monitor_air_condenser(exchanger, svc, uncertainty=uncertainty, air_flow_source=air_flow_from, **meas,
+                              **rating_kw)
+    for col, values in (("duty", m.duty), ("t_condensing", m.t_condensing), ("vapour_flow", m.vapour_flow),
+                        ("U_actual", m.U_actual), ("U_clean", m.U_clean), ("Rf", m.fouling),
+                        ("Rf_low", m.fouling_low), ("Rf_high", m.fouling_high)):
+        frame[col] = np.nan
+        frame.loc[is_steady, col] = values
+    unc = dict(AIR_DEFAULT_UNCERTAINTY, air_flow=_AIR_FLOW_U[air_flow_from])
+    unc.pop("stated_flow")
+    if duty_from == "stated":
+        unc["flow"] = AIR_DEFAULT_UNCERTAINTY["stated_flow"]
+    unc.update({k: float(v) for k, v in (uncertainty or {}).items() if isinstance(v, (int, float))})
+    return CondenserPlantMonitoring(table=frame, counts=counts, condensing_from=condensing_from, uncertainty=unc,
+                                    notes=tuple(notes) + m.notes,
+                                    basis="condensing-side balance of an air-cooled condenser (the duty from the "
+                                          + ("measured condensate" if duty_from == "condensate" else "stated vapour")
+                                          + " flow, the air heated by it)")
