@@ -1,4 +1,5 @@
-"""Fouling of a shell-and-tube condenser from plant data, by the coolant-side heat balance (layer 6).
+"""Fouling of a condenser from plant data: a shell-and-tube one by the coolant-side heat balance, an air-cooled one
+by its condensing side (:func:`monitor_air_condenser`, at the end) (layer 6).
 
 The vapour flow of a condenser is rarely measured well; the coolant's is. Each row gives the duty from the coolant
 (flow, inlet and outlet temperatures: ``Q = m cp (T_out - T_in)``) and the condensing temperature from the measured
@@ -107,7 +108,7 @@ def _sides(service):
 
     if not isinstance(service, Service):
         raise InputError("service", type(service).__name__, "a revamp.Service of a shell-and-tube condenser (an "
-                         "air-cooled condenser has no measured coolant flow to balance on)")
+                         "air-cooled condenser is balanced on its condensing side: monitor_air_condenser)")
     if service.shell.condensing == service.tube.condensing:
         raise InputError("service", service, "a condenser service: one vapour or two-phase stream, one coolant")
     return ("shell", "tube") if service.shell.condensing else ("tube", "shell")
