@@ -115,7 +115,8 @@ def _sides(service):
 
 
 def _pressure_at(curve, T):
-    """Condensing pressure [Pa] whose dew point is ``T`` [K] (:meth:`revamp.fluids.CondensingFluid.pressure_at_dew_point`)."""
+    """Condensing pressure [Pa] whose dew point is ``T`` [K]
+    (:meth:`revamp.fluids.CondensingFluid.pressure_at_dew_point`)."""
     return curve.pressure_at_dew_point(np.asarray(T, dtype=float))
 
 
@@ -855,12 +856,12 @@ def monitor_air_condenser(exchanger, service, *, condensing_pressure=None, conde
         deltas.append(np.abs(rf_at(pp=p2, td=np.asarray(curve.temperature_at_pressure(p2), dtype=float)) - rf))
     band = np.sqrt(sum(d * d for d in deltas)) if deltas else np.zeros(shape)
     what = "pressure" if condensing_pressure is not None else "temperature"
-    notes.append(f"air-cooled condenser: the duty from the {'measured condensate' if condensate_flow is not None else 'stated vapour'} "
-                 f"flow at the measured condensing {what}, the condensate "
-                 + ("at its measured outlet" if t_condensate is not None else "taken at its bubble point")
-                 + f", the air flow {'measured' if air_flow_source == 'measured' else 'stated' if air_flow_source == 'stated' else 'from the fan power'}"
-                 " and the air heated by the duty; the fouling (inside the tubes, on the bare outside area) at which "
-                 f"the zone-by-zone rating gives that duty; band: ±{unc['air_flow']:.0%} air flow, "
+    duty_src = "measured condensate" if condensate_flow is not None else "stated vapour"
+    air_src = {"measured": "measured", "stated": "stated", "fan_power": "from the fan power"}[air_flow_source]
+    notes.append(f"air-cooled condenser: the duty from the {duty_src} flow at the measured condensing {what}, the "
+                 "condensate " + ("at its measured outlet" if t_condensate is not None else "taken at its bubble point")
+                 + f", the air flow {air_src} and the air heated by the duty; the fouling (inside the tubes, on the "
+                 "bare outside area) at which the zone-by-zone rating gives that duty; band: ±{unc['air_flow']:.0%} air flow, "
                  f"±{unc['flow']:.0%} {'condensate' if condensate_flow is not None else 'vapour'} flow, "
                  f"±{unc['temperature']:g} K per temperature"
                  + (f", ±{unc['pressure']:.1%} pressure" if condensing_pressure is not None else "")

@@ -165,9 +165,10 @@ def test_unit_file_plant_data_reaches_the_study_and_its_report(hand, tmp_path):
     n = 9
     k = np.full(n, 1)  # the middle hand row, the stated air flow's
     ts = pd.date_range("2026-01-01", periods=n, freq="h")
-    pd.DataFrame({"time": ts.strftime("%Y-%m-%d %H:%M"), "ambient": t_air[k] - 273.15 + 1e-3 * np.arange(n),
-                  "p": P / 1e5 + 1e-5 * np.arange(n), "condensate": m_cond[k] * (1 + 1e-6 * np.arange(n))}).to_csv(tmp_path / "acc.csv",
-                                                                                       index=False)
+    live = np.arange(n)  # live transmitters: never exactly flat
+    pd.DataFrame({"time": ts.strftime("%Y-%m-%d %H:%M"), "ambient": t_air[k] - 273.15 + 1e-3 * live,
+                  "p": P / 1e5 + 1e-5 * live, "condensate": m_cond[k] * (1 + 1e-6 * live)}).to_csv(
+        tmp_path / "acc.csv", index=False)
     geometry = {"bays": 1, "bundles_per_bay": 1, "tube_rows": 6, "tubes_per_row": 50, "tube_passes": 1,
                 "tube_length": "6 m", "tube_od": "25.4 mm", "tube_wall": "2.11 mm", "transverse_pitch": "63.5 mm",
                 "row_pitch": "55 mm", "tube_material": "carbon steel",
