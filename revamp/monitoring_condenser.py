@@ -861,7 +861,8 @@ def monitor_air_condenser(exchanger, service, *, condensing_pressure=None, conde
     notes.append(f"air-cooled condenser: the duty from the {duty_src} flow at the measured condensing {what}, the "
                  "condensate " + ("at its measured outlet" if t_condensate is not None else "taken at its bubble point")
                  + f", the air flow {air_src} and the air heated by the duty; the fouling (inside the tubes, on the "
-                 "bare outside area) at which the zone-by-zone rating gives that duty; band: ±{unc['air_flow']:.0%} air flow, "
+                 "bare outside area) at which the zone-by-zone rating gives that duty; "
+                 f"band: ±{unc['air_flow']:.0%} air flow, "
                  f"±{unc['flow']:.0%} {'condensate' if condensate_flow is not None else 'vapour'} flow, "
                  f"±{unc['temperature']:g} K per temperature"
                  + (f", ±{unc['pressure']:.1%} pressure" if condensing_pressure is not None else "")

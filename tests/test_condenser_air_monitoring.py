@@ -88,6 +88,8 @@ def test_recovers_a_known_fouling_from_hand_calculated_rows(hand):
     assert np.allclose(m.fouling, rf_true, rtol=0.10), m.fouling
     assert np.all(m.fouling_low < m.fouling) and np.all(m.fouling < m.fouling_high)
     assert np.all((m.fouling_low < rf_true) & (rf_true < m.fouling_high))  # the band holds the true fouling
+    # the note states the band it used: 15 % on a stated air flow, 2 % on a measured condensate flow (the defaults)
+    assert "±15% air flow" in m.notes[-1] and "±2% condensate flow" in m.notes[-1], m.notes
     # the band is wide: at least the effect of 15 % on the stated air flow (stated tolerance, no source)
     assert np.all(m.fouling_high - m.fouling > 0.1 * rf_true)
 
