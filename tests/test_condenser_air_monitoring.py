@@ -210,3 +210,24 @@ def test_unit_file_plant_data_reaches_the_study_and_its_report(hand, tmp_path):
         bad = {**entry, "plant_data": {**entry["plant_data"], change[0]: change[1]}}
         problems = unitfile.check(write_unit(tmp_path / "bad.yaml", _unit(bad)))
         assert f"exchangers[1].{where}" in [p.path for p in problems], (change, problems)
+
+
+def test_air_flow_from_the_fan_power_follows_the_fan_laws(hand):
+    """Fan laws (Kröger 2004, ch. 8): at one air density, flow ~ speed and power ~ speed³, so eight times the fan
+    power moves twice the air; and the ratio to the stated design point fixes the flows."""
+    m_air, t_air, rf_true, m_cond, *_ = hand
+    n = 6
+    frame = pd.DataFrame({"timestamp": pd.date_range("2026-01-01", periods=n, freq="h").strftime("%Y-%m-%d %H:%M"),
+                          "air_t_in": t_air[1], "condensing_pressure": P * (1 + 1e-5 * np.arange(n)),
+                          "condensate_flow": m_cond[1] * (1 + 1e-6 * np.arange(n)),
+                          "fan_power": np.where(np.arange(n) % 2 == 0, 10e3, 80e3)})
+    svc = rv.AirService(tube=rv.Stream(VAPOUR, 1.0, quality=1.0), air_in=t_air[1], air_flow=m_air[1])
+    m = monitor_condenser_data(AC, svc, frame, air_flow_from="fan_power", steady=False, flat_rows=n + 1,
+                               increments=INCREMENTS)
+    air = m.table["air_flow"].to_numpy(float)
+    assert air[1] / air[0] == pytest.approx(2.0, rel=1e-9)
+    assert "fan laws" in " ".join(m.notes)
+    assert m.uncertainty["air_flow"] == pytest.approx(0.15)
+    with pytest.raises(InputError) as err:  # the fan-power column is needed, by its name
+        monitor_condenser_data(AC, svc, frame.drop(columns="fan_power"), air_flow_from="fan_power", steady=False)
+    assert err.value.field == "data.columns"
