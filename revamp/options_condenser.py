@@ -111,7 +111,8 @@ def _refuse_condensing_inserts(option, exchanger, service, side):
                          "condensing correlations have no insert form)")
 
 
-def compare_condenser(exchanger, service, options=(), *, vapour_load=None, **rating_kw) -> pd.DataFrame:
+def compare_condenser(exchanger, service, options=(), *, vapour_load=None, base_pressure=None,
+                      **rating_kw) -> pd.DataFrame:
     """Rate the base case and each option zone by zone; one row each (SI).
 
     Parameters
@@ -126,6 +127,11 @@ def compare_condenser(exchanger, service, options=(), *, vapour_load=None, **rat
         The revamp vapour load [kg/s] (or a duty with units): adds ``condensing_pressure`` [Pa] and
         ``condensing_temperature`` [K], the lowest pressure (and its dew point) at which each case condenses it all
         (:func:`revamp.rating_condenser.condensing_pressure_for`; NaN where none in the search bracket does).
+    base_pressure : CondensingPressure or InputError, optional
+        The base case's answer already found by the caller at this vapour load, with the same rating settings (a
+        :class:`~revamp.rating_condenser.CondensingPressure`, or the ``InputError`` its search raised): reused for
+        the ``"base"`` row instead of searching again (the search is the slow part). It must be for the same
+        load: its ``vapour_load`` is checked against ``vapour_load`` when both are mass flows.
     **rating_kw
         Passed to :func:`revamp.rating_condenser.rate_condenser` (``increments``, methods).
 
@@ -137,6 +143,19 @@ def compare_condenser(exchanger, service, options=(), *, vapour_load=None, **rat
     """
     from .rating_condenser import condensing_pressure_for, rate_condenser
 
+    if base_pressure is not None:
+        if vapour_load is None:
+            raise InputError("base_pressure", type(base_pressure).__name__, "None without a vapour_load")
+        if isinstance(base_pressure, InputError):
+            if base_pressure.field != "duty_or_vapour_load":
+                raise base_pressure
+        elif not (hasattr(base_pressure, "pressure") and hasattr(base_pressure, "vapour_load")):
+            raise InputError("base_pressure", type(base_pressure).__name__,
+                             "a CondensingPressure from condensing_pressure_for(), an InputError, or None")
+        elif not isinstance(vapour_load, str) and not np.isclose(float(base_pressure.vapour_load),
+                                                                   float(vapour_load), rtol=1e-3):
+            raise InputError("base_pressure.vapour_load", float(base_pressure.vapour_load),
+                             f"the vapour_load of the comparison, {float(vapour_load):g} kg/s")
     labels = [option_label(o) for o in options]
     if len(set(labels)) != len(labels) or "base" in labels:
         raise InputError("options", labels, "options with unique labels, none called 'base'")
@@ -155,7 +174,10 @@ def compare_condenser(exchanger, service, options=(), *, vapour_load=None, **rat
         row["warnings"] = len(r.warnings)
         if vapour_load is not None:
             try:
-                c = condensing_pressure_for(hx, svc, vapour_load, **rating_kw)
+                if option is None and isinstance(base_pressure, InputError):
+                    raise base_pressure
+                c = base_pressure if option is None and base_pressure is not None else condensing_pressure_for(
+                    hx, svc, vapour_load, **rating_kw)
                 row["condensing_pressure"], row["condensing_temperature"] = c.pressure, c.temperature
             except InputError as exc:
                 if exc.field != "duty_or_vapour_load":

@@ -155,3 +155,20 @@ def test_mean_temperature_difference_along_a_glide_is_the_lmtd_of_a_straight_cur
     got = _dt_mean(curve, np.array([2e5]), np.array([358.15]), t_in, t_out)
     d1, d2 = 358.15 - 318.15, 348.15 - 303.15  # vapour inlet meets the coolant outlet (counterflow)
     assert got[0] == pytest.approx((d2 - d1) / np.log(d2 / d1), rel=1e-3)  # trapezoidal rule, 41 points
+
+
+def test_the_steady_filter_drops_the_rows_of_a_moving_coolant_flow(hand, tmp_path):
+    """Definition of the filter (revamp.monitoring.steady): a row whose 4 h window holds coolant flows 20 % apart
+    (relative standard deviation above 2 %) is not steady and not used; rows of a settled flow are."""
+    m_c, t_in, rf_true, t_out, *_ = hand
+    n = 16
+    k = np.where(np.arange(n) < 10, 1, np.arange(n) % 3)  # ten settled hours, then the flow jumps every hour
+    frame = pd.DataFrame({
+        "timestamp": pd.date_range("2031-01-01", periods=n, freq="h").strftime("%Y-%m-%d %H:%M"),
+        "coolant_flow": m_c[k] * (1.0 + 1e-5 * np.arange(n)), "coolant_t_in": t_in[1] + 1e-3 * np.arange(n),
+        "coolant_t_out": t_out[k] + 1e-3 * np.arange(n), "condensing_pressure": P * (1.0 + 1e-5 * np.arange(n))})
+    svc = rv.Service(shell=rv.Stream(VAPOUR, 1.0, quality=1.0), tube=rv.Stream(WATER, 90.0, 303.15))
+    m = monitor_condenser_data(HX, svc, frame, increments=INCREMENTS)
+    used = m.table["used"].to_numpy()
+    assert m.counts["valid"] == n
+    assert used[3:10].all() and not used[11:].any(), used

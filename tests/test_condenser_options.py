@@ -76,3 +76,37 @@ def test_the_liquid_comparison_refuses_a_condensing_service_by_path():
     with pytest.raises(InputError) as err:
         rv.compare(exchanger(), service(), [Clean()])
     assert "service.shell" in str(err.value) and "compare_condenser" in str(err.value)
+
+
+def test_a_base_pressure_already_found_is_reused_not_searched_again(monkeypatch):
+    """Consistency: the base row given the caller's answer equals the one the comparison finds itself, and the
+    search is then run once per option only (common practice, no source: reuse of a computed result)."""
+    import revamp.rating_condenser as rc
+
+    held = rc.condensing_pressure_for(exchanger(), service(), 9.0, increments=6)
+    options = [AddShells(1)]
+    searched = compare_condenser(exchanger(), service(), options, vapour_load=9.0, increments=6)
+    calls = []
+    real = rc.condensing_pressure_for
+    monkeypatch.setattr(rc, "condensing_pressure_for", lambda *a, **k: calls.append(1) or real(*a, **k))
+    reused = compare_condenser(exchanger(), service(), options, vapour_load=9.0, base_pressure=held, increments=6)
+    assert len(calls) == 1  # the option's search only
+    assert np.allclose(reused[["condensing_pressure", "condensing_temperature", "duty"]].to_numpy(float),
+                       searched[["condensing_pressure", "condensing_temperature", "duty"]].to_numpy(float),
+                       rtol=1e-9)
+
+
+def test_a_base_pressure_must_match_the_comparison():
+    import revamp.rating_condenser as rc
+
+    rc_held = rc.condensing_pressure_for(exchanger(), service(), 9.0, increments=6)
+    with pytest.raises(InputError) as err:  # another load's answer is refused, by its path
+        compare_condenser(exchanger(), service(), [], vapour_load=12.0, base_pressure=rc_held, increments=6)
+    assert err.value.field == "base_pressure.vapour_load"
+    with pytest.raises(InputError) as err:
+        compare_condenser(exchanger(), service(), [], base_pressure=rc_held, increments=6)
+    assert err.value.field == "base_pressure"
+    # a failed search handed over gives the same NaN row the comparison's own failed search gives
+    failed = InputError("duty_or_vapour_load", 99.0, "a load the exchanger can condense")
+    table = compare_condenser(exchanger(), service(), [], vapour_load=99.0, base_pressure=failed, increments=6)
+    assert np.isnan(table.loc["base", "condensing_pressure"])

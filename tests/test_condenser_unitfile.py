@@ -255,7 +255,6 @@ def test_an_air_cooled_condenser(tmp_path):
     water = {"fluid": {"kind": "water"}, "flow": 1, "t_in": 300}
     for where, value, path_ in (("coolant", water, "exchangers[1].coolant"),
                                 ("condensing_side", "shell", "exchangers[1].condensing_side"),
-                                ("plant_data", {"file": "x.csv"}, "exchangers[1].plant_data"),
                                 ("options", [{"type": "add_shells", "n": 1}], "exchangers[1].options[0].type")):
         bad = copy.deepcopy(entry)
         bad[where] = value

@@ -333,6 +333,67 @@ class CondensingFluid:
             return _out(np.broadcast_to(np.reshape(T2, pa.shape), np.broadcast(pa, T1).shape))
         return _out(1.0 / (1.0 / T1 - np.log(pa / self.pressure) / self._clapeyron_b()))
 
+    def pressure_at_dew_point(self, T):
+        """The condensing pressure [Pa] whose dew point is ``T`` [K]: the inverse of
+        :meth:`temperature_at_pressure` at the dew point (for a measured condensing temperature).
+
+        A pure fluid: CoolProp's saturation pressure (vapour quality 1). A CoolProp mixture: the dew-point flash
+        of the same composition at ``T`` (exact, as :meth:`at_pressure` recomputes the curve). A table:
+        Clausius-Clapeyron from this curve, p2 = p1 exp(B (1/T_dew - 1/T)) with B = latent ρv,dew T_dew / p (the
+        vapour an ideal gas, the latent heat kept), as :meth:`at_pressure` moves it.
+
+        Parameters
+        ----------
+        T : float, array_like or str
+            Dew-point temperature [K].
+
+        Returns
+        -------
+        float or numpy.ndarray
+            Pressure [Pa], the shape of ``T``.
+
+        Raises
+        ------
+        InputError
+            ``T`` not a positive temperature, or (CoolProp) at or above the critical temperature / where no dew
+            point exists.
+
+        References
+        ----------
+        Bell, I. H., Wronski, J., Quoilin, S., and Lemort, V. (2014). Pure and pseudo-pure fluid thermophysical
+        property evaluation and the open-source thermophysical property library CoolProp. Ind. Eng. Chem. Res.
+        53(6), 2498-2508.
+        """
+        Ta = np.asarray(to_si(T, "temperature", "T"), dtype=float)
+        require(Ta, "T", gt=0.0, what="an absolute temperature [K]")
+        if self.pure_name is None and self.mixture is None:
+            return _out(self.pressure * np.exp(self._clapeyron_b() * (1.0 / self.t_dew - 1.0 / Ta)))
+        CP = _coolprop()
+        flat = np.ravel(Ta)
+        out = np.empty(flat.size)
+        if self.pure_name is not None:
+            tc = CP.PropsSI("Tcrit", self.pure_name)
+            if not np.all(flat < tc):
+                raise InputError("T", float(flat.max()), f"below the critical temperature {tc:.6g} K of "
+                                 f"{self.pure_name}")
+            try:
+                out[:] = CP.PropsSI("P", "T", flat, "Q", np.ones(flat.size), self.pure_name)
+            except ValueError as exc:
+                raise InputError("T", float(flat.min()), f"a temperature within CoolProp's saturation range of "
+                                 f"{self.pure_name} ({str(exc)[:80]})") from None
+            return _out(np.reshape(out, Ta.shape))
+        names, z = _parse_mixture(self.mixture)
+        AS = CP.AbstractState("HEOS", "&".join(names))
+        AS.set_mole_fractions(list(z))
+        for i, t in enumerate(flat):
+            try:
+                AS.update(CP.QT_INPUTS, 1.0, float(t))
+                out[i] = AS.p()
+            except ValueError as exc:
+                raise InputError("T", float(t), f"a dew point CoolProp finds for {self.mixture} (below its "
+                                 f"critical point; {str(exc)[:80]})") from None
+        return _out(np.reshape(out, Ta.shape))
+
     def at_pressure(self, p) -> "CondensingFluid":
         """The same stream condensing at pressure ``p`` [Pa, or a string with a unit].
 

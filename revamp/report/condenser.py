@@ -153,7 +153,8 @@ def monitoring_items(study: CondenserStudy, system: str = "SI") -> list:
                     name="band (one standard uncertainty)", fillcolor="rgba(36,113,163,0.2)")
     fig.add_scatter(x=daily.index, y=daily["Rf"] * 1e4, mode="lines", name="fouling (daily median)",
                     line={"color": "#2471a3"})
-    fig.update_layout(title="Fouling resistance from plant data (coolant-side heat balance)",
+    basis = getattr(m, "basis", "coolant-side heat balance")
+    fig.update_layout(title=f"Fouling resistance from plant data ({basis.split(' (')[0]})",
                       yaxis_title="Rf [10⁻⁴ m²·K/W, outside area]", height=400, margin={"t": 50})
     summary = pd.Series({k: (", ".join(f"{x:.3g}" for x in v) if isinstance(v, list) else v)
                          for k, v in m.summary.items()}, name="value").to_frame()

@@ -141,11 +141,11 @@ def run_condenser_case(case, *, increments: int | None = None) -> CondenserStudy
     notes = [Note("study", "duty", "info", "Rated zone by zone along the condensing curve (desuperheating, "
                   "condensing, subcooling), each increment with its own U and temperature difference (Bell & Ghaly "
                   "1973).")]
-    pressure, perr = None, ""
+    pressure, perr, pexc = None, "", None
     try:
         pressure = condensing_pressure_for(ex, svc, load, **kw)
     except InputError as exc:
-        perr = str(exc)
+        perr, pexc = str(exc), exc
         notes.append(Note("study", "condensing_pressure", "warning", f"No condensing pressure found: {perr}"))
     holds = _holds(case, pressure)
     answer = _answer(case, pressure, load, holds) if pressure is not None else (
@@ -157,7 +157,9 @@ def run_condenser_case(case, *, increments: int | None = None) -> CondenserStudy
     options, oerr = None, ""
     if case.options:
         try:
-            options = compare_condenser(ex, svc, case.options, vapour_load=load, **kw)
+            # the base row's pressure is the one just found (or its failure): the search runs once per study
+            options = compare_condenser(ex, svc, case.options, vapour_load=load,
+                                        base_pressure=pressure if pressure is not None else pexc, **kw)
         except InputError as exc:
             oerr = str(exc)
             notes.append(Note("study", "options", "error", f"The options could not be compared: {oerr}"))

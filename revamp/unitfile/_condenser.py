@@ -48,11 +48,21 @@ _COOLANT = {"fluid", "flow", "t_in", "fouling", "dp_allowed"}
 _AIR = {"t_in", "flow", "face_velocity", "altitude", "fouling"}
 _PLANT = {"file", "columns", "condensing_from", "uncertainty", "steady", "delimiter", "decimal", "timestamp_format",
           "dayfirst", "timezone"}
+#: the keys of an air-cooled condenser's plant_data besides _PLANT
+_PLANT_AIR = {"duty_from", "air_flow_from"}
 _DIALECT = ("delimiter", "decimal", "timestamp_format", "dayfirst", "timezone")
 #: plant-data column -> quantity kind (None: the timestamp)
 CONDENSER_PLANT_COLUMNS = {"timestamp": None, "coolant_flow": "mass_flow", "coolant_t_in": "temperature",
                            "coolant_t_out": "temperature", "condensing_pressure": "pressure",
                            "condensing_t": "temperature", "condensate_t": "temperature"}
+#: plant-data column of an air-cooled condenser -> quantity kind (None: the timestamp)
+AIR_CONDENSER_PLANT_COLUMNS = {"timestamp": None, "air_t_in": "temperature", "condensing_pressure": "pressure",
+                               "condensing_t": "temperature", "condensate_flow": "mass_flow",
+                               "condensate_t": "temperature", "air_flow": "mass_flow", "fan_power": "power"}
+#: an air-cooled condenser: where each row's duty comes from -> the column it needs (None: the stated vapour flow)
+DUTY_FROM = {"condensate": "condensate_flow", "stated": None}
+#: an air-cooled condenser: where each row's air flow comes from -> the column it needs (None: the stated one)
+AIR_FLOW_FROM = {"stated": None, "measured": "air_flow", "fan_power": "fan_power"}
 #: where the condensing temperature of each row comes from -> the column it needs
 CONDENSING_FROM = {"pressure": "condensing_pressure", "temperature": "condensing_t"}
 #: the columns of a condensing-curve table file and their quantity kinds (heat_released or enthalpy)
@@ -110,15 +120,20 @@ CONDENSER_SCHEMA = {
             "enum": sorted(set(_ST_OPTIONS) | set(_AIR_OPTIONS) | {"coolant_change"})}}}},
         "plant_data": {
             "type": "object", "additionalProperties": False, "required": ["file"],
-            "description": "Measured coolant flow and temperatures with the condensing pressure (or temperature): "
-                           "the fouling from the coolant-side heat balance.",
+            "description": "Shell and tube: measured coolant flow and temperatures with the condensing pressure (or "
+                           "temperature), the fouling from the coolant-side heat balance. Air cooler: the condensing "
+                           "pressure (or temperature), the condensate flow (or the stated vapour flow), the ambient, "
+                           "and the air flow stated, measured or from the fan power.",
             "properties": {
                 "file": {"type": "string", "minLength": 1},
                 "columns": {"type": "object", "additionalProperties": False,
-                            "properties": {k: _COLUMN for k in CONDENSER_PLANT_COLUMNS}},
+                            "properties": {k: _COLUMN for k in {**CONDENSER_PLANT_COLUMNS,
+                                                                 **AIR_CONDENSER_PLANT_COLUMNS}}},
                 "condensing_from": {"enum": sorted(CONDENSING_FROM)},
+                "duty_from": {"enum": sorted(DUTY_FROM), "description": "Air cooler only."},
+                "air_flow_from": {"enum": sorted(AIR_FLOW_FROM), "description": "Air cooler only."},
                 "uncertainty": {"type": "object", "additionalProperties": False,
-                                "properties": {"flow": _Q, "temperature": _Q, "pressure": _Q}},
+                                "properties": {"flow": _Q, "temperature": _Q, "pressure": _Q, "air_flow": _Q}},
                 "steady": {"type": ["object", "boolean"]},
                 "delimiter": {"enum": [",", ";", "\t", "|"]},
                 "decimal": {"enum": [".", ","]},
@@ -142,12 +157,17 @@ class CondenserPlantData:
     uncertainty: dict = None              #: {"flow": [-], "temperature": [K], "pressure": [-]} as given
     steady: object = None                 #: steady-state settings as written, False for none, None: defaults
     dialect: dict = None                  #: CSV dialect settings given
+    duty_from: str | None = None          #: air cooler: "condensate" or "stated" (None: shell and tube)
+    air_flow_from: str | None = None      #: air cooler: "stated", "measured" or "fan_power"
 
     def monitor_options(self) -> dict:
         """Keyword arguments of :func:`revamp.monitoring_condenser.monitor_condenser_data` this section gives."""
-        return {"columns": dict(self.columns), "condensing_from": self.condensing_from,
-                "uncertainty": dict(self.uncertainty or {}) or None, "steady": self.steady,
-                "dialect": dict(self.dialect or {})}
+        out = {"columns": dict(self.columns), "condensing_from": self.condensing_from,
+               "uncertainty": dict(self.uncertainty or {}) or None, "steady": self.steady,
+               "dialect": dict(self.dialect or {})}
+        if self.duty_from is not None:
+            out.update(duty_from=self.duty_from, air_flow_from=self.air_flow_from)
+        return out
 
 
 @dataclass(frozen=True)
@@ -463,13 +483,14 @@ def _options(specs, exchanger, svc, is_air: bool, coolant_side: str, pre: str, p
     return out
 
 
-def _plant_data(pd_spec: dict, where: str, base, problems: list):
+def _plant_data(pd_spec: dict, where: str, base, problems: list, is_air: bool = False):
     """Check and build a condenser's ``plant_data`` section (None with problems, appended)."""
     from ..units import to_si
     from ._building import _csv_head, _safe_file
 
     start = len(problems)
-    _unknown(pd_spec, _PLANT, where, problems)
+    _unknown(pd_spec, _PLANT | _PLANT_AIR if is_air else _PLANT, where, problems)
+    known = AIR_CONDENSER_PLANT_COLUMNS if is_air else CONDENSER_PLANT_COLUMNS
     file = pd_spec.get("file")
     if not isinstance(file, str) or not file.strip():
         problems.append(Problem(f"{where}.file", _show(file), "must be the path of a CSV file"))
@@ -495,8 +516,19 @@ def _plant_data(pd_spec: dict, where: str, base, problems: list):
     if not isinstance(given, dict):
         problems.append(Problem(f"{where}.columns", _show(given), "must be a mapping of standard name -> column"))
         given = {}
-    _unknown(given, set(CONDENSER_PLANT_COLUMNS), f"{where}.columns", problems)
-    need = ["timestamp", "coolant_flow", "coolant_t_in", "coolant_t_out", CONDENSING_FROM[source]]
+    _unknown(given, set(known), f"{where}.columns", problems)
+    duty_from = air_from = None
+    if is_air:
+        duty_from, air_from = pd_spec.get("duty_from", "condensate"), pd_spec.get("air_flow_from", "stated")
+        for key, value, allowed in (("duty_from", duty_from, DUTY_FROM), ("air_flow_from", air_from, AIR_FLOW_FROM)):
+            if value not in allowed:
+                problems.append(Problem(f"{where}.{key}", _show(value), f"must be one of {', '.join(allowed)}"))
+        if len(problems) > start:
+            return None
+        need = ["timestamp", "air_t_in", CONDENSING_FROM[source]] + [
+            c for c in (DUTY_FROM[duty_from], AIR_FLOW_FROM[air_from]) if c]
+    else:
+        need = ["timestamp", "coolant_flow", "coolant_t_in", "coolant_t_out", CONDENSING_FROM[source]]
     if "condensate_t" in given:  # optional: the condensate outlet (read from the file by its standard name too)
         need.append("condensate_t")
     columns = {}
@@ -506,7 +538,7 @@ def _plant_data(pd_spec: dict, where: str, base, problems: list):
             name, unit = spec, None
         elif isinstance(spec, dict) and isinstance(spec.get("column"), str):
             name, unit = spec["column"], spec.get("unit")
-            kind = CONDENSER_PLANT_COLUMNS[std]
+            kind = known[std]
             if unit is not None and kind is not None:
                 try:
                     to_si(f"1 {unit}", kind, "unit")
@@ -522,9 +554,10 @@ def _plant_data(pd_spec: dict, where: str, base, problems: list):
         problems.append(Problem(f"{where}.uncertainty", _show(unc), "must be a mapping of flow, temperature, "
                                                                     "pressure"))
         unc = {}
-    _unknown(unc, {"flow", "temperature", "pressure"}, f"{where}.uncertainty", problems)
+    _unknown(unc, {"flow", "temperature", "pressure"} | ({"air_flow"} if is_air else set()), f"{where}.uncertainty",
+             problems)
     for key, kind, hi in (("flow", "dimensionless", 1.0), ("temperature", "temperature_difference", 50.0),
-                          ("pressure", "dimensionless", 1.0)):
+                          ("pressure", "dimensionless", 1.0), ("air_flow", "dimensionless", 1.0)):
         if key in unc:
             try:
                 v = to_si(unc[key], kind, key)
@@ -562,7 +595,7 @@ def _plant_data(pd_spec: dict, where: str, base, problems: list):
                                         f"must be a column of {file} (it has: {', '.join(header)[:200]})"))
         return None
     return CondenserPlantData(file=full, columns=columns, condensing_from=source, uncertainty=uncertainty,
-                              steady=steady, dialect=dialect)
+                              steady=steady, dialect=dialect, duty_from=duty_from, air_flow_from=air_from)
 
 
 def build_condenser(i: int, x: dict, problems: list, base=None) -> CondenserCase | None:
@@ -684,11 +717,8 @@ def build_condenser(i: int, x: dict, problems: list, base=None) -> CondenserCase
     opts = _options(x.get("options"), exchanger, revamp_service or svc, is_air, coolant_side, pre, problems)
     plant = None
     pd_spec = _mapping(x, "plant_data", pre, problems, required=False)
-    if pd_spec is not None and is_air:
-        problems.append(Problem(f"{pre}.plant_data", "(given)", "must not be given for an air-cooled condenser: its "
-                                "fouling is monitored from a measured coolant flow, which air has not"))
-    elif pd_spec is not None:
-        plant = _plant_data(pd_spec, f"{pre}.plant_data", base, problems)
+    if pd_spec is not None:
+        plant = _plant_data(pd_spec, f"{pre}.plant_data", base, problems, is_air=is_air)
     if len(problems) > start or exchanger is None or svc is None:
         return None
     return CondenserCase(tag=tag, description=str(x.get("description", "")), exchanger=exchanger, service=svc,
