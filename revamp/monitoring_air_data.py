@@ -111,6 +111,27 @@ def read_air_plant_data(data, columns=None, *, air_flow_from="stated", dialect=N
         if problem is not None:
             raise problem
         raise InputError("data.columns", list(raw.columns)[:12], f"to contain {', '.join(missing)}")
+
+    def checks(out, add):
+        for key in ("tube_flow", "air_flow", "fan_power"):
+            if key in out:
+                add(out[key].to_numpy() <= 0, f"{key} <= 0")
+        ti, to, ta = (out[k].to_numpy() for k in ("tube_t_in", "tube_t_out", "air_t_in"))
+        add(ti <= ta, "no driving force (tube inlet not above the ambient)")
+        add((ti > ta) & ~((to < ti) & (to > ta)), "tube outlet not between the ambient and the tube inlet")
+
+    return _flag_rows(raw, spec, need, AIR_COLUMNS, d, flat_rows, checks)
+
+
+def _flag_rows(raw, spec, need, kinds, d, flat_rows, checks):
+    """The columns ``need`` of a plant-data table ``raw`` (its cells as read) in SI, each row flagged with its
+    reasons: missing, bad, duplicated or unsorted timestamps, missing or non-numeric cells, flat-lined sensors, and
+    the kind's own physical checks ``checks(out, add)``. Shared by the air cooler's and the condensers' readers.
+
+    ``spec`` maps each needed name to (source column, unit or None), ``kinds`` each name to its quantity kind, ``d``
+    is the :class:`revamp.monitoring.data.CsvDialect`; returns a :class:`revamp.monitoring.data.PlantData`."""
+    from .monitoring import data as md
+
     n = len(raw)
     reasons = [[] for _ in range(n)]
 
@@ -135,7 +156,7 @@ def read_air_plant_data(data, columns=None, *, air_flow_from="stated", dialect=N
         text = col.astype(str).str.strip()
         blank = col.isna().to_numpy() | text.isin(["", "nan", "NaN", "NA", "N/A", "null", "None"]).to_numpy()
         num = md._numbers(text, blank, d.decimal)
-        kind = AIR_COLUMNS[key]
+        kind = kinds[key]
         if unit is None and kind == "temperature" and np.isfinite(num).any() and np.nanmedian(num) < md._KELVIN_FLOOR:
             raise InputError(f"columns.{key}", src, f"given with its unit, e.g. ({src!r}, 'degC'): a bare column is "
                              f"read as kelvin, and its values (median {np.nanmedian(num):.4g}) would be below "
@@ -152,12 +173,7 @@ def read_air_plant_data(data, columns=None, *, air_flow_from="stated", dialect=N
     add(earlier & have_t, "unsorted timestamp")
     for key in need[1:]:
         add(md._flat_runs(out[key].to_numpy(), flat_rows, 0.0), f"flat-lined {key}")
-    for key in ("tube_flow", "air_flow", "fan_power"):
-        if key in out:
-            add(out[key].to_numpy() <= 0, f"{key} <= 0")
-    ti, to, ta = (out[k].to_numpy() for k in ("tube_t_in", "tube_t_out", "air_t_in"))
-    add(ti <= ta, "no driving force (tube inlet not above the ambient)")
-    add((ti > ta) & ~((to < ti) & (to > ta)), "tube outlet not between the ambient and the tube inlet")
+    checks(out, add)
     out["flag"] = ["; ".join(r) for r in reasons]
     out["valid"] = out["flag"] == ""
     counts: dict = {}

@@ -16,6 +16,7 @@ import numpy as np
 import pandas as pd
 
 from .errors import InputError
+from .monitoring_air_data import _flag_rows
 from .monitoring_condenser import (_DAY, _FROM, _REQUIRED, CONDENSER_COLUMNS, DEFAULT_UNCERTAINTY, _sides,
                                    monitor_condenser)
 
@@ -81,52 +82,7 @@ def _read_plant(data, columns, need, known, checks, dialect, flat_rows):
         if problem is not None:
             raise problem
         raise InputError("data.columns", list(raw.columns)[:12], f"to contain {', '.join(missing)}")
-    n = len(raw)
-    reasons = [[] for _ in range(n)]
-
-    def add(mask, text):
-        for i in np.flatnonzero(mask):
-            reasons[i].append(text)
-
-    out = pd.DataFrame({"row": np.arange(n)})
-    src_t = raw[spec["timestamp"][0]]
-    blank_t = (src_t.astype(str).str.strip() == "").to_numpy()
-    ts, unplaced, used = md._read_times(src_t.astype(object).where(blank_t, src_t.astype(str)), blank_t, d)
-    add(blank_t, "missing timestamp")
-    add(ts.isna().to_numpy() & ~blank_t & ~unplaced, "bad timestamp")
-    add(unplaced, f"timestamp not a time in {d.timezone}")
-    out["timestamp"] = ts.to_numpy()
-    for key in need[1:]:
-        src, unit = spec[key]
-        text = raw[src].astype(str).str.strip()
-        blank = text.isin(["", "nan", "NaN", "NA", "N/A", "null", "None"]).to_numpy()
-        num = md._numbers(text, blank, d.decimal)
-        kind = known[key]
-        if unit is None and kind == "temperature" and np.isfinite(num).any() and np.nanmedian(num) < md._KELVIN_FLOOR:
-            raise InputError(f"columns.{key}", src, f"given with its unit, e.g. ({src!r}, 'degC'): a bare column is "
-                             f"read as kelvin, and its values (median {np.nanmedian(num):.4g}) would be below "
-                             f"{md._KELVIN_FLOOR:.0f} K")
-        add(blank, f"missing {key}")
-        add(~np.isfinite(num) & ~blank, f"non-numeric {key}")
-        out[key] = md._convert(num, unit, kind, key)
-    have_t = out["timestamp"].notna().to_numpy()
-    add(out["timestamp"].duplicated(keep="first").to_numpy() & have_t, "duplicated timestamp")
-    tnum = np.where(have_t, out["timestamp"].to_numpy().astype("datetime64[ns]").astype(np.int64),
-                    np.iinfo(np.int64).min)
-    earlier = np.zeros(n, dtype=bool)
-    earlier[1:] = tnum[1:] < np.maximum.accumulate(tnum)[:-1]
-    add(earlier & have_t, "unsorted timestamp")
-    for key in need[1:]:
-        add(md._flat_runs(out[key].to_numpy(), flat_rows, 0.0), f"flat-lined {key}")
-    checks(out, add)
-    out["flag"] = ["; ".join(r) for r in reasons]
-    out["valid"] = out["flag"] == ""
-    counts: dict = {}
-    for r in reasons:
-        for text in r:
-            counts[text] = counts.get(text, 0) + 1
-    counts = {"rows": n, "valid": int(out["valid"].sum()), **dict(sorted(counts.items()))}
-    return md.PlantData(frame=out, counts=counts, dialect=used)
+    return _flag_rows(raw, spec, need, known, d, flat_rows, checks)
 
 
 @dataclass(frozen=True)
