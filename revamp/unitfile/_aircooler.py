@@ -246,14 +246,11 @@ def _quantity_problems(section: dict, name: str, where: str, problems: list):
                                     f"{low:g} (SI)"))
 
 
-def _plant_data(pd, where: str, base, problems: list):
-    """Check and build an air cooler's ``plant_data`` section (None with problems, appended)."""
-    from ..units import to_si
-    from ._building import _csv_head, _safe_file
+def _plant_file(spec: dict, where: str, base, problems: list):
+    """A plant_data section's ``file``: (as written, the resolved path), or None with the problem appended."""
+    from ._building import _safe_file
 
-    start = len(problems)
-    _unknown(pd, _PLANT, where, problems)
-    file = pd.get("file")
+    file = spec.get("file")
     if not isinstance(file, str) or not file.strip():
         problems.append(Problem(f"{where}.file", _show(file), "must be the path of a CSV file"))
         return None
@@ -261,23 +258,70 @@ def _plant_data(pd, where: str, base, problems: list):
     if reason:
         problems.append(Problem(f"{where}.file", file, reason))
         return None
-    source = pd.get("air_flow_from", "stated")
-    if source not in _AIR_FLOW_FROM:
-        problems.append(Problem(f"{where}.air_flow_from", _show(source), f"must be one of {', '.join(_AIR_FLOW_FROM)}"))
-        source = "stated"
-    dialect = {k: pd[k] for k in _DIALECT if k in pd}
-    from ..monitoring.data import CsvDialect, dialect_problem
+    return file, full
 
+
+def _plant_dialect(spec: dict, where: str, problems: list) -> dict:
+    """A plant_data section's CSV dialect settings (empty, with the problem appended, when they are not valid)."""
+    from ..monitoring.data import CsvDialect
+
+    dialect = {k: spec[k] for k in _DIALECT if k in spec}
     try:
         CsvDialect.make(dialect)
     except InputError as exc:
         problems.append(Problem(f"{where}.{exc.field}", _show(exc.value), f"must be {exc.allowed}"))
         dialect = {}
-    cols_given = pd.get("columns") or {}
-    if not isinstance(cols_given, dict):
-        problems.append(Problem(f"{where}.columns", _show(cols_given), "must be a mapping of standard name -> column"))
-        cols_given = {}
-    _unknown(cols_given, set(AIR_PLANT_COLUMNS), f"{where}.columns", problems)
+    return dialect
+
+
+def _plant_columns_given(spec: dict, known, where: str, problems: list) -> dict:
+    """A plant_data section's ``columns`` mapping (empty when it is not one), unknown standard names appended."""
+    given = spec.get("columns") or {}
+    if not isinstance(given, dict):
+        problems.append(Problem(f"{where}.columns", _show(given), "must be a mapping of standard name -> column"))
+        given = {}
+    _unknown(given, set(known), f"{where}.columns", problems)
+    return given
+
+
+def _columns_missing(spec: dict, file, header, lines, columns: dict, dialect: dict, where: str, problems: list,
+                     why=lambda std: "") -> bool:
+    """Whether a column the section reads is not in the CSV header (the problem appended: the delimiter when another
+    one would find the columns, else each missing column, with ``why(std)`` after the file's name)."""
+    from ..monitoring.data import dialect_problem
+
+    names = [name for name, _ in columns.values()]
+    if not any(name not in header for name in names):
+        return False
+    problem = dialect_problem(lines, names, dialect)
+    if problem is not None:
+        problems.append(Problem(f"{where}.delimiter", _show(spec.get("delimiter", ",")),
+                                f"must be {problem.allowed}"))
+        return True
+    for std, (name, _) in columns.items():
+        if name not in header:
+            problems.append(Problem(f"{where}.columns.{std}", name,
+                                    f"must be a column of {file}{why(std)} (it has: {', '.join(header)[:200]})"))
+    return True
+
+
+def _plant_data(pd, where: str, base, problems: list):
+    """Check and build an air cooler's ``plant_data`` section (None with problems, appended)."""
+    from ..units import to_si
+    from ._building import _csv_head
+
+    start = len(problems)
+    _unknown(pd, _PLANT, where, problems)
+    found = _plant_file(pd, where, base, problems)
+    if found is None:
+        return None
+    file, full = found
+    source = pd.get("air_flow_from", "stated")
+    if source not in _AIR_FLOW_FROM:
+        problems.append(Problem(f"{where}.air_flow_from", _show(source), f"must be one of {', '.join(_AIR_FLOW_FROM)}"))
+        source = "stated"
+    dialect = _plant_dialect(pd, where, problems)
+    cols_given = _plant_columns_given(pd, AIR_PLANT_COLUMNS, where, problems)
     need = ["timestamp", "tube_flow", "tube_t_in", "tube_t_out", "air_t_in"] + (
         [_AIR_FLOW_FROM[source]] if _AIR_FLOW_FROM[source] else [])
     columns = {}
@@ -360,18 +404,8 @@ def _plant_data(pd, where: str, base, problems: list):
     if not any(any(cell.strip() for cell in row) for row in rows):
         problems.append(Problem(f"{where}.file", file, "must hold at least one data row below its header"))
         return None
-    names = [name for name, _ in columns.values()]
-    if any(name not in header for name in names):
-        problem = dialect_problem(lines, names, dialect)
-        if problem is not None:
-            problems.append(Problem(f"{where}.delimiter", _show(pd.get("delimiter", ",")),
-                                    f"must be {problem.allowed}"))
-            return None
-        for std, (name, _) in columns.items():
-            if name not in header:
-                why = (f" (air_flow_from: {source} reads it)" if std == _AIR_FLOW_FROM[source] else "")
-                problems.append(Problem(f"{where}.columns.{std}", name,
-                                        f"must be a column of {file}{why} (it has: {', '.join(header)[:200]})"))
+    if _columns_missing(pd, file, header, lines, columns, dialect, where, problems,
+                        lambda std: f" (air_flow_from: {source} reads it)" if std == _AIR_FLOW_FROM[source] else ""):
         return None
     return AirPlantData(file=full, columns=columns, air_flow_from=source, uncertainty=uncertainty,
                         steady=steady, dialect=dialect)

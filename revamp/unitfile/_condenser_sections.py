@@ -8,8 +8,9 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import InputError
-from ._aircooler import _FIN, _GEOMETRY as _AIR_GEOMETRY, _guard, _mapping, _quantity_problems, _unknown
-from ._condenser_spec import (_AIR_OPTIONS, _COOLANT, _COOLANT_CHANGE, _DIALECT, _PLANT, _PLANT_AIR, _ST_OPTIONS,
+from ._aircooler import (_FIN, _GEOMETRY as _AIR_GEOMETRY, _columns_missing, _guard, _mapping, _plant_columns_given,
+                         _plant_dialect, _plant_file, _quantity_problems, _unknown)
+from ._condenser_spec import (_AIR_OPTIONS, _COOLANT, _COOLANT_CHANGE, _PLANT, _PLANT_AIR, _ST_OPTIONS,
                               AIR_CONDENSER_PLANT_COLUMNS, AIR_FLOW_FROM, CONDENSER_PLANT_COLUMNS, CONDENSING_FROM,
                               CURVE_COLUMNS, DUTY_FROM, SPECIFIC_ENERGY, CondenserPlantData)
 from ._model import Problem
@@ -301,37 +302,22 @@ def _options(specs, exchanger, svc, is_air: bool, coolant_side: str, pre: str, p
 def _plant_data(pd_spec: dict, where: str, base, problems: list, is_air: bool = False):
     """Check and build a condenser's ``plant_data`` section (None with problems, appended)."""
     from ..units import to_si
-    from ._building import _csv_head, _safe_file
+    from ._building import _csv_head
 
     start = len(problems)
     _unknown(pd_spec, _PLANT | _PLANT_AIR if is_air else _PLANT, where, problems)
     known = AIR_CONDENSER_PLANT_COLUMNS if is_air else CONDENSER_PLANT_COLUMNS
-    file = pd_spec.get("file")
-    if not isinstance(file, str) or not file.strip():
-        problems.append(Problem(f"{where}.file", _show(file), "must be the path of a CSV file"))
+    found = _plant_file(pd_spec, where, base, problems)
+    if found is None:
         return None
-    full, reason = _safe_file(file, base) if base is not None else (None, "must be read from a unit file")
-    if reason:
-        problems.append(Problem(f"{where}.file", file, reason))
-        return None
+    file, full = found
     source = pd_spec.get("condensing_from", "pressure")
     if source not in CONDENSING_FROM:
         problems.append(Problem(f"{where}.condensing_from", _show(source),
                                 f"must be one of {', '.join(CONDENSING_FROM)}"))
         return None
-    dialect = {k: pd_spec[k] for k in _DIALECT if k in pd_spec}
-    from ..monitoring.data import CsvDialect, dialect_problem
-
-    try:
-        CsvDialect.make(dialect)
-    except InputError as exc:
-        problems.append(Problem(f"{where}.{exc.field}", _show(exc.value), f"must be {exc.allowed}"))
-        dialect = {}
-    given = pd_spec.get("columns") or {}
-    if not isinstance(given, dict):
-        problems.append(Problem(f"{where}.columns", _show(given), "must be a mapping of standard name -> column"))
-        given = {}
-    _unknown(given, set(known), f"{where}.columns", problems)
+    dialect = _plant_dialect(pd_spec, where, problems)
+    given = _plant_columns_given(pd_spec, known, where, problems)
     duty_from = air_from = None
     if is_air:
         duty_from, air_from = pd_spec.get("duty_from", "condensate"), pd_spec.get("air_flow_from", "stated")
@@ -397,17 +383,7 @@ def _plant_data(pd_spec: dict, where: str, base, problems: list, is_air: bool = 
         problems.append(Problem(f"{where}.file", file, f"must be a readable UTF-8 CSV file "
                                                        f"({exc.__class__.__name__}: {str(exc)[:80]})"))
         return None
-    names = [name for name, _ in columns.values()]
-    if any(name not in header for name in names):
-        problem = dialect_problem(lines, names, dialect)
-        if problem is not None:
-            problems.append(Problem(f"{where}.delimiter", _show(pd_spec.get("delimiter", ",")),
-                                    f"must be {problem.allowed}"))
-            return None
-        for std, (name, _) in columns.items():
-            if name not in header:
-                problems.append(Problem(f"{where}.columns.{std}", name,
-                                        f"must be a column of {file} (it has: {', '.join(header)[:200]})"))
+    if _columns_missing(pd_spec, file, header, lines, columns, dialect, where, problems):
         return None
     return CondenserPlantData(file=full, columns=columns, condensing_from=source, uncertainty=uncertainty,
                               steady=steady, dialect=dialect, duty_from=duty_from, air_flow_from=air_from)
