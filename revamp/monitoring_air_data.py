@@ -245,19 +245,25 @@ class AirPlantMonitoring:
                "air flow from": self.air_flow_from,
                "air flow uncertainty [-]": self.air_flow_uncertainty,
                "temperature uncertainty [K]": self.t_uncertainty}
-        if len(u):
-            ts = pd.to_datetime(u["timestamp"])
-            last = u[ts >= ts.max() - pd.Timedelta(days=7)]
-            first = u[ts <= ts.min() + pd.Timedelta(days=7)]
-            out["fouling, last week (median) [m²K/W]"] = float(np.nanmedian(last["Rf"]))
-            out["band, last week (median) [m²K/W]"] = [float(np.nanmedian(last["Rf_low"])),
-                                                       float(np.nanmedian(last["Rf_high"]))]
-            out["fouling, first week (median) [m²K/W]"] = float(np.nanmedian(first["Rf"]))
-            out["last row used"] = str(ts.max())
-        trend = self.trend()
-        if trend is not None:
-            out["straight-line change per year [m²K/W]"] = trend[0] * 365.25 * _DAY
-        return out
+        return _fouling_summary(out, u, self.trend())
+
+
+def _fouling_summary(out: dict, u, trend) -> dict:
+    """``out`` with the fouling of the used rows ``u`` added: the last week's median with its band, the first
+    week's, the last row used, and the straight-line change per year from ``trend`` (SI). Shared by the air
+    cooler's and the condensers' plant-data summaries."""
+    if len(u):
+        ts = pd.to_datetime(u["timestamp"])
+        last = u[ts >= ts.max() - pd.Timedelta(days=7)]
+        first = u[ts <= ts.min() + pd.Timedelta(days=7)]
+        out["fouling, last week (median) [m²K/W]"] = float(np.nanmedian(last["Rf"]))
+        out["band, last week (median) [m²K/W]"] = [float(np.nanmedian(last["Rf_low"])),
+                                                   float(np.nanmedian(last["Rf_high"]))]
+        out["fouling, first week (median) [m²K/W]"] = float(np.nanmedian(first["Rf"]))
+        out["last row used"] = str(ts.max())
+    if trend is not None:
+        out["straight-line change per year [m²K/W]"] = trend[0] * 365.25 * _DAY
+    return out
 
 
 def _steady_settings(steady):

@@ -16,8 +16,8 @@ import numpy as np
 import pandas as pd
 
 from .errors import InputError
-from .monitoring_air_data import _flag_rows
-from .monitoring_condenser import (_DAY, _FROM, _REQUIRED, CONDENSER_COLUMNS, DEFAULT_UNCERTAINTY, _sides,
+from .monitoring_air_data import _flag_rows, _fouling_summary
+from .monitoring_condenser import (_FROM, _REQUIRED, CONDENSER_COLUMNS, DEFAULT_UNCERTAINTY, _sides,
                                    monitor_condenser)
 
 __all__ = ["CondenserPlantMonitoring", "monitor_condenser_data", "read_condenser_plant_data"]
@@ -139,19 +139,7 @@ class CondenserPlantMonitoring:
         out = {"rows": int(self.counts.get("rows", 0)), "valid rows": int(self.counts.get("valid", 0)),
                "steady rows": int(self.counts.get("steady", 0)), "used rows": int(len(u)),
                "condensing temperature from": self.condensing_from}
-        if len(u):
-            ts = pd.to_datetime(u["timestamp"])
-            last = u[ts >= ts.max() - pd.Timedelta(days=7)]
-            first = u[ts <= ts.min() + pd.Timedelta(days=7)]
-            out["fouling, last week (median) [m²K/W]"] = float(np.nanmedian(last["Rf"]))
-            out["band, last week (median) [m²K/W]"] = [float(np.nanmedian(last["Rf_low"])),
-                                                       float(np.nanmedian(last["Rf_high"]))]
-            out["fouling, first week (median) [m²K/W]"] = float(np.nanmedian(first["Rf"]))
-            out["last row used"] = str(ts.max())
-        trend = self.trend()
-        if trend is not None:
-            out["straight-line change per year [m²K/W]"] = trend[0] * 365.25 * _DAY
-        return out
+        return _fouling_summary(out, u, self.trend())
 
 
 def _dew_points(service, side, p):
