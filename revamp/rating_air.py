@@ -220,7 +220,7 @@ def _below(t_max):
 
 
 def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "briggs-young",
-                    dp_method: str = "robinson-briggs", fin_method: str = "kern-kraus") -> AirRating:
+                    dp_method: str = "robinson-briggs", fin_method: str = "kern-kraus", **condenser) -> AirRating:
     """Rate an existing air cooler at a service.
 
     Parameters
@@ -231,6 +231,9 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
     h_method : {"briggs-young", "esdu"}
     dp_method : {"robinson-briggs", "esdu"}
     fin_method : {"kern-kraus", "schmidt"}
+    **condenser
+        For a vapour or two-phase tube stream only: the condenser engine's own settings (``increments``,
+        ``tube_condensation``; see :func:`revamp.rating_condenser.rate_condenser`).
 
     Returns
     -------
@@ -258,7 +261,11 @@ def rate_air_cooler(exchanger: AirCooler, service: AirService, h_method: str = "
     if service.tube.condensing:  # a vapour or two-phase tube stream: rated zone by zone
         from .rating_condenser import rate_condenser
 
-        return rate_condenser(ac, service, h_method=h_method, dp_method=dp_method, fin_method=fin_method)
+        return rate_condenser(ac, service, h_method=h_method, dp_method=dp_method, fin_method=fin_method, **condenser)
+    if condenser:
+        name = sorted(condenser)[0]
+        raise InputError(name, condenser[name], "left out: a condenser setting, for a vapour or two-phase tube stream "
+                         "only (an air cooler takes h_method, dp_method and fin_method)")
     model = model_of(ac, h_method=h_method, dp_method=dp_method, fin_method=fin_method)  # checks the methods
     fluid = service.tube.fluid
     air_given = service.air_flow if service.air_flow is not None else service.face_velocity

@@ -171,9 +171,9 @@ def rate_condenser(exchanger, service, increments: int = INCREMENTS, tube_conden
     """
     from .exchanger import model_of
 
+    if isinstance(increments, bool) or not isinstance(increments, (int, np.integer)) or increments < 2:
+        raise InputError("increments", increments, "a whole number >= 2")
     increments = int(increments)
-    if increments < 2:
-        raise InputError("increments", increments, "an integer >= 2")
     if tube_condensation not in TUBE_CONDENSATION:
         raise InputError("tube_condensation", tube_condensation, f"one of {TUBE_CONDENSATION}")
     model = model_of(exchanger, **methods)

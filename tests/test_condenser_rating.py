@@ -447,3 +447,26 @@ def test_parallel_units_share_the_load():
     assert two.t_out_tube == pytest.approx(one.t_out_tube, abs=1e-4)
     assert two.zones["duty"].sum() == pytest.approx(two.duty, rel=1e-9)
     assert two.zones["area"].sum() == pytest.approx(two.area, rel=1e-6)
+
+
+def test_condenser_settings_reach_an_air_cooled_condenser_and_are_refused_elsewhere():
+    """The condenser engine's settings pass through rv.rate for an air cooler whose tube stream condenses; on a
+    liquid air cooler, or with a bad value, they are a path-named error, never a TypeError (common practice, no
+    source: an unsupported input is named)."""
+    ac = rv.AirCooler(bays=1, bundles_per_bay=1, tube_rows=4, tubes_per_row=40, tube_passes=2, tube_length="6 m",
+                      tube_od="25.4 mm", tube_wall="2.11 mm", transverse_pitch="63.5 mm", row_pitch="55 mm",
+                      tube_material="carbon steel",
+                      fin=rv.Fin(height="15.9 mm", thickness="0.4 mm", per_length="394 /m", material="aluminium",
+                                 bond="embedded"),
+                      fans_per_bay=2, fan_diameter="3 m", fan_efficiency=0.65, draft="forced")
+    svc = rv.AirService(tube=rv.Stream(VAPOUR, "2 kg/s", quality=1.0), air_in="25 degC", air_flow="150 kg/s")
+    r = rv.rate(ac, svc, increments=6)
+    assert len(r.increments) > 0 and r.duty > 0.0
+    oil = rv.fluids.constant(density=800.0, heat_capacity=2300.0, viscosity=1e-3, conductivity=0.12)
+    liquid = rv.AirService(tube=rv.Stream(oil, "5 kg/s", "120 degC"), air_in="25 degC", air_flow="150 kg/s")
+    with pytest.raises(InputError) as err:
+        rv.rate(ac, liquid, increments=6)
+    assert "increments" in str(err.value)
+    with pytest.raises(InputError) as err:
+        rv.rate(ac, svc, increments="many")
+    assert "increments" in str(err.value)
