@@ -224,16 +224,7 @@ class AirPlantMonitoring:
     def trend(self):
         """``(slope [m²K/W per s], intercept [m²K/W])`` of a straight line fitted to Rf over time by least squares
         (a description of the data, no fouling model), or None with fewer than 10 used rows."""
-        u = self.used
-        if len(u) < 10:
-            return None
-        t = (pd.to_datetime(u["timestamp"]) - pd.to_datetime(u["timestamp"]).iloc[0]).dt.total_seconds().to_numpy()
-        y = u["Rf"].to_numpy(float)
-        ok = np.isfinite(y)
-        if ok.sum() < 10 or np.ptp(t[ok]) <= 0:
-            return None
-        slope, intercept = np.polyfit(t[ok], y[ok], 1)
-        return float(slope), float(intercept)
+        return _rf_trend(self.used)
 
     @property
     def summary(self) -> dict:
@@ -246,6 +237,20 @@ class AirPlantMonitoring:
                "air flow uncertainty [-]": self.air_flow_uncertainty,
                "temperature uncertainty [K]": self.t_uncertainty}
         return _fouling_summary(out, u, self.trend())
+
+
+def _rf_trend(u: pd.DataFrame):
+    """``(slope [m²K/W per s], intercept [m²K/W])`` of a least-squares line through the used rows' Rf over time, or
+    None with fewer than 10 finite values or no time span (shared by the air cooler's and the condenser's results)."""
+    if len(u) < 10:
+        return None
+    t = (pd.to_datetime(u["timestamp"]) - pd.to_datetime(u["timestamp"]).iloc[0]).dt.total_seconds().to_numpy()
+    y = u["Rf"].to_numpy(float)
+    ok = np.isfinite(y)
+    if ok.sum() < 10 or np.ptp(t[ok]) <= 0:
+        return None
+    slope, intercept = np.polyfit(t[ok], y[ok], 1)
+    return float(slope), float(intercept)
 
 
 def _fouling_summary(out: dict, u, trend) -> dict:

@@ -16,7 +16,7 @@ import numpy as np
 import pandas as pd
 
 from .errors import InputError
-from .monitoring_air_data import _flag_rows, _fouling_summary
+from .monitoring_air_data import _flag_rows, _fouling_summary, _rf_trend
 from .monitoring_condenser import (_FROM, _REQUIRED, CONDENSER_COLUMNS, DEFAULT_UNCERTAINTY, _sides,
                                    monitor_condenser)
 
@@ -120,16 +120,7 @@ class CondenserPlantMonitoring:
     def trend(self):
         """``(slope [m²K/W per s], intercept [m²K/W])`` of a straight line fitted to Rf over time (a description of
         the data, no fouling model), or None with fewer than 10 used rows."""
-        u = self.used
-        if len(u) < 10:
-            return None
-        t = (pd.to_datetime(u["timestamp"]) - pd.to_datetime(u["timestamp"]).iloc[0]).dt.total_seconds().to_numpy()
-        y = u["Rf"].to_numpy(float)
-        ok = np.isfinite(y)
-        if ok.sum() < 10 or np.ptp(t[ok]) <= 0:
-            return None
-        slope, intercept = np.polyfit(t[ok], y[ok], 1)
-        return float(slope), float(intercept)
+        return _rf_trend(self.used)
 
     @property
     def summary(self) -> dict:
