@@ -90,6 +90,7 @@ def _rater(exchanger):
 
 
 _FLOAT_CASES = 8  # up to this many cases iterate one by one on floats (cheaper than array calls on so few)
+_CHAIN_CASES = 200  # probe blocks of at least this many cases start from their base cases' states (see blocks)
 _SETTLED_K = 0.05  # a case whose outlets still differ from the map by more than this at the end is reported [K]
 
 
@@ -167,13 +168,16 @@ def rate(exchanger, service, shell_method: str = "bell-delaware", **methods) -> 
     return _rate_shell_and_tube(hx, service, shell_method)
 
 
-def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True, blocks=1):
+def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=True, blocks=1, tol=None):
     """The body of :func:`rate` for a shell-and-tube exchanger (method and service already checked). With
     ``outlets_only`` it returns an :class:`OutletMap` of the flattened cases instead of a :class:`Rating` (no
     warnings, no result objects: for a network solve's intermediate passes); without ``with_dp`` its pressure drops
     may be NaN (not computed). ``blocks`` > 1: the flattened cases are that many equal blocks of the same cases at
     slightly moved inlets (a network solve's finite-difference probes); on the few-case float path every case of a
-    later block starts from the state its case of the first block stopped at (a state closer than any other)."""
+    later block starts from the state its case of the first block stopped at (a state closer than any other), moved
+    by the difference of the two cases' warm starts where those are given (see :func:`warm_start`). ``tol``: the
+    outlet step [K] below which a case stops, ``(first block, later blocks)``; None: the rating's own 1e-6 K. Only a
+    network solve's intermediate passes loosen it (their outlet maps are refined by the next pass)."""
     kind = getattr(hx, "shell_type", "E")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
@@ -326,18 +330,28 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
     floats = bell_kernel and insert is None  # the float evaluation covers these
     on_floats = False
+    first = n // blocks if blocks > 1 and n % blocks == 0 else n  # the cases of the first block
+    if tol is None:
+        tol_case = np.full(n, _TOL_K)
+    else:
+        tol_case = np.full(n, float(tol[1]))
+        tol_case[:first] = float(tol[0])
     if n <= _FLOAT_CASES and floats:
         try:
             # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
             # the array loop; the converged states are then evaluated once by the array kernels, which give every
             # reported number
             rows, lasts = [], []
-            first = n // blocks if blocks > 1 and n % blocks == 0 else n  # the cases of the first block
             for i in range(n):
                 hold = []
-                s_i = rows[i % first] if i >= first else None if start is None else start[:, i]
+                if i < first:
+                    s_i = None if start is None else start[:, i]
+                elif start is None or not np.all(np.isfinite(start[:, i] - start[:, i % first])):
+                    s_i = rows[i % first]
+                else:  # the base case's stopping state, moved as the warm starts of the two differ
+                    s_i = tuple(a + b for a, b in zip(rows[i % first], (start[:, i] - start[:, i % first]).tolist()))
                 rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                         s_i, last=hold))
+                                         s_i, last=hold, tol=float(tol_case[i])))
                 lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
             S = np.array(rows, dtype=float).T.reshape(4, n)
             if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs
@@ -353,83 +367,100 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             on_floats = False
     if not on_floats:
         S = np.empty((4, n))
+        warm_case = np.zeros(n, dtype=bool)  # a warm-started case: its walls' steps count in the stop too
         if start is None:
             S[0], S[1] = ts_in, tt_in
             S[2] = S[3] = 0.5 * (ts_in + tt_in)
         else:  # a case whose start is not finite starts from its inlets
             cold = ~np.all(np.isfinite(start), axis=0)
+            warm_case = ~cold
             S[:] = np.minimum(np.maximum(np.where(cold, np.stack((ts_in, tt_in, 0.5 * (ts_in + tt_in),
                                                                    0.5 * (ts_in + tt_in))), start), t_lo), t_hi)
         f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
         r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
         omega, damped = np.ones(n), np.zeros(n, dtype=bool)
-        active = np.arange(n)
-        for it in range(_MAX_ITER):
-            if active.size == 0:
-                break
-            full_set = active.size == n
-            if full_set:  # no gathers while every case is still iterating
-                X, rp, om, sp, dmp, lo, hi = S, r_prev, omega, s_prev, damped, t_lo, t_hi
-            else:
-                X = S[:, active]
-                rp, om, sp, dmp, lo, hi = (a[active] for a in (r_prev, omega, s_prev, damped, t_lo, t_hi))
-            ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3], detail=False)
-            G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
-            f = G - X
-            r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them
-            conv = r < _TOL_K
-            # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
-            # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
-            # the step is halved at each change of sign, so that the case settles at the edge.
-            edge = _near_seam(ev.shell.Re) if seams else None
-            any_edge = edge is not None and bool(edge.any())
-            s_now = np.sign(f[1])
-            if any_edge and it >= _SEAM_FROM:
-                flip = edge & (s_now * sp < 0) & (r > 0.7 * rp)
-                dm = dmp | flip
-                om = np.where(flip, 0.5 * om, om)
-            else:  # no case flips
-                dm = dmp
-            if it >= _ANDERSON_FROM:
-                df = f - (f_prev if full_set else f_prev[:, active])
-                den = np.einsum("ij,ij->j", df, df)
-                with np.errstate(divide="ignore", invalid="ignore"):
-                    gam = np.einsum("ij,ij->j", f, df) / den
-                ok = (den > 0) & np.isfinite(gam) & (r <= rp)
-                if any_edge:
-                    ok &= ~edge
-                gam = np.where(ok, gam, 0.0)  # else a plain step
-                Xn = G - gam * (G - (g_prev if full_set else g_prev[:, active]))
-            else:
-                Xn = G
-            any_damped = bool(dm.any())
-            if any_damped:
-                Xn = np.where(dm, X + om * f, Xn)
-            Xn = np.minimum(np.maximum(Xn, lo), hi)  # outlets and walls stay between the inlets
-            stop = (conv | (dm & (om * r < _SEAM_STEP_K))) if any_damped else conv
-            n_stop = int(np.count_nonzero(stop))
-            if n_stop:
-                Xn = np.where(stop, X, Xn)
-            if full_set:
-                S, f_prev, g_prev = Xn, f, G
-                r_prev, s_prev, omega, damped = r, s_now, om, dm
-            else:
-                S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
-                r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
-            if n_stop >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
-                active = active[~stop]
-            if floats and 0 < active.size <= _FLOAT_CASES:
-                # the last few cases carry on one by one on floats, from the state they reached (the same steps)
-                try:
-                    for i in active:
-                        S[:, i] = _iterate_one(
-                            functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                            resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
-                                    tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
-                                    float(omega[i]), bool(damped[i])))
-                except (ValueError, ZeroDivisionError, OverflowError):  # carry on with the arrays (NaN there)
-                    continue
-                break
+        # many probe blocks (a network solve's finite differences): the first block iterates alone, then the later
+        # blocks start from the states their cases of the first block stopped at (as on the float path): a few
+        # steps each instead of the first block's many
+        chained = blocks > 1 and first < n and first >= _CHAIN_CASES
+        for stage in ((np.arange(first), np.arange(first, n)) if chained else (np.arange(n),)):
+            active = stage
+            if chained and stage[0] == first:
+                base = stage % first
+                moved = np.zeros((4, stage.size)) if start is None else start[:, stage] - start[:, base]
+                moved = np.where(np.isfinite(moved), moved, 0.0)
+                S[:, stage] = np.minimum(np.maximum(S[:, base] + moved, t_lo[stage]), t_hi[stage])
+                warm_case[stage] = True
+            for it in range(_MAX_ITER):
+                if active.size == 0:
+                    break
+                full_set = active.size == n
+                if full_set:  # no gathers while every case is still iterating
+                    X, rp, om, sp, dmp, lo, hi = S, r_prev, omega, s_prev, damped, t_lo, t_hi
+                else:
+                    X = S[:, active]
+                    rp, om, sp, dmp, lo, hi = (a[active] for a in (r_prev, omega, s_prev, damped, t_lo, t_hi))
+                ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3], detail=False)
+                G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
+                f = G - X
+                r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them (from the inlets)
+                wc = warm_case if full_set else warm_case[active]
+                if wc.any():
+                    r = np.where(wc, np.maximum(r, np.maximum(np.abs(f[2]), np.abs(f[3]))), r)
+                conv = r < (tol_case if full_set else tol_case[active])
+                # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
+                # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
+                # the step is halved at each change of sign, so that the case settles at the edge.
+                edge = _near_seam(ev.shell.Re) if seams else None
+                any_edge = edge is not None and bool(edge.any())
+                s_now = np.sign(f[1])
+                if any_edge and it >= _SEAM_FROM:
+                    flip = edge & (s_now * sp < 0) & (r > 0.7 * rp)
+                    dm = dmp | flip
+                    om = np.where(flip, 0.5 * om, om)
+                else:  # no case flips
+                    dm = dmp
+                if it >= _ANDERSON_FROM:
+                    df = f - (f_prev if full_set else f_prev[:, active])
+                    den = np.einsum("ij,ij->j", df, df)
+                    with np.errstate(divide="ignore", invalid="ignore"):
+                        gam = np.einsum("ij,ij->j", f, df) / den
+                    ok = (den > 0) & np.isfinite(gam) & (r <= rp)
+                    if any_edge:
+                        ok &= ~edge
+                    gam = np.where(ok, gam, 0.0)  # else a plain step
+                    Xn = G - gam * (G - (g_prev if full_set else g_prev[:, active]))
+                else:
+                    Xn = G
+                any_damped = bool(dm.any())
+                if any_damped:
+                    Xn = np.where(dm, X + om * f, Xn)
+                Xn = np.minimum(np.maximum(Xn, lo), hi)  # outlets and walls stay between the inlets
+                stop = (conv | (dm & (om * r < _SEAM_STEP_K))) if any_damped else conv
+                n_stop = int(np.count_nonzero(stop))
+                if n_stop:
+                    Xn = np.where(stop, X, Xn)
+                if full_set:
+                    S, f_prev, g_prev = Xn, f, G
+                    r_prev, s_prev, omega, damped = r, s_now, om, dm
+                else:
+                    S[:, active], f_prev[:, active], g_prev[:, active] = Xn, f, G
+                    r_prev[active], s_prev[active], omega[active], damped[active] = r, s_now, om, dm
+                if n_stop >= 0.2 * stop.size:  # drop stopped cases once it pays for the indexing (they stay put)
+                    active = active[~stop]
+                if floats and 0 < active.size <= _FLOAT_CASES:
+                    # the last few cases carry on one by one on floats, from the state they reached (the same steps)
+                    try:
+                        for i in active:
+                            S[:, i] = _iterate_one(
+                                functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
+                                tol=float(tol_case[i]), walls=bool(warm_case[i]),
+                                resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
+                                        tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
+                                        float(omega[i]), bool(damped[i])))
+                    except (ValueError, ZeroDivisionError, OverflowError):  # carry on with the arrays (NaN there)
+                        continue
+                    break
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
         # pressure drops the iteration did not need

@@ -110,18 +110,23 @@ def _near_seam_one(Re):
     return min(abs(lr - e) for e in _LN_SEAM_RE) < 0.05
 
 
-def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None, last=None):
+def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None, last=None, tol=_TOL_K, walls=None):
     """The property iteration of :func:`rate` for one case on Python floats: the same steps as the array loop
     (substitution, then Anderson depth one; plain and halved steps at a seam) and the same stops. Returns the state
     ``(outlet shell, outlet tube, wall shell, wall tube)`` [K] the case stopped at. ``start``: a first state other
     than the inlets (see :func:`warm_start`). ``resume``: the array loop's state of this case after its iteration
     ``it`` (``(it + 1, X, f_prev, g_prev, r_prev, s_prev, omega, damped)``), to carry on from there. ``last``: a list
-    that receives ``(G, extra)`` of the evaluation at the returned state when the case stopped there."""
+    that receives ``(G, extra)`` of the evaluation at the returned state when the case stopped there. ``tol``: the
+    outlet step below which the case stops [K] (a network solve's intermediate passes may ask for a looser one).
+    ``walls``: the wall temperatures' steps count in the stop too (None: where the case has a warm start, whose walls
+    may lag its outlets; from the inlets both move together and the outlets decide)."""
     lo, hi = min(ts_in, tt_in), max(ts_in, tt_in)
     if start is None or not all(math.isfinite(v) for v in start):
         X = (ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))
+        walls = bool(walls)
     else:
         X = tuple(min(max(float(v), lo), hi) for v in start)
+        walls = True if walls is None else walls
     f_prev = g_prev = (0.0, 0.0, 0.0, 0.0)
     r_prev, s_prev, om, damped = math.inf, 0.0, 1.0, False
     it0 = 0
@@ -130,8 +135,8 @@ def _iterate_one(evaluate_one, ts_in, tt_in, seams, start=None, resume=None, las
     for it in range(it0, _MAX_ITER):
         G, Re, extra = evaluate_one(*X)
         f = tuple(g - x for g, x in zip(G, X))
-        r = max(abs(f[0]), abs(f[1]))
-        conv = r < _TOL_K
+        r = max(abs(f[0]), abs(f[1]), abs(f[2]), abs(f[3])) if walls else max(abs(f[0]), abs(f[1]))
+        conv = r < tol
         edge = seams and _near_seam_one(Re)
         s_now = 1.0 if f[1] > 0.0 else -1.0 if f[1] < 0.0 else 0.0 if f[1] == 0.0 else math.nan  # np.sign
         flip = it >= _SEAM_FROM and edge and s_now * s_prev < 0 and r > 0.7 * r_prev

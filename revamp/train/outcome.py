@@ -167,11 +167,11 @@ def _out(v, shape):
 
 def _frame(rows, shape, index_name):
     """A DataFrame with one row per item (one case) or per (item, case) (sweeps)."""
-    if shape == ():
-        frame = pd.DataFrame({k: {c: (np.asarray(v).ravel()[0] if isinstance(v, np.ndarray) else v)
-                                  for c, v in cols.items()} for k, cols in rows.items()}).T
-        frame.index.name = index_name
-        return frame.infer_objects()
+    if shape == ():  # built column by column (each column one type): no transposed object frame to infer
+        names = list(dict.fromkeys(c for cols in rows.values() for c in cols))
+        return pd.DataFrame({c: [(v.ravel()[0] if isinstance(v, np.ndarray) else v)
+                                 for v in (cols.get(c, np.nan) for cols in rows.values())] for c in names},
+                            index=pd.Index(list(rows), name=index_name))
     ncase = int(np.prod(shape, dtype=int))
     parts = []
     for k, cols in rows.items():

@@ -37,7 +37,7 @@ from typing import NamedTuple
 import numpy as np
 
 from ..errors import InputError
-from ..rating import _FLOAT_CASES, _rate_shell_and_tube, _rater, rate, warm_start
+from ..rating import _FLOAT_CASES, _TOL_K, _rate_shell_and_tube, _rater, rate, warm_start
 from ..service import Service, Stream
 from .network import Point, Split
 from .outcome import _SIDES, _result, _strip_probes
@@ -51,6 +51,9 @@ _PROBE_K = 0.05  # inlet step of the finite differences for the Newton step [K] 
 _SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at convergence [-]
 _DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
 _CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the last one's keeps its derivatives
+# An intermediate pass (its outlet maps are refined by the next one) lets its ratings stop at a looser step [K]:
+_FIRST_TOL = 1e-2  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
+_PROBE_TOL = 1e-3 * _PROBE_K  # probing passes: each block within ~1e-4 of the probe step (derivatives to ~1e-3)
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
@@ -195,7 +198,7 @@ class _RawService(NamedTuple):
     fouling_tube: np.ndarray
 
 
-def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
+def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None):
     """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
 
     With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
@@ -203,6 +206,10 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
     exchanger, the outlet and wall temperatures ``(4, ncase)`` of its last rating, which the ratings start from
     (updated here from the new ratings; the converged states of one pass are close to the next pass's).
     ``outlets_only``: shell-and-tube exchangers return only what the next pass needs (:class:`OutletMap`).
+    ``warm``: per exchanger, the outlet map ``J`` (2, 2, ncase) of the last pass; given, every block starts from the
+    state predicted by :func:`_predicted` (an intermediate pass), else the base block starts from the inlets as
+    ``rate()`` does (a pass whose ratings may be the final ones). ``tol``: the ratings' stopping step
+    ``(base block, probe blocks)`` [K], None for the rating's own.
     """
     train = plan.train
     ratings = {}
@@ -220,7 +227,7 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
         if m.is_air_cooler:
             ratings[tag] = _rate_air(plan, tag, m, t_s, t_t, f_t, r_s, r_t, idx, 3 if probe else 1)
             continue
-        light = outlets_only and _rater(m.exchanger) is rate
+        light = (outlets_only or tol is not None) and _rater(m.exchanger) is rate
         if light:  # the engine body reads only these fields, and an outlet map keeps no service: no checks again
             svc = _RawService(_RawStream(train.streams[m.shell].fluid, f_s, t_s),
                               _RawStream(train.streams[m.tube].fluid, f_t, t_t), r_s, r_t)
@@ -233,21 +240,51 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False):
         # few-case float path the probes start from their base case's stopping state instead (blocks=3), closer.
         # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
         # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
-        state = None if starts is None or not probe else starts.get(tag)
-        with warm_start(None if state is None else np.concatenate(
-                [np.full_like(state[:, idx], np.nan), state[:, idx], state[:, idx]], axis=1)):
+        state = None if starts is None else starts.get(tag)
+        if state is None or (warm is None and not probe):
+            first = None
+        elif warm is not None:
+            first = _predicted(plan, tag, x, state[:, idx], warm.get(tag), idx, probe)
+        else:
+            first = np.concatenate([np.full_like(state[:4, idx], np.nan), state[:4, idx], state[:4, idx]], axis=1)
+        with warm_start(first):
             if light:
                 ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
-                                                    with_dp=bool(plan.equal_dp), blocks=3 if probe else 1)
+                                                    with_dp=bool(plan.equal_dp), blocks=3 if probe else 1, tol=tol)
             else:
                 ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
         if starts is not None:
             r = ratings[tag]
             new = np.array([np.asarray(getattr(r, k), float).reshape(-1)[:idx.size] for k in _STATE_FIELDS])
             if tag not in starts:
-                starts[tag] = np.full((4, plan.ncase), np.nan)
-            starts[tag][:, idx] = new  # NaN (a failed case): its next rating starts from the inlets
+                starts[tag] = np.full((6, plan.ncase), np.nan)
+            starts[tag][:4, idx] = new  # NaN (a failed case): its next rating starts from the inlets
+            starts[tag][4, idx], starts[tag][5, idx] = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
     return ratings
+
+
+def _predicted(plan, tag, x, state, J, idx, probe):
+    """The state an intermediate pass starts exchanger ``tag``'s ratings from: the outlets the last linear solve
+    predicts at these inlets (the outlet ports of ``x``), and for the probe blocks those moved by the outlet map ``J``
+    of the last pass; each wall keeps the place between the two mean temperatures it had in the last rating
+    (``state``: its outlets, walls and inlets). NaN where there is no such state (that case starts from its inlets).
+    """
+    ps, pt = plan.port(tag, "shell"), plan.port(tag, "tube")
+    ts, tt, os_, ot = x[:, ps], x[:, pt], x[:, ps + 1], x[:, pt + 1]
+    blocks = [(ts, tt, os_, ot)]
+    if probe:
+        J = np.full((2, 2, idx.size), np.nan) if J is None else J[:, :, idx]
+        blocks += [(ts + probe, tt, os_ + J[0, 0] * probe, ot + J[1, 0] * probe),
+                   (ts, tt + probe, os_ + J[0, 1] * probe, ot + J[1, 1] * probe)]
+    mean_s, mean_t = 0.5 * (state[4] + state[0]), 0.5 * (state[5] + state[1])
+    with np.errstate(divide="ignore", invalid="ignore"):
+        place_s = (state[2] - mean_t) / (mean_s - mean_t)
+        place_t = (state[3] - mean_t) / (mean_s - mean_t)
+    out = []
+    for a, b, c, d in blocks:
+        ms, mt = 0.5 * (a + c), 0.5 * (b + d)
+        out.append(np.stack((c, d, mt + place_s * (ms - mt), mt + place_t * (ms - mt))))
+    return np.concatenate(out, axis=1)
 
 
 def _rate_air(plan, tag, m, t_air, t_t, f_t, r_air, r_t, idx, blocks):
@@ -461,6 +498,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     iterations, ratings, rated_all, history, light_pass = 0, None, False, [], False
     starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
     jac = {}  # per exchanger, the outlets' derivatives by the inlets (2, 2, ncase) from the last probes
+    maps = {}  # per exchanger, the outlet map (2, 2, ncase) of the last pass: the probes' derivatives, else ε-NTU's
     # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more than
     # such small ratings); a sweep's passes rate in full
     light = plan.ncase <= _FLOAT_CASES
@@ -478,8 +516,19 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         probe = _PROBE_K if newton_pass and not chord else 0.0
         # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones; so
         # does a chord pass whose change, falling as the last did, may already be within tol
-        light_pass = light and (bool(probe) or (chord and fall * last > 10.0 * tol) or iterations == 1)
-        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass)
+        intermediate = bool(probe) or (chord and fall * last > 10.0 * tol)
+        light_pass = light and (intermediate or iterations == 1)
+        # an intermediate pass starts its ratings from the state the last linear solve predicts and lets them stop
+        # at a looser step (never looser than what its use needs); the first pass starts from the inlets, the
+        # others rate as rate() does: their ratings may be the final ones, and only they may end a case
+        if iterations == 1:
+            loose, warm = (_FIRST_TOL, _FIRST_TOL), None
+        elif intermediate:
+            # a chord pass: its step is already near the solution; its ratings keep the rating's own stop
+            loose, warm = ((_PROBE_TOL, _PROBE_TOL) if probe else (_TOL_K, _TOL_K)), maps
+        else:
+            loose, warm = None, None
+        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass, warm=warm, tol=loose)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
         if newton is not None:  # keep the derivatives for chord steps
@@ -487,6 +536,8 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
                 jac.setdefault(tag, np.full((2, 2, plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
         elif chord:
             newton = _chord(ratings, xa, plan, idx, jac)
+        for tag, (j, _) in (newton or linear).items():
+            maps.setdefault(tag, np.full((2, 2, plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
         g, bad = _linear_solve(plan, xa, linear, idx)
         res = np.where(bad, np.nan, np.max(np.abs(g[:, inlets] - xa[:, inlets]), axis=1))
         step = g
@@ -497,7 +548,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
             far = np.max(np.abs(xn[:, inlets] - xa[:, inlets]), axis=1) > 3.0 * res + 1.0
             step = np.where((bad_n | far)[:, None], g, xn)
         fres = _update_equal_dp(plan, ratings, idx)
-        fin = ~bad & (res < tol) & (fres < _SHARE_TOL)
+        fin = ~bad & (res < tol) & (fres < _SHARE_TOL) & (loose is None or loose[0] <= _TOL_K)
         x[idx] = np.where(bad[:, None], xa, np.where(fin[:, None], g, step))
         failed[idx] |= bad
         residual[idx] = res
@@ -513,8 +564,11 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         if np.all(failed | done | stalled):
             break
     converged = done & ~failed
-    if rated_all and not light_pass:  # the last pass rated every case in full: its base block is the rating there
+    if rated_all and loose is None:  # the last pass rated every case in full: its base block is the rating there
         ratings = _strip_probes(ratings, plan.ncase)
-    else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger
-        ratings = _rate_all(plan, x, np.arange(plan.ncase), starts=starts)
+    else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger;
+        # a sweep's cases start from the states their last ratings stopped at (each still stops at the rating's own
+        # 1e-6 K step, walls included), a few cases from their inlets as rate() does
+        ratings = _rate_all(plan, x, np.arange(plan.ncase), starts=starts,
+                            warm=maps if plan.ncase > _FLOAT_CASES else None)
     return _result(plan, x, ratings, converged, failed, residual, iterations, tol)
