@@ -139,6 +139,8 @@ def _reshape_rating(r, shape, ncase):
         return _reshape_air(r, shape)
     from ..rating import _SCALAR_FIELDS
 
+    if shape == () and isinstance(r.duty, float):  # rated on floats already (one case's closing pass)
+        return r
     changes = {}
     for name in _SCALAR_FIELDS:
         v = np.asarray(getattr(r, name), float).reshape(shape)

@@ -52,8 +52,8 @@ _SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at co
 _DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
 _CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the last one's keeps its derivatives
 # An intermediate pass (its outlet maps are refined by the next one) lets its ratings stop at a looser step [K]:
-_FIRST_TOL = 1e-2  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
-_PROBE_TOL = 1e-3 * _PROBE_K  # probing passes: each block within ~1e-4 of the probe step (derivatives to ~1e-3)
+_FIRST_TOL = 0.5  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
+_PROBE_TOL = 2e-3 * _PROBE_K  # probing passes: each block within ~1e-4 K (the derivatives to a few 1e-3)
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
@@ -134,6 +134,30 @@ class _Plan:
 
     def flat(self, v):
         return np.broadcast_to(np.asarray(v, float), self.shape).reshape(self.ncase).copy()
+
+    def fed(self):
+        """Where no route splits, the feed of every inlet, fixed for the whole solve: ``(rows, e, k, const_rows,
+        consts)``: inlet unknown ``rows[j]`` is outlet ``k[j]`` of exchanger ``e[j]``; ``const_rows`` take the fixed
+        temperatures ``consts`` (ncase, ...) (a supply or an air inlet). None where a split's remix weights follow
+        the temperatures (then :meth:`walk` gives the inlets pass by pass)."""
+        if not hasattr(self, "_fed"):
+            self._fed = None
+            if not any(isinstance(item, Split) for route in self.train.routes.values() for item in route):
+                links, _, _, _ = self.walk(None)
+                rows, es, ks, const_rows, consts = [], [], [], [], []
+                for port, expr in links:
+                    if expr.coefs:
+                        (i, c), = expr.coefs.items()  # one outlet, weight 1, no constant
+                        e, k = divmod(i // 2, 2)
+                        rows.append(port // 2)
+                        es.append(e)
+                        ks.append(k)
+                    else:
+                        const_rows.append(port // 2)
+                        consts.append(np.broadcast_to(np.asarray(expr.const, float), (self.ncase,)))
+                self._fed = (np.array(rows, int), np.array(es, int), np.array(ks, int), np.array(const_rows, int),
+                             np.stack(consts, axis=1) if consts else np.zeros((self.ncase, 0)))
+        return self._fed
 
     def port(self, tag, side, out=False):
         return 4 * self.index[tag] + (2 if side == "tube" else 0) + (1 if out else 0)
@@ -232,12 +256,14 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
             svc = _RawService(_RawStream(train.streams[m.shell].fluid, f_s, t_s),
                               _RawStream(train.streams[m.tube].fluid, f_t, t_t), r_s, r_t)
         else:
+            if plan.shape == () and not probe:  # one case: rated on floats, the Rating a user's rate() gives there
+                f_s, t_s, f_t, t_t, r_s, r_t = (float(v[0]) for v in (f_s, t_s, f_t, t_t, r_s, r_t))
             svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
                           tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
-        # warm starts only for the probe blocks: the base block starts from the inlets, as rate() alone does, so
-        # that rating an exchanger at its solved inlets gives back exactly the result's numbers, and so that the
-        # base outlets carry no iteration error of a start (the Newton step takes differences of them). On the
-        # few-case float path the probes start from their base case's stopping state instead (blocks=3), closer.
+        # A pass whose ratings may be the final ones starts each case's base block from the inlets, as rate() alone
+        # does, so that rating an exchanger at its solved inlets gives back exactly the result's numbers; an
+        # intermediate pass starts from the predicted state (warm). On the few-case float path the probes start
+        # from their base case's stopping state (blocks=3), moved as their predicted starts differ.
         # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
         # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
         state = None if starts is None else starts.get(tag)
@@ -280,11 +306,13 @@ def _predicted(plan, tag, x, state, J, idx, probe):
     with np.errstate(divide="ignore", invalid="ignore"):
         place_s = (state[2] - mean_t) / (mean_s - mean_t)
         place_t = (state[3] - mean_t) / (mean_s - mean_t)
-    out = []
-    for a, b, c, d in blocks:
-        ms, mt = 0.5 * (a + c), 0.5 * (b + d)
-        out.append(np.stack((c, d, mt + place_s * (ms - mt), mt + place_t * (ms - mt))))
-    return np.concatenate(out, axis=1)
+    n = idx.size
+    out = np.empty((4, n * len(blocks)))
+    for j, (a, b, c, d) in enumerate(blocks):
+        mt, span = 0.5 * (b + d), 0.5 * (a + c - b - d)
+        cols = slice(j * n, (j + 1) * n)
+        out[0, cols], out[1, cols], out[2, cols], out[3, cols] = c, d, mt + place_s * span, mt + place_t * span
+    return out
 
 
 def _rate_air(plan, tag, m, t_air, t_t, f_t, r_air, r_t, idx, blocks):
@@ -318,7 +346,8 @@ def _coefficients(ratings, x, plan, n, probe):
     """
     linear, newton = {}, {}
     for tag, r in ratings.items():
-        eps, cs, ct = (np.asarray(v, float)[:n] for v in (r.effectiveness, _side_value(r, "C_shell"), r.C_tube))
+        eps, cs, ct = (np.asarray(v, float).reshape(-1)[:n]
+                       for v in (r.effectiveness, _side_value(r, "C_shell"), r.C_tube))
         c_min = np.minimum(cs, ct)
         a_s, a_t = eps * c_min / cs, eps * c_min / ct
         zero = np.zeros(n)
@@ -353,7 +382,8 @@ def _chord(ratings, x, plan, idx, jac):
         if J is None:
             return None
         J = J[:, :, idx]
-        o_s, o_t = np.asarray(_side_value(r, "t_out_shell"), float)[:n], np.asarray(r.t_out_tube, float)[:n]
+        o_s = np.asarray(_side_value(r, "t_out_shell"), float).reshape(-1)[:n]
+        o_t = np.asarray(r.t_out_tube, float).reshape(-1)[:n]
         xs, xt = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
         j = ((J[0, 0], J[0, 1]), (J[1, 0], J[1, 1]))
         out[tag] = (j, (o_s - J[0, 0] * xs - J[0, 1] * xt, o_t - J[1, 0] * xs - J[1, 1] * xt))
@@ -383,16 +413,24 @@ def _linear_solve(plan, x, coefs, idx):
     A = np.zeros((nc, m, m))
     A[:, np.arange(m), np.arange(m)] = 1.0
     b = np.zeros((nc, m))
-    links, _, _, _ = plan.walk(x, idx=idx)
-    for port, expr in links:
-        row = port // 2  # an inlet port (even) -> its unknown
-        b[:, row] += expr.const
-        for i, c in expr.coefs.items():  # outlet ports (odd) only: a route runs from outlets to inlets
-            u = i // 2  # the outlet's unknown 2e + k: row k of exchanger e's block
-            e, k = divmod(u, 2)
-            A[:, row, 2 * e] -= c * Jb[:, e, k, 0]
-            A[:, row, 2 * e + 1] -= c * Jb[:, e, k, 1]
-            b[:, row] += c * cv[:, u]
+    fed = plan.fed()
+    if fed is not None:  # no splits: each inlet is fed by one outlet or a fixed temperature, the same every pass
+        rows, e, k, const_rows, consts = fed
+        A[:, rows, 2 * e] = -Jb[:, e, k, 0]  # (row, column) pairs are distinct: an inlet has one feed
+        A[:, rows, 2 * e + 1] = -Jb[:, e, k, 1]
+        b[:, rows] = cv[:, 2 * e + k]
+        b[:, const_rows] = consts[idx]
+    else:
+        links, _, _, _ = plan.walk(x, idx=idx)
+        for port, expr in links:
+            row = port // 2  # an inlet port (even) -> its unknown
+            b[:, row] += expr.const
+            for i, c in expr.coefs.items():  # outlet ports (odd) only: a route runs from outlets to inlets
+                u = i // 2  # the outlet's unknown 2e + k: row k of exchanger e's block
+                e, k = divmod(u, 2)
+                A[:, row, 2 * e] -= c * Jb[:, e, k, 0]
+                A[:, row, 2 * e + 1] -= c * Jb[:, e, k, 1]
+                b[:, row] += c * cv[:, u]
     bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
     A[bad] = np.eye(m)
     b[bad] = np.nan
@@ -460,7 +498,7 @@ def _update_equal_dp(plan, ratings, idx):
             dp = 0.0
             for tag in branch:
                 side = plan.train.exchangers[tag].side_of(stream)
-                dp = dp + np.asarray(getattr(ratings[tag], f"dp_{side}"), float)[:n]
+                dp = dp + np.asarray(getattr(ratings[tag], f"dp_{side}"), float).reshape(-1)[:n]
             dps.append(dp)
         new = [f[idx] * np.power(dp, -1.0 / _DP_EXPONENT) for f, dp in zip(shares, dps)]
         total = sum(new)
