@@ -403,7 +403,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 ev = evaluate(None if full_set else active, X[0], X[1], X[2], X[3], detail=False)
                 G = np.stack((ev.to_s, ev.to_t, ev.tw_s, ev.tw_t))
                 f = G - X
-                r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # the outlets decide; the walls follow them (from the inlets)
+                r = np.maximum(np.abs(f[0]), np.abs(f[1]))  # from the inlets the outlets decide; the walls follow
                 wc = warm_case if full_set else warm_case[active]
                 if wc.any():
                     r = np.where(wc, np.maximum(r, np.maximum(np.abs(f[2]), np.abs(f[3]))), r)

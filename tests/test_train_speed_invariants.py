@@ -199,3 +199,103 @@ def test_chord_steps_reach_the_newton_solution_with_fewer_ratings(monkeypatch, f
     for col in ("t_out_shell", "t_out_tube"):  # both solved to 1e-6 K [K]
         np.testing.assert_allclose(chord.exchangers[col].to_numpy(float), newton.exchangers[col].to_numpy(float),
                                    rtol=0, atol=1e-5)
+
+
+# ------------------------------------------------------------------ warm starts, looser stops, chained probe blocks
+def _counting_evaluations(monkeypatch):
+    """Count the engine's evaluations of the outlet map (float path: calls of the one-case map; array path: cases
+    passed to the tube-side kernel), through the names the engine looks up at call time."""
+    from revamp.correlations import tube as tube_corr
+
+    count = [0]
+    iterate = rating_mod._iterate_one
+
+    def iterate_counting(evaluate_one, *a, **kw):
+        def counted(*x):
+            count[0] += 1
+            return evaluate_one(*x)
+        return iterate(counted, *a, **kw)
+
+    kernel = tube_corr.tube_side_kernel
+
+    def kernel_counting(mt, *a, **kw):
+        if np.size(mt) > rating_mod._FLOAT_CASES:
+            count[0] += np.size(mt)
+        return kernel(mt, *a, **kw)
+
+    monkeypatch.setattr(rating_mod, "_iterate_one", iterate_counting)
+    monkeypatch.setattr(tube_corr, "tube_side_kernel", kernel_counting)
+    return count
+
+
+@pytest.mark.parametrize("n", [2, 40], ids=["float path", "array path"])
+def test_warm_started_rating_reaches_the_cold_outlets_with_fewer_evaluations(monkeypatch, n):
+    ts, tt = np.linspace(560.0, 610.0, n), np.linspace(370.0, 420.0, n)
+    svc = _service(ts, tt, n)
+    count = _counting_evaluations(monkeypatch)
+    cold = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False)
+    from_inlets = count[0]
+    # a start near the solution whose walls lag its outlets (as a network pass's prediction may): the walls'
+    # steps count in the stop, so the outlets still come within the rating's 1e-6 K steps of the cold ones
+    state = np.stack([cold.t_out_shell + 0.02, cold.t_out_tube - 0.02, cold.t_wall_shell + 3.0,
+                      cold.t_wall_tube - 3.0])
+    count[0] = 0
+    with rating_mod.warm_start(state):
+        warm = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False)
+    np.testing.assert_allclose(warm.t_out_shell, cold.t_out_shell, rtol=0, atol=1e-5)
+    np.testing.assert_allclose(warm.t_out_tube, cold.t_out_tube, rtol=0, atol=1e-5)
+    np.testing.assert_allclose(warm.t_wall_tube, cold.t_wall_tube, rtol=0, atol=1e-4)
+    assert count[0] < from_inlets
+
+
+def test_a_looser_stop_moves_the_outlets_by_less_than_it():
+    svc = _service(np.array([600.0, 560.0]), np.array([420.0, 380.0]), 2)
+    tight = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False)
+    loose = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False,
+                                            tol=(0.5, 0.5))
+    # stopped when the outlets moved by less than 0.5 K in a step; the iteration contracts, so the error is smaller
+    assert np.all(np.abs(loose.t_out_tube - tight.t_out_tube) < 0.5)
+    assert np.all(np.abs(loose.t_out_shell - tight.t_out_shell) < 0.5)
+
+
+def test_chained_probe_blocks_on_the_array_path_reach_the_same_outlets(monkeypatch):
+    ts, tt = np.linspace(560.0, 610.0, 12), np.linspace(370.0, 420.0, 12)
+    p = sv._PROBE_K
+    ts3, tt3 = np.concatenate([ts, ts + p, ts]), np.concatenate([tt, tt, tt + p])
+    svc = _service(ts3, tt3, ts3.size)
+    together = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False,
+                                               blocks=3)  # 12 cases a block: below _CHAIN_CASES, one loop
+    monkeypatch.setattr(rating_mod, "_CHAIN_CASES", 10)
+    chained = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False,
+                                              blocks=3)
+    np.testing.assert_array_equal(chained.t_out_tube[:12], together.t_out_tube[:12])  # the base block alone
+    np.testing.assert_allclose(chained.t_out_tube, together.t_out_tube, rtol=0, atol=1e-5)
+    np.testing.assert_allclose(chained.t_out_shell, together.t_out_shell, rtol=0, atol=1e-5)
+    # the finite differences the Newton step takes agree to ~1e-3 of the derivative
+    d_chain = (chained.t_out_tube[12:24] - chained.t_out_tube[:12]) / p
+    d_together = (together.t_out_tube[12:24] - together.t_out_tube[:12]) / p
+    np.testing.assert_allclose(d_chain, d_together, rtol=0, atol=5e-4)
+
+
+def test_sweep_ratings_agree_with_a_fresh_rating_at_the_solved_inlets():
+    res = interlinked(np.linspace(40.0, 90.0, 12)).solve()
+    assert np.all(res.converged)
+    ex = res.exchangers
+    for tag, m in res.train.exchangers.items():
+        rows = ex.xs(tag, level="tag")
+        col = lambda name: rows[name].to_numpy(float)  # noqa: E731
+        own = rv.rate(m.exchanger, rv.Service(
+            shell=rv.Stream(res.train.streams[m.shell].fluid, col("flow_shell"), col("t_in_shell")),
+            tube=rv.Stream(res.train.streams[m.tube].fluid, col("flow_tube"), col("t_in_tube")),
+            fouling_shell=m.fouling_shell, fouling_tube=m.fouling_tube))
+        # the sweep's last ratings may start from their last states: within the rating's 1e-6 K steps [K]
+        np.testing.assert_allclose(own.t_out_tube, rows["t_out_tube"].to_numpy(), rtol=0, atol=1e-5)
+        np.testing.assert_allclose(own.t_out_shell, rows["t_out_shell"].to_numpy(), rtol=0, atol=1e-5)
+
+
+def test_intermediate_passes_never_end_a_case():
+    # a pass whose ratings stop at a looser step may not decide convergence: with every later pass forbidden,
+    # a solve that needs more than its first pass reports no converged case
+    res = interlinked().solve(max_iter=1)
+    assert not res.converged
+    assert "did not converge" in " ".join(res.warnings)

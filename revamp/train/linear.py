@@ -1,0 +1,106 @@
+"""The linear step of the train solve: with every exchanger's outlets a linear map of its two inlets, the whole
+network's port temperatures follow from one linear system per case (see :mod:`revamp.train.solver`).
+
+:func:`_linear_solve` eliminates the outlets and solves for the inlets (the reduced system);
+:func:`_linear_solve_dense` keeps every port (the reference form, which gives the same solution). Internal.
+"""
+from __future__ import annotations
+
+import numpy as np
+
+from .outcome import _SIDES
+
+
+def _linear_solve(plan, x, coefs, idx):
+    """One linear solve of the network: exchanger outlets ``J @ inlets + c``, routes and remixes at ``x``.
+
+    Every inlet is a route expression of outlets (or a fixed supply), ``in = L @ out + d``, and every outlet the
+    exchanger's map of its own two inlets, so the outlets are eliminated: ``(I - L J) in = d + L c``, a system of the
+    2·(exchangers) inlets per case (a quarter of the entries and an eighth of the factorization work of the dense
+    system of all ports, :func:`_linear_solve_dense`, which gives the same solution), then ``out = J in + c``.
+    """
+    n, nc = plan.n, len(idx)
+    m, nx = n // 2, n // 4  # inlets (and outlets): port p = 4i + 2s (+1 for the outlet) is unknown 2i + s
+    Jb = np.zeros((nc, nx, 2, 2))  # J is block diagonal: exchanger i's 2x2 block maps its inlets to its outlets
+    cv = np.zeros((nc, m))
+    for tag, (J, c) in coefs.items():
+        i = plan.index[tag]
+        for k in range(2):
+            Jb[:, i, k, 0] = J[k][0]
+            Jb[:, i, k, 1] = J[k][1]
+            cv[:, 2 * i + k] = c[k]
+    # the rows of A = I - L J and b = d + L c from the route expressions: L is sparse (an inlet is fed by one
+    # outlet, or by the remix of a split's branch ends), each term adds the feeding exchanger's row of J
+    A = np.zeros((nc, m, m))
+    A[:, np.arange(m), np.arange(m)] = 1.0
+    b = np.zeros((nc, m))
+    fed = plan.fed()
+    if fed is not None:  # no splits: each inlet is fed by one outlet or a fixed temperature, the same every pass
+        rows, e, k, const_rows, consts = fed
+        A[:, rows, 2 * e] = -Jb[:, e, k, 0]  # (row, column) pairs are distinct: an inlet has one feed
+        A[:, rows, 2 * e + 1] = -Jb[:, e, k, 1]
+        b[:, rows] = cv[:, 2 * e + k]
+        b[:, const_rows] = consts[idx]
+    else:
+        links, _, _, _ = plan.walk(x, idx=idx)
+        for port, expr in links:
+            row = port // 2  # an inlet port (even) -> its unknown
+            b[:, row] += expr.const
+            for i, c in expr.coefs.items():  # outlet ports (odd) only: a route runs from outlets to inlets
+                u = i // 2  # the outlet's unknown 2e + k: row k of exchanger e's block
+                e, k = divmod(u, 2)
+                A[:, row, 2 * e] -= c * Jb[:, e, k, 0]
+                A[:, row, 2 * e + 1] -= c * Jb[:, e, k, 1]
+                b[:, row] += c * cv[:, u]
+    bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
+    A[bad] = np.eye(m)
+    b[bad] = np.nan
+    with np.errstate(all="ignore"):
+        try:
+            t_in = np.linalg.solve(A, b[..., None])[..., 0]
+        except np.linalg.LinAlgError:  # a singular case: solve one by one, NaN where singular
+            t_in = np.full((nc, m), np.nan)
+            for i in range(nc):
+                try:
+                    t_in[i] = np.linalg.solve(A[i], b[i])
+                except np.linalg.LinAlgError:
+                    pass
+        t_out = np.einsum("cikj,cij->cik", Jb, t_in.reshape(nc, nx, 2)).reshape(nc, m) + cv
+    sol = np.empty((nc, n))
+    sol[:, 0::2], sol[:, 1::2] = t_in, t_out
+    return sol, bad | ~np.all(np.isfinite(sol), axis=1)
+
+
+def _linear_solve_dense(plan, x, coefs, idx):
+    """:func:`_linear_solve` on the dense system of all ports (outlet rows kept): the reference form."""
+    n, nc = plan.n, len(idx)
+    A = np.zeros((nc, n, n))
+    b = np.zeros((nc, n))
+    for tag, (J, c) in coefs.items():
+        ins = (plan.port(tag, "shell"), plan.port(tag, "tube"))
+        for k, side in enumerate(_SIDES):
+            row = plan.port(tag, side, out=True)
+            A[:, row, row] = 1.0
+            A[:, row, ins[0]] -= J[k][0]
+            A[:, row, ins[1]] -= J[k][1]
+            b[:, row] += c[k]
+    links, _, _, _ = plan.walk(x, idx=idx)
+    for port, expr in links:
+        A[:, port, port] += 1.0
+        for i, c in expr.coefs.items():
+            A[:, port, i] -= c
+        b[:, port] += expr.const
+    bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
+    A[bad] = np.eye(n)
+    b[bad] = np.nan
+    with np.errstate(all="ignore"):
+        try:
+            sol = np.linalg.solve(A, b[..., None])[..., 0]
+        except np.linalg.LinAlgError:  # a singular case: solve one by one, NaN where singular
+            sol = np.full((nc, n), np.nan)
+            for i in range(nc):
+                try:
+                    sol[i] = np.linalg.solve(A[i], b[i])
+                except np.linalg.LinAlgError:
+                    pass
+    return sol, bad | ~np.all(np.isfinite(sol), axis=1)
