@@ -379,6 +379,10 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
         r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
         omega, damped = np.ones(n), np.zeros(n, dtype=bool)
+        # an outlet map without pressure drops takes each case's numbers from the evaluation it stopped at (the
+        # same numbers a last evaluation at the stopping state gives: no evaluation more)
+        keep = outlets_only and not with_dp
+        G_end, E_end, have = np.full((4, n), np.nan), np.full((3, n), np.nan), np.zeros(n, dtype=bool)
         # many probe blocks (a network solve's finite differences): the first block iterates alone, then the later
         # blocks start from the states their cases of the first block stopped at (as on the float path): a few
         # steps each instead of the first block's many
@@ -440,6 +444,11 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 n_stop = int(np.count_nonzero(stop))
                 if n_stop:
                     Xn = np.where(stop, X, Xn)
+                    if keep:
+                        at = active[stop]
+                        G_end[:, at], have[at] = G[:, stop], True
+                        E_end[0, at], E_end[1, at], E_end[2, at] = (np.broadcast_to(v, stop.shape)[stop]
+                                                                    for v in (ev.eps, ev.C_s, ev.C_t))
                 if full_set:
                     S, f_prev, g_prev = Xn, f, G
                     r_prev, s_prev, omega, damped = r, s_now, om, dm
@@ -452,19 +461,27 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                     # the last few cases carry on one by one on floats, from the state they reached (the same steps)
                     try:
                         for i in active:
+                            hold = []
                             S[:, i] = _iterate_one(
                                 functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                tol=float(tol_case[i]), walls=bool(warm_case[i]),
+                                tol=float(tol_case[i]), walls=bool(warm_case[i]), last=hold,
                                 resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
                                         tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
                                         float(omega[i]), bool(damped[i])))
+                            if hold:
+                                (G_end[:, i], E_end[:, i]), have[i] = hold[0], True
                     except (ValueError, ZeroDivisionError, OverflowError):  # carry on with the arrays (NaN there)
                         continue
                     break
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
-        # pressure drops the iteration did not need
-        ev = evaluate(None, S[0], S[1], S[2], S[3])
+        # pressure drops the iteration did not need (an outlet map without them has its numbers already)
+        if keep and have.all():
+            ev = _Eval(to_s=G_end[0], to_t=G_end[1], tw_s=G_end[2], tw_t=G_end[3], q=None, eps=E_end[0], w=None,
+                       NTU=None, U=None, C_s=E_end[1], C_t=E_end[2], shell_min=None, R=None, tube=_NO_DP,
+                       shell=_NO_DP, rho_s=None, rho_t=None, Pr_s=None, mu_ratio_t=None)
+        else:
+            ev = evaluate(None, S[0], S[1], S[2], S[3])
     xs, xt = S[0], S[1]
     to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
     residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))

@@ -299,3 +299,17 @@ def test_intermediate_passes_never_end_a_case():
     res = interlinked().solve(max_iter=1)
     assert not res.converged
     assert "did not converge" in " ".join(res.warnings)
+
+
+@pytest.mark.parametrize("n", [9, 40], ids=["arrays then floats", "arrays"])
+def test_outlet_map_from_the_stopping_evaluations_equals_a_last_evaluation(n):
+    # without pressure drops the outlet map takes each case's numbers from the evaluation it stopped at; with them
+    # the engine evaluates every case once more at its stopping state: the same numbers (rounding only)
+    svc = rv.Service(shell=rv.Stream(RESID_P, np.linspace(15.0, 35.0, n), 600.0),
+                     tube=rv.Stream(CRUDE_P, 60.0, np.linspace(350.0, 420.0, n)),
+                     fouling_shell=5e-4, fouling_tube=7e-4)
+    kept = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False)
+    again = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=True)
+    for name in ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube", "effectiveness", "C_shell", "C_tube"):
+        np.testing.assert_allclose(getattr(kept, name), getattr(again, name), rtol=1e-13, atol=0)
+    assert np.all(np.isnan(kept.dp_tube)) and np.all(np.isfinite(again.dp_tube))
