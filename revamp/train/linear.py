@@ -52,19 +52,8 @@ def _linear_solve(plan, x, coefs, idx):
                 A[:, row, 2 * e] -= c * Jb[:, e, k, 0]
                 A[:, row, 2 * e + 1] -= c * Jb[:, e, k, 1]
                 b[:, row] += c * cv[:, u]
-    bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
-    A[bad] = np.eye(m)
-    b[bad] = np.nan
+    t_in, bad = _solve_cases(A, b)
     with np.errstate(all="ignore"):
-        try:
-            t_in = np.linalg.solve(A, b[..., None])[..., 0]
-        except np.linalg.LinAlgError:  # a singular case: solve one by one, NaN where singular
-            t_in = np.full((nc, m), np.nan)
-            for i in range(nc):
-                try:
-                    t_in[i] = np.linalg.solve(A[i], b[i])
-                except np.linalg.LinAlgError:
-                    pass
         t_out = np.einsum("cikj,cij->cik", Jb, t_in.reshape(nc, nx, 2)).reshape(nc, m) + cv
     sol = np.empty((nc, n))
     sol[:, 0::2], sol[:, 1::2] = t_in, t_out
@@ -90,17 +79,25 @@ def _linear_solve_dense(plan, x, coefs, idx):
         for i, c in expr.coefs.items():
             A[:, port, i] -= c
         b[:, port] += expr.const
+    sol, bad = _solve_cases(A, b)
+    return sol, bad | ~np.all(np.isfinite(sol), axis=1)
+
+
+def _solve_cases(A, b):
+    """``A x = b`` for every case (stacked ``(nc, m, m)`` and ``(nc, m)``) and the cases whose system is not finite
+    (their ``x`` is NaN; ``A`` and ``b`` are changed there). A singular case is solved alone: NaN where singular."""
+    nc, m = b.shape
     bad = ~np.all(np.isfinite(A), axis=(1, 2)) | ~np.all(np.isfinite(b), axis=1)
-    A[bad] = np.eye(n)
+    A[bad] = np.eye(m)
     b[bad] = np.nan
     with np.errstate(all="ignore"):
         try:
-            sol = np.linalg.solve(A, b[..., None])[..., 0]
+            return np.linalg.solve(A, b[..., None])[..., 0], bad
         except np.linalg.LinAlgError:  # a singular case: solve one by one, NaN where singular
-            sol = np.full((nc, n), np.nan)
+            x = np.full((nc, m), np.nan)
             for i in range(nc):
                 try:
-                    sol[i] = np.linalg.solve(A[i], b[i])
+                    x[i] = np.linalg.solve(A[i], b[i])
                 except np.linalg.LinAlgError:
                     pass
-    return sol, bad | ~np.all(np.isfinite(sol), axis=1)
+            return x, bad
