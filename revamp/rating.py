@@ -38,6 +38,7 @@ from __future__ import annotations
 
 import dataclasses
 import functools
+import math
 
 import numpy as np
 
@@ -183,7 +184,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
         service.shell.flow, service.shell.t_in, service.tube.flow, service.tube.t_in,
         service.fouling_shell, service.fouling_tube)))
-    n = int(np.prod(shape, dtype=int))
+    n = math.prod(shape)
 
     def flat(v):
         if type(v) is np.ndarray and v.shape == shape:
@@ -492,7 +493,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     range_msgs = []
     for side, fluid, t_i, t_o in (("shell", s_fluid, ts_in, to_s), ("tube", t_fluid, tt_in, to_t)):
         out = (np.minimum(t_i, t_o) < fluid.t_min) | (np.maximum(t_i, t_o) >= fluid.t_max)
-        if np.any(out):
+        if out.any():
             t_bad = np.where(t_o >= fluid.t_max, t_o, np.where(t_i >= fluid.t_max, t_i, np.minimum(t_i, t_o)))
             if shape == ():
                 where = "outlet" if fluid.t_min <= t_i[0] < fluid.t_max else "inlet"

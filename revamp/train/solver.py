@@ -16,8 +16,8 @@ dependence of the properties makes this iterate: with constant properties the se
 The ratings of a pass whose outlet maps only steer the next pass (the first one, from the supply temperatures, and
 the Newton passes with their finite-difference probes) start from the state the last linear solve predicts (its
 outlets at these inlets, each wall kept at its place between the two mean temperatures) and stop at a looser step
-(0.5 K on the first pass, 1e-4 K on a probing one: derivatives to a few parts in a thousand, which keeps the Newton
-step's convergence); a case converges only on a pass rated to the rating's own 1e-6 K step, and a one-case
+(5 K on the first pass, 2.5e-4 K on a probing one: derivatives to about 1 %, which keeps the Newton step's
+convergence); a case converges only on a pass rated to the rating's own 1e-6 K step, and a one-case
 solve's closing pass rates from the inlets exactly as ``rate()`` does, so that its result is the Rating a user
 gets there. A sweep's cases that finished on different passes are rated once more, each from the state its last
 rating stopped at (within the rating's 1e-6 K step of a rating from the inlets).
@@ -62,8 +62,8 @@ _SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at co
 _DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
 _CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the last one's keeps its derivatives
 # An intermediate pass (its outlet maps are refined by the next one) lets its ratings stop at a looser step [K]:
-_FIRST_TOL = 0.5  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
-_PROBE_TOL = 2e-3 * _PROBE_K  # probing passes: each block within ~1e-4 K (the derivatives to a few 1e-3)
+_FIRST_TOL = 5.0  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
+_PROBE_TOL = 5e-3 * _PROBE_K  # probing passes: each block within ~2.5e-4 K (the derivatives to ~1 %)
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
