@@ -169,11 +169,18 @@ def _out(v, shape):
 
 def _frame(rows, shape, index_name):
     """A DataFrame with one row per item (one case) or per (item, case) (sweeps)."""
-    if shape == ():  # built column by column (each column one type): no transposed object frame to infer
+    if shape == ():  # the numbers as one float block, the text columns inserted at their places
         names = list(dict.fromkeys(c for cols in rows.values() for c in cols))
-        return pd.DataFrame({c: [(v.ravel()[0] if isinstance(v, np.ndarray) else v)
-                                 for v in (cols.get(c, np.nan) for cols in rows.values())] for c in names},
-                            index=pd.Index(list(rows), name=index_name))
+        values = {c: [(v.ravel()[0] if isinstance(v, np.ndarray) else v)
+                      for v in (cols.get(c, np.nan) for cols in rows.values())] for c in names}
+        numeric = [c for c in names if all(isinstance(v, (float, int, np.floating)) and not isinstance(v, bool)
+                                           for v in values[c])]
+        frame = pd.DataFrame(np.array([values[c] for c in numeric], dtype=float).T.reshape(len(rows), len(numeric)),
+                             index=pd.Index(list(rows), name=index_name), columns=numeric)
+        for j, c in enumerate(names):
+            if c not in frame.columns:
+                frame.insert(j, c, values[c])
+        return frame
     ncase = int(np.prod(shape, dtype=int))
     parts = []
     for k, cols in rows.items():
@@ -188,6 +195,14 @@ def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
     train, shape, nc = plan.train, plan.shape, plan.ncase
     warnings = []
     nan = np.where(failed, np.nan, 0.0)  # NaN for failed cases: never a silent number
+    if shape == ():  # one case: the table takes floats
+        nan0 = float(nan[0])
+
+        def cases(v):
+            return float(np.ravel(v)[0]) + nan0
+    else:
+        def cases(v):
+            return np.broadcast_to(np.asarray(v, float), (nc,)) + nan
 
     def dp_of(tag, side):
         return getattr(ratings[tag], f"dp_{side}")
@@ -209,7 +224,7 @@ def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
                            ("fouling_tube", svc.fouling_tube), ("dp_air", r.dp_air), ("dp_tube", r.dp_tube),
                            ("velocity_tube", r.velocity_tube), ("velocity_face", r.velocity_face),
                            ("fan_power", r.fan_power)):
-                row[col] = np.broadcast_to(np.asarray(v, float), (nc,)) + nan
+                row[col] = cases(v)
             row["dp_max_tube"] = np.nan if m.dp_max_tube is None else m.dp_max_tube
             rows[tag] = row
             warnings += [f"{tag}: {w}" for w in r.warnings]
@@ -222,7 +237,7 @@ def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
                        ("fouling_shell", r.service.fouling_shell), ("fouling_tube", r.service.fouling_tube),
                        ("dp_shell", r.dp_shell), ("dp_tube", r.dp_tube), ("velocity_tube", r.velocity_tube),
                        ("velocity_shell", r.velocity_shell)):
-            row[col] = np.broadcast_to(np.asarray(v, float), (nc,)) + nan
+            row[col] = cases(v)
         row["dp_max_shell"] = np.nan if m.dp_max_shell is None else m.dp_max_shell
         row["dp_max_tube"] = np.nan if m.dp_max_tube is None else m.dp_max_tube
         rows[tag] = row
