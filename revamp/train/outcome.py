@@ -182,13 +182,17 @@ def _frame(rows, shape, index_name):
                 frame.insert(j, c, values[c])
         return frame
     ncase = int(np.prod(shape, dtype=int))
-    parts = []
-    for k, cols in rows.items():
-        part = pd.DataFrame({c: np.broadcast_to(np.asarray(v), (ncase,)) if isinstance(v, np.ndarray) else [v] * ncase
-                             for c, v in cols.items()})
-        part.index = pd.MultiIndex.from_product([[k], range(ncase)], names=[index_name, "case"])
-        parts.append(part)
-    return pd.concat(parts)
+    names = list(dict.fromkeys(c for cols in rows.values() for c in cols))
+    data = {}
+    for c in names:  # each column at once over all items: numbers as one float array, text as one list
+        vals = [cols.get(c, np.nan) for cols in rows.values()]
+        if all(isinstance(v, np.ndarray) and v.dtype.kind == "f" or isinstance(v, float) for v in vals):
+            data[c] = np.concatenate([np.broadcast_to(np.asarray(v, float), (ncase,)) for v in vals])
+        else:
+            data[c] = [w for v in vals for w in (list(np.broadcast_to(v, (ncase,))) if isinstance(v, np.ndarray)
+                                                 else [v] * ncase)]
+    return pd.DataFrame(data, index=pd.MultiIndex.from_product([list(rows), range(ncase)],
+                                                               names=[index_name, "case"]))
 
 
 def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
