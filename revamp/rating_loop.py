@@ -43,9 +43,9 @@ def warm_start(state):
 
     ``state`` is a ``(4, n)`` array of the outlet temperatures (shell, tube) and the wall temperatures (shell side,
     tube side) [K] of the ``n`` flattened cases, e.g. those of a previous rating at nearby inlets (a network solve
-    re-rating its exchangers). Only the number of iterations changes: each case still stops where its outlets move by
-    less than 1e-6 K (a state that does not fit the cases is ignored; a case whose state is not finite starts from
-    its inlets). Internal to the package.
+    re-rating its exchangers). Only the number of iterations changes: each case still stops where its outlets and,
+    being warm-started, its walls move by less than 1e-6 K (a state that does not fit the cases is ignored; a case
+    whose state is not finite starts from its inlets). Internal to the package.
     """
     token = _WARM_START.set(state)
     try:

@@ -157,7 +157,9 @@ class _Plan:
                 rows, es, ks, const_rows, consts = [], [], [], [], []
                 for port, expr in links:
                     if expr.coefs:
-                        (i, c), = expr.coefs.items()  # one outlet, weight 1, no constant
+                        (i, c), = expr.coefs.items()  # one outlet, no constant
+                        if c != 1.0 or np.any(expr.const != 0.0):  # pragma: no cover - a route link is a plain feed
+                            raise AssertionError(f"route link to port {port} is not a plain feed")
                         e, k = divmod(i // 2, 2)
                         rows.append(port // 2)
                         es.append(e)
@@ -237,8 +239,8 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
 
     With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
     [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step. ``starts``: per
-    exchanger, the outlet and wall temperatures ``(4, ncase)`` of its last rating, which the ratings start from
-    (updated here from the new ratings; the converged states of one pass are close to the next pass's).
+    exchanger, the outlet and wall temperatures and the inlets ``(6, ncase)`` of its last rating (updated here from
+    the new ratings), from which a warm pass predicts its start.
     ``outlets_only``: shell-and-tube exchangers return only what the next pass needs (:class:`OutletMap`).
     ``warm``: per exchanger, the outlet map ``J`` (2, 2, ncase) of the last pass; given, every block starts from the
     state predicted by :func:`_predicted` (an intermediate pass), else the base block starts from the inlets as
@@ -276,14 +278,8 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
         # from their base case's stopping state (blocks=3), moved as their predicted starts differ.
         # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
         # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
-        state = None if starts is None else starts.get(tag)
-        if state is None or (warm is None and not probe):
-            first = None
-        elif warm is not None:
-            first = _predicted(plan, tag, x, state[:, idx], warm.get(tag), idx, probe)
-        else:
-            first = np.concatenate([np.full_like(state[:4, idx], np.nan), state[:4, idx], state[:4, idx]], axis=1)
-        with warm_start(first):
+        state = None if starts is None or warm is None else starts.get(tag)
+        with warm_start(None if state is None else _predicted(plan, tag, x, state[:, idx], warm.get(tag), idx, probe)):
             if light:
                 ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
                                                     with_dp=bool(plan.equal_dp), blocks=3 if probe else 1, tol=tol)
