@@ -332,8 +332,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     floats = bell_kernel and insert is None  # the float evaluation covers these
     on_floats = False
     first = n // blocks if blocks > 1 and n % blocks == 0 else n  # the cases of the first block
-    if tol is None:
-        tol_case = np.full(n, _TOL_K)
+    if tol is None:  # the rating's own stop for every case
+        tol_case = None
     else:
         tol_case = np.full(n, float(tol[1]))
         tol_case[:first] = float(tol[0])
@@ -352,7 +352,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 else:  # the base case's stopping state, moved as the warm starts of the two differ
                     s_i = tuple(a + b for a, b in zip(rows[i % first], (start[:, i] - start[:, i % first]).tolist()))
                 rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                         s_i, last=hold, tol=float(tol_case[i])))
+                                         s_i, last=hold, tol=_TOL_K if tol_case is None else float(tol_case[i])))
                 lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
             S = np.array(rows, dtype=float).T.reshape(4, n)
             if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs
@@ -412,7 +412,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 wc = warm_case if full_set else warm_case[active]
                 if wc.any():
                     r = np.where(wc, np.maximum(r, np.maximum(np.abs(f[2]), np.abs(f[3]))), r)
-                conv = r < (tol_case if full_set else tol_case[active])
+                conv = r < (_TOL_K if tol_case is None else tol_case if full_set else tol_case[active])
                 # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
                 # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
                 # the step is halved at each change of sign, so that the case settles at the edge.
@@ -465,7 +465,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                             hold = []
                             S[:, i] = _iterate_one(
                                 functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                tol=float(tol_case[i]), walls=bool(warm_case[i]), last=hold,
+                                tol=_TOL_K if tol_case is None else float(tol_case[i]), walls=bool(warm_case[i]),
+                                last=hold,
                                 resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
                                         tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
                                         float(omega[i]), bool(damped[i])))
