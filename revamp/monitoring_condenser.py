@@ -160,6 +160,16 @@ def _solve_fouling(exchanger, service, c_side, k_side, curve, m_v, m_c, t_in, q,
     return _search_fouling(rated, q)
 
 
+def _pressure_bins(idx, p):
+    """The rows a plant-data reader rates: up to MAX_RATED_ROWS of the usable rows ``idx``, every ``step``-th and the
+    last, grouped in bins of PRESSURE_BIN in ln(p) (``p`` per row [Pa]). Returns ``(rated, step, [(rows, median
+    pressure of the bin), ...])``."""
+    step = max(1, int(np.ceil(idx.size / MAX_RATED_ROWS)))
+    rated = idx[::step] if idx[-1] in idx[::step] else np.append(idx[::step], idx[-1])
+    bins = np.round(np.log(p[rated]) / PRESSURE_BIN)
+    return rated, step, [(rated[bins == b], float(np.median(p[rated[bins == b]]))) for b in np.unique(bins)]
+
+
 def _search_fouling(rated, q):
     """The root in ``rf`` of ``rated(rows, rf).duty = q`` on [0, RF_MAX], every row at once (Illinois regula
     falsi). ``rated(rows, rf)`` rates the rows ``rows`` (indices) with total fouling ``rf`` (outside area)."""
@@ -289,12 +299,8 @@ def monitor_condenser(exchanger, service, t_out_coolant, *, condensing_pressure=
     U_rated, Uc_rated = np.full(ok.size, np.nan), np.full(ok.size, np.nan)
     area = None
     if idx.size:
-        step = max(1, int(np.ceil(idx.size / MAX_RATED_ROWS)))
-        rated = idx[::step] if idx[-1] in idx[::step] else np.append(idx[::step], idx[-1])
-        bins = np.round(np.log(flat["p"][rated]) / PRESSURE_BIN)
-        for b in np.unique(bins):
-            rows = rated[bins == b]
-            p_bin = float(np.median(flat["p"][rows]))
+        rated, step, bins = _pressure_bins(idx, flat["p"])
+        for rows, p_bin in bins:
             c = curve.at_pressure(p_bin)
             rf, U, Uc, area = _solve_fouling(exchanger, service, c_side, k_side, c, flat["mv"][rows], flat["m"][rows],
                                              flat["ti"][rows], flat["q"][rows], rating_kw)

@@ -14,8 +14,7 @@ import numpy as np
 import pandas as pd
 
 from .errors import InputError
-from .monitoring_condenser import (_FROM, MAX_RATED_ROWS, PRESSURE_BIN, RF_MAX, CondenserMonitoring, _dt_mean,
-                                   _search_fouling)
+from .monitoring_condenser import _FROM, RF_MAX, CondenserMonitoring, _dt_mean, _pressure_bins, _search_fouling
 from .monitoring_condenser_data import CondenserPlantMonitoring, _dew_points, _read_plant
 from .units import require, to_si
 
@@ -190,12 +189,8 @@ def monitor_air_condenser(exchanger, service, *, condensing_pressure=None, conde
     area = float(exchanger.area)
     to_surface = exchanger.tube_id / exchanger.tube_od
     if idx.size:
-        step = max(1, int(np.ceil(idx.size / MAX_RATED_ROWS)))
-        rated_rows = idx[::step] if idx[-1] in idx[::step] else np.append(idx[::step], idx[-1])
-        bins = np.round(np.log(flat["p"][rated_rows]) / PRESSURE_BIN)
-        for b in np.unique(bins):
-            rows = rated_rows[bins == b]
-            p_bin = float(np.median(flat["p"][rows]))
+        rated_rows, _, bins = _pressure_bins(idx, flat["p"])
+        for rows, p_bin in bins:
             c = curve.at_pressure(p_bin)
 
             def rated(sub, rf, rows=rows, c=c):
