@@ -54,7 +54,7 @@ from .rating_result import _SCALAR_FIELDS, LazyResistances, Rating, ResultFrames
 # train solver, the exchanger models and the tests that import them from this module
 from .rating_loop import (_ANDERSON_FROM, _MAX_ITER, _NO_DP, _SEAM_FROM, _SEAM_RE, _SEAM_STEP_K,  # noqa: F401
                           _TOL_K, _WARM_START, OutletMap, _below, _constant_props, _Eval, _head, _interp_float,
-                          _iterate_one, _near_seam, _near_seam_one, _reshape_fields, _tail, warm_start)
+                          _cold_at_seam, _iterate_one, _near_seam, _near_seam_one, _reshape_fields, _tail, warm_start)
 from .rating_shells import (_accepts, _bell_loop, _scaled_dp, _shell_flow_geometry,  # noqa: F401
                             _shell_side_by_type, arrangement)
 from .service import Service, Stream
@@ -229,6 +229,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     s_const, t_const = _constant_props(s_fluid), _constant_props(t_fluid)
     # a fluid's viscosity-only call (exactly its props().viscosity) for the wall temperatures, where it has one
     s_visc, t_visc = getattr(s_fluid, "viscosity_at", None), getattr(t_fluid, "viscosity_at", None)
+    # a fluid's unchecked array kernel for both at once (the same operations as props() and viscosity_at())
+    s_pair, t_pair = getattr(s_fluid, "_rating_props", None), getattr(t_fluid, "_rating_props", None)
 
     shell_kw_loop = {**shell_kw, "h_only": True} if bell_kernel else shell_kw
 
@@ -243,6 +245,9 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         tm_s, tm_t = 0.5 * (tsi + xs), 0.5 * (tti + xt)
         if s_const is not None:  # constant properties: the same floats at every temperature
             rho_s, cp_s, mu_s, k_s, mu_ws = s_const
+        elif s_pair is not None:  # the fluid's own kernel: props at the mean, the viscosity at the wall, in one call
+            rho_s, cp_s, mu_s, k_s, mu_ws = s_pair(np.minimum(np.maximum(tm_s, s_lo), s_hi),
+                                                   np.minimum(np.maximum(tws, s_lo), s_hi))
         elif s_visc is not None:  # the wall needs the viscosity only
             ps = s_fluid.props(np.minimum(np.maximum(tm_s, s_lo), s_hi))
             rho_s, cp_s, mu_s, k_s = (np.asarray(v, dtype=float) for v in (ps.density, ps.heat_capacity,
@@ -255,6 +260,9 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             mu_ws = _tail(ps.viscosity, na)
         if t_const is not None:
             rho_t, cp_t, mu_t, k_t, mu_wt = t_const
+        elif t_pair is not None:
+            rho_t, cp_t, mu_t, k_t, mu_wt = t_pair(np.minimum(np.maximum(tm_t, t_lo_f), t_hi_f),
+                                                   np.minimum(np.maximum(twt, t_lo_f), t_hi_f))
         elif t_visc is not None:
             pt = t_fluid.props(np.minimum(np.maximum(tm_t, t_lo_f), t_hi_f))
             rho_t, cp_t, mu_t, k_t = (np.asarray(v, dtype=float) for v in (pt.density, pt.heat_capacity,
@@ -352,7 +360,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 else:  # the base case's stopping state, moved as the warm starts of the two differ
                     s_i = tuple(a + b for a, b in zip(rows[i % first], (start[:, i] - start[:, i % first]).tolist()))
                 rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
-                                         s_i, last=hold, tol=_TOL_K if tol_case is None else float(tol_case[i])))
+                                         s_i, last=hold, tol=_TOL_K if tol_case is None else float(tol_case[i]),
+                                         warm=tol_case is None and s_i is not None))
                 lasts.append(hold[0] if hold else evaluate_one(i, *rows[-1])[::2])  # (G, extra) where it stopped
             S = np.array(rows, dtype=float).T.reshape(4, n)
             if outlets_only and not with_dp:  # the float evaluation has every number an outlet map needs
@@ -388,9 +397,19 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         # blocks start from the states their cases of the first block stopped at (as on the float path): a few
         # steps each instead of the first block's many
         chained = blocks > 1 and first < n and first >= _CHAIN_CASES
-        for stage in ((np.arange(first), np.arange(first, n)) if chained else (np.arange(n),)):
+        # a warm-started case that met a seam on the way is iterated again from its inlets, in a last stage (see
+        # _cold_at_seam): where a rating may be final, a warm start changes only the number of iterations
+        met = np.zeros(n, dtype=bool)
+        stages = [("base", np.arange(first)), ("probes", np.arange(first, n))] if chained else [("all", np.arange(n))]
+        for k_stage, (kind_stage, stage) in enumerate(stages):
             active = stage
-            if chained and stage[0] == first:
+            if kind_stage == "cold":
+                S[0, stage], S[1, stage] = ts_in[stage], tt_in[stage]
+                S[2, stage] = S[3, stage] = 0.5 * (ts_in[stage] + tt_in[stage])
+                f_prev[:, stage], g_prev[:, stage] = 0.0, 0.0
+                r_prev[stage], s_prev[stage], omega[stage] = np.inf, 0.0, 1.0
+                damped[stage], warm_case[stage], have[stage] = False, False, False
+            if kind_stage == "probes":
                 base = stage % first
                 moved = np.zeros((4, stage.size)) if start is None else start[:, stage] - start[:, base]
                 moved = np.where(np.isfinite(moved), moved, 0.0)
@@ -418,6 +437,11 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 # the step is halved at each change of sign, so that the case settles at the edge.
                 edge = _near_seam(ev.shell.Re) if seams else None
                 any_edge = edge is not None and bool(edge.any())
+                if any_edge:
+                    if full_set:
+                        met |= edge
+                    else:
+                        met[active] |= edge
                 s_now = np.sign(f[1])
                 if any_edge and it >= _SEAM_FROM:
                     flip = edge & (s_now * sp < 0) & (r > 0.7 * rp)
@@ -466,7 +490,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                             S[:, i] = _iterate_one(
                                 functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
                                 tol=_TOL_K if tol_case is None else float(tol_case[i]), walls=bool(warm_case[i]),
-                                last=hold,
+                                warm=tol_case is None and bool(warm_case[i]), met=bool(met[i]), last=hold,
                                 resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
                                         tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
                                         float(omega[i]), bool(damped[i])))
@@ -475,6 +499,10 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                     except (ValueError, ZeroDivisionError, OverflowError):  # carry on with the arrays (NaN there)
                         continue
                     break
+            if seams and kind_stage != "cold" and k_stage == len(stages) - 1:
+                cold = np.flatnonzero(_cold_at_seam(warm_case, met, tol_case))
+                if cold.size:
+                    stages.append(("cold", cold))
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
         # pressure drops the iteration did not need (an outlet map without them has its numbers already)

@@ -166,6 +166,17 @@ def test_viscosity_only_call_equals_props_viscosity_exactly(kind, fluid, temps):
     assert fluid.viscosity_at(f"{temps[0] - 273.15} degC") == fluid.props(f"{temps[0] - 273.15} degC").viscosity
 
 
+@pytest.mark.parametrize("fluid", [CRUDE_P, RESID_P, KERO_P], ids=["crude", "residue", "kerosene"])
+def test_rating_kernel_of_a_petroleum_fraction_equals_props_and_viscosity_at_exactly(fluid):
+    t_mean = np.linspace(fluid.t_min, fluid.t_max - 1.0, 37)
+    t_wall = t_mean[::-1] + 0.25
+    rho, cp, mu, k, mu_w = fluid._rating_props(t_mean, t_wall)
+    p = fluid.props(t_mean)
+    for got, want in ((rho, p.density), (cp, p.heat_capacity), (mu, p.viscosity), (k, p.conductivity)):
+        np.testing.assert_array_equal(got, want)
+    np.testing.assert_array_equal(mu_w, fluid.viscosity_at(t_wall))
+
+
 @pytest.mark.parametrize("fluid", [RESID_P, rv.fluids.water("10 bar")], ids=["petroleum", "coolprop"])
 def test_viscosity_only_call_refuses_what_props_refuses(fluid):
     too_hot = fluid.tc + 5.0 if hasattr(fluid, "tc") else fluid.t_max + 5.0  # not a liquid there
@@ -313,3 +324,59 @@ def test_outlet_map_from_the_stopping_evaluations_equals_a_last_evaluation(n):
     for name in ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube", "effectiveness", "C_shell", "C_tube"):
         np.testing.assert_allclose(getattr(kept, name), getattr(again, name), rtol=1e-13, atol=0)
     assert np.all(np.isnan(kept.dp_tube)) and np.all(np.isfinite(again.dp_tube))
+
+
+@pytest.mark.parametrize("n", [6, 300], ids=["float path", "array path"])
+@pytest.mark.parametrize("edge", [100.0, 1000.0])
+def test_warm_started_case_near_a_seam_settles_exactly_as_from_its_inlets(monkeypatch, n, edge):
+    # shell-side Re across a band edge of Taborek's fits (10^k): a warm-started case that met the edge on the way is
+    # iterated again from its inlets, so that a rating that may be final does not depend on where it started
+    ex = hx(420)
+    def service(flows):
+        return rv.Service(shell=rv.Stream(RESID_P, flows, 580.0), tube=rv.Stream(CRUDE_P, 60.0, 450.0),
+                          fouling_shell=3e-4, fouling_tube=5e-4)
+
+    m = 10.0
+    for _ in range(3):  # Re is nearly proportional to the flow: a flow that puts Re at the edge
+        m *= edge / rv.rate(ex, service(m)).Re_shell
+    svc = service(m * np.linspace(0.97, 1.08, n))
+    cold = rv.rate(ex, svc)
+    near = rating_mod._near_seam(cold.Re_shell)
+    assert np.count_nonzero(near) >= 2
+    state = np.stack([cold.t_out_shell + 0.3, cold.t_out_tube - 0.3, cold.t_wall_shell + 2.0,
+                      cold.t_wall_tube - 2.0])
+    with rating_mod.warm_start(state):
+        warm = rv.rate(ex, svc)
+    np.testing.assert_array_equal(warm.t_out_tube[near], cold.t_out_tube[near])
+    np.testing.assert_array_equal(warm.t_out_shell[near], cold.t_out_shell[near])
+    # elsewhere within the rating's 1e-6 K steps of the rating from the inlets
+    np.testing.assert_allclose(warm.t_out_tube, cold.t_out_tube, rtol=0, atol=1e-5)
+    # the rule is what makes them equal: without it the warm start settles the same cases elsewhere
+    monkeypatch.setattr(rating_mod, "_cold_at_seam", lambda warm_case, met, tol_case: np.zeros_like(warm_case))
+    one = rating_mod._iterate_one
+    monkeypatch.setattr(rating_mod, "_iterate_one", lambda *a, **kw: one(*a, **{**kw, "warm": False}))
+    with rating_mod.warm_start(state):
+        plain = rv.rate(ex, svc)
+    assert not np.array_equal(plain.t_out_tube[near], cold.t_out_tube[near])
+
+
+def test_sweep_closing_pass_starts_warm_and_gives_the_same_solution(monkeypatch):
+    flows = np.linspace(40.0, 90.0, 30)
+    warm = interlinked(flows).solve()
+    # the plain form: the closing pass rated from the inlets, as rate() alone does
+    real = sv._rate_all
+
+    def cold_closing(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None):
+        if tol is None and not probe:
+            warm = None
+        return real(plan, x, idx, probe=probe, starts=starts, outlets_only=outlets_only, warm=warm, tol=tol)
+
+    monkeypatch.setattr(sv, "_rate_all", cold_closing)
+    cold = interlinked(flows).solve()
+    assert np.all(warm.converged) and np.all(cold.converged)
+    for col in ("t_out_shell", "t_out_tube"):  # each rating within its 1e-6 K steps of the other [K]
+        np.testing.assert_allclose(warm.exchangers[col].to_numpy(float), cold.exchangers[col].to_numpy(float),
+                                   rtol=0, atol=1e-5)
+    # duties of a few MW: 1e-5 K on a stream of ~150 kW/K is a few watts
+    np.testing.assert_allclose(warm.exchangers["duty"].to_numpy(float), cold.exchangers["duty"].to_numpy(float),
+                               rtol=1e-6, atol=0)

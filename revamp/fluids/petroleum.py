@@ -77,6 +77,7 @@ TR_DENSITY, TR_CP, TR_CONDUCTIVITY = 0.90, 0.85, 0.80
 # ASTM D341 chart range [cSt] (from memory)
 NU_MIN_CST, NU_MAX_CST = 0.21, 2.0e7
 _LOGLOG_MAX = math.log10(math.log10(NU_MAX_CST + 0.7))
+_LN10 = math.log(10.0)
 
 
 def riazi_daubert_1980(tb, sg):
@@ -121,9 +122,9 @@ def _d341_z(nu_cst):
 
 
 def _d341_nu(z):
-    """ASTM D341 kinematic viscosity [cSt] from Z (the standard's inverse)."""
+    """ASTM D341 kinematic viscosity [cSt] from Z (the standard's inverse; its cubic in Horner's form)."""
     x = z - 0.7
-    return x - np.exp(-0.7487 - 3.295 * x + 0.6119 * x ** 2 - 0.3193 * x ** 3)
+    return x - np.exp(-0.7487 + x * (-3.295 + x * (0.6119 - 0.3193 * x)))
 
 
 @dataclass(frozen=True)
@@ -179,7 +180,7 @@ class PetroleumFluid:
 
     def density(self, T):
         """Density [kg/m³] at ``T`` [K] (Rackett / Spencer-Danner, anchored at ρ60)."""
-        tr = np.asarray(T, dtype=float) / self.tc
+        tr = np.asarray(T, dtype=float) * (1.0 / self.tc)
         tr60 = T_60F / self.tc
         return self.rho60 * self.z_ra ** ((1.0 - tr60) ** (2.0 / 7.0) - (1.0 - tr) ** (2.0 / 7.0))
 
@@ -195,17 +196,14 @@ class PetroleumFluid:
     def conductivity(self, T):
         """Liquid conductivity [W/m/K] at ``T`` [K] (Cragoe at 100 °F, Latini's temperature function)."""
         k100 = 0.813 / self.sg * (1.0 - 0.0003 * (100.0 - 32.0)) * BTU_IN_H_FT2_F
-
-        def shape(t):
-            tr = t / self.tc
-            return (1.0 - tr) ** 0.38 / tr ** (1.0 / 6.0)
-
-        return k100 * shape(np.asarray(T, dtype=float)) / shape(T_100F)
+        tr100 = T_100F / self.tc
+        tr = np.asarray(T, dtype=float) * (1.0 / self.tc)
+        return (k100 / ((1.0 - tr100) ** 0.38 / tr100 ** (1.0 / 6.0))) * ((1.0 - tr) ** 0.38 / tr ** (1.0 / 6.0))
 
     def kinematic_viscosity(self, T):
         """Kinematic viscosity [m²/s] at ``T`` [K] (ASTM D341, held at the chart's 2e7 cSt top)."""
         y = np.minimum(self.walther_a - self.walther_b * np.log10(np.asarray(T, dtype=float)), _LOGLOG_MAX)
-        return _d341_nu(10.0 ** (10.0 ** y)) * 1e-6
+        return _d341_nu(np.exp(np.exp(y * _LN10) * _LN10)) * 1e-6  # Z = 10^(10^y)
 
     def props(self, T) -> Props:
         """Density [kg/m³], heat capacity [J/kg/K], viscosity [Pa s], conductivity [W/m/K] at ``T`` [K].
@@ -227,6 +225,16 @@ class PetroleumFluid:
         if scalar:
             return Props(float(rho), float(cp), float(mu), float(k))
         return Props(rho, cp, mu, k)
+
+    def _rating_props(self, t_mean, t_wall):
+        """``props(t_mean)`` and ``viscosity_at(t_wall)`` as ``(ρ, cp, μ, k, μ_wall)`` arrays in one call, the same
+        operations without their checks: the rating loop's kernel, whose temperatures are finite and already held
+        within ``t_min``..``t_max`` (below the pseudo-critical temperature). Internal."""
+        n = t_mean.size
+        both = np.concatenate((t_mean, t_wall))  # density and viscosity at both in one pass
+        rho = self.density(both)
+        mu = self.kinematic_viscosity(both) * rho
+        return rho[:n], self.heat_capacity(t_mean), mu[:n], self.conductivity(t_mean), mu[n:]
 
     def viscosity_at(self, T):
         """Dynamic viscosity alone [Pa s] at ``T`` [K]: exactly ``props(T).viscosity`` (the same operations), without

@@ -19,8 +19,10 @@ outlets at these inlets, each wall kept at its place between the two mean temper
 (5 K on the first pass, 2.5e-4 K on a probing one: derivatives to about 1 %, which keeps the Newton step's
 convergence); a case converges only on a pass rated to the rating's own 1e-6 K step, and a one-case
 solve's closing pass rates from the inlets exactly as ``rate()`` does, so that its result is the Rating a user
-gets there. A sweep's cases that finished on different passes are rated once more, each from the state its last
-rating stopped at (within the rating's 1e-6 K step of a rating from the inlets).
+gets there. A sweep's closing pass starts from the predicted state as well (its inlets moved by little more than
+tol since the last pass), and a sweep's cases that finished on different passes are rated once more the same way:
+each case stops at the rating's own step, walls included (within it of a rating from the inlets), and a case that
+met a seam of Taborek's fits on the way is iterated again from its inlets (see ``rating_loop._cold_at_seam``).
 
 An air cooler (a match with :class:`~revamp.train.AirSide`) takes the shell side's two ports for its air: the air
 inlet is tied to the stated ambient (a fixed input, like a stream's supply), the air outlet is the rated mixed outlet;
@@ -475,8 +477,8 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         elif intermediate:
             # a chord pass: its step is already near the solution; its ratings keep the rating's own stop
             loose, warm = ((_PROBE_TOL, _PROBE_TOL) if probe else (_TOL_K, _TOL_K)), maps
-        else:
-            loose, warm = None, None
+        else:  # a sweep's closing pass starts from the predicted state too (a one-case solve's from its inlets)
+            loose, warm = None, (maps if plan.ncase > _FLOAT_CASES else None)
         ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass, warm=warm, tol=loose)
         rated_all = idx.size == plan.ncase
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
