@@ -82,6 +82,50 @@ def test_reduced_linear_solve_flags_the_same_bad_cases():
     np.testing.assert_allclose(reduced[~bad_r], dense[~bad_d], rtol=0, atol=1e-9)
 
 
+@pytest.mark.parametrize("make", [interlinked, split_bypass])
+@pytest.mark.parametrize("probe", [0.0, sv._PROBE_K])
+def test_sparse_elimination_equals_lapack_on_network_systems(monkeypatch, make, probe):
+    from revamp.train import linear as lin
+
+    tr = make(np.linspace(40.0, 90.0, 80))
+    plan = sv._Plan(tr)
+    idx = np.arange(plan.ncase)
+    x = sv._initial(plan) + np.random.default_rng(3).uniform(0.0, 15.0, (plan.ncase, plan.n))
+    linear, newton = sv._coefficients(sv._rate_all(plan, x, idx, probe=probe), x, plan, idx.size, probe)
+    systems = []
+    real = lin._solve_cases
+    monkeypatch.setattr(lin, "_solve_cases", lambda A, b: systems.append((A.copy(), b.copy())) or real(A, b))
+    for coefs in filter(None, (linear, newton)):
+        sv._linear_solve(plan, x, coefs, idx)
+    assert systems
+    for A, b in systems:
+        got, weak = lin._sparse_solve(A.copy(), b.copy())
+        assert not weak.any()
+        want = np.linalg.solve(A, b[..., None])[..., 0]  # LAPACK (numpy.linalg), an independent solver
+        np.testing.assert_allclose(got, want, rtol=1e-12, atol=0)
+
+
+def test_sparse_elimination_sends_a_vanishing_pivot_to_the_dense_solve():
+    from revamp.train import linear as lin
+
+    rng = np.random.default_rng(11)
+    nc, m = 100, 6
+    A = np.eye(m) - 0.15 * rng.uniform(0.0, 1.0, (nc, m, m)) * (rng.uniform(size=(1, m, m)) < 0.4)
+    A[7, 0, :] = [0.0, 1.0, 0.0, 0.0, 0.0, 0.0]  # case 7: a zero on the diagonal, nonsingular by rows
+    A[7, 1, :] = [1.0, 0.0, 0.0, 0.0, 0.0, 0.0]
+    b = rng.uniform(300.0, 600.0, (nc, m))
+    want = np.linalg.solve(A, b[..., None])[..., 0]
+    _, weak = lin._sparse_solve(A.copy(), b.copy())
+    assert weak[7]
+    got, bad = lin._solve_cases(A.copy(), b.copy())
+    assert not bad.any()
+    np.testing.assert_allclose(got, want, rtol=1e-12, atol=0)
+    A[3, 2, 2] = np.nan  # a map that is not finite: NaN for that case only, flagged
+    got, bad = lin._solve_cases(A.copy(), b.copy())
+    assert bad.tolist() == [i == 3 for i in range(nc)] and np.isnan(got[3]).all()
+    np.testing.assert_allclose(np.delete(got, 3, axis=0), np.delete(want, 3, axis=0), rtol=1e-12, atol=0)
+
+
 def _service(ts, tt, n=1):
     return rv.Service(shell=rv.Stream(RESID_P, np.full(n, 30.0), ts), tube=rv.Stream(CRUDE_P, np.full(n, 60.0), tt),
                       fouling_shell=np.full(n, 5e-4), fouling_tube=np.full(n, 7e-4))
