@@ -148,3 +148,34 @@ def test_warm_start_changes_only_the_iterations(n):
         assert a[0] == b[0]  # the NaN start: the cold path
     with warm_start(np.zeros((4, n + 1))):  # a state that does not fit the cases is ignored
         assert np.array_equal(np.atleast_1d(rv.rate(hx, svc).duty), np.atleast_1d(cold.duty))
+
+
+@pytest.mark.parametrize("band", [(1.3e4, 9e4), (3e2, 7e2), (3.0, 7.0), (2e5, 6e6), (13.0, 70.0)])
+def test_one_band_shortcut_of_the_ideal_bank_fits_equals_the_general_path(band):
+    # the same values computed alone (one band, away from the edges: the shortcut) and beside values at every band
+    # edge (the general path with its per-case band lookup and blends): identical numbers
+    from revamp.correlations import shell_bell_fits as fits
+
+    lr = np.log(np.geomspace(*band, 41))
+    assert fits._band_away_from_edges(float(lr.min()), float(lr.max())) is not None
+    mixed = np.concatenate([lr, np.log([10.0, 100.0, 1e3, 1e4, 1.1e3])])
+    assert fits._band_away_from_edges(float(mixed.min()), float(mixed.max())) is None
+    for layout in (30, 45, 90):
+        pair = (fits._fit_coefficients(layout, "j"), fits._fit_coefficients(layout, "f"))
+        alone = fits._fit_ln(lr, -0.05, pair)
+        beside = fits._fit_ln(mixed, -0.05, pair)
+        for a, b in zip(alone, beside):
+            np.testing.assert_array_equal(a, b[:lr.size])
+
+
+def test_one_regime_shortcut_of_the_tube_nusselt_kernel_equals_the_blend():
+    # all turbulent or all laminar: only that correlation is evaluated; beside a transitional case (the blend of
+    # both, weights exactly 0 and 1 outside the transition) the same numbers come out
+    pr = np.linspace(3.0, 60.0, 30)
+    for re in (np.geomspace(1e4, 3e5, 30), np.geomspace(50.0, 2300.0, 30)):
+        alone = tube_corr._nu_tube_kernel(re, pr, 0.003, "sieder-tate")
+        beside = tube_corr._nu_tube_kernel(np.append(re, 5000.0), np.append(pr, 10.0), 0.003, "sieder-tate")
+        np.testing.assert_array_equal(alone, beside[:-1])
+        want = (tube_corr.nu_gnielinski(re, pr, d_over_L=0.003) if re[0] >= 1e4
+                else tube_corr.nu_sieder_tate(re, pr, 0.003))
+        np.testing.assert_array_equal(alone, want)

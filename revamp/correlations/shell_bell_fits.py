@@ -118,6 +118,23 @@ def _fit_coefficients(layout, kind):
     return np.log(np.asarray(c[k1], dtype=float)), np.asarray(c[k2], dtype=float), float(c[k3]), float(c[k4])
 
 
+def _band_away_from_edges(lo, hi):
+    """The band of :func:`_fit_ln` shared by every ``ln Re`` in ``[lo, hi]`` when none of them lies in an edge's
+    blend (then the band's own fit applies to all), else None. The bands are monotonic in ln Re and the blends are
+    disjoint intervals around the edges: two ends in one band, each outside a blend, leave every value between them
+    in that band and outside every blend (NaN: None)."""
+    bands, near = [], False
+    for lr in (lo, hi):
+        if not math.isfinite(lr):
+            return None
+        t = lr * (1.0 / math.log(10.0))
+        bands.append(int(min(max(t, 0.0), 4.0)))
+        edge = int(min(max(float(np.rint(t)) - 1.0, 0.0), len(_EDGES) - 1.0))
+        u = 0.5 + (lr - float(_LN_EDGES[edge])) / _HALF_BAND
+        near = near or 0.0 < u < 1.0
+    return bands[0] if bands[0] == bands[1] and not near else None
+
+
 def _fit_ln(lr, ln_ratio, fits):
     """The logarithms of ideal-bank fits (:func:`_fit`) from ``lr = ln Re`` and ``ln_ratio = ln(1.33/(Pt/do))``:
     ``ln c1 + c2 ln Re + a ln_ratio`` with ``a = c3 / (1 + 0.14 Re^c4)``, blended across the band edges as
@@ -128,6 +145,11 @@ def _fit_ln(lr, ln_ratio, fits):
     rounding of an edge, where the blend replaces the band's value anyway."""
     shape = np.shape(lr)
     lr = np.reshape(lr, -1)
+    if lr.size:  # every case in one band and away from its edges (the usual sweep): one band's constants
+        b = _band_away_from_edges(float(lr.min()), float(lr.max()))
+        if b is not None:
+            return [(ln_c1[b] + c2[b] * lr + c3 / (1.0 + 0.14 * np.exp(c4 * lr)) * ln_ratio).reshape(shape)
+                    for ln_c1, c2, c3, c4 in fits]
     t = lr * (1.0 / math.log(10.0))
     band = np.fmin(np.fmax(t, 0.0), 4.0).astype(np.intp)  # floor for t >= 0 (fmax/fmin: NaN gives band 0)
     edge = np.fmin(np.fmax(np.rint(t) - 1.0, 0.0), len(_EDGES) - 1.0).astype(np.intp)

@@ -475,7 +475,14 @@ def tube_side_warnings(Re, Pr, mu_ratio=None, insert=None) -> list[str]:
 def _nu_tube_kernel(Re, Pr, dl, laminar):
     """:func:`nu_tube` on float arrays with one evaluation of each correlation: the laminar form at min(Re, 2300)
     and Gnielinski at max(Re, 1e4) are the blend's end values inside the transition and the values themselves
-    outside it, where the weight is 0 or 1."""
+    outside it, where the weight is 0 or 1. Where every case lies on one side of the transition, only that side's
+    correlation is evaluated (the blend's weights are then exactly 0 and 1: the same numbers)."""
+    if isinstance(Re, np.ndarray) and Re.size:
+        lo, hi = float(Re.min()), float(Re.max())
+        if lo >= RE_TURBULENT:
+            return nu_gnielinski(Re, Pr, d_over_L=dl)
+        if hi <= RE_LAMINAR:
+            return LAMINAR_METHODS[laminar](Re, Pr, dl)
     g = np.clip((Re - RE_LAMINAR) / (RE_TURBULENT - RE_LAMINAR), 0.0, 1.0)
     lam = LAMINAR_METHODS[laminar](np.minimum(Re, RE_LAMINAR), Pr, dl)
     turb = nu_gnielinski(np.maximum(Re, RE_TURBULENT), Pr, d_over_L=dl)
