@@ -22,7 +22,8 @@ with a warning). Numbers outside a correlation's published range come back with 
 
 The loop's state and steps (tolerances, :func:`warm_start`, the one-case float iteration, :class:`OutletMap`) live in
 :mod:`revamp.rating_loop`; what each TEMA shell type means (:func:`arrangement`, the shell-side adaptation) in
-:mod:`revamp.rating_shells`. Both are re-exported here.
+:mod:`revamp.rating_shells`, both re-exported here; the range checks and warnings of the final evaluation in
+:mod:`revamp.rating_checks`.
 
 References
 ----------
@@ -49,6 +50,7 @@ from .correlations import shell_bell
 from .correlations import tube as tube_corr
 from .errors import InputError
 from .resistance import TUBE_LAYERS, tube_resistances
+from .rating_checks import out_of_range, rating_warnings
 from .rating_result import _SCALAR_FIELDS, LazyResistances, Rating, ResultFrames  # noqa: F401  (re-exported)
 # the loop's state and steps live in rating_loop, the TEMA shell types in rating_shells; re-exported here for the
 # train solver, the exchanger models and the tests that import them from this module
@@ -517,22 +519,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))
     unsettled = residual > _SETTLED_K
 
-    # ---- cases that leave a fluid's liquid range at an inlet or an outlet
-    invalid = np.zeros(n, dtype=bool)
-    range_msgs = []
-    for side, fluid, t_i, t_o in (("shell", s_fluid, ts_in, to_s), ("tube", t_fluid, tt_in, to_t)):
-        out = (np.minimum(t_i, t_o) < fluid.t_min) | (np.maximum(t_i, t_o) >= fluid.t_max)
-        if out.any():
-            t_bad = np.where(t_o >= fluid.t_max, t_o, np.where(t_i >= fluid.t_max, t_i, np.minimum(t_i, t_o)))
-            if shape == ():
-                where = "outlet" if fluid.t_min <= t_i[0] < fluid.t_max else "inlet"
-                raise InputError(f"service.{side}", f"{fluid.name} at its {where}, {float(t_bad[0]):.1f} K",
-                                 f"within the fluid's single-phase range {fluid.t_min:.1f}..{fluid.t_max:.1f} K "
-                                 "(the stream would boil or freeze: this rating does not apply)")
-            invalid |= out
-            range_msgs.append(f"{side} side: {int(np.sum(out))} case(s) would leave the single-phase range of "
-                              f"{fluid.name} ({fluid.t_min:.1f}..{fluid.t_max:.1f} K) at an inlet or an outlet; "
-                              "their results are NaN")
+    # ---- cases that leave a fluid's liquid range at an inlet or an outlet (a single case raises)
+    invalid, range_msgs = out_of_range(s_fluid, t_fluid, ts_in, tt_in, to_s, to_t, shape)
 
     if outlets_only:
         bad = np.where(invalid, np.nan, 0.0)
@@ -552,35 +540,9 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     undefined = ~np.isfinite(F) & ~invalid & ~same
     F = np.where(np.isfinite(F), F, np.nan)
 
-    warnings = [f"geometry: {note}" for note in getattr(hx, "notes", ())] + notes
-    tube_warnings = tube_corr.tube_side_warnings(ev.tube.Re, ev.tube.Pr, ev.mu_ratio_t, insert)
-    shell_warnings = (shell_bell.bell_delaware_warnings(geom, ev.shell.Re, ev.shell.Jl, ev.shell.Jb) if bell_kernel
-                      else list(ev.shell.warnings))
-    warnings += tube_warnings + shell_warnings
-    ok = ~invalid
-    for side, fluid, temps in (("shell", s_fluid, (ts_in, to_s)), ("tube", t_fluid, (tt_in, to_t))):
-        warnings += [f"{side} side: {w}" for w in fluid.check(np.concatenate([t[ok] for t in temps]))]
-    for side, fluid, tw in (("shell", s_fluid, ev.tw_s), ("tube", t_fluid, ev.tw_t)):
-        hi_, lo_ = np.any(tw[ok] > _below(fluid.t_max)), np.any(tw[ok] < fluid.t_min)
-        if hi_ or lo_:
-            warnings.append(f"{side} side: wall temperature outside the range of {fluid.name} "
-                            f"({fluid.t_min:.1f}..{fluid.t_max:.1f} K); wall viscosity taken at the range limit"
-                            + ("; local boiling or cracking at the wall is possible" if hi_ else
-                               "; freezing or waxing at the wall is possible"))
-    if np.any(unsettled & ok):
-        worst = float(np.max(residual[ok]))
-        if shape == ():
-            warnings.append(f"property iteration: outlet temperatures settled only to within {worst:.2g} K "
-                            "(a correlation changes form near this flow)")
-        else:
-            warnings.append(f"property iteration: {int(np.sum(unsettled & ok))} case(s) settled only to within "
-                            f"{worst:.2g} K (a correlation changes form near these flows)")
-    if np.any(undefined):
-        warnings.append(f"F and LMTD: {int(np.sum(undefined))} case(s) with a temperature approach below "
-                        "floating-point resolution: F is undefined there (NaN); the duty is eps Cmin dTmax")
-    if np.any(same & ok) and shape != ():
-        warnings.append(f"{int(np.sum(same))} case(s) with equal inlet temperatures: no driving force, zero duty")
-    warnings += range_msgs
+    warnings, tube_warnings, shell_warnings = rating_warnings(
+        hx, notes, ev, insert, geom, bell_kernel, s_fluid, t_fluid, (ts_in, to_s, tt_in, to_t), invalid, unsettled,
+        residual, undefined, same, shape, range_msgs)
 
     U_clean = 1.0 / (ev.R[0] + ev.R[2] + ev.R[4])  # the same films and wall, no deposit
     res_cols = {name: np.broadcast_to(v, (n,)) for name, v in zip(TUBE_LAYERS, ev.R)}
