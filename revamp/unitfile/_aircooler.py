@@ -228,10 +228,14 @@ _QUANTITIES = {
 }
 
 
-def _quantity_problems(section: dict, name: str, where: str, problems: list):
+def _quantity_problems(section: dict, name: str, where: str, problems: list, table=None) -> dict:
+    """Every quantity of ``section`` (the fields of ``table[name]``, default this module's) in SI, one float each;
+    a field that is not one value of its kind, or is below its lower bound, is left out with its problem appended.
+    (``to_si`` refuses NaN and infinity.)"""
     from ..units import to_si
 
-    for key, (kind, low, strict) in _QUANTITIES[name].items():
+    out = {}
+    for key, (kind, low, strict) in (_QUANTITIES if table is None else table)[name].items():
         if key not in section:
             continue
         try:
@@ -244,6 +248,9 @@ def _quantity_problems(section: dict, name: str, where: str, problems: list):
         elif low is not None and (v <= low if strict else v < low):
             problems.append(Problem(f"{where}.{key}", _show(section[key]), f"must be {'>' if strict else '>='} "
                                     f"{low:g} (SI)"))
+        else:
+            out[key] = v
+    return out
 
 
 def _plant_file(spec: dict, where: str, base, problems: list):

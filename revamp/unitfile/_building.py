@@ -399,6 +399,23 @@ def _economics(econ: UnitEconomics, capex: dict, capacity_flow, value_basis=None
     return Economics(**fields)
 
 
+def _tema_to_shell_type(geo: dict, where: str, problems: list) -> dict:
+    """A copy of a geometry section with its ``tema_type`` (if any) read as ``shell_type``: the middle letter of a
+    three-letter TEMA designation; any other designation is a problem at ``where.tema_type``."""
+    from .. import geometry
+
+    g = dict(geo)
+    tema = g.pop("tema_type", None)
+    if tema is not None:
+        code = str(tema).strip().upper()
+        if len(code) == 3 and code[1] in geometry.SHELL_TYPES:
+            g["shell_type"] = code[1]
+        else:
+            problems.append(Problem(f"{where}.tema_type", str(tema), "must be a three-letter TEMA designation whose "
+                                    f"shell letter (the middle one) is one of {', '.join(geometry.SHELL_TYPES)}"))
+    return g
+
+
 def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
                      econ: UnitEconomics, refused=frozenset()) -> ExchangerCase | None:
     """The exchanger's model objects, or None when any of its inputs is wrong. An option that is wrong (``refused``:
@@ -408,15 +425,7 @@ def _build_exchanger(i: int, x: dict, si: dict, base: Path, problems: list,
     from .. import service as rating
 
     start, pre = len(problems), f"exchangers[{i}]"
-    g = dict(si["geometry"])
-    tema = g.pop("tema_type", None)
-    if tema is not None:  # the middle letter of a TEMA designation is the shell type
-        code = str(tema).strip().upper()
-        if len(code) == 3 and code[1] in geometry.SHELL_TYPES:
-            g["shell_type"] = code[1]
-        else:
-            problems.append(Problem(f"{pre}.geometry.tema_type", str(tema), "must be a three-letter TEMA designation "
-                                    f"whose shell letter (the middle one) is one of {', '.join(geometry.SHELL_TYPES)}"))
+    g = _tema_to_shell_type(si["geometry"], f"{pre}.geometry", problems)
     exchanger = _guard(problems, f"{pre}.geometry", lambda: geometry.ShellAndTube(**g, tag=x["tag"]))
     streams = {}
     for side in ("shell", "tube"):

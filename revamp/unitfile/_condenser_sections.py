@@ -31,25 +31,7 @@ _QUANTITIES = {
 
 def _quantities(section: dict, name: str, where: str, problems: list) -> dict:
     """Every quantity of ``section`` in SI (fields with problems left out, their problems appended)."""
-    from ..units import to_si
-
-    out = {}
-    for key, (kind, low, strict) in _QUANTITIES[name].items():
-        if key not in section:
-            continue
-        try:
-            v = to_si(section[key], kind, key)
-        except InputError as exc:
-            problems.append(Problem(f"{where}.{key}", _show(section[key]), f"must be {exc.allowed}"))
-            continue
-        if not isinstance(v, float) or not np.isfinite(v):
-            problems.append(Problem(f"{where}.{key}", _show(section[key]), "must be one finite value (not a list)"))
-        elif low is not None and (v <= low if strict else v < low):
-            problems.append(Problem(f"{where}.{key}", _show(section[key]),
-                                    f"must be {'>' if strict else '>='} {low:g} (SI)"))
-        else:
-            out[key] = v
-    return out
+    return _quantity_problems(section, name, where, problems, table=_QUANTITIES)
 
 
 def _read_curve(file: str, units: dict, where: str, base, problems: list):
@@ -188,15 +170,9 @@ def _shell_and_tube(geo: dict, tag, where: str, problems: list):
     allowed = set(schema()["$defs"]["geometry"]["properties"])
     before = len(problems)
     _unknown(geo, allowed, where, problems)
-    g = dict(geo)
-    tema = g.pop("tema_type", None)
-    if tema is not None:
-        code = str(tema).strip().upper()
-        if len(code) == 3 and code[1] in geometry.SHELL_TYPES:
-            g["shell_type"] = code[1]
-        else:
-            problems.append(Problem(f"{where}.tema_type", str(tema), "must be a three-letter TEMA designation whose "
-                                    f"shell letter (the middle one) is one of {', '.join(geometry.SHELL_TYPES)}"))
+    from ._building import _tema_to_shell_type
+
+    g = _tema_to_shell_type(geo, where, problems)
     if len(problems) > before:
         return None
     return _guard(problems, where, lambda: geometry.ShellAndTube(**g, tag=str(tag)))
