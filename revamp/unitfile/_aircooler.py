@@ -52,6 +52,15 @@ from ..errors import InputError
 from ._model import Problem
 from ._reading import _show
 
+#: How a plant-data file is written (the schema of the reading-dialect fields every plant_data section shares).
+_DIALECT_SCHEMA = {
+    "delimiter": {"enum": [",", ";", "\t", "|"]},
+    "decimal": {"enum": [".", ","]},
+    "timestamp_format": {"type": "string", "minLength": 2},
+    "dayfirst": {"type": "boolean"},
+    "timezone": {"type": "string", "minLength": 1},
+}
+
 __all__ = ["AIR_COOLER_KIND", "AIR_COOLER_SCHEMA", "AIR_PLANT_COLUMNS", "AirCoolerCase", "AirPlantData",
            "air_cooler_problems", "build_air_cooler"]
 
@@ -131,11 +140,7 @@ AIR_COOLER_SCHEMA = {
                 "steady": {"type": ["object", "boolean"], "additionalProperties": False,
                            "properties": {"window": _Q, "flow_rsd": _Q, "t_range": _Q,
                                           "min_rows": {"type": "integer", "minimum": 1}}},
-                "delimiter": {"enum": [",", ";", "\t", "|"]},
-                "decimal": {"enum": [".", ","]},
-                "timestamp_format": {"type": "string", "minLength": 2},
-                "dayfirst": {"type": "boolean"},
-                "timezone": {"type": "string", "minLength": 1},
+                **_DIALECT_SCHEMA,
             },
         },
     },

@@ -8,6 +8,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from ._aircooler import _DIALECT_SCHEMA
+
 CONDENSER_KIND = "condenser"
 EXCHANGER_TYPES = ("shell and tube", "air cooler")
 _ENTRY = {"tag", "kind", "description", "exchanger", "geometry", "condensing_side", "vapour", "coolant", "air_side",
@@ -105,11 +107,7 @@ CONDENSER_SCHEMA = {
                 "uncertainty": {"type": "object", "additionalProperties": False,
                                 "properties": {"flow": _Q, "temperature": _Q, "pressure": _Q, "air_flow": _Q}},
                 "steady": {"type": ["object", "boolean"]},
-                "delimiter": {"enum": [",", ";", "\t", "|"]},
-                "decimal": {"enum": [".", ","]},
-                "timestamp_format": {"type": "string", "minLength": 2},
-                "dayfirst": {"type": "boolean"},
-                "timezone": {"type": "string", "minLength": 1},
+                **_DIALECT_SCHEMA,
             },
         },
     },
