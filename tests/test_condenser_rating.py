@@ -257,13 +257,18 @@ def test_saturation_drop_from_coolprop():
 
 
 # ------------------------------------------------------------------------------------------------------ air cooler
+def air_cooler():
+    """An invented one-bay air cooler with embedded aluminium fins."""
+    return rv.AirCooler(bays=1, bundles_per_bay=1, tube_rows=4, tubes_per_row=40, tube_passes=2, tube_length="6 m",
+                        tube_od="25.4 mm", tube_wall="2.11 mm", transverse_pitch="63.5 mm", row_pitch="55 mm",
+                        tube_material="carbon steel",
+                        fin=rv.Fin(height="15.9 mm", thickness="0.4 mm", per_length="394 /m", material="aluminium",
+                                   bond="embedded"),
+                        fans_per_bay=2, fan_diameter="3 m", fan_efficiency=0.65, draft="forced")
+
+
 def test_air_cooled_condenser_energy_balance():
-    ac = rv.AirCooler(bays=1, bundles_per_bay=1, tube_rows=4, tubes_per_row=40, tube_passes=2, tube_length="6 m",
-                      tube_od="25.4 mm", tube_wall="2.11 mm", transverse_pitch="63.5 mm", row_pitch="55 mm",
-                      tube_material="carbon steel",
-                      fin=rv.Fin(height="15.9 mm", thickness="0.4 mm", per_length="394 /m", material="aluminium",
-                                 bond="embedded"),
-                      fans_per_bay=2, fan_diameter="3 m", fan_efficiency=0.65, draft="forced")
+    ac = air_cooler()
     svc = rv.AirService(tube=rv.Stream(VAPOUR, "2 kg/s", quality=1.0), air_in="25 degC", air_flow="150 kg/s")
     r = rv.rate(ac, svc)
     assert r.condensing_side == "tube" and r.coolant_side == "air"
@@ -453,12 +458,7 @@ def test_condenser_settings_reach_an_air_cooled_condenser_and_are_refused_elsewh
     """The condenser engine's settings pass through rv.rate for an air cooler whose tube stream condenses; on a
     liquid air cooler, or with a bad value, they are a path-named error, never a TypeError (common practice, no
     source: an unsupported input is named)."""
-    ac = rv.AirCooler(bays=1, bundles_per_bay=1, tube_rows=4, tubes_per_row=40, tube_passes=2, tube_length="6 m",
-                      tube_od="25.4 mm", tube_wall="2.11 mm", transverse_pitch="63.5 mm", row_pitch="55 mm",
-                      tube_material="carbon steel",
-                      fin=rv.Fin(height="15.9 mm", thickness="0.4 mm", per_length="394 /m", material="aluminium",
-                                 bond="embedded"),
-                      fans_per_bay=2, fan_diameter="3 m", fan_efficiency=0.65, draft="forced")
+    ac = air_cooler()
     svc = rv.AirService(tube=rv.Stream(VAPOUR, "2 kg/s", quality=1.0), air_in="25 degC", air_flow="150 kg/s")
     r = rv.rate(ac, svc, increments=6)
     assert len(r.increments) > 0 and r.duty > 0.0
