@@ -133,6 +133,19 @@ def test_plant_data_columns_are_checked_against_the_file(tmp_path):
     assert [p.path for p in problems] == ["exchangers[1].plant_data.columns.condensing_pressure"], problems
 
 
+@pytest.mark.parametrize("text,words", [("", "header row"),
+                                        ("timestamp,coolant_flow,coolant_t_in,coolant_t_out,condensing_pressure\n",
+                                         "at least one data row")])
+def test_plant_data_file_without_header_or_rows_is_named_at_check(tmp_path, text, words):
+    # the same reading of a plant file's head as an air cooler's (common practice, no source: bad input is named)
+    (tmp_path / "c1.csv").write_text(text, encoding="utf-8")
+    entry = copy.deepcopy(ENTRY)
+    entry["plant_data"] = {"file": "c1.csv", "condensing_from": "pressure"}
+    problems = unitfile.check(write_unit(tmp_path / "unit.yaml", _unit(entry)))
+    assert [p.path for p in problems] == ["exchangers[1].plant_data.file"], problems
+    assert words in str(problems[0])
+
+
 def test_tags_are_unique_across_kinds(tmp_path):
     entry = copy.deepcopy(ENTRY)
     entry["tag"] = "E-1"

@@ -317,10 +317,29 @@ def _columns_missing(spec: dict, file, header, lines, columns: dict, dialect: di
     return True
 
 
+def _plant_head(full, file: str, dialect: dict, where: str, problems: list):
+    """A plant-data file's header and first lines ``(header, lines)``, or None with the problem at ``where.file``:
+    unreadable (one line naming the file, never a traceback), no header, or no data row below it."""
+    from ._building import _csv_head
+
+    try:
+        header, rows, lines = _csv_head(full, dialect.get("delimiter", ","))
+    except ValueError as exc:
+        problems.append(Problem(f"{where}.file", file, str(exc)))
+        return None
+    except Exception as exc:  # unreadable
+        problems.append(Problem(f"{where}.file", file, f"must be a readable UTF-8 CSV file "
+                                                       f"({exc.__class__.__name__}: {str(exc)[:80]})"))
+        return None
+    if not any(any(cell.strip() for cell in row) for row in rows):
+        problems.append(Problem(f"{where}.file", file, "must hold at least one data row below its header"))
+        return None
+    return header, lines
+
+
 def _plant_data(pd, where: str, base, problems: list):
     """Check and build an air cooler's ``plant_data`` section (None with problems, appended)."""
     from ..units import to_si
-    from ._building import _csv_head
 
     start = len(problems)
     _unknown(pd, _PLANT, where, problems)
@@ -404,18 +423,10 @@ def _plant_data(pd, where: str, base, problems: list):
                                                                   "flow_rsd, t_range, min_rows"))
     if len(problems) > start:
         return None
-    try:
-        header, rows, lines = _csv_head(full, dialect.get("delimiter", ","))
-    except ValueError as exc:
-        problems.append(Problem(f"{where}.file", file, str(exc)))
+    head = _plant_head(full, file, dialect, where, problems)
+    if head is None:
         return None
-    except Exception as exc:  # unreadable: one line naming the file, never a traceback
-        problems.append(Problem(f"{where}.file", file, f"must be a readable UTF-8 CSV file "
-                                                       f"({exc.__class__.__name__}: {str(exc)[:80]})"))
-        return None
-    if not any(any(cell.strip() for cell in row) for row in rows):
-        problems.append(Problem(f"{where}.file", file, "must hold at least one data row below its header"))
-        return None
+    header, lines = head
     if _columns_missing(pd, file, header, lines, columns, dialect, where, problems,
                         lambda std: f" (air_flow_from: {source} reads it)" if std == _AIR_FLOW_FROM[source] else ""):
         return None

@@ -9,7 +9,7 @@ import numpy as np
 
 from ..errors import InputError
 from ._aircooler import (_FIN, _GEOMETRY as _AIR_GEOMETRY, _columns_missing, _guard, _mapping, _plant_columns_given,
-                         _plant_dialect, _plant_file, _quantity_problems, _unknown)
+                         _plant_dialect, _plant_file, _plant_head, _quantity_problems, _unknown)
 from ._condenser_spec import (_AIR_OPTIONS, _COOLANT, _COOLANT_CHANGE, _PLANT, _PLANT_AIR, _ST_OPTIONS,
                               AIR_CONDENSER_PLANT_COLUMNS, AIR_FLOW_FROM, CONDENSER_PLANT_COLUMNS, CONDENSING_FROM,
                               CURVE_COLUMNS, DUTY_FROM, SPECIFIC_ENERGY, CondenserPlantData)
@@ -278,7 +278,6 @@ def _options(specs, exchanger, svc, is_air: bool, coolant_side: str, pre: str, p
 def _plant_data(pd_spec: dict, where: str, base, problems: list, is_air: bool = False):
     """Check and build a condenser's ``plant_data`` section (None with problems, appended)."""
     from ..units import to_si
-    from ._building import _csv_head
 
     start = len(problems)
     _unknown(pd_spec, _PLANT | _PLANT_AIR if is_air else _PLANT, where, problems)
@@ -353,12 +352,10 @@ def _plant_data(pd_spec: dict, where: str, base, problems: list, is_air: bool = 
         _unknown(steady, {"window", "flow_rsd", "t_range", "min_rows"}, f"{where}.steady", problems)
     if len(problems) > start:
         return None
-    try:
-        header, rows, lines = _csv_head(full, dialect.get("delimiter", ","))
-    except Exception as exc:  # unreadable: one line naming the file, never a traceback
-        problems.append(Problem(f"{where}.file", file, f"must be a readable UTF-8 CSV file "
-                                                       f"({exc.__class__.__name__}: {str(exc)[:80]})"))
+    head = _plant_head(full, file, dialect, where, problems)
+    if head is None:
         return None
+    header, lines = head
     if _columns_missing(pd_spec, file, header, lines, columns, dialect, where, problems):
         return None
     return CondenserPlantData(file=full, columns=columns, condensing_from=source, uncertainty=uncertainty,
