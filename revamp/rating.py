@@ -471,7 +471,10 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 n_stop = int(np.count_nonzero(stop))
                 if n_stop:
                     Xn = np.where(stop, X, Xn)
-                    if keep:
+                    if keep and full_set and n_stop == n:  # every case at once (no gathers)
+                        G_end[:], have[:] = G, True
+                        E_end[0], E_end[1], E_end[2] = ev.eps, ev.C_s, ev.C_t
+                    elif keep:
                         at = active[stop]
                         G_end[:, at], have[at] = G[:, stop], True
                         E_end[0, at], E_end[1, at], E_end[2, at] = (np.broadcast_to(v, stop.shape)[stop]

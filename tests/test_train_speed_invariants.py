@@ -67,8 +67,11 @@ def test_reduced_linear_solve_equals_the_dense_one(make, probe):
         np.testing.assert_allclose(reduced, dense, rtol=0, atol=1e-9)  # the same system: rounding only [K]
 
 
-def test_reduced_linear_solve_flags_the_same_bad_cases():
-    tr = interlinked(np.linspace(40.0, 90.0, 4))
+@pytest.mark.parametrize("n", [4, 80], ids=["LAPACK", "sparse from the feeds"])
+def test_reduced_linear_solve_flags_the_same_bad_cases(monkeypatch, n):
+    from revamp.train import linear as lin
+
+    tr = interlinked(np.linspace(40.0, 90.0, n))
     plan = sv._Plan(tr)
     idx = np.arange(plan.ncase)
     x = sv._initial(plan)
@@ -76,10 +79,27 @@ def test_reduced_linear_solve_flags_the_same_bad_cases():
     J, c = linear["E-102"]
     J[0][1][2] = np.nan  # one case's map is not finite
     reduced, bad_r = sv._linear_solve(plan, x, linear, idx)
+    monkeypatch.setattr(lin, "_SPARSE_CASES", 10 ** 9)  # the reference: LAPACK on the dense system of all ports
     dense, bad_d = sv._linear_solve_dense(plan, x, linear, idx)
     np.testing.assert_array_equal(bad_r, bad_d)
-    assert bad_r.tolist() == [False, False, True, False]
+    assert bad_r.tolist() == [i == 2 for i in range(n)]
     np.testing.assert_allclose(reduced[~bad_r], dense[~bad_d], rtol=0, atol=1e-9)
+
+
+def test_sparse_solve_from_the_feeds_sends_a_vanishing_pivot_to_the_dense_solve(monkeypatch):
+    from revamp.train import linear as lin
+
+    tr = interlinked(np.linspace(40.0, 90.0, 80))
+    plan = sv._Plan(tr)
+    idx = np.arange(plan.ncase)
+    x = sv._initial(plan)
+    linear, _ = sv._coefficients(sv._rate_all(plan, x + 5.0, idx), x, plan, idx.size, 0.0)
+    monkeypatch.setattr(lin, "_PIVOT_MIN", 10.0)  # every pivot counts as weak: every case goes to LAPACK
+    got, bad = sv._linear_solve(plan, x, linear, idx)
+    monkeypatch.setattr(lin, "_SPARSE_CASES", 10 ** 9)
+    want, _ = sv._linear_solve(plan, x, linear, idx)
+    assert not bad.any()
+    np.testing.assert_array_equal(got, want)
 
 
 @pytest.mark.parametrize("make", [interlinked, split_bypass])
@@ -96,8 +116,16 @@ def test_sparse_elimination_equals_lapack_on_network_systems(monkeypatch, make, 
     real = lin._solve_cases
     monkeypatch.setattr(lin, "_solve_cases", lambda A, b: systems.append((A.copy(), b.copy())) or real(A, b))
     for coefs in filter(None, (linear, newton)):
-        sv._linear_solve(plan, x, coefs, idx)
-    assert systems
+        got, bad = sv._linear_solve(plan, x, coefs, idx)  # sparse elimination (from _SPARSE_CASES cases on)
+        sparse_systems = len(systems)
+        with monkeypatch.context() as m:
+            m.setattr(lin, "_SPARSE_CASES", 10 ** 9)
+            want, bad_want = sv._linear_solve(plan, x, coefs, idx)  # LAPACK (numpy.linalg), an independent solver
+        del systems[sparse_systems:]
+        assert not bad.any() and not bad_want.any()
+        np.testing.assert_allclose(got, want, rtol=1e-12, atol=0)
+    # a network with splits builds its dense system first: the same elimination on it
+    assert bool(systems) == (plan.fed() is None)
     for A, b in systems:
         got, weak = lin._sparse_solve(A.copy(), b.copy())
         assert not weak.any()
@@ -244,6 +272,7 @@ def test_chord_steps_reach_the_newton_solution_with_fewer_ratings(monkeypatch, f
 
     monkeypatch.setattr(sv, "_rate_shell_and_tube", counting)
     monkeypatch.setattr(rating_mod, "_rate_shell_and_tube", counting)
+    monkeypatch.setattr(sv, "_RELAX_PASSES", 0)  # a sweep's Newton passes (no single-evaluation passes first)
     chord = interlinked(flows).solve()
     with_chord = sum(rated)
     rated.clear()
@@ -424,3 +453,91 @@ def test_sweep_closing_pass_starts_warm_and_gives_the_same_solution(monkeypatch)
     # duties of a few MW: 1e-5 K on a stream of ~150 kW/K is a few watts
     np.testing.assert_allclose(warm.exchangers["duty"].to_numpy(float), cold.exchangers["duty"].to_numpy(float),
                                rtol=1e-6, atol=0)
+
+
+# ------------------------------------------------------------------ a sweep's single-evaluation (relaxed) passes
+def _relaxed_calls(monkeypatch):
+    """Record the stopping step ``tol`` of every pass's ratings (an infinite one: a single-evaluation pass)."""
+    calls = []
+    real = sv._rate_all
+
+    def recording(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None):
+        calls.append((tol, idx.size))
+        return real(plan, x, idx, probe=probe, starts=starts, outlets_only=outlets_only, warm=warm, tol=tol)
+
+    monkeypatch.setattr(sv, "_rate_all", recording)
+    return calls
+
+
+def test_relaxed_sweep_reaches_the_newton_solution_with_fewer_evaluations(monkeypatch):
+    flows = np.linspace(40.0, 90.0, 30)
+    calls = _relaxed_calls(monkeypatch)
+    count = _counting_evaluations(monkeypatch)
+    relaxed = interlinked(flows).solve()
+    n_relaxed, evals_relaxed = sum(1 for tol, _ in calls if tol is not None and np.isinf(tol[0])), count[0]
+    calls.clear()
+    count[0] = 0
+    monkeypatch.setattr(sv, "_RELAX_PASSES", 0)  # the Newton passes from the first one on
+    newton = interlinked(flows).solve()
+    assert n_relaxed >= 3 and not any(tol is not None and np.isinf(tol[0]) for tol, _ in calls)
+    assert np.all(relaxed.converged) and np.all(newton.converged)
+    assert evals_relaxed < count[0]
+    for col in ("t_out_shell", "t_out_tube"):  # both solved to 1e-6 K, each rating within its 1e-6 K steps [K]
+        np.testing.assert_allclose(relaxed.exchangers[col].to_numpy(float), newton.exchangers[col].to_numpy(float),
+                                   rtol=0, atol=1e-5)
+    np.testing.assert_allclose(relaxed.exchangers["duty"].to_numpy(float), newton.exchangers["duty"].to_numpy(float),
+                               rtol=1e-6, atol=0)
+
+
+def test_relaxed_passes_never_end_a_case(monkeypatch):
+    # a single-evaluation pass only steers the next one: with the passes cut short, nothing converged
+    calls = _relaxed_calls(monkeypatch)
+    res = interlinked(np.linspace(40.0, 90.0, 12)).solve(max_iter=4)
+    assert len(calls) == 5  # four passes, then every case rated at its last inlets for the result
+    assert all(tol is not None and np.isinf(tol[0]) for tol, _ in calls[:4])
+    assert not np.any(res.converged)
+
+
+def test_constant_property_sweep_takes_no_relaxed_pass(monkeypatch):
+    # with constant properties the first pass's linear step is already exact but for the wall's conductivity
+    calls = _relaxed_calls(monkeypatch)
+    kero = rv.fluids.constant(density=760.0, heat_capacity=2500.0, viscosity=0.6e-3, conductivity=0.13)
+    crude = rv.fluids.constant(density=830.0, heat_capacity=2300.0, viscosity=2.0e-3, conductivity=0.12)
+    tr = Train(streams={"crude": rv.Stream(crude, np.linspace(40.0, 90.0, 12), "35 degC"),
+                        "kero": rv.Stream(kero, 38, "190 degC")},
+               exchangers={"E-1": Match(hx(), shell="kero", tube="crude")},
+               routes={"crude": ["E-1"], "kero": ["E-1"]})
+    assert np.all(tr.solve().converged)
+    assert not any(tol is not None and np.isinf(tol[0]) for tol, _ in calls)
+
+
+def test_relaxed_passes_hand_over_to_newton_when_slow(monkeypatch):
+    # a train whose relaxed passes converge slowly (here: any case needing one more counts as slow) goes on with
+    # Newton passes after three relaxed ones, to the same solution
+    flows = np.linspace(40.0, 90.0, 12)
+    calls = _relaxed_calls(monkeypatch)
+    monkeypatch.setattr(sv, "_RELAX_LEFT", 0)
+    handed = interlinked(flows).solve()
+    assert sum(1 for tol, _ in calls if tol is not None and np.isinf(tol[0])) == 3
+    assert any(tol is not None and not np.isinf(tol[0]) and tol[0] > 0 for tol, _ in calls[3:])  # Newton passes
+    monkeypatch.undo()
+    plain = interlinked(flows).solve()
+    assert np.all(handed.converged) and np.all(plain.converged)
+    np.testing.assert_allclose(handed.exchangers["t_out_tube"].to_numpy(float),
+                               plain.exchangers["t_out_tube"].to_numpy(float), rtol=0, atol=1e-5)
+
+
+def test_relax_exit_rules():
+    tol = 1e-6
+    # ready: expected within tol/2 after the next pass (its change times the larger of its last and mean falls)
+    ready, to_newton = sv._relax_exit(np.array([1e-5, 4e-6, 1e-5]), np.array([0.04, 0.1, 0.02]),
+                                      np.array([0.04, 0.1, 0.2]), 5, tol)
+    assert ready.tolist() == [True, True, False] and not to_newton
+    # a failed case (no finite change) does not hold the others back
+    ready, _ = sv._relax_exit(np.array([np.nan]), np.array([1.0]), np.array([1.0]), 5, tol)
+    assert ready.tolist() == [True]
+    # the median case would need more than _RELAX_LEFT more passes at its mean fall: Newton (from the fourth on)
+    slow = (np.array([1.0, 1.0, 1e-3]), np.array([0.5, 0.5, 0.1]), np.array([0.5, 0.5, 0.1]))
+    assert sv._relax_exit(*slow, 3, tol)[1] and not sv._relax_exit(*slow, 2, tol)[1]
+    fast = (np.array([1.0, 1.0, 1e-3]), np.array([0.1, 0.1, 0.1]), np.array([0.1, 0.1, 0.1]))
+    assert not sv._relax_exit(*fast, 3, tol)[1]

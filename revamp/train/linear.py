@@ -21,6 +21,9 @@ def _linear_solve(plan, x, coefs, idx):
     """
     n, nc = plan.n, len(idx)
     m, nx = n // 2, n // 4  # inlets (and outlets): port p = 4i + 2s (+1 for the outlet) is unknown 2i + s
+    fed = plan.fed()
+    if fed is not None and nc >= _SPARSE_CASES:
+        return _linear_solve_fed(plan, coefs, idx, fed)
     Jb = np.zeros((nc, nx, 2, 2))  # J is block diagonal: exchanger i's 2x2 block maps its inlets to its outlets
     cv = np.zeros((nc, m))
     for tag, (J, c) in coefs.items():
@@ -34,7 +37,6 @@ def _linear_solve(plan, x, coefs, idx):
     A = np.zeros((nc, m, m))
     A[:, np.arange(m), np.arange(m)] = 1.0
     b = np.zeros((nc, m))
-    fed = plan.fed()
     if fed is not None:  # no splits: each inlet is fed by one outlet or a fixed temperature, the same every pass
         rows, e, k, const_rows, consts = fed
         A[:, rows, 2 * e] = -Jb[:, e, k, 0]  # (row, column) pairs are distinct: an inlet has one feed
@@ -57,6 +59,61 @@ def _linear_solve(plan, x, coefs, idx):
         t_out = np.einsum("cikj,cij->cik", Jb, t_in.reshape(nc, nx, 2)).reshape(nc, m) + cv
     sol = np.empty((nc, n))
     sol[:, 0::2], sol[:, 1::2] = t_in, t_out
+    return sol, bad | ~np.all(np.isfinite(sol), axis=1)
+
+
+def _linear_solve_fed(plan, coefs, idx, fed):
+    """:func:`_linear_solve` for many cases of a network without splits: the entries of ``I - L J`` and ``d + L c``
+    built straight from the feeds (each inlet row: its feeding outlet's row of ``J``), then the sparse elimination
+    of :func:`_sparse_solve` on them (no dense matrix, except for the few cases it declines)."""
+    nc, m = idx.size, plan.n // 2
+    rows, es, ks, const_rows, consts = fed
+    maps = [None] * (m // 2)
+    for tag, coef in coefs.items():
+        maps[plan.index[tag]] = coef
+    ones = np.ones(nc)
+    a = {(r, r): ones for r in range(m)}
+    rhs = [np.zeros(nc)] * m
+
+    def entry(v):
+        if type(v) is np.ndarray and v.shape == (nc,) and v.dtype == np.float64 and v.flags.c_contiguous:
+            return v
+        return np.ascontiguousarray(np.broadcast_to(np.asarray(v, dtype=float), (nc,)))
+
+    total = np.zeros(nc)  # the sum of every entry: not finite where any entry is not (NaN and inf propagate)
+    for row, e, k in zip(rows.tolist(), es.tolist(), ks.tolist()):
+        J, c = maps[e]
+        for col, v in ((2 * e, J[k][0]), (2 * e + 1, J[k][1])):
+            v = entry(v)
+            total += v
+            a[(row, col)] = a[(row, col)] - v if (row, col) in a else -v
+        rhs[row] = entry(c[k])
+        total += rhs[row]
+    for j, row in enumerate(const_rows.tolist()):
+        rhs[row] = np.ascontiguousarray(consts[idx, j])
+        total += rhs[row]
+    bad = ~np.isfinite(total)
+    prog = plan.__dict__.get("_fed_program")
+    if prog is None:
+        pattern = np.zeros((m, m), dtype=bool)
+        for i, j in a:
+            pattern[i, j] = True
+        prog = plan._fed_program = _program(pattern)
+    dense_a, dense_b = dict(a), list(rhs)  # the entries as built (elimination replaces, never changes, arrays)
+    t_in, weak = _eliminate(prog, a, rhs, nc)
+    weak &= ~bad
+    if weak.any():
+        A = np.zeros((int(np.count_nonzero(weak)), m, m))
+        for (i, j), v in dense_a.items():
+            A[:, i, j] = v[weak]
+        t_in[weak] = _dense_cases(A, np.stack([v[weak] for v in dense_b], axis=1))
+    t_in[bad] = np.nan
+    sol = np.empty((nc, plan.n))
+    sol[:, 0::2] = t_in
+    with np.errstate(all="ignore"):
+        for e, (J, c) in enumerate(maps):
+            for k in range(2):
+                sol[:, 4 * e + 2 * k + 1] = J[k][0] * t_in[:, 2 * e] + J[k][1] * t_in[:, 2 * e + 1] + c[k]
     return sol, bad | ~np.all(np.isfinite(sol), axis=1)
 
 
@@ -131,6 +188,15 @@ def _sparse_solve(A, b):
     for i, j in zip(*np.nonzero(pattern)):
         a[(int(i), int(j))] = np.ascontiguousarray(A[:, i, j])
     rhs = [np.ascontiguousarray(b[:, i]) for i in range(m)]
+    x, weak = _eliminate(prog, a, rhs, nc)
+    return x, weak | ~np.all(np.isfinite(x), axis=1)
+
+
+def _eliminate(prog, a, rhs, nc):
+    """The elimination of :func:`_sparse_solve` on the entries ``a`` ((row, col) -> values over the cases, changed
+    here) and right-hand sides ``rhs`` (a list of the rows' values): the solution ``(nc, m)`` and the cases whose
+    pivot was weak."""
+    m = len(rhs)
     weak = np.zeros(nc, dtype=bool)
     with np.errstate(all="ignore"):
         for k, rows, cols in prog:
@@ -151,8 +217,7 @@ def _sparse_solve(A, b):
             for j in cols:
                 v = v - a[(k, j)] * x[j]
             x[k] = v / a[(k, k)]
-    x = np.stack(x, axis=1)
-    return x, weak | ~np.all(np.isfinite(x), axis=1)
+    return np.stack(x, axis=1), weak
 
 
 def _solve_cases(A, b):

@@ -48,6 +48,7 @@ from typing import NamedTuple
 import numpy as np
 
 from ..errors import InputError
+from ..fluids.table import ConstantFluid
 from ..rating import _FLOAT_CASES, _TOL_K, _rate_shell_and_tube, _rater, rate, warm_start
 from ..service import Service, Stream
 from .network import Point, Split
@@ -66,6 +67,11 @@ _CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the la
 # An intermediate pass (its outlet maps are refined by the next one) lets its ratings stop at a looser step [K]:
 _FIRST_TOL = 5.0  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
 _PROBE_TOL = 5e-3 * _PROBE_K  # probing passes: each block within ~2.5e-4 K (the derivatives to ~1 %)
+# A sweep whose properties depend on temperature first takes single-evaluation passes (see the module docstring):
+_RELAX_PASSES = 20  # at most this many, then the Newton passes for every case left
+_RELAX_LEFT = 12  # ... or once the median case would need more than this many more (from the fourth on)
+_RELAX_FEW = 0.1  # ... or once no more than this share of the live cases is still relaxed
+_NEWTON, _RELAXED, _WAITING, _CLOSING = 0, 1, 2, 3  # a case's mode in a solve (see solve)
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
 
@@ -251,12 +257,17 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
     """
     train = plan.train
     ratings = {}
+    every = idx.size == plan.ncase  # idx is every case in order (a solve rates only cases still moving)
+
+    def take(a):
+        return a if every else a[idx]
+
     for tag, m in train.exchangers.items():
         t_s = x[:, plan.port(tag, "shell")]
         t_t = x[:, plan.port(tag, "tube")]
-        f_s = plan.flow[m.shell][idx] * plan.frac[(tag, "shell")][idx] if m.shell is not None else np.ones(idx.size)
-        f_t = plan.flow[m.tube][idx] * plan.frac[(tag, "tube")][idx]
-        r_s, r_t = plan.fouling[(tag, "shell")][idx], plan.fouling[(tag, "tube")][idx]
+        f_s = take(plan.flow[m.shell]) * take(plan.frac[(tag, "shell")]) if m.shell is not None else np.ones(idx.size)
+        f_t = take(plan.flow[m.tube]) * take(plan.frac[(tag, "tube")])
+        r_s, r_t = take(plan.fouling[(tag, "shell")]), take(plan.fouling[(tag, "tube")])
         if probe:
             t_s = np.concatenate([t_s, t_s + probe, t_s])
             t_t = np.concatenate([t_t, t_t, t_t + probe])
@@ -281,7 +292,9 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
         # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
         # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
         state = None if starts is None or warm is None else starts.get(tag)
-        with warm_start(None if state is None else _predicted(plan, tag, x, state[:, idx], warm.get(tag), idx, probe)):
+        if state is not None:
+            state = _predicted(plan, tag, x, state if every else state[:, idx], warm.get(tag), idx, probe)
+        with warm_start(state):
             if light:
                 ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
                                                     with_dp=bool(plan.equal_dp), blocks=3 if probe else 1, tol=tol)
@@ -289,11 +302,14 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
                 ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
         if starts is not None:
             r = ratings[tag]
-            new = np.array([np.asarray(getattr(r, k), float).reshape(-1)[:idx.size] for k in _STATE_FIELDS])
             if tag not in starts:
                 starts[tag] = np.full((6, plan.ncase), np.nan)
-            starts[tag][:4, idx] = new  # NaN (a failed case): its next rating starts from the inlets
-            starts[tag][4, idx], starts[tag][5, idx] = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
+            into = starts[tag] if every else np.empty((6, idx.size))
+            for k, name in enumerate(_STATE_FIELDS):  # NaN (a failed case): its next rating starts from the inlets
+                into[k] = np.asarray(getattr(r, name), float).reshape(-1)[:idx.size]
+            into[4], into[5] = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
+            if not every:
+                starts[tag][:, idx] = into
     return ratings
 
 
@@ -307,7 +323,7 @@ def _predicted(plan, tag, x, state, J, idx, probe):
     ts, tt, os_, ot = x[:, ps], x[:, pt], x[:, ps + 1], x[:, pt + 1]
     blocks = [(ts, tt, os_, ot)]
     if probe:
-        J = np.full((2, 2, idx.size), np.nan) if J is None else J[:, :, idx]
+        J = np.full((2, 2, idx.size), np.nan) if J is None else J if idx.size == plan.ncase else J[:, :, idx]
         blocks += [(ts + probe, tt, os_ + J[0, 0] * probe, ot + J[1, 0] * probe),
                    (ts, tt + probe, os_ + J[0, 1] * probe, ot + J[1, 1] * probe)]
     mean_s, mean_t = 0.5 * (state[4] + state[0]), 0.5 * (state[5] + state[1])
@@ -433,93 +449,187 @@ def _initial(plan):
     return x
 
 
-def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
-    """Solve a :class:`~revamp.train.Train` (see the module docstring for the method)."""
-    if not (np.ndim(tol) == 0 and float(tol) > 0):
-        raise InputError("tol", tol, "a temperature change > 0 [K]")
-    if not (isinstance(max_iter, int) and max_iter >= 1):
-        raise InputError("max_iter", max_iter, "an integer >= 1")
-    plan = _Plan(train)
-    x = _initial(plan)
-    inlets = np.array([plan.port(t, s) for t in plan.tags for s in _SIDES])
-    failed = np.zeros(plan.ncase, dtype=bool)
-    done = np.zeros(plan.ncase, dtype=bool)
-    residual = np.full(plan.ncase, np.inf)
-    stalled = np.zeros(plan.ncase, dtype=bool)
-    iterations, ratings, rated_all, history, light_pass = 0, None, False, [], False
-    starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next one starts
-    jac = {}  # per exchanger, the outlets' derivatives by the inlets (2, 2, ncase) from the last probes
-    maps = {}  # per exchanger, the outlet map (2, 2, ncase) of the last pass: the probes' derivatives, else ε-NTU's
-    # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more than
-    # such small ratings); a sweep's passes rate in full
-    light = plan.ncase <= _FLOAT_CASES
-    for iterations in range(1, max_iter + 1):
-        idx = np.flatnonzero(~(failed | done | stalled))  # only the cases still moving are rated again
+def _relax_exit(res, fall, fall2, n_relax, tol):
+    """Whether each case of a sweep's single-evaluation (relaxed) passes is ready to leave them, and whether the
+    sweep goes on with Newton passes instead: ``(ready, to_newton)``.
+
+    Ready: expected within ``tol`` after the next pass (its change times the larger of its last fall and its mean
+    fall over the last two passes); it waits for the others, then all waiting cases are rated in full together (a
+    change that is not finite, a failed case, counts as ready: the failure is flagged elsewhere). To Newton: from
+    the fourth relaxed pass on, when the median case would still need more than :data:`_RELAX_LEFT` relaxed passes
+    at its mean fall (a train whose properties pull hard on its temperatures: Newton's quadratic steps are quicker)."""
+    with np.errstate(invalid="ignore", divide="ignore"):
+        ready = (res * np.minimum(np.fmax(fall, fall2), 1.0) < 0.5 * tol) | ~np.isfinite(res)
+        left = np.log(0.5 * tol / res) / np.log(np.minimum(fall2, 1.0 - 1e-9))  # relaxed passes still needed
+        slow = ~ready & ~(left <= _RELAX_LEFT)
+    return ready, n_relax >= 3 and np.count_nonzero(slow) * 2 > slow.size
+
+
+class _Group:
+    """A set of a solve's cases that take the Newton passes together: their decisions (probes, chord steps, the
+    closing pass) are taken over the group, from its own history of changes."""
+
+    def __init__(self, closing=False):
+        self.history = []  # (cases, their largest inlet change) per pass of this group
+        self.passes = 0
+        self.closing = closing  # every pass rates in full, as a closing pass (cases near the solution already)
+
+
+class _Solve:
+    """The state of one solve: the port temperatures, each case's status, and what the ratings start from."""
+
+    def __init__(self, train, tol):
+        self.plan = plan = _Plan(train)
+        self.tol = tol
+        self.x = _initial(plan)
+        self.inlets = np.array([plan.port(t, s) for t in plan.tags for s in _SIDES])
+        self.failed = np.zeros(plan.ncase, dtype=bool)
+        self.done = np.zeros(plan.ncase, dtype=bool)
+        self.stalled = np.zeros(plan.ncase, dtype=bool)
+        self.residual = np.full(plan.ncase, np.inf)
+        self.starts = {}  # per exchanger, the outlet and wall temperatures of its last rating: where the next starts
+        self.jac = {}  # per exchanger, the outlets' derivatives by the inlets (2, 2, ncase) from the last probes
+        self.maps = {}  # per exchanger, the outlet map (2, 2, ncase) of its last pass: the probes', else ε-NTU's
+        self.fall = np.ones(plan.ncase)  # per case, the share by which its change fell over its last relaxed pass
+        self.fall_two = np.ones(plan.ncase)  # ... and its mean share over its last two (geometric)
+        self.ratings, self.rated_all, self.loose = None, False, None  # the last Newton pass's
+
+    def _keep_maps(self, coefs, idx):
+        for tag, (j, _) in coefs.items():
+            self.maps.setdefault(tag, np.full((2, 2, self.plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
+
+    def relaxed(self, idx, first):
+        """One single-evaluation pass over the cases ``idx``: every exchanger evaluated once at the state the last
+        linear solve predicts (the first pass: at its inlets), then the linear step on the effectiveness-NTU maps
+        of that evaluation. Such a pass never ends a case."""
+        plan, xa = self.plan, self.x[idx]
+        ratings = _rate_all(plan, xa, idx, starts=self.starts, outlets_only=True, warm=None if first else self.maps,
+                            tol=(np.inf, np.inf))
+        linear, _ = _coefficients(ratings, xa, plan, idx.size, 0.0)
+        self._keep_maps(linear, idx)
+        g, bad = _linear_solve(plan, xa, linear, idx)
+        _update_equal_dp(plan, ratings, idx)
+        self.x[idx] = np.where(bad[:, None], xa, g)
+        res = np.where(bad, np.nan, np.max(np.abs(g[:, self.inlets] - xa[:, self.inlets]), axis=1))
+        self.failed[idx] |= bad
+        with np.errstate(divide="ignore", invalid="ignore"):
+            prev = self.residual[idx]
+            fall = np.where(np.isfinite(prev) & (prev > 0.0), res / prev, 1.0)
+            self.fall_two[idx] = np.sqrt(fall * self.fall[idx])
+            self.fall[idx] = fall
+        self.residual[idx] = res
+
+    def newton(self, group, idx, first, iterations):
+        """One Newton pass of ``group`` over its cases ``idx`` (see the module docstring); ``first``: the first pass
+        of the solve, from the supply temperatures."""
+        plan, tol, x, history = self.plan, self.tol, self.x, group.history
+        group.passes += 1
         xa = x[idx]
         # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
-        newton_pass = iterations > 1 and np.max(residual[idx]) > np.sqrt(tol)
+        newton_pass = not first and not group.closing and np.max(self.residual[idx]) > np.sqrt(tol)
         # once the change has fallen fast (the step is near quadratic: the derivatives barely move any more), the
         # last probes' derivatives are kept for the next steps (a chord step: no probes, a third of the ratings)
         fall, last = _fall(history[-2:], idx) if len(history) >= 2 else (1.0, np.inf)
-        chord = newton_pass and bool(jac) and fall < _CHORD_FALL
+        chord = newton_pass and bool(self.jac) and fall < _CHORD_FALL
         probe = _PROBE_K if newton_pass and not chord else 0.0
         # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones; so
         # does a chord pass whose change, falling as the last did, may already be within tol
         intermediate = bool(probe) or (chord and fall * last > 10.0 * tol)
-        light_pass = light and (intermediate or iterations == 1)
+        # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more
+        # than such small ratings); a sweep's passes rate in full
+        light_pass = plan.ncase <= _FLOAT_CASES and (intermediate or first)
         # an intermediate pass starts its ratings from the state the last linear solve predicts and lets them stop
         # at a looser step (never looser than what its use needs); the first pass starts from the inlets, the
         # others rate as rate() does: their ratings may be the final ones, and only they may end a case
-        if iterations == 1:
+        if first:
             loose, warm = (_FIRST_TOL, _FIRST_TOL), None
         elif intermediate:
             # a chord pass: its step is already near the solution; its ratings keep the rating's own stop
-            loose, warm = ((_PROBE_TOL, _PROBE_TOL) if probe else (_TOL_K, _TOL_K)), maps
+            loose, warm = ((_PROBE_TOL, _PROBE_TOL) if probe else (_TOL_K, _TOL_K)), self.maps
         else:  # a sweep's closing pass starts from the predicted state too (a one-case solve's from its inlets)
-            loose, warm = None, (maps if plan.ncase > _FLOAT_CASES else None)
-        ratings = _rate_all(plan, xa, idx, probe=probe, starts=starts, outlets_only=light_pass, warm=warm, tol=loose)
-        rated_all = idx.size == plan.ncase
+            loose, warm = None, (self.maps if plan.ncase > _FLOAT_CASES else None)
+        ratings = _rate_all(plan, xa, idx, probe=probe, starts=self.starts, outlets_only=light_pass, warm=warm,
+                            tol=loose)
+        self.ratings, self.rated_all, self.loose = ratings, idx.size == plan.ncase, loose
         linear, newton = _coefficients(ratings, xa, plan, idx.size, probe)
         if newton is not None:  # keep the derivatives for chord steps
             for tag, (j, _) in newton.items():
-                jac.setdefault(tag, np.full((2, 2, plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
+                self.jac.setdefault(tag, np.full((2, 2, plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
         elif chord:
-            newton = _chord(ratings, xa, plan, idx, jac)
-        for tag, (j, _) in (newton or linear).items():
-            maps.setdefault(tag, np.full((2, 2, plan.ncase), np.nan))[:, :, idx] = np.array(j, dtype=float)
+            newton = _chord(ratings, xa, plan, idx, self.jac)
+        self._keep_maps(newton or linear, idx)
         g, bad = _linear_solve(plan, xa, linear, idx)
-        res = np.where(bad, np.nan, np.max(np.abs(g[:, inlets] - xa[:, inlets]), axis=1))
+        res = np.where(bad, np.nan, np.max(np.abs(g[:, self.inlets] - xa[:, self.inlets]), axis=1))
         step = g
         if newton is not None:
             xn, bad_n = _linear_solve(plan, xa, newton, idx)
             # the Newton step, unless it is not finite or jumps much farther than the plain pass (a correlation's
             # band edge between the probes): then the plain pass, which converges on its own
-            far = np.max(np.abs(xn[:, inlets] - xa[:, inlets]), axis=1) > 3.0 * res + 1.0
+            far = np.max(np.abs(xn[:, self.inlets] - xa[:, self.inlets]), axis=1) > 3.0 * res + 1.0
             step = np.where((bad_n | far)[:, None], g, xn)
         fres = _update_equal_dp(plan, ratings, idx)
         fin = ~bad & (res < tol) & (fres < _SHARE_TOL) & (loose is None or loose[0] <= _TOL_K)
         x[idx] = np.where(bad[:, None], xa, np.where(fin[:, None], g, step))
-        failed[idx] |= bad
-        residual[idx] = res
+        self.failed[idx] |= bad
+        self.residual[idx] = res
         history.append((idx, res))
-        done[idx] |= fin
+        self.done[idx] |= fin
         # a case whose change no longer shrinks (a correlation that jumps at a band edge between two passes: no
         # exact solution) stops being rated; it stays flagged as not converged, with its last change
         if len(history) > _STALL_PASSES:
             old_idx, old_res = history[-1 - _STALL_PASSES]
             before = np.full(plan.ncase, np.inf)
             before[old_idx] = old_res
-            stalled[idx] |= ~fin & ~bad & (iterations >= _MIN_PASSES) & (res > 0.5 * before[idx])
-        if np.all(failed | done | stalled):
+            self.stalled[idx] |= ~fin & ~bad & (iterations >= _MIN_PASSES) & (res > 0.5 * before[idx])
+
+
+def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
+    """Solve a :class:`~revamp.train.Train` (see the module docstring for the method)."""
+    if not (np.ndim(tol) == 0 and float(tol) > 0):
+        raise InputError("tol", tol, "a temperature change > 0 [K]")
+    if not (isinstance(max_iter, int) and max_iter >= 1):
+        raise InputError("max_iter", max_iter, "an integer >= 1")
+    sv = _Solve(train, tol)
+    plan = sv.plan
+    # A sweep whose properties depend on temperature starts with single-evaluation (relaxed) passes. A case expected
+    # within tol after its next one waits; once no case is relaxed any more, the waiting cases are rated in full
+    # together (a closing group). When few cases are still relaxed, they go on with Newton passes (a group of their
+    # own, formed at once) and the waiting ones close; so do all, when the median case converges slowly.
+    relax = plan.ncase > _FLOAT_CASES and _RELAX_PASSES > 0 and not all(
+        isinstance(st.fluid, ConstantFluid) for st in train.streams.values())
+    mode = np.full(plan.ncase, _RELAXED if relax else _NEWTON)
+    groups = {_NEWTON: _Group(), _CLOSING: _Group(closing=True)}
+    n_relax, iterations = 0, 0
+    for iterations in range(1, max_iter + 1):
+        live = ~(sv.failed | sv.done | sv.stalled)
+        if n_relax:
+            r_idx = np.flatnonzero(live & (mode == _RELAXED))
+            ready, to_newton = _relax_exit(sv.residual[r_idx], sv.fall[r_idx], sv.fall_two[r_idx], n_relax, tol)
+            mode[r_idx[ready]] = _WAITING
+            left = r_idx.size - np.count_nonzero(ready)
+            if to_newton or n_relax >= _RELAX_PASSES or left <= _RELAX_FEW * np.count_nonzero(live):
+                mode[mode == _RELAXED] = _NEWTON
+                mode[mode == _WAITING] = _CLOSING
+        r_idx = np.flatnonzero(live & (mode == _RELAXED))
+        if r_idx.size:
+            sv.relaxed(r_idx, n_relax == 0)
+            n_relax += 1
+        for kind in (_CLOSING, _NEWTON):
+            idx = np.flatnonzero(live & (mode == kind))
+            if idx.size:
+                sv.newton(groups[kind], idx, n_relax == 0 and groups[_NEWTON].passes == 0, iterations)
+        if r_idx.size or np.count_nonzero(live & ((mode == _CLOSING) | (mode == _NEWTON))) < plan.ncase:
+            sv.rated_all = False  # this pass did not rate every case in full
+        if np.all(sv.failed | sv.done | sv.stalled):
             break
-    converged = done & ~failed
-    if rated_all and loose is None:  # the last pass rated every case in full: its base block is the rating there
-        ratings = _strip_probes(ratings, plan.ncase)
+    converged = sv.done & ~sv.failed
+    if sv.rated_all and sv.loose is None:  # the last pass rated every case in full: its base block is the rating
+        ratings = _strip_probes(sv.ratings, plan.ncase)
     else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger;
         # a sweep's cases start from the states their last ratings stopped at (each still stops at the rating's own
         # 1e-6 K step, walls included), a few cases from their inlets as rate() does
-        ratings = _rate_all(plan, x, np.arange(plan.ncase), starts=starts,
-                            warm=maps if plan.ncase > _FLOAT_CASES else None)
-    return _result(plan, x, ratings, converged, failed, residual, iterations, tol)
+        ratings = _rate_all(plan, sv.x, np.arange(plan.ncase), starts=sv.starts,
+                            warm=sv.maps if plan.ncase > _FLOAT_CASES else None)
+    return _result(plan, sv.x, ratings, converged, sv.failed, sv.residual, iterations, tol)
