@@ -333,10 +333,15 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                                                                                                  C_s, C_t)
 
     seams = shell_method == "bell-delaware"  # Kern's correlation is smooth
-    start = _WARM_START.get()
+    start, settled = _WARM_START.get() or (None, None)
     if start is not None:  # a caller's first guess of the state (see warm_start), used only when it fits
         start = np.asarray(start, dtype=float)
         start = start if start.shape == (4, n) else None
+    if start is None or settled is None:
+        settled = None
+    else:  # cases evaluated once at the state an earlier rating of theirs stopped at (never iterated)
+        settled = np.asarray(settled, dtype=bool).reshape(n) & np.all(np.isfinite(start), axis=0)
+        settled = settled if settled.any() else None
     # ---- the property iteration, per case. State rows: the outlet temperatures the properties are taken at
     # (first pass: the inlets) and the wall temperatures (first guess: the mean of the inlets).
     floats = bell_kernel and insert is None  # the float evaluation covers these
@@ -347,7 +352,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     else:
         tol_case = np.full(n, float(tol[1]))
         tol_case[:first] = float(tol[0])
-    if n <= _FLOAT_CASES and floats:
+    if n <= _FLOAT_CASES and floats and settled is None:
         try:
             # a few cases: each iterates on Python floats (no per-element numpy overhead), the same steps and stops as
             # the array loop; the converged states are then evaluated once by the array kernels, which give every
@@ -403,6 +408,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         # _cold_at_seam): where a rating may be final, a warm start changes only the number of iterations
         met = np.zeros(n, dtype=bool)
         stages = [("base", np.arange(first)), ("probes", np.arange(first, n))] if chained else [("all", np.arange(n))]
+        if settled is not None:  # only the other cases iterate (none: no iteration at all)
+            stages = [("all", np.flatnonzero(~settled))] if not settled.all() else []
         for k_stage, (kind_stage, stage) in enumerate(stages):
             active = stage
             if kind_stage == "cold":
@@ -511,7 +518,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
         # pressure drops the iteration did not need (an outlet map without them has its numbers already)
-        if keep and have.all():
+        if keep and have.all() and settled is None:
             ev = _Eval(to_s=G_end[0], to_t=G_end[1], tw_s=G_end[2], tw_t=G_end[3], q=None, eps=E_end[0], w=None,
                        NTU=None, U=None, C_s=E_end[1], C_t=E_end[2], shell_min=None, R=None, tube=_NO_DP,
                        shell=_NO_DP, rho_s=None, rho_t=None, Pr_s=None, mu_ratio_t=None)
@@ -526,9 +533,10 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     invalid, range_msgs = out_of_range(s_fluid, t_fluid, ts_in, tt_in, to_s, to_t, shape)
 
     if outlets_only:
-        bad = np.where(invalid, np.nan, 0.0)
+        bad = np.where(invalid, np.nan, 0.0) if invalid.any() else 0.0
         return OutletMap(to_s + bad, to_t + bad, ev.tw_s + bad, ev.tw_t + bad, ev.eps + bad, ev.C_s * n_par + bad,
-                         ev.C_t * n_par + bad, np.asarray(ev.shell.dp) * hx.shells + bad, ev.tube.dp * hx.shells + bad)
+                         ev.C_t * n_par + bad, np.asarray(ev.shell.dp) * hx.shells + bad, ev.tube.dp * hx.shells + bad,
+                         S)
 
     # ---- counterflow terminal differences from 1 - eps (no cancellation near eps = 1), F and LMTD
     Cr = np.where(ev.shell_min, ev.C_s / ev.C_t, ev.C_t / ev.C_s)

@@ -38,16 +38,18 @@ _SEAM_FROM = 4  # iteration from which a residual that changes sign without shri
 
 
 @contextlib.contextmanager
-def warm_start(state):
+def warm_start(state, settled=None):
     """Start the shell-and-tube ratings made inside the ``with`` block from ``state`` instead of the inlets.
 
     ``state`` is a ``(4, n)`` array of the outlet temperatures (shell, tube) and the wall temperatures (shell side,
     tube side) [K] of the ``n`` flattened cases, e.g. those of a previous rating at nearby inlets (a network solve
     re-rating its exchangers). Only the number of iterations changes: each case still stops where its outlets and,
     being warm-started, its walls move by less than 1e-6 K (a state that does not fit the cases is ignored; a case
-    whose state is not finite starts from its inlets). Internal to the package.
+    whose state is not finite starts from its inlets). ``settled``: a boolean ``(n,)`` mask of the cases whose state
+    is the one an earlier rating of theirs (at the same inlets to within its stop) stopped at: each is evaluated there
+    once, not iterated (a network solve building its results from its closing pass). Internal to the package.
     """
-    token = _WARM_START.set(state)
+    token = _WARM_START.set(None if state is None else (state, settled))
     try:
         yield
     finally:
@@ -254,3 +256,4 @@ class OutletMap:
     C_tube: np.ndarray
     dp_shell: np.ndarray
     dp_tube: np.ndarray
+    state: np.ndarray = None  # (4, n) the outlet and wall temperatures each case stopped at (see warm_start)

@@ -439,10 +439,10 @@ def test_sweep_closing_pass_starts_warm_and_gives_the_same_solution(monkeypatch)
     # the plain form: the closing pass rated from the inlets, as rate() alone does
     real = sv._rate_all
 
-    def cold_closing(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None):
+    def cold_closing(plan, x, idx, probe=0.0, warm=None, tol=None, **kw):
         if tol is None and not probe:
             warm = None
-        return real(plan, x, idx, probe=probe, starts=starts, outlets_only=outlets_only, warm=warm, tol=tol)
+        return real(plan, x, idx, probe=probe, warm=warm, tol=tol, **kw)
 
     monkeypatch.setattr(sv, "_rate_all", cold_closing)
     cold = interlinked(flows).solve()
@@ -461,9 +461,9 @@ def _relaxed_calls(monkeypatch):
     calls = []
     real = sv._rate_all
 
-    def recording(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None):
+    def recording(plan, x, idx, tol=None, **kw):
         calls.append((tol, idx.size))
-        return real(plan, x, idx, probe=probe, starts=starts, outlets_only=outlets_only, warm=warm, tol=tol)
+        return real(plan, x, idx, tol=tol, **kw)
 
     monkeypatch.setattr(sv, "_rate_all", recording)
     return calls
@@ -541,3 +541,27 @@ def test_relax_exit_rules():
     assert sv._relax_exit(*slow, 3, tol)[1] and not sv._relax_exit(*slow, 2, tol)[1]
     fast = (np.array([1.0, 1.0, 1e-3]), np.array([0.1, 0.1, 0.1]), np.array([0.1, 0.1, 0.1]))
     assert not sv._relax_exit(*fast, 3, tol)[1]
+
+
+@pytest.mark.parametrize("n", [12, 300], ids=["few", "many"])
+def test_settled_cases_are_evaluated_once_where_their_rating_stopped(monkeypatch, n):
+    # a sweep builds its Ratings at the states its closing ratings stopped at: the same numbers as a rating from
+    # the inlets (the same evaluation at the same state), with one evaluation instead of the iteration
+    svc = rv.Service(shell=rv.Stream(RESID_P, np.linspace(15.0, 35.0, n), 600.0),
+                     tube=rv.Stream(CRUDE_P, 60.0, np.linspace(350.0, 420.0, n)), fouling_shell=5e-4,
+                     fouling_tube=7e-4)
+    cold = rv.rate(hx(420), svc)
+    stopped = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True).state
+    count = _counting_evaluations(monkeypatch)
+    with rating_mod.warm_start(stopped, np.ones(n, dtype=bool)):
+        again = rv.rate(hx(420), svc)
+    assert count[0] == n  # the one evaluation that builds the results, no iteration
+    for name in ("t_out_shell", "t_out_tube", "duty", "U_service", "dp_shell", "dp_tube"):
+        np.testing.assert_array_equal(getattr(again, name), getattr(cold, name))
+    # half settled: the others iterate from the (moved) state they were given, to within the rating's steps
+    half = np.arange(n) % 2 == 0
+    moved = stopped + np.array([[0.3], [-0.3], [2.0], [-2.0]])
+    with rating_mod.warm_start(np.where(half, stopped, moved), half):
+        mixed = rv.rate(hx(420), svc)
+    np.testing.assert_array_equal(mixed.t_out_tube[half], cold.t_out_tube[half])
+    np.testing.assert_allclose(mixed.t_out_tube, cold.t_out_tube, rtol=0, atol=1e-5)

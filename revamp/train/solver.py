@@ -242,7 +242,7 @@ class _RawService(NamedTuple):
     fouling_tube: np.ndarray
 
 
-def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None):
+def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None, settled=None):
     """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
 
     With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
@@ -253,7 +253,9 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
     ``warm``: per exchanger, the outlet map ``J`` (2, 2, ncase) of the last pass; given, every block starts from the
     state predicted by :func:`_predicted` (an intermediate pass), else the base block starts from the inlets as
     ``rate()`` does (a pass whose ratings may be the final ones). ``tol``: the ratings' stopping step
-    ``(base block, probe blocks)`` [K], None for the rating's own.
+    ``(base block, probe blocks)`` [K], None for the rating's own. ``settled``: per shell-and-tube exchanger, the
+    state ``(4, ncase)`` each case stopped at in a closing pass (NaN where none): such a case is evaluated there once
+    (see :func:`~revamp.rating_loop.warm_start`), the others start as ``warm`` says.
     """
     train = plan.train
     ratings = {}
@@ -294,7 +296,11 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
         state = None if starts is None or warm is None else starts.get(tag)
         if state is not None:
             state = _predicted(plan, tag, x, state if every else state[:, idx], warm.get(tag), idx, probe)
-        with warm_start(state):
+        done = None if settled is None or tag not in settled else take(settled[tag].T).T
+        if done is not None:
+            done_mask = np.all(np.isfinite(done), axis=0)
+            state = np.where(done_mask, done, np.full((4, idx.size), np.nan) if state is None else state)
+        with warm_start(state, None if done is None else done_mask):
             if light:
                 ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
                                                     with_dp=bool(plan.equal_dp), blocks=3 if probe else 1, tol=tol)
@@ -493,6 +499,7 @@ class _Solve:
         self.fall = np.ones(plan.ncase)  # per case, the share by which its change fell over its last relaxed pass
         self.fall_two = np.ones(plan.ncase)  # ... and its mean share over its last two (geometric)
         self.ratings, self.rated_all, self.loose = None, False, None  # the last Newton pass's
+        self.settled = {}  # per exchanger, the state (4, ncase) each finished case's closing rating stopped at
 
     def _keep_maps(self, coefs, idx):
         for tag, (j, _) in coefs.items():
@@ -538,8 +545,9 @@ class _Solve:
         # does a chord pass whose change, falling as the last did, may already be within tol
         intermediate = bool(probe) or (chord and fall * last > 10.0 * tol)
         # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more
-        # than such small ratings); a sweep's passes rate in full
-        light_pass = plan.ncase <= _FLOAT_CASES and (intermediate or first)
+        # than such small ratings), the closing pass rates in full; every pass of a sweep asks for outlet maps, and
+        # its Ratings are built once at the end, at the states where its cases' closing ratings stopped
+        light_pass = plan.ncase > _FLOAT_CASES or intermediate or first
         # an intermediate pass starts its ratings from the state the last linear solve predicts and lets them stop
         # at a looser step (never looser than what its use needs); the first pass starts from the inlets, the
         # others rate as rate() does: their ratings may be the final ones, and only they may end a case
@@ -576,6 +584,10 @@ class _Solve:
         self.residual[idx] = res
         history.append((idx, res))
         self.done[idx] |= fin
+        if loose is None and fin.any():  # where each finished case's ratings stopped: its results are built there
+            for tag, r in ratings.items():
+                if getattr(r, "state", None) is not None:
+                    self.settled.setdefault(tag, np.full((4, plan.ncase), np.nan))[:, idx[fin]] = r.state[:, fin]
         # a case whose change no longer shrinks (a correlation that jumps at a band edge between two passes: no
         # exact solution) stops being rated; it stays flagged as not converged, with its last change
         if len(history) > _STALL_PASSES:
@@ -625,11 +637,11 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
         if np.all(sv.failed | sv.done | sv.stalled):
             break
     converged = sv.done & ~sv.failed
-    if sv.rated_all and sv.loose is None:  # the last pass rated every case in full: its base block is the rating
+    if plan.ncase > _FLOAT_CASES:  # a sweep: the Ratings built at the states its closing passes stopped at, one
+        # call per exchanger; a case that did not finish is rated in full from its last state
+        ratings = _rate_all(plan, sv.x, np.arange(plan.ncase), starts=sv.starts, warm=sv.maps, settled=sv.settled)
+    elif sv.rated_all and sv.loose is None:  # the last pass rated every case in full: its base block is the rating
         ratings = _strip_probes(sv.ratings, plan.ncase)
-    else:  # some cases stopped earlier: every case rated once more at its solved inlets, one call per exchanger;
-        # a sweep's cases start from the states their last ratings stopped at (each still stops at the rating's own
-        # 1e-6 K step, walls included), a few cases from their inlets as rate() does
-        ratings = _rate_all(plan, sv.x, np.arange(plan.ncase), starts=sv.starts,
-                            warm=sv.maps if plan.ncase > _FLOAT_CASES else None)
+    else:  # some cases stopped earlier: every case rated once more at its solved inlets from its inlets, as rate()
+        ratings = _rate_all(plan, sv.x, np.arange(plan.ncase))
     return _result(plan, sv.x, ratings, converged, sv.failed, sv.residual, iterations, tol)
