@@ -533,6 +533,9 @@ def test_relax_exit_rules():
     ready, to_newton = sv._relax_exit(np.array([1e-5, 4e-6, 1e-5]), np.array([0.04, 0.1, 0.02]),
                                       np.array([0.04, 0.1, 0.2]), 5, tol)
     assert ready.tolist() == [True, True, False] and not to_newton
+    # a loose tol: ready only within half of _RELAX_READY (the closing ratings stop at their own 1e-6 K steps)
+    ready, _ = sv._relax_exit(np.array([1e-3, 1e-4]), np.array([0.1, 0.1]), np.array([0.1, 0.1]), 5, 1e-3)
+    assert ready.tolist() == [False, True]
     # a failed case (no finite change) does not hold the others back
     ready, _ = sv._relax_exit(np.array([np.nan]), np.array([1.0]), np.array([1.0]), 5, tol)
     assert ready.tolist() == [True]

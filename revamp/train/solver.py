@@ -67,8 +67,10 @@ _CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the la
 # An intermediate pass (its outlet maps are refined by the next one) lets its ratings stop at a looser step [K]:
 _FIRST_TOL = 5.0  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
 _PROBE_TOL = 5e-3 * _PROBE_K  # probing passes: each block within ~2.5e-4 K (the derivatives to ~1 %)
-# A sweep whose properties depend on temperature first takes single-evaluation passes (see the module docstring):
-_RELAX_PASSES = 20  # at most this many, then the Newton passes for every case left
+# A sweep whose properties depend on temperature first takes single-evaluation (relaxed) passes (see solve):
+_RELAX_READY = 1e-4  # a case is ready when expected within half the smaller of tol and this [K] (the closing
+# ratings stop at 1e-6 K steps: from a state much farther off they iterate longer than relaxed passes would take)
+_RELAX_PASSES = 20  # at most this many relaxed passes, then the Newton passes for every case left
 _RELAX_LEFT = 12  # ... or once the median case would need more than this many more (from the fourth on)
 _RELAX_FEW = 0.1  # ... or once no more than this share of the live cases is still relaxed
 _NEWTON, _RELAXED, _WAITING, _CLOSING = 0, 1, 2, 3  # a case's mode in a solve (see solve)
@@ -459,14 +461,15 @@ def _relax_exit(res, fall, fall2, n_relax, tol):
     """Whether each case of a sweep's single-evaluation (relaxed) passes is ready to leave them, and whether the
     sweep goes on with Newton passes instead: ``(ready, to_newton)``.
 
-    Ready: expected within ``tol`` after the next pass (its change times the larger of its last fall and its mean
-    fall over the last two passes); it waits for the others, then all waiting cases are rated in full together (a
+    Ready: expected within half of ``tol`` (and of :data:`_RELAX_READY`) after the next pass (its change times the
+    larger of its last fall and its mean fall over the last two passes); it waits for the others, then all waiting cases are rated in full together (a
     change that is not finite, a failed case, counts as ready: the failure is flagged elsewhere). To Newton: from
     the fourth relaxed pass on, when the median case would still need more than :data:`_RELAX_LEFT` relaxed passes
     at its mean fall (a train whose properties pull hard on its temperatures: Newton's quadratic steps are quicker)."""
+    aim = 0.5 * min(tol, _RELAX_READY)
     with np.errstate(invalid="ignore", divide="ignore"):
-        ready = (res * np.minimum(np.fmax(fall, fall2), 1.0) < 0.5 * tol) | ~np.isfinite(res)
-        left = np.log(0.5 * tol / res) / np.log(np.minimum(fall2, 1.0 - 1e-9))  # relaxed passes still needed
+        ready = (res * np.minimum(np.fmax(fall, fall2), 1.0) < aim) | ~np.isfinite(res)
+        left = np.log(aim / res) / np.log(np.minimum(fall2, 1.0 - 1e-9))  # relaxed passes still needed
         slow = ~ready & ~(left <= _RELAX_LEFT)
     return ready, n_relax >= 3 and np.count_nonzero(slow) * 2 > slow.size
 
