@@ -13,6 +13,7 @@ import pytest
 import revamp as rv
 from revamp import rating as rating_mod
 from revamp.train import Match, Split, Train
+from revamp.train import passes
 from revamp.train import solver as sv
 
 CRUDE_P = rv.fluids.petroleum(api=31, watson_k=11.8, viscosity=[("40 degC", "9 cSt"), ("100 degC", "3 cSt")])
@@ -191,7 +192,7 @@ def test_few_case_passes_use_outlet_maps_and_rate_in_full_once(monkeypatch):
             return engine(*a, **kw)
         return call
 
-    monkeypatch.setattr(sv, "_rate_shell_and_tube", counting(light))  # the solver's outlet-map calls
+    monkeypatch.setattr(passes, "_rate_shell_and_tube", counting(light))  # the solver's outlet-map calls
     monkeypatch.setattr(rating_mod, "_rate_shell_and_tube", counting(full))  # through rate()
     res = interlinked().solve()
     assert res.converged and res.iterations > 2
@@ -270,7 +271,7 @@ def test_chord_steps_reach_the_newton_solution_with_fewer_ratings(monkeypatch, f
         rated.append(np.size(np.broadcast_arrays(svc.shell.flow, svc.tube.flow)[0]))
         return engine(hx_, svc, *a, **kw)
 
-    monkeypatch.setattr(sv, "_rate_shell_and_tube", counting)
+    monkeypatch.setattr(passes, "_rate_shell_and_tube", counting)
     monkeypatch.setattr(rating_mod, "_rate_shell_and_tube", counting)
     monkeypatch.setattr(sv, "_RELAX_PASSES", 0)  # a sweep's Newton passes (no single-evaluation passes first)
     chord = interlinked(flows).solve()

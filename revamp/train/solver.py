@@ -10,8 +10,9 @@ inlets for the effectiveness and heat-capacity rates of that rating (effectivene
 a remix is the heat-capacity-weighted mean of its branches) the whole network is then one linear system in the port
 temperatures, solved exactly with numpy for every case at once, interlinked routes included (no tearing, no order).
 The exchangers are re-rated at the new inlets (one vectorized ``rate()`` per exchanger per iteration, all cases of a
-sweep in that call) and the system solved again, until no inlet moves by more than ``tol``. Only the temperature
-dependence of the properties makes this iterate: with constant properties the second pass is exact.
+sweep in that call; :mod:`revamp.train.passes`) and the system solved again, until no inlet moves by more than
+``tol``. Only the temperature dependence of the properties makes this iterate: with constant properties the second
+pass is exact.
 
 The ratings of a pass whose outlet maps only steer the next pass (the first one, from the supply temperatures, and
 the Newton passes with their finite-difference probes) start from the state the last linear solve predicts (its
@@ -19,10 +20,22 @@ outlets at these inlets, each wall kept at its place between the two mean temper
 (5 K on the first pass, 2.5e-4 K on a probing one: derivatives to about 1 %, which keeps the Newton step's
 convergence); a case converges only on a pass rated to the rating's own 1e-6 K step, and a one-case
 solve's closing pass rates from the inlets exactly as ``rate()`` does, so that its result is the Rating a user
-gets there. A sweep's closing pass starts from the predicted state as well (its inlets moved by little more than
-tol since the last pass), and a sweep's cases that finished on different passes are rated once more the same way:
-each case stops at the rating's own step, walls included (within it of a rating from the inlets), and a case that
-met a seam of Taborek's fits on the way is iterated again from its inlets (see ``rating_loop._cold_at_seam``).
+gets there.
+
+A sweep (more cases than the rating iterates on floats) whose properties depend on temperature takes relaxed passes
+first: each rating is evaluated once, at the state the last linear solve predicts (the first pass: at its inlets),
+and the linear step uses that evaluation's effectiveness and capacity rates. The rating's own iteration and the
+network's then converge together, each pass cutting the change by about a factor 5 to 10 for one evaluation per
+rating, where a Newton pass with probes takes three blocks of several evaluations. A case expected within half of
+tol (and of 1e-4 K, so that its closing rating starts close) after its next pass waits; when none is relaxed any
+more, or few are left, the waiting cases close together and the rest go on with Newton passes as one group formed
+at once (so do all, when the median case would need more than 12 further relaxed passes). Relaxed passes never end
+a case. A sweep's closing passes ask for outlet maps too, which carry the state each case's rating stopped at; the
+result's Ratings are built once, one call per exchanger, by evaluating each finished case at that state
+(``warm_start``'s ``settled`` cases: the same evaluation at the same state, so the same numbers). A closing rating
+starts from the predicted state and still stops at the rating's own step, walls included (within it of a rating
+from the inlets), and a case that met a seam of Taborek's fits on the way is iterated again from its inlets (see
+``rating_loop._cold_at_seam``).
 
 An air cooler (a match with :class:`~revamp.train.AirSide`) takes the shell side's two ports for its air: the air
 inlet is tied to the stated ambient (a fixed input, like a stream's supply), the air outlet is the rated mixed outlet;
@@ -43,26 +56,22 @@ optimal management of cleaning. *Energy & Fuels* 15, 1038-1056.
 """
 from __future__ import annotations
 
-from typing import NamedTuple
-
 import numpy as np
 
 from ..errors import InputError
 from ..fluids.table import ConstantFluid
-from ..rating import _FLOAT_CASES, _TOL_K, _rate_shell_and_tube, _rater, rate, warm_start
-from ..service import Service, Stream
+from ..rating import _FLOAT_CASES, _TOL_K
 from .network import Point, Split
 from .outcome import _SIDES, _result, _strip_probes
 from .outcome import enthalpy_change  # noqa: F401  (lives in train/outcome.py now; re-exported, public here too)
 from .linear import _linear_solve, _linear_solve_dense  # noqa: F401  (the dense form: tests' reference)
+from .passes import _chord, _coefficients, _rate_all, _update_equal_dp
 from .result import TrainResult
 
 __all__ = ["solve", "enthalpy_change"]
 
-_STATE_FIELDS = ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube")  # a rating's iteration state
 _PROBE_K = 0.05  # inlet step of the finite differences for the Newton step [K] (far above the ratings' 1e-6 K stop)
 _SHARE_TOL = 1e-6  # largest change of an equal-pressure-drop branch share at convergence [-]
-_DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
 _CHORD_FALL = 0.05  # a Newton pass whose change fell below this share of the last one's keeps its derivatives
 # An intermediate pass (its outlet maps are refined by the next one) lets its ratings stop at a looser step [K]:
 _FIRST_TOL = 5.0  # the first pass, from the supply temperatures (the change after it is tens of kelvin)
@@ -227,173 +236,6 @@ class _Plan:
         return links, points, finals, dps
 
 
-class _RawStream(NamedTuple):
-    """The fields of a :class:`~revamp.Stream` the engine body reads, from a checked train (no checks again)."""
-
-    fluid: object
-    flow: np.ndarray
-    t_in: np.ndarray
-
-
-class _RawService(NamedTuple):
-    """The fields of a :class:`~revamp.Service` the engine body reads (outlet-map passes only)."""
-
-    shell: _RawStream
-    tube: _RawStream
-    fouling_shell: np.ndarray
-    fouling_tube: np.ndarray
-
-
-def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=None, tol=None, settled=None):
-    """Rate every exchanger at the inlets ``x`` of the cases ``idx``, in one call per exchanger.
-
-    With ``probe`` > 0 each call also rates every case with its shell inlet, then its tube inlet, raised by ``probe``
-    [K] (three stacked blocks of cases): finite differences of the outlets for the Newton step. ``starts``: per
-    exchanger, the outlet and wall temperatures and the inlets ``(6, ncase)`` of its last rating (updated here from
-    the new ratings), from which a warm pass predicts its start.
-    ``outlets_only``: shell-and-tube exchangers return only what the next pass needs (:class:`OutletMap`).
-    ``warm``: per exchanger, the outlet map ``J`` (2, 2, ncase) of the last pass; given, every block starts from the
-    state predicted by :func:`_predicted` (an intermediate pass), else the base block starts from the inlets as
-    ``rate()`` does (a pass whose ratings may be the final ones). ``tol``: the ratings' stopping step
-    ``(base block, probe blocks)`` [K], None for the rating's own. ``settled``: per shell-and-tube exchanger, the
-    state ``(4, ncase)`` each case stopped at in a closing pass (NaN where none): such a case is evaluated there once
-    (see :func:`~revamp.rating_loop.warm_start`), the others start as ``warm`` says.
-    """
-    train = plan.train
-    ratings = {}
-    every = idx.size == plan.ncase  # idx is every case in order (a solve rates only cases still moving)
-
-    def take(a):
-        return a if every else a[idx]
-
-    for tag, m in train.exchangers.items():
-        t_s = x[:, plan.port(tag, "shell")]
-        t_t = x[:, plan.port(tag, "tube")]
-        f_s = take(plan.flow[m.shell]) * take(plan.frac[(tag, "shell")]) if m.shell is not None else np.ones(idx.size)
-        f_t = take(plan.flow[m.tube]) * take(plan.frac[(tag, "tube")])
-        r_s, r_t = take(plan.fouling[(tag, "shell")]), take(plan.fouling[(tag, "tube")])
-        if probe:
-            t_s = np.concatenate([t_s, t_s + probe, t_s])
-            t_t = np.concatenate([t_t, t_t, t_t + probe])
-            f_s, f_t, r_s, r_t = (np.tile(v, 3) for v in (f_s, f_t, r_s, r_t))
-        t_t = np.where(t_s == t_t, t_t + 1e-9, t_t)  # equal inlets: no duty either way; rate() needs a difference
-        if m.is_air_cooler:
-            ratings[tag] = _rate_air(plan, tag, m, t_s, t_t, f_t, r_s, r_t, idx, 3 if probe else 1)
-            continue
-        light = (outlets_only or tol is not None) and _rater(m.exchanger) is rate
-        if light:  # the engine body reads only these fields, and an outlet map keeps no service: no checks again
-            svc = _RawService(_RawStream(train.streams[m.shell].fluid, f_s, t_s),
-                              _RawStream(train.streams[m.tube].fluid, f_t, t_t), r_s, r_t)
-        else:
-            if plan.shape == () and not probe:  # one case: rated on floats, the Rating a user's rate() gives there
-                f_s, t_s, f_t, t_t, r_s, r_t = (float(v[0]) for v in (f_s, t_s, f_t, t_t, r_s, r_t))
-            svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
-                          tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
-        # A pass whose ratings may be the final ones starts each case's base block from the inlets, as rate() alone
-        # does, so that rating an exchanger at its solved inlets gives back exactly the result's numbers; an
-        # intermediate pass starts from the predicted state (warm). On the few-case float path the probes start
-        # from their base case's stopping state (blocks=3), moved as their predicted starts differ.
-        # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
-        # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
-        state = None if starts is None or warm is None else starts.get(tag)
-        if state is not None:
-            state = _predicted(plan, tag, x, state if every else state[:, idx], warm.get(tag), idx, probe)
-        done = None if settled is None or tag not in settled else take(settled[tag].T).T
-        if done is not None:
-            done_mask = np.all(np.isfinite(done), axis=0)
-            state = np.where(done_mask, done, np.full((4, idx.size), np.nan) if state is None else state)
-        with warm_start(state, None if done is None else done_mask):
-            if light:
-                ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
-                                                    with_dp=bool(plan.equal_dp), blocks=3 if probe else 1, tol=tol)
-            else:
-                ratings[tag] = rate(m.exchanger, svc, shell_method=train.shell_method)
-        if starts is not None:
-            r = ratings[tag]
-            if tag not in starts:
-                starts[tag] = np.full((6, plan.ncase), np.nan)
-            into = starts[tag] if every else np.empty((6, idx.size))
-            for k, name in enumerate(_STATE_FIELDS):  # NaN (a failed case): its next rating starts from the inlets
-                into[k] = np.asarray(getattr(r, name), float).reshape(-1)[:idx.size]
-            into[4], into[5] = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
-            if not every:
-                starts[tag][:, idx] = into
-    return ratings
-
-
-def _predicted(plan, tag, x, state, J, idx, probe):
-    """The state an intermediate pass starts exchanger ``tag``'s ratings from: the outlets the last linear solve
-    predicts at these inlets (the outlet ports of ``x``), and for the probe blocks those moved by the outlet map ``J``
-    of the last pass; each wall keeps the place between the two mean temperatures it had in the last rating
-    (``state``: its outlets, walls and inlets). NaN where there is no such state (that case starts from its inlets).
-    """
-    ps, pt = plan.port(tag, "shell"), plan.port(tag, "tube")
-    ts, tt, os_, ot = x[:, ps], x[:, pt], x[:, ps + 1], x[:, pt + 1]
-    blocks = [(ts, tt, os_, ot)]
-    if probe:
-        J = np.full((2, 2, idx.size), np.nan) if J is None else J if idx.size == plan.ncase else J[:, :, idx]
-        blocks += [(ts + probe, tt, os_ + J[0, 0] * probe, ot + J[1, 0] * probe),
-                   (ts, tt + probe, os_ + J[0, 1] * probe, ot + J[1, 1] * probe)]
-    mean_s, mean_t = 0.5 * (state[4] + state[0]), 0.5 * (state[5] + state[1])
-    with np.errstate(divide="ignore", invalid="ignore"):
-        place_s = (state[2] - mean_t) / (mean_s - mean_t)
-        place_t = (state[3] - mean_t) / (mean_s - mean_t)
-    n = idx.size
-    out = np.empty((4, n * len(blocks)))
-    for j, (a, b, c, d) in enumerate(blocks):
-        mt, span = 0.5 * (b + d), 0.5 * (a + c - b - d)
-        cols = slice(j * n, (j + 1) * n)
-        out[0, cols], out[1, cols], out[2, cols], out[3, cols] = c, d, mt + place_s * span, mt + place_t * span
-    return out
-
-
-def _rate_air(plan, tag, m, t_air, t_t, f_t, r_air, r_t, idx, blocks):
-    """Rate an air cooler of the train: its tube stream at the network's inlet, the air at the match's ambient
-    (``t_air``, the shell-side port, probed like a stream inlet), flow and fouling."""
-    from ..service_air import AirService
-
-    air = plan.air[tag]
-
-    def cases(v):
-        return None if v is None else np.tile(v[idx], blocks)
-
-    svc = AirService(tube=Stream(plan.train.streams[m.tube].fluid, f_t, t_t), air_in=t_air,
-                     air_flow=cases(air["air_flow"]), face_velocity=cases(air["face_velocity"]),
-                     altitude=air["altitude"], fouling_tube=r_t, fouling_air=r_air)
-    return rate(m.exchanger, svc)
-
-
-def _side_value(r, name):
-    """A rating's field by its shell-and-tube name; an air cooler's air answers for the shell side."""
-    if hasattr(r, "C_air"):
-        name = {"t_out_shell": "t_out_air", "C_shell": "C_air", "dp_shell": "dp_air"}.get(name, name)
-    return getattr(r, name)
-
-
-def _coefficients(ratings, x, plan, n, probe):
-    """Per exchanger, the outlets as a linear function of the inlets: ``(J, c)`` with ``out = J @ in + c``.
-
-    ``linear``: from the rating's effectiveness and capacity rates (exact for fixed properties); ``newton``: from
-    finite differences of the rated outlets (the properties' temperature dependence included), or None.
-    """
-    linear, newton = {}, {}
-    for tag, r in ratings.items():
-        eps, cs, ct = (np.asarray(v, float).reshape(-1)[:n]
-                       for v in (r.effectiveness, _side_value(r, "C_shell"), r.C_tube))
-        c_min = np.minimum(cs, ct)
-        a_s, a_t = eps * c_min / cs, eps * c_min / ct
-        zero = np.zeros(n)
-        linear[tag] = (((1.0 - a_s, a_s), (a_t, 1.0 - a_t)), (zero, zero))
-        if probe:
-            o_s, o_t = np.asarray(_side_value(r, "t_out_shell"), float), np.asarray(r.t_out_tube, float)
-            j = ((( o_s[n:2 * n] - o_s[:n]) / probe, (o_s[2 * n:] - o_s[:n]) / probe),
-                 ((o_t[n:2 * n] - o_t[:n]) / probe, (o_t[2 * n:] - o_t[:n]) / probe))
-            xs, xt = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
-            c = (o_s[:n] - j[0][0] * xs - j[0][1] * xt, o_t[:n] - j[1][0] * xs - j[1][1] * xt)
-            newton[tag] = (j, c)
-    return linear, (newton or None)
-
-
 def _fall(last_two, idx):
     """The share by which the largest inlet change of the cases ``idx`` fell over the last pass (both passes rated
     them all; else 1) and that change [K]."""
@@ -403,48 +245,6 @@ def _fall(last_two, idx):
     with np.errstate(invalid="ignore", divide="ignore"):
         last = float(np.nanmax(r1))
         return last / float(np.nanmax(r0)), last
-
-
-def _chord(ratings, x, plan, idx, jac):
-    """The Newton form of the outlets from kept derivatives and this pass's rated outlets (a chord step)."""
-    n = idx.size
-    out = {}
-    for tag, r in ratings.items():
-        J = jac.get(tag)
-        if J is None:
-            return None
-        J = J[:, :, idx]
-        o_s = np.asarray(_side_value(r, "t_out_shell"), float).reshape(-1)[:n]
-        o_t = np.asarray(r.t_out_tube, float).reshape(-1)[:n]
-        xs, xt = x[:, plan.port(tag, "shell")], x[:, plan.port(tag, "tube")]
-        j = ((J[0, 0], J[0, 1]), (J[1, 0], J[1, 1]))
-        out[tag] = (j, (o_s - J[0, 0] * xs - J[0, 1] * xt, o_t - J[1, 0] * xs - J[1, 1] * xt))
-    return out
-
-
-def _update_equal_dp(plan, ratings, idx):
-    """New branch shares of the equal-pressure-drop splits from the branches' rated pressure drops; returns the
-    largest share change per case (0 without such splits). The shares converge to equal branch pressure drops
-    whatever the exponent; ``dp ~ flow^1.8`` only makes them converge faster."""
-    n = idx.size
-    change = np.zeros(n)
-    for stream, item in plan.equal_dp:
-        shares = plan.split_frac[id(item)]
-        dps = []
-        for branch in item.branches:
-            dp = 0.0
-            for tag in branch:
-                side = plan.train.exchangers[tag].side_of(stream)
-                dp = dp + np.asarray(getattr(ratings[tag], f"dp_{side}"), float).reshape(-1)[:n]
-            dps.append(dp)
-        new = [f[idx] * np.power(dp, -1.0 / _DP_EXPONENT) for f, dp in zip(shares, dps)]
-        total = sum(new)
-        for f, v in zip(shares, new):
-            v = v / total
-            ok = np.isfinite(v)
-            change = np.maximum(change, np.where(ok, np.abs(v - f[idx]), 0.0))
-            f[idx] = np.where(ok, v, f[idx])  # the arrays are shared with plan.frac: the flows follow
-    return change
 
 
 def _initial(plan):
@@ -609,9 +409,9 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     sv = _Solve(train, tol)
     plan = sv.plan
     # A sweep whose properties depend on temperature starts with single-evaluation (relaxed) passes. A case expected
-    # within tol after its next one waits; once no case is relaxed any more, the waiting cases are rated in full
-    # together (a closing group). When few cases are still relaxed, they go on with Newton passes (a group of their
-    # own, formed at once) and the waiting ones close; so do all, when the median case converges slowly.
+    # within tol after its next one waits; once no case is relaxed any more, the waiting cases take their closing
+    # passes together (a closing group). When few cases are still relaxed, they go on with Newton passes (a group of
+    # their own, formed at once) and the waiting ones close; so do all, when the median case converges slowly.
     relax = plan.ncase > _FLOAT_CASES and _RELAX_PASSES > 0 and not all(
         isinstance(st.fluid, ConstantFluid) for st in train.streams.values())
     mode = np.full(plan.ncase, _RELAXED if relax else _NEWTON)
