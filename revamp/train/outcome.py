@@ -141,6 +141,8 @@ def _reshape_rating(r, shape, ncase):
 
     if shape == () and isinstance(r.duty, float):  # rated on floats already (one case's closing pass)
         return r
+    if shape != () and np.shape(r.duty) == shape:  # a one-dimensional sweep: its flattened cases are its shape
+        return r
     changes = {}
     for name in _SCALAR_FIELDS:
         v = np.asarray(getattr(r, name), float).reshape(shape)
