@@ -391,8 +391,9 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         else:  # a case whose start is not finite starts from its inlets
             cold = ~np.all(np.isfinite(start), axis=0)
             warm_case = ~cold
-            S[:] = np.minimum(np.maximum(np.where(cold, np.stack((ts_in, tt_in, 0.5 * (ts_in + tt_in),
-                                                                   0.5 * (ts_in + tt_in))), start), t_lo), t_hi)
+            if cold.any():
+                start = np.where(cold, np.stack((ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))), start)
+            np.minimum(np.maximum(start, t_lo, out=S), t_hi, out=S)
         f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
         r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
         omega, damped = np.ones(n), np.zeros(n, dtype=bool)
@@ -444,7 +445,9 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 # Near a band edge of Taborek's fits the map jumps: there, plain substitution (a secant across a jump
                 # points nowhere), and where the outlet residual changes sign without shrinking (no fixed point: a seam)
                 # the step is halved at each change of sign, so that the case settles at the edge.
-                edge = _near_seam(ev.shell.Re) if seams else None
+                # (a pass that only steers a network solve needs the seams for its steps alone: not before
+                # the Anderson step is tried)
+                edge = _near_seam(ev.shell.Re) if seams and (tol_case is None or it >= _ANDERSON_FROM) else None
                 any_edge = edge is not None and bool(edge.any())
                 if any_edge:
                     if full_set:
