@@ -493,6 +493,7 @@ def test_relaxed_sweep_reaches_the_newton_solution_with_fewer_evaluations(monkey
 def test_relaxed_passes_never_end_a_case(monkeypatch):
     # a single-evaluation pass only steers the next one: with the passes cut short, nothing converged
     calls = _relaxed_calls(monkeypatch)
+    monkeypatch.setattr(sv, "_RELAX_RESERVE", 0)  # relaxed passes up to max_iter
     res = interlinked(np.linspace(40.0, 90.0, 12)).solve(max_iter=4)
     assert len(calls) == 5  # four passes, then every case rated at its last inlets for the result
     assert all(tol is not None and np.isinf(tol[0]) for tol, _ in calls[:4])
@@ -569,3 +570,18 @@ def test_settled_cases_are_evaluated_once_where_their_rating_stopped(monkeypatch
         mixed = rv.rate(hx(420), svc)
     np.testing.assert_array_equal(mixed.t_out_tube[half], cold.t_out_tube[half])
     np.testing.assert_allclose(mixed.t_out_tube, cold.t_out_tube, rtol=0, atol=1e-5)
+
+
+@pytest.mark.parametrize("max_iter", [6, 12])
+def test_relaxed_passes_leave_room_for_the_closing_ones(monkeypatch, max_iter):
+    # a caller's smaller max_iter: relaxed passes stop _RELAX_RESERVE passes short of it (none below three), so the
+    # sweep still converges within max_iter passes, to the solution of an unbounded solve
+    flows = np.linspace(40.0, 90.0, 12)
+    calls = _relaxed_calls(monkeypatch)
+    res = interlinked(flows).solve(max_iter=max_iter)
+    relaxed = sum(1 for tol, _ in calls if tol is not None and np.isinf(tol[0]))
+    assert relaxed == (0 if max_iter - sv._RELAX_RESERVE < 3 else max_iter - sv._RELAX_RESERVE)
+    assert np.all(res.converged) and res.iterations <= max_iter
+    free = interlinked(flows).solve()
+    np.testing.assert_allclose(res.exchangers["t_out_tube"].to_numpy(float),
+                               free.exchangers["t_out_tube"].to_numpy(float), rtol=0, atol=1e-5)

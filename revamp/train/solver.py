@@ -29,7 +29,8 @@ network's then converge together, each pass cutting the change by about a factor
 rating, where a Newton pass with probes takes three blocks of several evaluations. A case expected within half of
 tol (and of 1e-4 K, so that its closing rating starts close) after its next pass waits; when none is relaxed any
 more, or few are left, the waiting cases close together and the rest go on with Newton passes as one group formed
-at once (so do all, when the median case would need more than 12 further relaxed passes). Relaxed passes never end
+at once (so do all, when the median case would need more than 12 further relaxed passes, and after 20 relaxed
+passes or 6 passes short of ``max_iter``; with ``max_iter`` below 9 a sweep takes none). Relaxed passes never end
 a case. A sweep's closing passes ask for outlet maps too, which carry the state each case's rating stopped at; the
 result's Ratings are built once, one call per exchanger, by evaluating each finished case at that state
 (``warm_start``'s ``settled`` cases: the same evaluation at the same state, so the same numbers). A closing rating
@@ -80,6 +81,7 @@ _PROBE_TOL = 5e-3 * _PROBE_K  # probing passes: each block within ~2.5e-4 K (the
 _RELAX_READY = 1e-4  # a case is ready when expected within half the smaller of tol and this [K] (the closing
 # ratings stop at 1e-6 K steps: from a state much farther off they iterate longer than relaxed passes would take)
 _RELAX_PASSES = 20  # at most this many relaxed passes, then the Newton passes for every case left
+_RELAX_RESERVE = 6  # ... and never within this many passes of max_iter (three or more, or none at all)
 _RELAX_LEFT = 12  # ... or once the median case would need more than this many more (from the fourth on)
 _RELAX_FEW = 0.1  # ... or once no more than this share of the live cases is still relaxed
 _NEWTON, _RELAXED, _WAITING, _CLOSING = 0, 1, 2, 3  # a case's mode in a solve (see solve)
@@ -412,7 +414,8 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     # within tol after its next one waits; once no case is relaxed any more, the waiting cases take their closing
     # passes together (a closing group). When few cases are still relaxed, they go on with Newton passes (a group of
     # their own, formed at once) and the waiting ones close; so do all, when the median case converges slowly.
-    relax = plan.ncase > _FLOAT_CASES and _RELAX_PASSES > 0 and not all(
+    relax_cap = min(_RELAX_PASSES, max_iter - _RELAX_RESERVE)  # passes are left for the closing and Newton ones
+    relax = plan.ncase > _FLOAT_CASES and relax_cap >= 3 and not all(
         isinstance(st.fluid, ConstantFluid) for st in train.streams.values())
     mode = np.full(plan.ncase, _RELAXED if relax else _NEWTON)
     groups = {_NEWTON: _Group(), _CLOSING: _Group(closing=True)}
@@ -424,7 +427,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
             ready, to_newton = _relax_exit(sv.residual[r_idx], sv.fall[r_idx], sv.fall_two[r_idx], n_relax, tol)
             mode[r_idx[ready]] = _WAITING
             left = r_idx.size - np.count_nonzero(ready)
-            if to_newton or n_relax >= _RELAX_PASSES or left <= _RELAX_FEW * np.count_nonzero(live):
+            if to_newton or n_relax >= relax_cap or left <= _RELAX_FEW * np.count_nonzero(live):
                 mode[mode == _RELAXED] = _NEWTON
                 mode[mode == _WAITING] = _CLOSING
         r_idx = np.flatnonzero(live & (mode == _RELAXED))
