@@ -264,10 +264,11 @@ def _relax_exit(res, fall, fall2, n_relax, tol):
     sweep goes on with Newton passes instead: ``(ready, to_newton)``.
 
     Ready: expected within half of ``tol`` (and of :data:`_RELAX_READY`) after the next pass (its change times the
-    larger of its last fall and its mean fall over the last two passes); it waits for the others, then all waiting cases are rated in full together (a
-    change that is not finite, a failed case, counts as ready: the failure is flagged elsewhere). To Newton: from
-    the fourth relaxed pass on, when the median case would still need more than :data:`_RELAX_LEFT` relaxed passes
-    at its mean fall (a train whose properties pull hard on its temperatures: Newton's quadratic steps are quicker)."""
+    larger of its last fall and its mean fall over the last two passes); it waits for the others, then all waiting
+    cases take their closing pass together (a change that is not finite, a failed case, counts as ready: the failure
+    is flagged elsewhere). To Newton: from the fourth relaxed pass on, when the median case would still need more
+    than :data:`_RELAX_LEFT` relaxed passes at its mean fall (a train whose properties pull hard on its temperatures:
+    Newton's quadratic steps are quicker)."""
     aim = 0.5 * min(tol, _RELAX_READY)
     with np.errstate(invalid="ignore", divide="ignore"):
         ready = (res * np.minimum(np.fmax(fall, fall2), 1.0) < aim) | ~np.isfinite(res)
@@ -283,7 +284,7 @@ class _Group:
     def __init__(self, closing=False):
         self.history = []  # (cases, their largest inlet change) per pass of this group
         self.passes = 0
-        self.closing = closing  # every pass rates in full, as a closing pass (cases near the solution already)
+        self.closing = closing  # every pass is a closing pass, without probes (cases near the solution already)
 
 
 class _Solve:
@@ -346,8 +347,8 @@ class _Solve:
         fall, last = _fall(history[-2:], idx) if len(history) >= 2 else (1.0, np.inf)
         chord = newton_pass and bool(self.jac) and fall < _CHORD_FALL
         probe = _PROBE_K if newton_pass and not chord else 0.0
-        # the closing pass (no probes after the first) rates in full: its ratings are usually the final ones; so
-        # does a chord pass whose change, falling as the last did, may already be within tol
+        # the closing pass (no probes after the first) rates to the rating's own stop: its ratings are usually the
+        # final ones; so does a chord pass whose change, falling as the last did, may already be within tol
         intermediate = bool(probe) or (chord and fall * last > 10.0 * tol)
         # a few cases: the first and the probing passes ask only for the outlet maps (the result objects cost more
         # than such small ratings), the closing pass rates in full; every pass of a sweep asks for outlet maps, and
@@ -438,15 +439,14 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
             idx = np.flatnonzero(live & (mode == kind))
             if idx.size:
                 sv.newton(groups[kind], idx, n_relax == 0 and groups[_NEWTON].passes == 0, iterations)
-        if r_idx.size or np.count_nonzero(live & ((mode == _CLOSING) | (mode == _NEWTON))) < plan.ncase:
-            sv.rated_all = False  # this pass did not rate every case in full
         if np.all(sv.failed | sv.done | sv.stalled):
             break
     converged = sv.done & ~sv.failed
     if plan.ncase > _FLOAT_CASES:  # a sweep: the Ratings built at the states its closing passes stopped at, one
         # call per exchanger; a case that did not finish is rated in full from its last state
         ratings = _rate_all(plan, sv.x, np.arange(plan.ncase), starts=sv.starts, warm=sv.maps, settled=sv.settled)
-    elif sv.rated_all and sv.loose is None:  # the last pass rated every case in full: its base block is the rating
+    elif sv.rated_all and sv.loose is None:  # a few cases (one group, no relaxed passes) whose last pass rated them
+        # all in full: its base block is the rating
         ratings = _strip_probes(sv.ratings, plan.ncase)
     else:  # some cases stopped earlier: every case rated once more at its solved inlets from its inlets, as rate()
         ratings = _rate_all(plan, sv.x, np.arange(plan.ncase))
