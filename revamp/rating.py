@@ -521,7 +521,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
 
         # every case stopped at the state of its last evaluation: evaluate once more, all together, with the
         # pressure drops the iteration did not need (an outlet map without them has its numbers already)
-        if keep and have.all() and settled is None:
+        if keep and have.all():
             ev = _Eval(to_s=G_end[0], to_t=G_end[1], tw_s=G_end[2], tw_t=G_end[3], q=None, eps=E_end[0], w=None,
                        NTU=None, U=None, C_s=E_end[1], C_t=E_end[2], shell_min=None, R=None, tube=_NO_DP,
                        shell=_NO_DP, rho_s=None, rho_t=None, Pr_s=None, mu_ratio_t=None)

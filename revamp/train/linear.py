@@ -17,7 +17,9 @@ def _linear_solve(plan, x, coefs, idx):
     Every inlet is a route expression of outlets (or a fixed supply), ``in = L @ out + d``, and every outlet the
     exchanger's map of its own two inlets, so the outlets are eliminated: ``(I - L J) in = d + L c``, a system of the
     2·(exchangers) inlets per case (a quarter of the entries and an eighth of the factorization work of the dense
-    system of all ports, :func:`_linear_solve_dense`, which gives the same solution), then ``out = J in + c``.
+    system of all ports, :func:`_linear_solve_dense`, which gives the same solution), then ``out = J in + c``. From
+    :data:`_SPARSE_CASES` cases on, a network without splits builds the sparse entries straight from its feeds
+    (:func:`_linear_solve_fed`).
     """
     n, nc = plan.n, len(idx)
     m, nx = n // 2, n // 4  # inlets (and outlets): port p = 4i + 2s (+1 for the outlet) is unknown 2i + s
@@ -93,12 +95,10 @@ def _linear_solve_fed(plan, coefs, idx, fed):
         rhs[row] = np.ascontiguousarray(consts[idx, j])
         total += rhs[row]
     bad = ~np.isfinite(total)
-    prog = plan.__dict__.get("_fed_program")
-    if prog is None:
-        pattern = np.zeros((m, m), dtype=bool)
-        for i, j in a:
-            pattern[i, j] = True
-        prog = plan._fed_program = _program(pattern)
+    pattern = np.zeros((m, m), dtype=bool)
+    for i, j in a:
+        pattern[i, j] = True
+    prog = _program(pattern)  # computed once per structure
     dense_a, dense_b = dict(a), list(rhs)  # the entries as built (elimination replaces, never changes, arrays)
     t_in, weak = _eliminate(prog, a, rhs, nc)
     weak &= ~bad

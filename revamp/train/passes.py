@@ -90,11 +90,12 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
         state = None if starts is None or warm is None else starts.get(tag)
         if state is not None:
             state = _predicted(plan, tag, x, state if every else state[:, idx], warm.get(tag), idx, probe)
-        done = None if settled is None or tag not in settled else take(settled[tag].T).T
-        if done is not None:
+        done, done_mask = None if settled is None else settled.get(tag), None
+        if done is not None:  # the finished cases at the states their closing ratings stopped at
+            done = done if every else done[:, idx]
             done_mask = np.all(np.isfinite(done), axis=0)
-            state = np.where(done_mask, done, np.full((4, idx.size), np.nan) if state is None else state)
-        with warm_start(state, None if done is None else done_mask):
+            state = np.where(done_mask, done, np.nan if state is None else state)
+        with warm_start(state, done_mask):
             if light:
                 ratings[tag] = _rate_shell_and_tube(m.exchanger, svc, train.shell_method, outlets_only=True,
                                                     with_dp=bool(plan.equal_dp), blocks=3 if probe else 1, tol=tol)
