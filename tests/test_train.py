@@ -380,6 +380,47 @@ def test_equal_pressure_drop_split():
     assert info.value.field == "branches[1]"
 
 
+def _viscous_split(flow):
+    return Train(streams={"crude": rv.Stream(CRUDE_P, flow, "35 degC"), "kero": rv.Stream(KERO_P, 38, "190 degC"),
+                          "resid": rv.Stream(RESID_P, 30, "340 degC")},
+                 exchangers={"A": Match(hx(300), shell="kero", tube="crude"),
+                             "B": Match(hx(400), shell="kero", tube="crude"),
+                             "C": Match(hx(420), shell="resid", tube="crude")},
+                 routes={"crude": [Split([["A"], ["B"]], "equal_dp"), "C"], "kero": ["A", "B"], "resid": ["C"]})
+
+
+def _equal_dp_holds(res, flow):
+    # the definition: equal branch pressure drops, with the flows balancing at the remix (no source needed)
+    ex = res.exchangers
+    dp_a, dp_b = (ex.xs(t, level="tag") if res.shape else ex.loc[[t]] for t in ("A", "B"))
+    ok = np.atleast_1d(res.converged)
+    np.testing.assert_allclose(dp_a["dp_tube"].to_numpy()[ok], dp_b["dp_tube"].to_numpy()[ok], rtol=1e-6)
+    np.testing.assert_allclose((dp_a["flow_tube"].to_numpy() + dp_b["flow_tube"].to_numpy())[ok],
+                               np.broadcast_to(flow, ok.shape)[ok], rtol=1e-12)
+
+
+@pytest.mark.parametrize("flow", [54.0, 58.0])
+def test_equal_pressure_drop_split_of_viscous_fractions_converges(flow):
+    # petroleum fractions: a branch given less crude heats it more, which cuts its pressure drop further (the
+    # effective exponent of dp on the share is well above turbulent flow's 1.8); at these flows the shares used to
+    # swing between two values until the case was given up
+    res = _viscous_split(flow).solve()
+    assert res.converged
+    _equal_dp_holds(res, flow)
+
+
+def test_equal_pressure_drop_split_of_viscous_fractions_in_a_sweep():
+    # the same train swept: the cases that converge hold the definition; any that does not is flagged and named in
+    # the warnings, never dropped (today 30 of these 31; the share update is outside the Newton step, and where the
+    # shares' pull on the temperatures is strong a case's change can stop shrinking near 1e-4 K)
+    flows = np.linspace(30.0, 90.0, 31)
+    res = _viscous_split(flows).solve()
+    assert np.count_nonzero(res.converged) >= 29
+    _equal_dp_holds(res, flows)
+    if not np.all(res.converged):
+        assert any("did not converge" in w for w in res.warnings)
+
+
 def test_network_services_are_the_solved_inlets():
     from revamp.train import network_services
 

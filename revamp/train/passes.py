@@ -17,6 +17,8 @@ from ..service import Service, Stream
 
 _STATE_FIELDS = ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube")  # a rating's iteration state
 _DP_EXPONENT = 1.8  # pressure drop ~ flow^1.8 in turbulent flow (common practice, no source): speeds the shares
+_DP_EXPONENT_MIN, _DP_EXPONENT_MAX = 0.5, 20.0  # the secant exponent of a split's shares is used within these
+_DP_SECANT_STEP = 1e-5  # ... and taken only from a change of the log shares' spread above this
 
 
 class _RawStream(NamedTuple):
@@ -206,10 +208,17 @@ def _chord(ratings, x, plan, idx, jac):
 
 def _update_equal_dp(plan, ratings, idx):
     """New branch shares of the equal-pressure-drop splits from the branches' rated pressure drops; returns the
-    largest share change per case (0 without such splits). The shares converge to equal branch pressure drops
-    whatever the exponent; ``dp ~ flow^1.8`` only makes them converge faster."""
+    largest share change per case (0 without such splits).
+
+    Each share moves by its branch's log pressure-drop spread over an exponent: ``ln f <- ln f - (ln dp - mean) / p``
+    (normalized). With ``dp ~ f^p`` that is one step to equal pressure drops. ``p`` is the secant of the last two
+    passes' log spreads (a case's own), which takes in how the branch temperatures, and with them the viscosities,
+    move with the shares; :data:`_DP_EXPONENT` (turbulent flow) until there is one, or where it is out of
+    ``[_DP_EXPONENT_MIN, _DP_EXPONENT_MAX]``. A fixed 1.8 let the shares of a train of viscous fractions swing
+    between two values for ever, where a lower share heats its branch more and cuts its pressure drop further."""
     n = idx.size
     change = np.zeros(n)
+    memo = plan.__dict__.setdefault("_dp_secant", {})  # id(split) -> last (log share, log dp) spreads (b, ncase)
     for stream, item in plan.equal_dp:
         shares = plan.split_frac[id(item)]
         dps = []
@@ -218,11 +227,25 @@ def _update_equal_dp(plan, ratings, idx):
             for tag in branch:
                 side = plan.train.exchangers[tag].side_of(stream)
                 dp = dp + np.asarray(getattr(ratings[tag], f"dp_{side}"), float).reshape(-1)[:n]
-            dps.append(dp)
-        new = [f[idx] * np.power(dp, -1.0 / _DP_EXPONENT) for f, dp in zip(shares, dps)]
-        total = sum(new)
+            dps.append(np.broadcast_to(dp, (n,)))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            lf = np.log(np.stack([f[idx] for f in shares]))
+            ld = np.log(np.stack(dps))
+            lf, ld = lf - lf.mean(axis=0), ld - ld.mean(axis=0)  # the spreads over the branches
+            last = memo.get(id(item))
+            if last is None:
+                last = memo[id(item)] = (np.full((len(shares), plan.ncase), np.nan),
+                                         np.full((len(shares), plan.ncase), np.nan), np.full(plan.ncase, _DP_EXPONENT))
+            d_f, d_d = lf - last[0][:, idx], ld - last[1][:, idx]
+            den = np.sum(d_f * d_f, axis=0)
+            p = np.sum(d_f * d_d, axis=0) / den
+            # a secant only from a share change well above the pressure drops' noise; else the last one kept
+            p = np.where((den > _DP_SECANT_STEP ** 2) & (p >= _DP_EXPONENT_MIN) & (p <= _DP_EXPONENT_MAX), p,
+                         last[2][idx])
+            last[0][:, idx], last[1][:, idx], last[2][idx] = lf, ld, p
+            new = np.exp(lf - ld / p)
+            new = new / new.sum(axis=0)
         for f, v in zip(shares, new):
-            v = v / total
             ok = np.isfinite(v)
             change = np.maximum(change, np.where(ok, np.abs(v - f[idx]), 0.0))
             f[idx] = np.where(ok, v, f[idx])  # the arrays are shared with plan.frac: the flows follow

@@ -283,6 +283,7 @@ class _Group:
 
     def __init__(self, closing=False):
         self.history = []  # (cases, their largest inlet change) per pass of this group
+        self.shares = []  # ... and the largest change of their equal-pressure-drop shares
         self.passes = 0
         self.closing = closing  # every pass is a closing pass, without probes (cases near the solution already)
 
@@ -394,13 +395,19 @@ class _Solve:
             for tag, r in ratings.items():
                 if getattr(r, "state", None) is not None:
                     self.settled.setdefault(tag, np.full((4, plan.ncase), np.nan))[:, idx[fin]] = r.state[:, fin]
-        # a case whose change no longer shrinks (a correlation that jumps at a band edge between two passes: no
-        # exact solution) stops being rated; it stays flagged as not converged, with its last change
-        if len(history) > _STALL_PASSES:
+        # a case whose change no longer shrinks in a pass that may end it (a correlation that jumps at a band edge
+        # between two passes: no exact solution) stops being rated; it stays flagged as not converged, with its last
+        # change (a probing pass's looser ratings set a floor under the change; a case whose equal-pressure-drop
+        # shares still settle is not given up either: their change drives its temperatures')
+        group.shares.append(fres)
+        may_end = loose is None or loose[0] <= _TOL_K
+        if may_end and len(history) > _STALL_PASSES:
             old_idx, old_res = history[-1 - _STALL_PASSES]
-            before = np.full(plan.ncase, np.inf)
-            before[old_idx] = old_res
-            self.stalled[idx] |= ~fin & ~bad & (iterations >= _MIN_PASSES) & (res > 0.5 * before[idx])
+            before, shares_before = np.full(plan.ncase, np.inf), np.zeros(plan.ncase)
+            before[old_idx], shares_before[old_idx] = old_res, group.shares[-1 - _STALL_PASSES]
+            settling = fres < 0.5 * shares_before[idx]
+            self.stalled[idx] |= (~fin & ~bad & ~settling & (iterations >= _MIN_PASSES)
+                                  & (res > 0.5 * before[idx]))
 
 
 def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
