@@ -218,7 +218,7 @@ def _update_equal_dp(plan, ratings, idx):
     between two values for ever, where a lower share heats its branch more and cuts its pressure drop further."""
     n = idx.size
     change = np.zeros(n)
-    memo = plan.__dict__.setdefault("_dp_secant", {})  # id(split) -> last (log share, log dp) spreads (b, ncase)
+    memo = plan.dp_secant
     for stream, item in plan.equal_dp:
         shares = plan.split_frac[id(item)]
         dps = []

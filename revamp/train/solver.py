@@ -133,6 +133,7 @@ class _Plan:
         self.frac = {}  # (tag, side) -> share of its stream's flow, per case
         self.split_frac = {}  # id(split) -> [share of each branch, per case]
         self.equal_dp = []  # (stream, split) whose shares follow equal branch pressure drops
+        self.dp_secant = {}  # id(split) -> the last log share and log dp spreads (branches, ncase), the exponent
 
         def walk(stream, items):
             for item in items:
