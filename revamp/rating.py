@@ -180,7 +180,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     later block starts from the state its case of the first block stopped at (a state closer than any other), moved
     by the difference of the two cases' warm starts where those are given (see :func:`warm_start`). ``tol``: the
     outlet step [K] below which a case stops, ``(first block, later blocks)``; None: the rating's own 1e-6 K. Only a
-    network solve's intermediate passes loosen it (their outlet maps are refined by the next pass)."""
+    network solve's intermediate passes loosen it (their outlet maps are refined by the next pass); infinite for
+    both blocks, an outlet map without pressure drops is one evaluation at the start (a sweep's relaxed pass)."""
     kind = getattr(hx, "shell_type", "E")
     s_fluid, t_fluid = service.shell.fluid, service.tube.fluid
     shape = np.broadcast_shapes(*(np.shape(v) for v in (
@@ -394,6 +395,15 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             if cold.any():
                 start = np.where(cold, np.stack((ts_in, tt_in, 0.5 * (ts_in + tt_in), 0.5 * (ts_in + tt_in))), start)
             np.minimum(np.maximum(start, t_lo, out=S), t_hi, out=S)
+    single = (not on_floats and outlets_only and not with_dp and settled is None and tol is not None
+              and math.isinf(tol[0]) and math.isinf(tol[1]))
+    if single:  # one evaluation at the start, no stop to test (a network's relaxed pass): the loop's first
+        # iteration without its bookkeeping (the same numbers: every finite case stops there at its start)
+        ev = evaluate(None, S[0], S[1], S[2], S[3], detail=False)
+        ev = _Eval(to_s=ev.to_s, to_t=ev.to_t, tw_s=ev.tw_s, tw_t=ev.tw_t, q=None, eps=ev.eps, w=None, NTU=None,
+                   U=None, C_s=ev.C_s, C_t=ev.C_t, shell_min=None, R=None, tube=_NO_DP, shell=_NO_DP, rho_s=None,
+                   rho_t=None, Pr_s=None, mu_ratio_t=None)
+    elif not on_floats:
         f_prev, g_prev = np.zeros((4, n)), np.zeros((4, n))
         r_prev, s_prev = np.full(n, np.inf), np.zeros(n)
         omega, damped = np.ones(n), np.zeros(n, dtype=bool)

@@ -400,6 +400,25 @@ def test_outlet_map_from_the_stopping_evaluations_equals_a_last_evaluation(n):
     assert np.all(np.isnan(kept.dp_tube)) and np.all(np.isfinite(again.dp_tube))
 
 
+
+def test_single_evaluation_outlet_map_equals_the_loops_first_step():
+    # a relaxed pass (no stop: tol inf) evaluates once at its start without the loop's bookkeeping; the loop with a
+    # stop no case can miss ends at that same first evaluation: the same numbers, bit for bit
+    n = 40
+    svc = rv.Service(shell=rv.Stream(RESID_P, np.linspace(15.0, 35.0, n), 600.0),
+                     tube=rv.Stream(CRUDE_P, 60.0, np.linspace(350.0, 420.0, n)),
+                     fouling_shell=5e-4, fouling_tube=7e-4)
+    start = np.stack((np.full(n, 520.0), np.full(n, 430.0), np.full(n, 500.0), np.full(n, 450.0)))
+    with rv.rating.warm_start(start):
+        single = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False,
+                                                 tol=(np.inf, np.inf))
+        looped = rating_mod._rate_shell_and_tube(hx(420), svc, "bell-delaware", outlets_only=True, with_dp=False,
+                                                 tol=(1e300, 1e300))
+    for name in ("t_out_shell", "t_out_tube", "t_wall_shell", "t_wall_tube", "effectiveness", "C_shell", "C_tube",
+                 "state"):
+        np.testing.assert_array_equal(getattr(single, name), getattr(looped, name))
+    np.testing.assert_array_equal(single.state, start)  # evaluated at its start, which it keeps
+
 @pytest.mark.parametrize("n", [6, 300], ids=["float path", "array path"])
 @pytest.mark.parametrize("edge", [100.0, 1000.0])
 def test_warm_started_case_near_a_seam_settles_exactly_as_from_its_inlets(monkeypatch, n, edge):
