@@ -47,8 +47,8 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
     the new ratings), from which a warm pass predicts its start.
     ``outlets_only``: shell-and-tube exchangers return only what the next pass needs (:class:`OutletMap`).
     ``warm``: per exchanger, the outlet map ``J`` (2, 2, ncase) of the last pass; given, every block starts from the
-    state predicted by :func:`_predicted` (an intermediate pass), else the base block starts from the inlets as
-    ``rate()`` does (a pass whose ratings may be the final ones). ``tol``: the ratings' stopping step
+    state predicted by :func:`_predicted` (every pass but a solve's first), else the base block starts from the
+    inlets as ``rate()`` does. ``tol``: the ratings' stopping step
     ``(base block, probe blocks)`` [K], None for the rating's own. ``settled``: per shell-and-tube exchanger, the
     state ``(4, ncase)`` each case stopped at in a closing pass (NaN where none): such a case is evaluated there once
     (see :func:`~revamp.rating_loop.warm_start`), the others start as ``warm`` says.
@@ -83,10 +83,10 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
                 f_s, t_s, f_t, t_t, r_s, r_t = (float(v[0]) for v in (f_s, t_s, f_t, t_t, r_s, r_t))
             svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
                           tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
-        # A pass whose ratings may be the final ones starts each case's base block from the inlets, as rate() alone
-        # does, so that rating an exchanger at its solved inlets gives back exactly the result's numbers; an
-        # intermediate pass starts from the predicted state (warm). On the few-case float path the probes start
-        # from their base case's stopping state (blocks=3), moved as their predicted starts differ.
+        # A warm pass starts from the predicted state; a rating that may be final still stops where rate() does,
+        # walls included, and one that met a seam of Taborek's fits is iterated again from its inlets, so that it
+        # agrees with rate() at the same inlets to within the rating's own step. On the few-case float path the
+        # probes start from their base case's stopping state (blocks=3), moved as their predicted starts differ.
         # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are
         # liquid: never the condensing engine), so its passes may call the engine body for outlet maps.
         state = None if starts is None or warm is None else starts.get(tag)

@@ -18,9 +18,10 @@ The ratings of a pass whose outlet maps only steer the next pass (the first one,
 the Newton passes with their finite-difference probes) start from the state the last linear solve predicts (its
 outlets at these inlets, each wall kept at its place between the two mean temperatures) and stop at a looser step
 (5 K on the first pass, 2.5e-4 K on a probing one: derivatives to about 1 %, which keeps the Newton step's
-convergence); a case converges only on a pass rated to the rating's own 1e-6 K step, and a one-case
-solve's closing pass rates from the inlets exactly as ``rate()`` does, so that its result is the Rating a user
-gets there.
+convergence); a case converges only on a pass rated to the rating's own 1e-6 K step. The closing pass starts from
+the predicted state too (its inlets have moved by about tol since the last pass): each rating still stops at the
+rating's own step, walls included, so that it agrees with ``rate()`` from the inlets to within that step (see
+below for the seams of Taborek's fits).
 
 A sweep (more cases than the rating iterates on floats) whose properties depend on temperature takes relaxed passes
 first: each rating is evaluated once, at the state the last linear solve predicts (the first pass: at its inlets),
@@ -356,16 +357,16 @@ class _Solve:
         # than such small ratings), the closing pass rates in full; every pass of a sweep asks for outlet maps, and
         # its Ratings are built once at the end, at the states where its cases' closing ratings stopped
         light_pass = plan.ncase > _FLOAT_CASES or intermediate or first
-        # an intermediate pass starts its ratings from the state the last linear solve predicts and lets them stop
-        # at a looser step (never looser than what its use needs); the first pass starts from the inlets, the
-        # others rate as rate() does: their ratings may be the final ones, and only they may end a case
+        # every pass but the first starts its ratings from the state the last linear solve predicts; an
+        # intermediate pass lets them stop at a looser step (never looser than what its use needs), the others stop
+        # where rate() does: their ratings may be the final ones, and only they may end a case
         if first:
             loose, warm = (_FIRST_TOL, _FIRST_TOL), None
         elif intermediate:
             # a chord pass: its step is already near the solution; its ratings keep the rating's own stop
             loose, warm = ((_PROBE_TOL, _PROBE_TOL) if probe else (_TOL_K, _TOL_K)), self.maps
-        else:  # a sweep's closing pass starts from the predicted state too (a one-case solve's from its inlets)
-            loose, warm = None, (self.maps if plan.ncase > _FLOAT_CASES else None)
+        else:  # the closing pass: within about tol of the solution, so its predicted state is close
+            loose, warm = None, self.maps
         ratings = _rate_all(plan, xa, idx, probe=probe, starts=self.starts, outlets_only=light_pass, warm=warm,
                             tol=loose)
         self.ratings, self.rated_all, self.loose = ratings, idx.size == plan.ncase, loose
