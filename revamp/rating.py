@@ -361,12 +361,13 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             rows, lasts = [], []
             for i in range(n):
                 hold = []
+                moved = None if i < first or start is None else (start[:, i] - start[:, i % first]).tolist()
                 if i < first:
                     s_i = None if start is None else start[:, i]
-                elif start is None or not np.all(np.isfinite(start[:, i] - start[:, i % first])):
+                elif moved is None or not all(math.isfinite(d) for d in moved):
                     s_i = rows[i % first]
                 else:  # the base case's stopping state, moved as the warm starts of the two differ
-                    s_i = tuple(a + b for a, b in zip(rows[i % first], (start[:, i] - start[:, i % first]).tolist()))
+                    s_i = tuple(a + b for a, b in zip(rows[i % first], moved))
                 rows.append(_iterate_one(functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
                                          s_i, last=hold, tol=_TOL_K if tol_case is None else float(tol_case[i]),
                                          warm=tol_case is None and s_i is not None))
@@ -539,17 +540,20 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
             ev = evaluate(None, S[0], S[1], S[2], S[3])
     xs, xt = S[0], S[1]
     to_s, to_t, q, U = ev.to_s, ev.to_t, ev.q, ev.U
-    residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))
-    unsettled = residual > _SETTLED_K
 
     # ---- cases that leave a fluid's liquid range at an inlet or an outlet (a single case raises)
     invalid, range_msgs = out_of_range(s_fluid, t_fluid, ts_in, tt_in, to_s, to_t, shape)
 
     if outlets_only:
-        bad = np.where(invalid, np.nan, 0.0) if invalid.any() else 0.0
-        return OutletMap(to_s + bad, to_t + bad, ev.tw_s + bad, ev.tw_t + bad, ev.eps + bad, ev.C_s * n_par + bad,
-                         ev.C_t * n_par + bad, np.asarray(ev.shell.dp) * hx.shells + bad, ev.tube.dp * hx.shells + bad,
-                         S)
+        maps = (to_s, to_t, ev.tw_s, ev.tw_t, ev.eps, ev.C_s * n_par, ev.C_t * n_par,
+                np.asarray(ev.shell.dp) * hx.shells, ev.tube.dp * hx.shells)
+        if invalid.any():  # NaN where a stream leaves its fluid's range
+            bad = np.where(invalid, np.nan, 0.0)
+            maps = tuple(v + bad for v in maps)
+        return OutletMap(*maps, S)
+
+    residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))
+    unsettled = residual > _SETTLED_K
 
     # ---- counterflow terminal differences from 1 - eps (no cancellation near eps = 1), F and LMTD
     Cr = np.where(ev.shell_min, ev.C_s / ev.C_t, ev.C_t / ev.C_s)

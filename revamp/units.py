@@ -14,6 +14,7 @@ Examples
 """
 from __future__ import annotations
 
+import math
 import numbers
 import re
 from functools import lru_cache
@@ -214,6 +215,8 @@ def to_si(value, kind: str, field: str = "value"):
     """
     if kind not in DIMENSIONS:
         raise InputError("kind", kind, f"one of {sorted(DIMENSIONS)}")
+    if type(value) is float and math.isfinite(value):  # the common case inside the package: SI already
+        return value
     si_unit, words = DIMENSIONS[kind]
     if isinstance(value, bool) or value is None:
         raise InputError(field, value, words)
@@ -249,6 +252,10 @@ def require(value, field: str, *, gt=None, ge=None, lt=None, le=None, what: str 
 
     Returns the value unchanged so that it can be used inline.
     """
+    if type(value) is float and all(b is None or type(b) in (int, float) for b in (gt, ge, lt, le)) and (
+            (gt is None or value > gt) and (ge is None or value >= ge) and (lt is None or value < lt)
+            and (le is None or value <= le)):
+        return value  # a float within number bounds (NaN is not: it takes the checks below)
     arr = np.asarray(value)
     conds = []
     ok = np.ones(arr.shape, dtype=bool)

@@ -9,7 +9,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from revamp.errors import InputError
-from revamp.units import DISPLAY_UNITS, from_si, to_si
+from revamp.units import DISPLAY_UNITS, from_si, require, to_si
 
 
 @pytest.mark.parametrize(
@@ -185,3 +185,25 @@ def test_shared_registry_refuses_exploding_expressions_from_any_caller():
     assert proc.returncode == 0, proc.stderr[-2000:]
     # 2**10 = 1024: a small power of a number is still read
     assert proc.stdout.split() == ["refused"] * 8 + ["1024"]
+
+
+@pytest.mark.parametrize("value", [0.0, -1.5, 3.0, float("nan"), float("inf"), -float("inf")])
+@pytest.mark.parametrize("bounds", [dict(gt=0), dict(ge=0.0), dict(gt=-1, lt=2.5), dict(le=3), dict(ge=np.float64(1.0))])
+def test_float_shortcut_of_require_decides_as_the_array_checks(value, bounds):
+    # a Python float takes a shortcut; the same value as a 0-d array takes the general checks: the same verdict
+    # (NaN and infinities included; an array bound goes the general way)
+    def verdict(v):
+        try:
+            require(v, "f", **bounds)
+        except InputError as exc:
+            return str(exc)
+        return "ok"
+
+    assert verdict(value) == verdict(np.asarray(value))
+
+
+@pytest.mark.parametrize("value", [float("nan"), float("inf"), -float("inf")])
+def test_a_float_that_is_not_finite_is_refused_by_name(value):
+    with pytest.raises(InputError, match="finite") as info:
+        to_si(value, "temperature", "t_in")
+    assert str(info.value).startswith("t_in: ")

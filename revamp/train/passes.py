@@ -69,7 +69,7 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
         if probe:
             t_s = np.concatenate([t_s, t_s + probe, t_s])
             t_t = np.concatenate([t_t, t_t, t_t + probe])
-            f_s, f_t, r_s, r_t = (np.tile(v, 3) for v in (f_s, f_t, r_s, r_t))
+            f_s, f_t, r_s, r_t = (np.concatenate((v, v, v)) for v in (f_s, f_t, r_s, r_t))
         t_t = np.where(t_s == t_t, t_t + 1e-9, t_t)  # equal inlets: no duty either way; rate() needs a difference
         if m.is_air_cooler:
             ratings[tag] = _rate_air(plan, tag, m, t_s, t_t, f_t, r_s, r_t, idx, 3 if probe else 1)
