@@ -509,6 +509,39 @@ def test_relaxed_sweep_reaches_the_newton_solution_with_fewer_evaluations(monkey
                                rtol=1e-6, atol=0)
 
 
+def test_first_guess_balances_energy_and_places_the_first_pass_between_the_supplies(monkeypatch):
+    # the guess gives every exchanger one effectiveness; its outlets then balance the heat of the two streams at
+    # their supply heat capacities (the effectiveness-NTU definitions), and the first relaxed pass rates each
+    # exchanger at the guessed inlets, which lie between the coldest and the hottest supply temperature
+    tr = interlinked(np.linspace(40.0, 90.0, 12))
+    plan = sv._Plan(tr)
+    idx = np.arange(plan.ncase)
+    x, _ = sv._linear_solve(plan, sv._initial(plan), sv._guessed_maps(plan, idx), idx)
+    for tag, m in tr.exchangers.items():
+        ps, pt = plan.port(tag, "shell"), plan.port(tag, "tube")
+        cp_s = tr.streams[m.shell].fluid.props(plan.supply[m.shell]).heat_capacity
+        cp_t = tr.streams[m.tube].fluid.props(plan.supply[m.tube]).heat_capacity
+        c_s, c_t = plan.flow[m.shell] * cp_s, plan.flow[m.tube] * cp_t
+        np.testing.assert_allclose(c_s * (x[:, ps] - x[:, ps + 1]), c_t * (x[:, pt + 1] - x[:, pt]), rtol=1e-12)
+        q_max = np.minimum(c_s, c_t) * np.abs(x[:, ps] - x[:, pt])
+        np.testing.assert_allclose(np.abs(c_s * (x[:, ps] - x[:, ps + 1])), sv._GUESS_EPS * q_max, rtol=1e-12)
+    seen = []
+    real = sv._rate_all
+
+    def first_pass(plan_, xa, idx_, **kw):
+        seen.append(xa.copy())
+        return real(plan_, xa, idx_, **kw)
+
+    monkeypatch.setattr(sv, "_rate_all", first_pass)
+    tr.solve(max_iter=12)
+    inlets = seen[0][:, [plan.port(t, s) for t in tr.exchangers for s in ("shell", "tube")]]
+    np.testing.assert_array_equal(inlets, x[:, [plan.port(t, s) for t in tr.exchangers for s in ("shell", "tube")]])
+    supplies = [plan.supply[s] for s in tr.streams]
+    assert np.all(inlets >= np.min(supplies) - 1e-9) and np.all(inlets <= np.max(supplies) + 1e-9)
+    for tag in ("E-102", "E-104"):  # the crude reaches them heated, not at its supply temperature
+        assert np.all(seen[0][:, plan.port(tag, "tube")] > plan.supply["crude"] + 10.0)
+
+
 def test_relaxed_passes_never_end_a_case(monkeypatch):
     # a single-evaluation pass only steers the next one: with the passes cut short, nothing converged
     calls = _relaxed_calls(monkeypatch)
