@@ -565,6 +565,43 @@ def test_constant_property_sweep_takes_no_relaxed_pass(monkeypatch):
     assert not any(tol is not None and np.isinf(tol[0]) for tol, _ in calls)
 
 
+def test_constant_property_sweep_takes_plain_passes_to_the_one_case_solutions(monkeypatch):
+    # constant-property streams on a carbon-steel tube (its conductivity depends on temperature): a sweep takes
+    # plain passes, no probes, and reaches what each case's own solve (with its Newton probes) reaches
+    kero = rv.fluids.constant(density=760.0, heat_capacity=2500.0, viscosity=0.6e-3, conductivity=0.13)
+    crude = rv.fluids.constant(density=830.0, heat_capacity=2300.0, viscosity=2.0e-3, conductivity=0.12)
+    resid = rv.fluids.constant(density=900.0, heat_capacity=2700.0, viscosity=4e-3, conductivity=0.11)
+
+    def train(flow):
+        return Train(streams={"crude": rv.Stream(crude, flow, "35 degC"), "resid": rv.Stream(resid, 30, "340 degC"),
+                              "kero": rv.Stream(kero, 38, "190 degC")},
+                     exchangers={"E-101": Match(hx(), shell="kero", tube="crude", fouling_tube=5e-4),
+                                 "E-102": Match(hx(420), shell="resid", tube="crude", fouling_shell=5e-4),
+                                 "E-104": Match(hx(460), shell="resid", tube="crude", fouling_shell=5e-4)},
+                     routes={"crude": ["E-101", "E-102", "E-104"], "resid": ["E-104", "E-102"], "kero": ["E-101"]})
+
+    flows = np.linspace(40.0, 90.0, 12)
+    probes = []
+    real = sv._rate_all
+
+    def recording(plan, x, idx, probe=0.0, **kw):
+        probes.append((idx.size, probe))
+        return real(plan, x, idx, probe=probe, **kw)
+
+    monkeypatch.setattr(sv, "_rate_all", recording)
+    sweep = train(flows).solve()
+    assert np.all(sweep.converged) and not any(p for _, p in probes)
+    probes.clear()
+    for k in (0, 7, 11):
+        one = train(flows[k]).solve()
+        assert one.converged
+        rows = sweep.exchangers.xs(k, level="case")
+        for col in ("t_out_shell", "t_out_tube"):  # both to 1e-6 K, each rating within its 1e-6 K steps [K]
+            np.testing.assert_allclose(rows[col].to_numpy(float), one.exchangers[col].to_numpy(float), atol=1e-5,
+                                       rtol=0)
+    assert any(p for _, p in probes)  # a one-case solve keeps its probes
+
+
 def test_relaxed_passes_hand_over_to_newton_when_slow(monkeypatch):
     # a train whose relaxed passes converge slowly (here: any case needing one more counts as slow) goes on with
     # Newton passes after three relaxed ones, to the same solution

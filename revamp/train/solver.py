@@ -23,6 +23,9 @@ the predicted state too (its inlets have moved by about tol since the last pass)
 rating's own step, walls included, so that it agrees with ``rate()`` from the inlets to within that step (see
 below for the seams of Taborek's fits).
 
+A sweep of constant-property streams (no air cooler) takes plain passes, without probes: only the tube wall's
+conductivity then depends on temperature, and each plain pass cuts the change by about 1e-4.
+
 A sweep (more cases than the rating iterates on floats) whose properties depend on temperature takes relaxed passes
 first: each rating is evaluated once, at the state the last linear solve predicts (the first pass: that of a first
 guess with every exchanger at an effectiveness of 0.4, not the supply temperatures),
@@ -336,6 +339,11 @@ class _Solve:
         self.fall_two = np.ones(plan.ncase)  # ... and its mean share over its last two (geometric)
         self.ratings, self.rated_all, self.loose = None, False, None  # the last Newton pass's
         self.settled = {}  # per exchanger, the state (4, ncase) each finished case's closing rating stopped at
+        # constant-property streams and no air: only the tube wall's conductivity depends on temperature, so a plain
+        # pass cuts the change by about 1e-4 and a sweep takes no probes (three blocks of ratings for derivatives it
+        # hardly needs); a one-case solve keeps them (its probes are cheap on floats, its plain passes rate in full)
+        self.steady = (plan.ncase > _FLOAT_CASES and not plan.air
+                       and all(isinstance(st.fluid, ConstantFluid) for st in train.streams.values()))
 
     def _keep_maps(self, coefs, idx):
         for tag, (j, _) in coefs.items():
@@ -389,7 +397,8 @@ class _Solve:
         # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
-        newton_pass = not first and not group.closing and np.max(self.residual[idx]) > np.sqrt(tol)
+        newton_pass = (not first and not group.closing and not self.steady
+                       and np.max(self.residual[idx]) > np.sqrt(tol))
         # once the change has fallen fast (the step is near quadratic: the derivatives barely move any more), the
         # last probes' derivatives are kept for the next steps (a chord step: no probes, a third of the ratings)
         fall, last = _fall(history[-2:], idx) if len(history) >= 2 else (1.0, np.inf)
