@@ -531,3 +531,30 @@ def test_pure_keeps_the_users_label_and_checks_its_name_at_once():
     with pytest.raises(InputError) as exc:
         pure("NotAFluid")
     assert exc.value.field == "pure.name"
+
+
+@settings(max_examples=80, deadline=None)
+@given(st.lists(st.floats(200.0, 700.0), min_size=1, max_size=12), st.sampled_from(["light", "heavy"]))
+def test_petroleum_check_flags_what_a_value_by_value_scan_flags(temps, kind):
+    # the check decides each range from the extreme temperatures (each range is an interval, ASTM D341's viscosity is
+    # monotonic in T); a scan of every value, written out here, must flag the same ranges
+    import importlib
+
+    pet = importlib.import_module("revamp.fluids.petroleum")  # the module (the package exports the function)
+    visc = {"light": [("40 degC", "1.5 cSt"), ("100 degC", "0.75 cSt")],
+            "heavy": [("100 degC", "60 cSt"), ("150 degC", "15 cSt")]}[kind]
+    f = petroleum(api=30, watson_k=11.8, viscosity=visc)
+    t = np.array(temps)
+    bands = {"overall range": (f.t_min, f.t_max), "Rackett density": (f.t_min, pet.TR_DENSITY * f.tc),
+             "Kesler-Lee cp": (f.t_min, pet.TR_CP * f.tc), "conductivity": (f.t_min, pet.TR_CONDUCTIVITY * f.tc),
+             "ASTM D341 viscosity": (f.visc_t1, f.visc_t2)}
+    expected = {name for name, (lo, hi) in bands.items() if np.any((t < lo) | (t > hi))}
+    nu = np.array([float(f.kinematic_viscosity(v)) for v in temps]) * 1e6
+    if np.any((nu < pet.NU_MIN_CST) | (nu > pet.NU_MAX_CST)):
+        expected.add("ASTM D341: viscosity")
+    got = set()
+    for w in f.check(t):
+        for name in list(bands) + ["ASTM D341: viscosity"]:
+            if f"{f.name}: {name}" in w:
+                got.add(name)
+    assert got == expected

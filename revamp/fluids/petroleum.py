@@ -285,18 +285,27 @@ class PetroleumFluid:
         arr = joined_temperatures(*T)
         arr = arr[np.isfinite(arr)]
         n = self.name
-        w = range_check(f"{n}: overall range (0 °F to min(700 °F, 0.95 Tc))", arr, self.t_min, self.t_max)
-        w += range_check(f"{n}: Rackett density", arr, self.t_min, TR_DENSITY * self.tc,
-                         f"range (to {TR_DENSITY:g} Tc)")
-        w += range_check(f"{n}: Kesler-Lee cp", arr, self.t_min, TR_CP * self.tc, f"range (to {TR_CP:g} Tc)")
-        w += range_check(f"{n}: conductivity (Cragoe at 100 °F, Latini's T function)", arr, self.t_min,
-                         TR_CONDUCTIVITY * self.tc, f"range (to {TR_CONDUCTIVITY:g} Tc)")
-        w += range_check(f"{n}: ASTM D341 viscosity", arr, self.visc_t1, self.visc_t2,
-                         "measured points (extrapolated beyond them)")
+        if arr.size:  # every range below is an interval: the extremes decide whether any temperature is outside
+            lo, hi = float(arr.min()), float(arr.max())
+
+        def temperatures(name, t_min, t_max, what="valid range"):
+            return [] if not arr.size or (lo >= t_min and hi <= t_max) else range_check(name, arr, t_min, t_max, what)
+
+        w = temperatures(f"{n}: overall range (0 °F to min(700 °F, 0.95 Tc))", self.t_min, self.t_max)
+        w += temperatures(f"{n}: Rackett density", self.t_min, TR_DENSITY * self.tc, f"range (to {TR_DENSITY:g} Tc)")
+        w += temperatures(f"{n}: Kesler-Lee cp", self.t_min, TR_CP * self.tc, f"range (to {TR_CP:g} Tc)")
+        w += temperatures(f"{n}: conductivity (Cragoe at 100 °F, Latini's T function)", self.t_min,
+                          TR_CONDUCTIVITY * self.tc, f"range (to {TR_CONDUCTIVITY:g} Tc)")
+        w += temperatures(f"{n}: ASTM D341 viscosity", self.visc_t1, self.visc_t2,
+                          "measured points (extrapolated beyond them)")
         if arr.size:
-            nu_cst = self.kinematic_viscosity(arr) * 1e6
-            w += range_warning(f"{n}: ASTM D341", "viscosity [cSt]", nu_cst, NU_MIN_CST, NU_MAX_CST,
-                               "ASTM D341, from memory; values above are held at 2e7 cSt")
+            # ASTM D341's viscosity is monotonic in T (log log Z linear in log T, ν increasing in Z): its extremes are
+            # at the extreme temperatures; only where they come near a bound are all values taken
+            ends = self.kinematic_viscosity(np.array([lo, hi])) * 1e6
+            if not (ends.min() > NU_MIN_CST * (1.0 + 1e-9) and ends.max() < NU_MAX_CST * (1.0 - 1e-9)):
+                nu_cst = self.kinematic_viscosity(arr) * 1e6
+                w += range_warning(f"{n}: ASTM D341", "viscosity [cSt]", nu_cst, NU_MIN_CST, NU_MAX_CST,
+                                   "ASTM D341, from memory; values above are held at 2e7 cSt")
         w += range_warning(f"{n}: Kesler & Lee (1976) cp", "Watson K", self.watson_k, 10.0, 13.0,
                            "Kesler & Lee (1976), from memory")
         w += range_warning(f"{n}: Riazi & Daubert (1980) Tc, Pc", "Tb [K]", self.tb, _F(100.0), _F(850.0),

@@ -186,15 +186,22 @@ def _frame(rows, shape, index_name):
     ncase = int(np.prod(shape, dtype=int))
     names = list(dict.fromkeys(c for cols in rows.values() for c in cols))
     data = {}
-    for c in names:  # each column at once over all items: numbers as one float array, text as one list
+    for c in names:  # each column at once over all items: numbers as one float array, text as one object array
         vals = [cols.get(c, np.nan) for cols in rows.values()]
         if all(isinstance(v, np.ndarray) and v.dtype.kind == "f" or isinstance(v, float) for v in vals):
             data[c] = np.concatenate([np.broadcast_to(np.asarray(v, float), (ncase,)) for v in vals])
+        elif not any(isinstance(v, np.ndarray) for v in vals):  # one value per item (a stream's name)
+            items = np.empty(len(vals), dtype=object)
+            items[:] = vals
+            data[c] = np.repeat(items, ncase)
         else:
             data[c] = [w for v in vals for w in (list(np.broadcast_to(v, (ncase,))) if isinstance(v, np.ndarray)
                                                  else [v] * ncase)]
-    return pd.DataFrame(data, index=pd.MultiIndex.from_product([list(rows), range(ncase)],
-                                                               names=[index_name, "case"]))
+    # the (item, case) index from its levels and codes: what MultiIndex.from_product builds, without factorizing
+    index = pd.MultiIndex(levels=[pd.Index(list(rows)), pd.RangeIndex(ncase)],
+                          codes=[np.repeat(np.arange(len(rows)), ncase), np.tile(np.arange(ncase), len(rows))],
+                          names=[index_name, "case"], verify_integrity=False)
+    return pd.DataFrame(data, index=index)
 
 
 def _result(plan, x, ratings, converged, failed, residual, iterations, tol):
