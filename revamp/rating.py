@@ -416,9 +416,9 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         # blocks start from the states their cases of the first block stopped at (as on the float path): a few
         # steps each instead of the first block's many
         chained = blocks > 1 and first < n and first >= _CHAIN_CASES
-        # a warm-started case that met a seam on the way is iterated again from its inlets, in a last stage (see
-        # _cold_at_seam): where a rating may be final, a warm start changes only the number of iterations
-        met = np.zeros(n, dtype=bool)
+        # a warm-started case that took halved steps at a seam is iterated again from its inlets, in a last stage
+        # (see _cold_at_seam): where a rating may be final, a warm start changes only the number of iterations
+        halved = np.zeros(n, dtype=bool)
         stages = [("base", np.arange(first)), ("probes", np.arange(first, n))] if chained else [("all", np.arange(n))]
         if settled is not None:  # only the other cases iterate (none: no iteration at all)
             stages = [("all", np.flatnonzero(~settled))] if not settled.all() else []
@@ -460,16 +460,15 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                 # the Anderson step is tried)
                 edge = _near_seam(ev.shell.Re) if seams and (tol_case is None or it >= _ANDERSON_FROM) else None
                 any_edge = edge is not None and bool(edge.any())
-                if any_edge:
-                    if full_set:
-                        met |= edge
-                    else:
-                        met[active] |= edge
                 s_now = np.sign(f[1])
                 if any_edge and it >= _SEAM_FROM:
                     flip = edge & (s_now * sp < 0) & (r > 0.7 * rp)
                     dm = dmp | flip
                     om = np.where(flip, 0.5 * om, om)
+                    if full_set:
+                        halved |= dm
+                    else:
+                        halved[active] |= dm
                 else:  # no case flips
                     dm = dmp
                 if it >= _ANDERSON_FROM:
@@ -516,7 +515,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                             S[:, i] = _iterate_one(
                                 functools.partial(evaluate_one, i), float(ts_in[i]), float(tt_in[i]), seams,
                                 tol=_TOL_K if tol_case is None else float(tol_case[i]), walls=bool(warm_case[i]),
-                                warm=tol_case is None and bool(warm_case[i]), met=bool(met[i]), last=hold,
+                                warm=tol_case is None and bool(warm_case[i]), halved=bool(halved[i]), last=hold,
                                 resume=(it + 1, tuple(S[:, i].tolist()), tuple(f_prev[:, i].tolist()),
                                         tuple(g_prev[:, i].tolist()), float(r_prev[i]), float(s_prev[i]),
                                         float(omega[i]), bool(damped[i])))
@@ -526,7 +525,7 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
                         continue
                     break
             if seams and kind_stage != "cold" and k_stage == len(stages) - 1:
-                cold = np.flatnonzero(_cold_at_seam(warm_case, met, tol_case))
+                cold = np.flatnonzero(_cold_at_seam(warm_case, halved, tol_case))
                 if cold.size:
                     stages.append(("cold", cold))
 

@@ -419,12 +419,8 @@ def test_single_evaluation_outlet_map_equals_the_loops_first_step():
         np.testing.assert_array_equal(getattr(single, name), getattr(looped, name))
     np.testing.assert_array_equal(single.state, start)  # evaluated at its start, which it keeps
 
-@pytest.mark.parametrize("n", [6, 300], ids=["float path", "array path"])
-@pytest.mark.parametrize("edge", [100.0, 1000.0])
-def test_warm_started_case_near_a_seam_settles_exactly_as_from_its_inlets(monkeypatch, n, edge):
-    # shell-side Re across a band edge of Taborek's fits (10^k): a warm-started case that met the edge on the way is
-    # iterated again from its inlets, so that a rating that may be final does not depend on where it started
-    ex = hx(420)
+def _near_edge_service(ex, edge, n, spread=(0.97, 1.08)):
+    """A residue on the shell side at flows that put its Re around a band edge of Taborek's fits (10^k)."""
     def service(flows):
         return rv.Service(shell=rv.Stream(RESID_P, flows, 580.0), tube=rv.Stream(CRUDE_P, 60.0, 450.0),
                           fouling_shell=3e-4, fouling_tube=5e-4)
@@ -432,25 +428,63 @@ def test_warm_started_case_near_a_seam_settles_exactly_as_from_its_inlets(monkey
     m = 10.0
     for _ in range(3):  # Re is nearly proportional to the flow: a flow that puts Re at the edge
         m *= edge / rv.rate(ex, service(m)).Re_shell
-    svc = service(m * np.linspace(0.97, 1.08, n))
+    return service(m * np.linspace(*spread, n))
+
+
+def _warm_and_cold(ex, svc, restart=True, monkeypatch=None):
     cold = rv.rate(ex, svc)
-    near = rating_mod._near_seam(cold.Re_shell)
-    assert np.count_nonzero(near) >= 2
     state = np.stack([cold.t_out_shell + 0.3, cold.t_out_tube - 0.3, cold.t_wall_shell + 2.0,
                       cold.t_wall_tube - 2.0])
+    if not restart:  # the cases that took halved steps are not rated again from their inlets
+        monkeypatch.setattr(rating_mod, "_cold_at_seam", lambda warm_case, halved, tol_case: np.zeros_like(warm_case))
+        one = rating_mod._iterate_one
+        monkeypatch.setattr(rating_mod, "_iterate_one", lambda *a, **kw: one(*a, **{**kw, "warm": False}))
     with rating_mod.warm_start(state):
-        warm = rv.rate(ex, svc)
-    np.testing.assert_array_equal(warm.t_out_tube[near], cold.t_out_tube[near])
-    np.testing.assert_array_equal(warm.t_out_shell[near], cold.t_out_shell[near])
-    # elsewhere within the rating's 1e-6 K steps of the rating from the inlets
-    np.testing.assert_allclose(warm.t_out_tube, cold.t_out_tube, rtol=0, atol=1e-5)
-    # the rule is what makes them equal: without it the warm start settles the same cases elsewhere
-    monkeypatch.setattr(rating_mod, "_cold_at_seam", lambda warm_case, met, tol_case: np.zeros_like(warm_case))
-    one = rating_mod._iterate_one
-    monkeypatch.setattr(rating_mod, "_iterate_one", lambda *a, **kw: one(*a, **{**kw, "warm": False}))
-    with rating_mod.warm_start(state):
-        plain = rv.rate(ex, svc)
-    assert not np.array_equal(plain.t_out_tube[near], cold.t_out_tube[near])
+        return rv.rate(ex, svc), cold
+
+
+@pytest.mark.parametrize("n", [6, 300], ids=["float path", "array path"])
+@pytest.mark.parametrize("edge", [100.0, 1000.0, 1e4])
+def test_warm_started_case_near_a_blended_band_edge_agrees_with_one_from_its_inlets(n, edge):
+    # the fits are blended across their band edges (continuous, with a continuous slope): a warm-started case near an
+    # edge converges by the rating's own step, like any other, without being rated again from its inlets
+    ex = hx(420)
+    svc = _near_edge_service(ex, edge, n)
+    warm, cold = _warm_and_cold(ex, svc)
+    assert np.count_nonzero(rating_mod._near_seam(cold.Re_shell)) >= 2
+    for name in ("t_out_tube", "t_out_shell"):  # within the rating's 1e-6 K steps [K]
+        np.testing.assert_allclose(getattr(warm, name), getattr(cold, name), rtol=0, atol=1e-6)
+    assert not any("settled only" in w for w in cold.warnings)
+
+
+@pytest.mark.parametrize("n", [6, 300], ids=["float path", "array path"])
+def test_warm_started_case_that_halves_its_steps_at_a_jump_is_rated_again_from_its_inlets(monkeypatch, n):
+    # a map with a jump (here: Taborek's j made to jump threefold at Re = 1000; the real fits are blended) has no
+    # fixed point in the jump: a case there halves its steps and settles at the looser 1e-3 K stop, where its start
+    # decides; a warm-started case that halved its steps is rated again from its inlets, so that it settles where
+    # rate() alone does
+    from revamp.correlations import shell_bell
+
+    jump, ln_edge = np.log(3.0), np.log(1000.0)
+    fit, fit_one = shell_bell._fit_ln, shell_bell._fit_ln_float
+
+    def jumping(lr, ln_ratio, fits):
+        out = fit(lr, ln_ratio, fits)
+        out[0] = out[0] + np.where(np.asarray(lr) > ln_edge, jump, 0.0)  # j only
+        return out
+
+    monkeypatch.setattr(shell_bell, "_fit_ln", jumping)
+    monkeypatch.setattr(shell_bell, "_fit_ln_float", lambda Re, lr, ln_ratio, coefs: fit_one(Re, lr, ln_ratio, coefs)
+                        + (float(jump) if lr > ln_edge else 0.0))
+    ex = hx(420)
+    svc = _near_edge_service(ex, 1000.0, n, spread=(0.97, 1.03))
+    warm, cold = _warm_and_cold(ex, svc)
+    assert any("settled only" in w for w in cold.warnings)  # some cases settle in the jump
+    for name in ("t_out_tube", "t_out_shell"):
+        np.testing.assert_allclose(getattr(warm, name), getattr(cold, name), rtol=0, atol=1e-6)
+    # the rule is what makes them agree: without it the warm start settles some cases elsewhere in the jump
+    plain, _ = _warm_and_cold(ex, svc, restart=False, monkeypatch=monkeypatch)
+    assert np.max(np.abs(plain.t_out_tube - cold.t_out_tube)) > 1e-4
 
 
 def test_sweep_closing_pass_starts_warm_and_gives_the_same_solution(monkeypatch):

@@ -84,7 +84,7 @@ def _rate_all(plan, x, idx, probe=0.0, starts=None, outlets_only=False, warm=Non
             svc = Service(shell=Stream(train.streams[m.shell].fluid, f_s, t_s),
                           tube=Stream(train.streams[m.tube].fluid, f_t, t_t), fouling_shell=r_s, fouling_tube=r_t)
         # A warm pass starts from the predicted state; a rating that may be final still stops where rate() does,
-        # walls included, and one that met a seam of Taborek's fits is iterated again from its inlets, so that it
+        # walls included, and one that took halved steps at a seam is iterated again from its inlets, so that it
         # agrees with rate() at the same inlets to within the rating's own step. On the few-case float path the
         # probes start from their base case's stopping state (blocks=3), moved as their predicted starts differ.
         # Every shell-and-tube kind is registered with rate() itself as its rater (and the train's streams are

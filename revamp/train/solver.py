@@ -40,8 +40,8 @@ a case. A sweep's closing passes ask for outlet maps too, which carry the state 
 result's Ratings are built once, one call per exchanger, by evaluating each finished case at that state
 (``warm_start``'s ``settled`` cases: the same evaluation at the same state, so the same numbers). A closing rating
 starts from the predicted state and still stops at the rating's own step, walls included (within it of a rating
-from the inlets), and a case that met a seam of Taborek's fits on the way is iterated again from its inlets (see
-``rating_loop._cold_at_seam``).
+from the inlets), and a case that took halved steps at a band edge of Taborek's fits (where its stop is looser and
+depends on its start) is iterated again from its inlets (see ``rating_loop._cold_at_seam``).
 
 An air cooler (a match with :class:`~revamp.train.AirSide`) takes the shell side's two ports for its air: the air
 inlet is tied to the stated ambient (a fixed input, like a stream's supply), the air outlet is the rated mixed outlet;
