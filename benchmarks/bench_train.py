@@ -16,7 +16,7 @@ import revamp as rv
 from revamp.train import Furnace, Match, Train
 
 REPEATS = 7
-SWEEP_REPEATS = 3
+SWEEP_REPEATS = 5
 N_SWEEP = 1000
 
 
