@@ -89,9 +89,9 @@ _RELAX_PASSES = 20  # at most this many relaxed passes, then the Newton passes f
 _RELAX_RESERVE = 6  # ... and never within this many passes of max_iter (three or more, or none at all)
 _RELAX_LEFT = 12  # ... or once the median case would need more than this many more (from the fourth on)
 _RELAX_FEW = 0.1  # ... or once no more than this share of the live cases is still relaxed
-_GUESS_EPS = 0.4  # the effectiveness of every exchanger in the first guess of a relaxed sweep (common practice for
-# a preheat train's exchangers is 0.3 to 0.7, no source; the guess only places the first pass's properties: on the
-# benchmark's petroleum sweep 0.2 to 0.55 all save one relaxed pass of eleven)
+_GUESS_EPS = 0.4  # the effectiveness of every exchanger in the first guess of a relaxed sweep (preheat exchangers
+# run at about 0.3 to 0.7: from memory, no source; the guess only places the first pass's properties, and on the
+# benchmark's petroleum sweep any value from 0.2 to 0.55 saves one relaxed pass of eleven)
 _NEWTON, _RELAXED, _WAITING, _CLOSING = 0, 1, 2, 3  # a case's mode in a solve (see solve)
 _MIN_PASSES = 8  # passes before a case whose change stopped shrinking is given up (flagged, never dropped)
 _STALL_PASSES = 3  # ... when its change is above half of what it was this many passes earlier
