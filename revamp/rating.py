@@ -44,14 +44,14 @@ import math
 import numpy as np
 
 from . import thermal
-from ._arrays import as_out
 from .correlations import shell as shell_corr
 from .correlations import shell_bell
 from .correlations import tube as tube_corr
 from .errors import InputError
 from .resistance import TUBE_LAYERS, tube_resistances
 from .rating_checks import out_of_range, rating_warnings
-from .rating_result import _SCALAR_FIELDS, LazyResistances, Rating, ResultFrames  # noqa: F401  (re-exported)
+from .rating_result import (_SCALAR_FIELDS, LazyResistances, Rating, ResultFrames,  # noqa: F401  (re-exported)
+                            _case_shaped)
 # the loop's state and steps live in rating_loop, the TEMA shell types in rating_shells; re-exported here for the
 # train solver, the exchanger models and the tests that import them from this module
 from .rating_loop import (_ANDERSON_FROM, _MAX_ITER, _NO_DP, _SEAM_FROM, _SEAM_RE, _SEAM_STEP_K,  # noqa: F401
@@ -60,6 +60,7 @@ from .rating_loop import (_ANDERSON_FROM, _MAX_ITER, _NO_DP, _SEAM_FROM, _SEAM_R
 from .rating_shells import (_accepts, _bell_loop, _scaled_dp, _shell_flow_geometry,  # noqa: F401
                             _shell_side_by_type, arrangement)
 from .service import Service, Stream
+from .thermal_lmtd import rated_lmtd_f
 
 __all__ = ["rate", "Rating", "arrangement", "Stream", "Service", "SHELL_METHODS"]
 
@@ -554,16 +555,8 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
     residual = np.maximum(np.abs(to_s - xs), np.abs(to_t - xt))
     unsettled = residual > _SETTLED_K
 
-    # ---- counterflow terminal differences from 1 - eps (no cancellation near eps = 1), F and LMTD
-    Cr = np.where(ev.shell_min, ev.C_s / ev.C_t, ev.C_t / ev.C_s)
-    far = (1.0 - Cr) + Cr * ev.w  # 1 - eps Cmin/Cmax: the approach at the Cmax stream's outlet, per dT
-    a_s = np.where(ev.shell_min, ev.w, far) * dt_in  # |t_out,shell - t_in,tube|
-    b_t = np.where(ev.shell_min, far, ev.w) * dt_in  # |t_out,tube - t_in,shell|
-    lm = thermal.lmtd_kernel(a_s, b_t)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        F = np.minimum(ev.eps * dt_in / ev.NTU / lm, 1.0)  # (Q/UA)/LMTD
-    if arr_name == "counterflow":
-        F = np.where(np.isfinite(lm), 1.0, np.nan)
+    # ---- LMTD and F from the terminal differences of 1 - eps (no cancellation near eps = 1)
+    lm, F = rated_lmtd_f(ev.eps, ev.NTU, ev.w, ev.shell_min, ev.C_s, ev.C_t, dt_in, arr_name == "counterflow")
     undefined = ~np.isfinite(F) & ~invalid & ~same
     F = np.where(np.isfinite(F), F, np.nan)
 
@@ -584,20 +577,11 @@ def _rate_shell_and_tube(hx, service, shell_method, outlets_only=False, with_dp=
         rho_shell=ev.rho_s, C_shell=ev.C_s * n_par, C_tube=ev.C_t * n_par,
     )
     any_invalid = bool(invalid.any())
-    for key, value in fields.items():
-        value = np.asarray(value, dtype=float)
-        if shape == () and not any_invalid:
-            fields[key] = float(value.reshape(-1)[0])
-            continue
-        if value.shape != (n,):
-            value = np.broadcast_to(value, (n,))
-        if any_invalid:
-            value = np.where(invalid, np.nan, value)
-        fields[key] = as_out(value.reshape(shape))
     resistances = LazyResistances(TUBE_LAYERS, tuple(res_cols.values()), invalid if any_invalid else None,
                                   scalar=shape == ())
     return Rating(
-        **fields, area=hx.area_outside, area_inside=hx.area_inside, resistances=resistances,
+        **_case_shaped(fields, shape, n, invalid if any_invalid else None), area=hx.area_outside,
+        area_inside=hx.area_inside, resistances=resistances,
         tube_side=_reshape_fields(dataclasses.replace(tube, warnings=tube_warnings), shape),
         shell_side=_reshape_fields(dataclasses.replace(ev.shell, warnings=shell_warnings), shape),
         warnings=tuple(dict.fromkeys(warnings)), defaults=tuple(getattr(hx, "defaults_used", ())), exchanger=hx,

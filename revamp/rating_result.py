@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
+from ._arrays import as_out
 from .errors import InputError
 from .resistance import TUBE_LAYERS
 
@@ -91,6 +92,23 @@ _SCALAR_FIELDS = {
     "C_shell": ("W/K", "shell-side heat-capacity rate"),
     "C_tube": ("W/K", "tube-side heat-capacity rate"),
 }
+
+
+def _case_shaped(fields, shape, n, invalid=None):
+    """A rating's per-case numbers (name -> values of the ``n`` flattened cases, or one value for all) in the
+    service's case shape: floats for a single case, NaN where ``invalid`` (a boolean ``(n,)`` mask) is set."""
+    out = {}
+    for key, value in fields.items():
+        value = np.asarray(value, dtype=float)
+        if shape == () and invalid is None:
+            out[key] = float(value.reshape(-1)[0])
+            continue
+        if value.shape != (n,):
+            value = np.broadcast_to(value, (n,))
+        if invalid is not None:
+            value = np.where(invalid, np.nan, value)
+        out[key] = as_out(value.reshape(shape))
+    return out
 
 
 @dataclass(frozen=True, slots=True)

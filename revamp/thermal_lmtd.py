@@ -98,6 +98,25 @@ def lmtd_kernel(dt1, dt2):
     return np.where(lo < 0.0, np.nan, out)
 
 
+def rated_lmtd_f(eps, ntu, w, shell_min, c_shell, c_tube, dt_in, counterflow):
+    """LMTD and F of a rated exchanger from its effectiveness, without input checks (the rating's kernel).
+
+    The terminal differences come from ``1 - eps`` (``w``, the effectiveness relation's complement, and
+    ``1 - eps·Cmin/Cmax`` at the Cmax stream's outlet), so there is no cancellation near eps = 1; F = (Q/UA)/LMTD
+    = eps·dT_in/(NTU·LMTD), never above 1, and exactly 1 in counterflow (NaN where the LMTD is not finite).
+    """
+    cr = np.where(shell_min, c_shell / c_tube, c_tube / c_shell)
+    far = (1.0 - cr) + cr * w  # 1 - eps Cmin/Cmax: the approach at the Cmax stream's outlet, per dT
+    a_s = np.where(shell_min, w, far) * dt_in  # |t_out,shell - t_in,tube|
+    b_t = np.where(shell_min, far, w) * dt_in  # |t_out,tube - t_in,shell|
+    lm = lmtd_kernel(a_s, b_t)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        f = np.minimum(eps * dt_in / ntu / lm, 1.0)  # (Q/UA)/LMTD
+    if counterflow:
+        f = np.where(np.isfinite(lm), 1.0, np.nan)
+    return lm, f
+
+
 # ------------------------------------------------------------------------------------------------------ F factor
 def F_1_2N(R, P):
     """LMTD correction F of a 1-2N exchanger (one shell pass, even tube passes), Bowman, Mueller & Nagle (1940).
