@@ -268,13 +268,13 @@ def _initial(plan):
     return x
 
 
-def _guessed_maps(plan, idx, eps=None):
-    """Outlet maps of the cases ``idx`` with every exchanger at one effectiveness ``eps`` (:data:`_GUESS_EPS`) and
+def _guessed_maps(plan, idx):
+    """Outlet maps of the cases ``idx`` with every exchanger at one effectiveness (:data:`_GUESS_EPS`) and
     its streams' capacity rates at their supply temperatures: a first guess of the network's temperatures, where a
     sweep's first relaxed pass evaluates its properties (instead of at the supply temperatures, where a stream that
     is heated along its route is far colder, and more viscous, than at most of its exchangers). An air cooler's two
-    sides take ``eps`` itself (its air outlet feeds nothing)."""
-    eps = _GUESS_EPS if eps is None else eps
+    sides take that effectiveness itself (its air outlet feeds nothing)."""
+    eps = _GUESS_EPS
     cp = {s: np.asarray(st.fluid.props(plan.supply[s][idx]).heat_capacity, float)
           for s, st in plan.train.streams.items()}
     maps = {}
@@ -342,7 +342,7 @@ class _Solve:
         # constant-property streams and no air: only the tube wall's conductivity depends on temperature, so a plain
         # pass cuts the change by about 1e-4 and a sweep takes no probes (three blocks of ratings for derivatives it
         # hardly needs); a one-case solve keeps them (its probes are cheap on floats, its plain passes rate in full)
-        self.steady = (plan.ncase > _FLOAT_CASES and not plan.air
+        self.plain_passes = (plan.ncase > _FLOAT_CASES and not plan.air
                        and all(isinstance(st.fluid, ConstantFluid) for st in train.streams.values()))
 
     def _keep_maps(self, coefs, idx):
@@ -397,7 +397,7 @@ class _Solve:
         # Newton probes after the first pass (its plain step from the supply temperatures is as good) while the
         # cases still move by more than √tol; the closing pass (quadratic convergence:
         # its change is about the square of the last) rates the cases alone, so its ratings are the final ones
-        newton_pass = (not first and not group.closing and not self.steady
+        newton_pass = (not first and not group.closing and not self.plain_passes
                        and np.max(self.residual[idx]) > np.sqrt(tol))
         # once the change has fallen fast (the step is near quadratic: the derivatives barely move any more), the
         # last probes' derivatives are kept for the next steps (a chord step: no probes, a third of the ratings)
