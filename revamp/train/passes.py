@@ -165,6 +165,15 @@ def _side_value(r, name):
     return getattr(r, name)
 
 
+def _ntu_map(eps, c_shell, c_tube):
+    """An exchanger's outlets as a linear map of its inlets for an effectiveness and two capacity rates
+    (effectiveness-NTU): ``(J, c)`` with ``out = J @ in + c`` and ``c = 0``."""
+    c_min = np.minimum(c_shell, c_tube)
+    a_s, a_t = eps * c_min / c_shell, eps * c_min / c_tube
+    zero = np.zeros(np.shape(eps))
+    return ((1.0 - a_s, a_s), (a_t, 1.0 - a_t)), (zero, zero)
+
+
 def _coefficients(ratings, x, plan, n, probe):
     """Per exchanger, the outlets as a linear function of the inlets: ``(J, c)`` with ``out = J @ in + c``.
 
@@ -173,12 +182,8 @@ def _coefficients(ratings, x, plan, n, probe):
     """
     linear, newton = {}, {}
     for tag, r in ratings.items():
-        eps, cs, ct = (np.asarray(v, float).reshape(-1)[:n]
-                       for v in (r.effectiveness, _side_value(r, "C_shell"), r.C_tube))
-        c_min = np.minimum(cs, ct)
-        a_s, a_t = eps * c_min / cs, eps * c_min / ct
-        zero = np.zeros(n)
-        linear[tag] = (((1.0 - a_s, a_s), (a_t, 1.0 - a_t)), (zero, zero))
+        linear[tag] = _ntu_map(*(np.asarray(v, float).reshape(-1)[:n]
+                                 for v in (r.effectiveness, _side_value(r, "C_shell"), r.C_tube)))
         if probe:
             o_s, o_t = np.asarray(_side_value(r, "t_out_shell"), float), np.asarray(r.t_out_tube, float)
             j = ((( o_s[n:2 * n] - o_s[:n]) / probe, (o_s[2 * n:] - o_s[:n]) / probe),

@@ -71,7 +71,7 @@ from .network import Point, Split
 from .outcome import _SIDES, _result, _strip_probes
 from .outcome import enthalpy_change  # noqa: F401  (lives in train/outcome.py now; re-exported, public here too)
 from .linear import _linear_solve, _linear_solve_dense  # noqa: F401  (the dense form: tests' reference)
-from .passes import _chord, _coefficients, _rate_all, _update_equal_dp
+from .passes import _chord, _coefficients, _ntu_map, _rate_all, _update_equal_dp
 from .result import TrainResult
 
 __all__ = ["solve", "enthalpy_change"]
@@ -274,20 +274,16 @@ def _guessed_maps(plan, idx):
     sweep's first relaxed pass evaluates its properties (instead of at the supply temperatures, where a stream that
     is heated along its route is far colder, and more viscous, than at most of its exchangers). An air cooler's two
     sides take that effectiveness itself (its air outlet feeds nothing)."""
-    eps = _GUESS_EPS
+    eps, ones = np.full(idx.size, _GUESS_EPS), np.ones(idx.size)
     cp = {s: np.asarray(st.fluid.props(plan.supply[s][idx]).heat_capacity, float)
           for s, st in plan.train.streams.items()}
     maps = {}
     for tag, m in plan.train.exchangers.items():
-        if m.is_air_cooler:
-            a_s = a_t = np.full(idx.size, eps)
+        if m.is_air_cooler:  # equal capacity rates: each side moves by eps of the inlets' difference
+            maps[tag] = _ntu_map(eps, ones, ones)
         else:
-            c_s, c_t = (plan.flow[s][idx] * plan.frac[(tag, side)][idx] * cp[s]
-                        for s, side in ((m.shell, "shell"), (m.tube, "tube")))
-            c_min = np.minimum(c_s, c_t)
-            a_s, a_t = eps * c_min / c_s, eps * c_min / c_t
-        zero = np.zeros(idx.size)
-        maps[tag] = (((1.0 - a_s, a_s), (a_t, 1.0 - a_t)), (zero, zero))
+            maps[tag] = _ntu_map(eps, *(plan.flow[s][idx] * plan.frac[(tag, side)][idx] * cp[s]
+                                        for s, side in ((m.shell, "shell"), (m.tube, "tube"))))
     return maps
 
 
@@ -339,11 +335,11 @@ class _Solve:
         self.fall_two = np.ones(plan.ncase)  # ... and its mean share over its last two (geometric)
         self.ratings, self.rated_all, self.loose = None, False, None  # the last Newton pass's
         self.settled = {}  # per exchanger, the state (4, ncase) each finished case's closing rating stopped at
+        self.constant = all(isinstance(st.fluid, ConstantFluid) for st in train.streams.values())
         # constant-property streams and no air: only the tube wall's conductivity depends on temperature, so a plain
         # pass cuts the change by about 1e-4 and a sweep takes no probes (three blocks of ratings for derivatives it
         # hardly needs); a one-case solve keeps them (its probes are cheap on floats, its plain passes rate in full)
-        self.plain_passes = (plan.ncase > _FLOAT_CASES and not plan.air
-                       and all(isinstance(st.fluid, ConstantFluid) for st in train.streams.values()))
+        self.plain_passes = plan.ncase > _FLOAT_CASES and not plan.air and self.constant
 
     def _keep_maps(self, coefs, idx):
         for tag, (j, _) in coefs.items():
@@ -479,8 +475,7 @@ def solve(train, tol=1e-6, max_iter=50) -> TrainResult:
     # passes together (a closing group). When few cases are still relaxed, they go on with Newton passes (a group of
     # their own, formed at once) and the waiting ones close; so do all, when the median case converges slowly.
     relax_cap = min(_RELAX_PASSES, max_iter - _RELAX_RESERVE)  # passes are left for the closing and Newton ones
-    relax = plan.ncase > _FLOAT_CASES and relax_cap >= 3 and not all(
-        isinstance(st.fluid, ConstantFluid) for st in train.streams.values())
+    relax = plan.ncase > _FLOAT_CASES and relax_cap >= 3 and not sv.constant
     mode = np.full(plan.ncase, _RELAXED if relax else _NEWTON)
     groups = {_NEWTON: _Group(), _CLOSING: _Group(closing=True)}
     n_relax, iterations = 0, 0
